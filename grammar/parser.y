@@ -1,0 +1,276 @@
+/* Grammar of the psikappa language. Actions only call the syntax-tree
+   constructors of src/ast.h, so this file reads as the grammar itself. */
+%define api.pure full
+%define parse.error custom
+%locations
+%define api.location.type {srcloc}
+%param {yyscan_t scanner}
+%parse-param {parse_state *ps}
+%expect 0
+
+%code requires {
+#include "ast.h"
+#include "parse.h"
+typedef void *yyscan_t;
+}
+
+%code provides {
+int yylex(YYSTYPE *lvalp, YYLTYPE *llocp, yyscan_t scanner);
+}
+
+%code {
+#include <stdlib.h>
+#include <string.h>
+#include "diag.h"
+#include "util.h"
+
+#define YYLLOC_DEFAULT(Cur, Rhs, N)                                   \
+    do {                                                              \
+        if (N) {                                                      \
+            (Cur) = YYRHSLOC(Rhs, 1);                                 \
+            (Cur).last_line = YYRHSLOC(Rhs, N).last_line;             \
+            (Cur).last_column = YYRHSLOC(Rhs, N).last_column;         \
+        } else {                                                      \
+            (Cur) = YYRHSLOC(Rhs, 0);                                 \
+            (Cur).first_line = (Cur).last_line;                       \
+            (Cur).first_column = (Cur).last_column;                   \
+        }                                                             \
+    } while (0)
+
+void yyerror(YYLTYPE *loc, yyscan_t scanner, parse_state *ps, const char *msg);
+
+/* Deeply nested input is refused instead of exhausting the C stack later. */
+#define YYMAXDEPTH 2000
+}
+
+%union {
+    char *text;
+    node *n;
+    node_list *list;
+}
+
+%token <text> NUMBER "number" STRING "string" NAME "name"
+%token <text> PSI_LIT "psi_N" KAPPA_LIT "kappa_N" TAU_LIT "tau_N"
+%token LET "'let'" FOR "'for'" IN "'in'" VAR "'var'" PRINT "'print'"
+%token EXPLAIN "'explain'" IF "'if'" THEN "'then'" ELSE "'else'"
+%token SUM "'sum'" PROD "'prod'"
+%token INTKW "'int'" PSI "'psi'" KAPPA "'kappa'" TAU "'tau'" PI "'pi'"
+%token DOTDOT "'..'" CORR_CLOSE "'>_'" EQ "'=='" NE "'!='" LE "'<='" GE "'>='"
+%token DFACT "'!!'"
+%token NEWLINE "end of line"
+%token LEXERROR "invalid token"
+%token END 0 "end of file"
+
+%type <n> stmt expr primary insertion genus power vardecl param
+%type <list> args arg_list params stmt_list block insertions vardecls expr_list
+
+%destructor { free($$); } <text>
+%destructor { ast_free($$); } <n>
+%destructor { ast_list_free($$); } <list>
+
+%precedence LOW
+%nonassoc EQ NE '<' LE '>' GE
+%left '+' '-'
+%precedence SUMOP
+%left '*' '/'
+%precedence NEG
+%right '^'
+%precedence '!' DFACT
+
+%%
+
+program
+    : %empty
+    | program NEWLINE
+    | program stmt NEWLINE          { ast_list_append(ps->program, $2); }
+    ;
+
+stmt
+    : LET NAME '=' expr                      { $$ = ast_unary(S_LET, @$, $4); $$->text = $2; }
+    | LET NAME '(' params ')' '=' expr       { $$ = ast_with_list(S_DEF, @$, $2, $4); $$->a = $7; }
+    | FOR NAME IN expr DOTDOT expr block     { $$ = ast_with_list(S_FOR, @$, $2, $7); $$->a = $4; $$->b = $6; }
+    | PRINT expr_list                        { $$ = ast_with_list(S_PRINT, @$, NULL, $2); }
+    | VAR vardecls                           { $$ = ast_with_list(S_VAR, @$, NULL, $2); }
+    | EXPLAIN expr                           { $$ = ast_unary(S_EXPLAIN, @$, $2); }
+    | expr                                   { $$ = ast_unary(S_EXPR, @$, $1); }
+    ;
+
+block
+    : '{' stmt_list '}'             { $$ = $2; }
+    | '{' stmt_list stmt '}'        { $$ = ast_list_append($2, $3); }
+    ;
+
+stmt_list
+    : %empty                        { $$ = ast_list_new(); }
+    | stmt_list NEWLINE             { $$ = $1; }
+    | stmt_list stmt NEWLINE        { $$ = ast_list_append($1, $2); }
+    ;
+
+params
+    : %empty                        { $$ = ast_list_new(); }
+    | param                         { $$ = ast_list_append(ast_list_new(), $1); }
+    | params ',' param              { $$ = ast_list_append($1, $3); }
+    ;
+
+param
+    : NAME                          { $$ = ast_text(N_NAME, @$, $1); }
+    ;
+
+vardecls
+    : vardecl                       { $$ = ast_list_append(ast_list_new(), $1); }
+    | vardecls ',' vardecl          { $$ = ast_list_append($1, $3); }
+    ;
+
+vardecl
+    : NAME                              { $$ = ast_text(N_VARDECL, @$, $1); }
+    | NAME '[' expr DOTDOT expr ']'     { $$ = ast_text(N_VARDECL, @$, $1); $$->a = $3; $$->b = $5; }
+    ;
+
+expr_list
+    : expr                          { $$ = ast_list_append(ast_list_new(), $1); }
+    | expr_list ',' expr            { $$ = ast_list_append($1, $3); }
+    ;
+
+expr
+    : primary
+    | '-' expr %prec NEG            { $$ = ast_unary(N_NEG, @$, $2); }
+    | expr '+' expr                 { $$ = ast_binop(@$, '+', $1, $3); }
+    | expr '-' expr                 { $$ = ast_binop(@$, '-', $1, $3); }
+    | expr '*' expr                 { $$ = ast_binop(@$, '*', $1, $3); }
+    | expr '/' expr                 { $$ = ast_binop(@$, '/', $1, $3); }
+    | expr '^' expr                 { $$ = ast_binop(@$, '^', $1, $3); }
+    | expr '!'                      { $$ = ast_unary(N_FACTORIAL, @$, $1); $$->op = 1; }
+    | expr DFACT                    { $$ = ast_unary(N_FACTORIAL, @$, $1); $$->op = 2; }
+    | expr EQ expr                  { $$ = ast_compare(@$, CMP_EQ, $1, $3); }
+    | expr NE expr                  { $$ = ast_compare(@$, CMP_NE, $1, $3); }
+    | expr '<' expr                 { $$ = ast_compare(@$, CMP_LT, $1, $3); }
+    | expr LE expr                  { $$ = ast_compare(@$, CMP_LE, $1, $3); }
+    | expr '>' expr                 { $$ = ast_compare(@$, CMP_GT, $1, $3); }
+    | expr GE expr                  { $$ = ast_compare(@$, CMP_GE, $1, $3); }
+    | INTKW '[' expr ',' expr ']' expr %prec LOW   { $$ = ast_ternary(N_INTEGRAL, @$, $3, $5, $7); }
+    | IF expr THEN expr ELSE expr %prec LOW        { $$ = ast_ternary(N_IF, @$, $2, $4, $6); }
+    | SUM '[' NAME '=' expr DOTDOT expr ']' expr %prec SUMOP
+                                    { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = '+'; }
+    | PROD '[' NAME '=' expr DOTDOT expr ']' expr %prec SUMOP
+                                    { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = '*'; }
+    ;
+
+primary
+    : NUMBER                        { $$ = ast_text(N_NUMBER, @$, $1); }
+    | STRING                        { $$ = ast_text(N_STRING, @$, $1); }
+    | PI                            { $$ = ast_new(N_PI, @$); }
+    | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
+    | NAME '(' args ')'             { $$ = ast_with_list(N_CALL, @$, $1, $3); }
+    | NAME '[' expr ']'             { $$ = ast_text(N_INDEXED, @$, $1); $$->a = $3; }
+    | PSI_LIT                       { $$ = ast_unary(N_PSI, @$, ast_index_literal(@$, $1)); free($1); }
+    | PSI '[' expr ']'              { $$ = ast_unary(N_PSI, @$, $3); }
+    | KAPPA_LIT                     { $$ = ast_unary(N_KAPPA, @$, ast_index_literal(@$, $1)); free($1); }
+    | KAPPA '[' expr ']'            { $$ = ast_unary(N_KAPPA, @$, $3); }
+    | '<' insertions CORR_CLOSE genus   { $$ = ast_with_list(N_CORR, @$, NULL, $2); $$->a = $4; }
+    | '(' expr ')'                  { $$ = $2; }
+    ;
+
+args
+    : %empty                        { $$ = ast_list_new(); }
+    | arg_list
+    ;
+
+arg_list
+    : expr                          { $$ = ast_list_append(ast_list_new(), $1); }
+    | arg_list ',' expr             { $$ = ast_list_append($1, $3); }
+    ;
+
+insertions
+    : insertion                     { $$ = ast_list_append(ast_list_new(), $1); }
+    | insertions insertion          { $$ = ast_list_append($1, $2); }
+    ;
+
+insertion
+    : TAU_LIT                       { $$ = ast_unary(N_INSERT, @$, ast_index_literal(@$, $1)); free($1); }
+    | TAU_LIT '^' power             { $$ = ast_unary(N_INSERT, @$, ast_index_literal(@1, $1)); $$->b = $3; free($1); }
+    | TAU '[' expr ']'              { $$ = ast_unary(N_INSERT, @$, $3); }
+    | TAU '[' expr ']' '^' power    { $$ = ast_unary(N_INSERT, @$, $3); $$->b = $6; }
+    ;
+
+power
+    : NUMBER                        { $$ = ast_text(N_NUMBER, @$, $1); }
+    | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
+    | '(' expr ')'                  { $$ = $2; }
+    ;
+
+genus
+    : NUMBER                        { $$ = ast_text(N_NUMBER, @$, $1); }
+    | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
+    | '(' expr ')'                  { $$ = $2; }
+    ;
+
+%%
+
+/* Names the bracket that an unexpected token leaves open, Lua style. */
+static void parser_note_unclosed(const parse_state *ps)
+{
+    if (ps->nopen <= 0 || ps->nopen > PARSE_MAX_BRACKETS)
+        return;
+    int i = ps->nopen - 1;
+    diag_note(&ps->open_loc[i], "unclosed '%c' opened here", ps->open_char[i]);
+}
+
+/* Operators can follow almost any operand; listing them in "expected ..."
+   would drown the one token that is really missing. */
+static int parser_is_operator(yysymbol_kind_t k)
+{
+    static const char *ops[] = {"'+'", "'-'", "'*'", "'/'", "'^'", "'!'", "'!!'",
+                                "'=='", "'!='", "'<'", "'<='", "'>'", "'>='"};
+    for (size_t i = 0; i < sizeof ops / sizeof ops[0]; i++)
+        if (strcmp(yysymbol_name(k), ops[i]) == 0)
+            return 1;
+    return 0;
+}
+
+static int yyreport_syntax_error(const yypcontext_t *ctx, yyscan_t scanner, parse_state *ps)
+{
+    (void)scanner;
+    const YYLTYPE *loc = yypcontext_location(ctx);
+    yysymbol_kind_t got = yypcontext_token(ctx);
+    if (got == YYSYMBOL_LEXERROR) {
+        diag_error(loc, "%s", ps->lex_error ? ps->lex_error : "invalid token");
+        return 0;
+    }
+    enum { MAXEXP = 64, MAXLIST = 5 };
+    yysymbol_kind_t expected[MAXEXP];
+    int all = yypcontext_expected_tokens(ctx, expected, MAXEXP);
+    int wants_expr = 0, n = 0;
+    for (int i = 0; i < all; i++) {
+        wants_expr |= expected[i] == YYSYMBOL_NUMBER;
+        if (!parser_is_operator(expected[i]))
+            expected[n++] = expected[i];
+    }
+    char buf[400];
+    int len = snprintf(buf, sizeof buf, "syntax error: unexpected %s", yysymbol_name(got));
+    int unclosed = got == YYSYMBOL_YYEOF && ps->nopen > 0 && ps->nopen <= PARSE_MAX_BRACKETS;
+    if (unclosed) {
+        char open = ps->open_char[ps->nopen - 1];
+        snprintf(buf + len, sizeof buf - len, ", expected '%c' to close the '%c' of line %d",
+                 open == '(' ? ')' : open == '[' ? ']' : '}', open, ps->open_loc[ps->nopen - 1].first_line);
+    } else if (wants_expr)
+        snprintf(buf + len, sizeof buf - len, ", expected an expression");
+    else if (n > 0 && n <= MAXLIST)
+        for (int i = 0; i < n && len < (int)sizeof buf - 60; i++)
+            len += snprintf(buf + len, sizeof buf - len, "%s%s",
+                            i == 0 ? ", expected " : i == n - 1 ? " or " : ", ",
+                            yysymbol_name(expected[i]));
+    diag_error(loc, "%s", buf);
+    if (got == YYSYMBOL_YYEOF || got == YYSYMBOL_NEWLINE)
+        parser_note_unclosed(ps);
+    return 0;
+}
+
+void yyerror(YYLTYPE *loc, yyscan_t scanner, parse_state *ps, const char *msg)
+{
+    (void)scanner;
+    (void)ps;
+    if (strcmp(msg, "memory exhausted") == 0)
+        diag_error(loc, "expression nested too deeply (more than %d levels)", YYMAXDEPTH / 2);
+    else
+        diag_error(loc, "%s", msg);
+}

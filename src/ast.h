@@ -1,0 +1,81 @@
+/* Syntax tree: constructors called from the grammar's actions, a free
+   function, and a stable text dump used by tests. */
+#ifndef PSIKAPPA_AST_H
+#define PSIKAPPA_AST_H
+
+#include <stdio.h>
+
+#include "source.h"
+
+typedef enum {
+    /* expressions */
+    N_NUMBER,   /* text: decimal digits, or digits '.' digits (exact) */
+    N_STRING,   /* text: the unescaped string */
+    N_PI,
+    N_NAME,     /* text: the name */
+    N_INDEXED,  /* text[a]: a member of a family declared by var X[a..b] */
+    N_CALL,     /* text(list) */
+    N_PSI,      /* psi with index a */
+    N_KAPPA,    /* kappa with index a */
+    N_CORR,     /* <list of N_INSERT>_a */
+    N_INSERT,   /* tau with index a, repeated b times (b may be NULL) */
+    N_NEG,      /* -a */
+    N_BINOP,    /* a op b, op one of + - * / ^ */
+    N_COMPARE,  /* a op b, op one of the CMP_ codes */
+    N_FACTORIAL,/* a! */
+    N_INTEGRAL, /* int[a, b] c */
+    N_IF,       /* if a then b else c */
+    N_SUM,      /* sum[text = a..b] c (op '+') or prod[text = a..b] c (op '*') */
+    /* statements */
+    S_LET,      /* let text = a */
+    S_DEF,      /* let text(list of N_NAME) = a */
+    S_FOR,      /* for text in a..b { list } */
+    S_PRINT,    /* print list */
+    S_VAR,      /* var list of N_VARDECL */
+    N_VARDECL,  /* text, or text[a..b] */
+    S_EXPLAIN,  /* explain a */
+    S_EXPR      /* a */
+} node_kind;
+
+enum { CMP_EQ, CMP_NE, CMP_LT, CMP_LE, CMP_GT, CMP_GE };
+
+typedef struct node node;
+
+typedef struct node_list {
+    node **items;
+    int len, cap;
+} node_list;
+
+struct node {
+    node_kind kind;
+    srcloc loc;
+    int op;           /* operator character or CMP_ code */
+    char *text;       /* owned */
+    node *a, *b, *c;  /* owned children, may be NULL */
+    node_list *list;  /* owned, may be NULL */
+};
+
+/* Constructors take ownership of the children, lists and text they are given. */
+node *ast_new(node_kind kind, srcloc loc);
+node *ast_text(node_kind kind, srcloc loc, char *text);
+node *ast_unary(node_kind kind, srcloc loc, node *a);
+node *ast_binop(srcloc loc, int op, node *a, node *b);
+node *ast_compare(srcloc loc, int cmp, node *a, node *b);
+node *ast_ternary(node_kind kind, srcloc loc, node *a, node *b, node *c);
+node *ast_with_list(node_kind kind, srcloc loc, char *text, node_list *list);
+/* A literal index such as the 3 in psi_3, as a number node. */
+node *ast_index_literal(srcloc loc, const char *digits);
+
+node_list *ast_list_new(void);
+/* Appends n to l (taking ownership) and returns l, so that grammar actions chain. */
+node_list *ast_list_append(node_list *l, node *n);
+void ast_list_free(node_list *l);
+void ast_free(node *n);
+
+/* Writes a stable, one-line-per-node dump of the tree (for golden tests). */
+void ast_dump(FILE *out, const node *n, int depth);
+
+/* Joins two locations into the span from the start of a to the end of b. */
+srcloc srcloc_join(srcloc a, srcloc b);
+
+#endif

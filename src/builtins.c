@@ -1,0 +1,190 @@
+/* Builtin functions of the language: exp, binomial, factorial, numer,
+   denom, decimal. */
+#include <stdlib.h>
+#include <string.h>
+
+#include "arb_compat.h"
+#include "diag.h"
+#include "interp.h"
+#include "util.h"
+
+typedef value *(*builtin_fn)(interp *I, scope *s, const node *call, value **args);
+
+typedef struct {
+    const char *name;
+    int nargs;
+    builtin_fn fn;
+    const char *usage;
+} builtin;
+
+static value *builtin_fail(const node *at, const char *msg)
+{
+    diag_error(&at->loc, "%s", msg);
+    return NULL;
+}
+
+static value *builtin_exp(interp *I, scope *s, const node *call, value **args)
+{
+    (void)s;
+    if (args[0]->kind == V_CLASS)
+        return value_new_class(cx_exp(value_to_class(args[0]), call), &I->ring);
+    if (args[0]->kind == V_NUM && fmpq_mpoly_is_zero(args[0]->num, I->ring.ctx))
+        return value_new_si(&I->ring, 1);
+    return builtin_fail(call, "exp() of a nonzero number has no exact value (exp is meant for classes)");
+}
+
+/* Reads argument i as a slong within [lo, hi]. */
+static int builtin_slong(interp *I, const node *call, value **args, int i, slong lo, slong hi, slong *out)
+{
+    const node *at = call->list->items[i];
+    if (args[i]->kind != V_NUM || !scalar_get_slong(out, args[i]->num, &I->ring)) {
+        builtin_fail(at, "expected an integer here");
+        return 0;
+    }
+    if (*out < lo || *out > hi) {
+        char *msg = xasprintf("expected an integer between %ld and %ld here", (long)lo, (long)hi);
+        builtin_fail(at, msg);
+        free(msg);
+        return 0;
+    }
+    return 1;
+}
+
+static value *builtin_binomial(interp *I, scope *s, const node *call, value **args)
+{
+    (void)s;
+    slong n, k;
+    if (!builtin_slong(I, call, args, 0, -1000000000, 1000000000, &n)
+        || !builtin_slong(I, call, args, 1, -1000000000, 1000000000, &k))
+        return NULL;
+    if (k > 1000000)
+        return builtin_fail(call->list->items[1], "binomial(n, k) is limited to k <= 1000000");
+    /* binomial(n, k) = n (n-1) ... (n-k+1) / k!, valid for negative n too */
+    fmpz_t r;
+    fmpz_init(r);
+    fmpz_set_ui(r, k >= 0);
+    for (slong j = 0; j < k; j++) {
+        fmpz_mul_si(r, r, n - j);
+        fmpz_divexact_ui(r, r, (ulong)(j + 1));
+    }
+    value *v = value_new_num(&I->ring);
+    fmpq_mpoly_set_fmpz(v->num, r, I->ring.ctx);
+    fmpz_clear(r);
+    return v;
+}
+
+static value *builtin_part(interp *I, const node *call, value *arg, int numer)
+{
+    fmpq_t q;
+    fmpq_init(q);
+    value *v = NULL;
+    if (arg->kind == V_NUM && scalar_get_fmpq(q, arg->num, &I->ring)) {
+        v = value_new_num(&I->ring);
+        fmpq_mpoly_set_fmpz(v->num, numer ? fmpq_numref(q) : fmpq_denref(q), I->ring.ctx);
+    } else {
+        builtin_fail(call, "numer() and denom() take a rational number");
+    }
+    fmpq_clear(q);
+    return v;
+}
+
+static value *builtin_numer(interp *I, scope *s, const node *call, value **args)
+{
+    (void)s;
+    return builtin_part(I, call, args[0], 1);
+}
+
+static value *builtin_denom(interp *I, scope *s, const node *call, value **args)
+{
+    (void)s;
+    return builtin_part(I, call, args[0], 0);
+}
+
+/* Evaluates a polynomial in pi as a ball at the given precision. */
+static void builtin_arb_eval(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec)
+{
+    arb_t pi, t;
+    arb_init(pi);
+    arb_init(t);
+    arb_const_pi(pi, prec);
+    arb_zero(r);
+    fmpq_t c;
+    fmpq_init(c);
+    ulong exp[SCALAR_MAX_VARS];
+    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
+        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
+        fmpq_mpoly_get_term_exp_ui(exp, p, i, R->ctx);
+        arb_pow_ui(t, pi, exp[SCALAR_PI], prec);
+        arb_mul_fmpz(t, t, fmpq_numref(c), prec);
+        arb_div_fmpz(t, t, fmpq_denref(c), prec);
+        arb_add(r, r, t, prec);
+    }
+    fmpq_clear(c);
+    arb_clear(pi);
+    arb_clear(t);
+}
+
+/* decimal(x, digits): x to the given number of correct significant digits. */
+static value *builtin_decimal(interp *I, scope *s, const node *call, value **args)
+{
+    (void)s;
+    slong digits;
+    if (args[0]->kind != V_NUM || !scalar_is_pi_only(args[0]->num, &I->ring))
+        return builtin_fail(call->list->items[0], "decimal() needs a number (pi allowed, no formal variables)");
+    if (!builtin_slong(I, call, args, 1, 1, 1000000, &digits))
+        return NULL;
+    arb_t r;
+    arb_init(r);
+    slong want = (slong)(digits * 3.33) + 10;
+    for (slong prec = want + 30;; prec *= 2) {
+        builtin_arb_eval(r, args[0]->num, &I->ring, prec);
+        if (arb_is_exact(r) || arb_rel_accuracy_bits(r) >= want)
+            break;
+    }
+    char *t = arb_get_str(r, digits, ARB_STR_NO_RADIUS);
+    arb_clear(r);
+    value *v = value_new_str(xstrdup(t), &I->ring);
+    flint_free(t);
+    return v;
+}
+
+static const builtin builtins[] = {
+    {"exp", 1, builtin_exp, "exp(C) for a class expression C"},
+    {"binomial", 2, builtin_binomial, "binomial(n, k)"},
+    {"numer", 1, builtin_numer, "numer(q)"},
+    {"denom", 1, builtin_denom, "denom(q)"},
+    {"decimal", 2, builtin_decimal, "decimal(x, digits)"},
+};
+
+static const builtin *builtin_find(const char *name)
+{
+    for (size_t i = 0; i < sizeof builtins / sizeof builtins[0]; i++)
+        if (strcmp(builtins[i].name, name) == 0)
+            return &builtins[i];
+    return NULL;
+}
+
+int builtin_call(interp *I, scope *s, const node *call, value **result)
+{
+    const builtin *b = builtin_find(call->text);
+    if (!b)
+        return 0;
+    *result = NULL;
+    if (call->list->len != b->nargs) {
+        char *msg = xasprintf("'%s' takes %d argument%s, got %d (usage: %s)", b->name, b->nargs,
+                              b->nargs == 1 ? "" : "s", call->list->len, b->usage);
+        builtin_fail(call, msg);
+        free(msg);
+        return 1;
+    }
+    value *args[4] = {NULL, NULL, NULL, NULL};
+    int i;
+    for (i = 0; i < b->nargs; i++)
+        if (!(args[i] = eval_expr(I, s, call->list->items[i])))
+            break;
+    if (i == b->nargs)
+        *result = b->fn(I, s, call, args);
+    for (int j = 0; j < b->nargs; j++)
+        value_release(args[j]);
+    return 1;
+}

@@ -1,0 +1,103 @@
+#include "classexpr.h"
+
+#include <stdlib.h>
+
+#include "../util.h"
+
+static cx *cx_node(cx_kind kind, const fmpq_mpoly_ctx_struct *ctx)
+{
+    cx *e = xcalloc(1, sizeof(cx));
+    e->kind = kind;
+    e->refs = 1;
+    e->ctx = ctx;
+    return e;
+}
+
+cx *cx_scalar(const fmpq_mpoly_t c, const fmpq_mpoly_ctx_t ctx)
+{
+    cx *e = cx_node(CX_SCALAR, ctx);
+    fmpq_mpoly_init(e->scalar, ctx);
+    fmpq_mpoly_set(e->scalar, c, ctx);
+    return e;
+}
+
+cx *cx_psi(slong i, const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_node(CX_PSI, ctx);
+    e->index = i;
+    e->origin = origin;
+    return e;
+}
+
+cx *cx_kappa(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_psi(j, ctx, origin);
+    e->kind = CX_KAPPA;
+    return e;
+}
+
+static cx *cx_binary(cx_kind kind, cx *a, cx *b)
+{
+    cx *e = cx_node(kind, a->ctx);
+    e->a = a;
+    e->b = b;
+    return e;
+}
+
+cx *cx_add(cx *a, cx *b)
+{
+    return cx_binary(CX_ADD, a, b);
+}
+
+cx *cx_mul(cx *a, cx *b)
+{
+    return cx_binary(CX_MUL, a, b);
+}
+
+cx *cx_pow(cx *a, slong k, const void *origin)
+{
+    cx *e = cx_node(CX_POW, a->ctx);
+    e->a = a;
+    e->index = k;
+    e->origin = origin;
+    return e;
+}
+
+cx *cx_exp(cx *a, const void *origin)
+{
+    cx *e = cx_node(CX_EXP, a->ctx);
+    e->a = a;
+    e->origin = origin;
+    return e;
+}
+
+cx *cx_ref(cx *e)
+{
+    e->refs++;
+    return e;
+}
+
+void cx_release(cx *e)
+{
+    while (e && --e->refs == 0) {
+        cx *next = e->a;
+        cx_release(e->b);
+        if (e->kind == CX_SCALAR)
+            fmpq_mpoly_clear(e->scalar, e->ctx);
+        free(e);
+        e = next;
+    }
+}
+
+slong cx_max_psi(const cx *e)
+{
+    slong m = 0;
+    for (; e; e = e->a) {
+        if (e->kind == CX_PSI && e->index > m)
+            m = e->index;
+        slong mb = cx_max_psi(e->b);
+        if (mb > m)
+            m = mb;
+    }
+    return m;
+}

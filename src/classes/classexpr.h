@@ -1,0 +1,39 @@
+/* Class expressions: sums and products of psi and kappa classes with scalar
+   coefficients, kept lazy until the space Mbar_{g,n} is known, then expanded
+   into a truncated class polynomial (cpoly.h). exp() and powers are only
+   meaningful up to the dimension 3g-3+n, which is why nothing is expanded
+   early. This module knows FLINT, not the language. */
+#ifndef PSIKAPPA_CLASSEXPR_H
+#define PSIKAPPA_CLASSEXPR_H
+
+#include <flint/fmpq_mpoly.h>
+
+typedef enum { CX_SCALAR, CX_PSI, CX_KAPPA, CX_ADD, CX_MUL, CX_POW, CX_EXP } cx_kind;
+
+typedef struct cx {
+    cx_kind kind;
+    int refs;
+    slong index;                           /* psi/kappa index; exponent of CX_POW */
+    fmpq_mpoly_t scalar;                   /* CX_SCALAR only */
+    const fmpq_mpoly_ctx_struct *ctx;      /* ring of the scalars (not owned) */
+    struct cx *a, *b;                      /* owned references */
+    const void *origin;                    /* caller's tag for messages (not owned) */
+} cx;
+
+/* Constructors return a new reference; the ones taking cx arguments take over
+   the caller's references to them. */
+cx *cx_scalar(const fmpq_mpoly_t c, const fmpq_mpoly_ctx_t ctx);
+cx *cx_psi(slong i, const fmpq_mpoly_ctx_t ctx, const void *origin);
+cx *cx_kappa(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin);
+cx *cx_add(cx *a, cx *b);
+cx *cx_mul(cx *a, cx *b);
+cx *cx_pow(cx *a, slong k, const void *origin);
+cx *cx_exp(cx *a, const void *origin);
+
+cx *cx_ref(cx *e);
+void cx_release(cx *e);
+
+/* Largest psi index used, so that callers can check it against n early. */
+slong cx_max_psi(const cx *e);
+
+#endif

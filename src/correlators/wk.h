@@ -1,0 +1,59 @@
+/* wk.h - exact psi-class intersection numbers <tau_{d_1} ... tau_{d_n}>_g on Mbar_{g,n}.
+ *
+ * Ownership: a wk_table is created by wk_table_new and owned by the caller, who must release it
+ * with wk_table_free.  The table owns every memoised value; functions never keep pointers to the
+ * caller's arrays after returning.  Result arguments (fmpq_t) must be initialised by the caller.
+ * A table is not thread-safe; use one table per thread.
+ *
+ * Error policy: no function aborts on bad input.  Every failure is reported by a status code and
+ * leaves the result set to zero.  Out-of-memory in this module's own allocations is reported as
+ * WK_LIMIT (arithmetic inside FLINT/GMP follows their own allocation policy).
+ */
+#ifndef PSIKAPPA_CORRELATORS_WK_H
+#define PSIKAPPA_CORRELATORS_WK_H
+
+#include <flint/fmpq.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+typedef struct wk_table wk_table;          /* opaque memo of <tau_d>_g */
+
+enum { WK_OK = 0, WK_UNSTABLE = 1, WK_BADARG = 2, WK_LIMIT = 3 };
+
+/* Largest 2g-2+n accepted: bounds the recursion depth (each recursive step lowers 2g-2+n by at
+   least one), so the engine cannot overflow the C stack.  Larger requests return WK_LIMIT. */
+#define WK_MAX_DEPTH 2000
+
+/* Creates an empty memo table with no entry limit.
+   Returns NULL only if memory is exhausted; the caller owns the result (free with wk_table_free). */
+wk_table *wk_table_new(void);
+
+/* Releases the table and every memoised value.
+   Accepts NULL (does nothing). */
+void wk_table_free(wk_table *T);
+
+/* Sets the maximum number of memo entries (0 = unlimited, negative treated as 0).
+   A computation that would need more entries stops with WK_LIMIT; existing entries stay valid. */
+void wk_table_set_limit(wk_table *T, slong max_entries);
+
+/* Number of correlators currently memoised.
+   Returns 0 for a NULL table. */
+slong wk_table_entries(const wk_table *T);
+
+/* res = <tau_{d[0]} ... tau_{d[n-1]}>_g (d unsorted, d_i >= 0); zero if sum d_i != 3g-3+n.
+   WK_BADARG if g<0, n<0 or some d_i<0 (checked first); WK_UNSTABLE if 2g-2+n <= 0;
+   WK_LIMIT if 2g-2+n > WK_MAX_DEPTH, the entry limit is hit or memory runs out. res is 0 on error. */
+int wk_table_correlator(fmpq_t res, wk_table *T, slong g, const slong *d, slong n);
+
+/* Upper bound on the memo entries needed to compute all correlators of Mbar_{g,n}: the number of
+   multi-indices of genus g' <= g with n' <= n+g-g' points and degree 3g'-3+n' (see wk_estimate.c).
+   Cheap (O((3g+n)(g+n)) flops); returns HUGE_VAL when the bound certainly exceeds 1e21, 0 if g<0 or n<0. */
+double wk_estimate_entries(slong g, slong n);
+
+#ifdef __cplusplus
+}
+#endif
+
+#endif

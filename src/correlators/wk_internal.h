@@ -1,0 +1,43 @@
+/* wk_internal.h - memo layout shared by wk_memo.c and wk.c only (not part of the public API).
+ *
+ * The memo maps a sorted (descending) multi-index d[0..n-1] to the integer
+ *     X(d) = 2^(4g+n-2) * prod_i (2 d_i + 1)!! * <tau_d>_g ,
+ * where g is implied by the degree (sum d_i = 3g-3+n).  wk.c explains why X is an integer.
+ * Ownership: the table owns the key pool and the fmpz values; entry indices stay valid for the
+ * table's lifetime, but pointers into pool/val do not (arrays are reallocated when they grow).
+ */
+#ifndef PSIKAPPA_CORRELATORS_WK_INTERNAL_H
+#define PSIKAPPA_CORRELATORS_WK_INTERNAL_H
+
+#include "wk.h"
+
+typedef struct {
+    ulong hash;   /* full hash of the key, to skip most key comparisons */
+    slong off;    /* start of the key inside the pool */
+    slong n;      /* key length */
+} wk_entry;
+
+struct wk_table {
+    slong limit;               /* maximum number of entries, 0 = unlimited */
+    slong len, alloc;          /* entries in use / allocated in ent and val */
+    wk_entry *ent;
+    fmpz *val;                 /* val[i] = X of entry i */
+    slong *slot;               /* open addressing: -1 = empty, otherwise an entry index */
+    slong nslots;              /* a power of two, kept >= 2*len */
+    slong *pool;               /* all keys, concatenated */
+    slong pool_len, pool_alloc;
+};
+
+/* Hash of a key of length n.
+   Pure function; equal keys give equal hashes. */
+ulong wk_memo_hash(const slong *key, slong n);
+
+/* Index of the entry with this key (h = wk_memo_hash(key, n)), or -1 if absent.
+   Does not modify the table. */
+slong wk_memo_find(const wk_table *T, const slong *key, slong n, ulong h);
+
+/* Stores key -> x, taking x's value by swap (x is left holding an unspecified value).
+   *idx receives the new entry index. Returns WK_OK, or WK_LIMIT (entry limit or out of memory). */
+int wk_memo_insert(wk_table *T, const slong *key, slong n, ulong h, fmpz_t x, slong *idx);
+
+#endif

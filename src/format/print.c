@@ -1,0 +1,90 @@
+#include "print.h"
+
+#include <stdlib.h>
+
+/* Binding strength of each kind, to decide where parentheses are needed. */
+static int print_level(const cx *e, const scalar_ring *R)
+{
+    switch (e->kind) {
+    case CX_ADD:
+        return 1;
+    case CX_MUL:
+        return 2;
+    case CX_SCALAR:
+        return fmpq_mpoly_length(e->scalar, R->ctx) > 1 || fmpq_mpoly_is_fmpq(e->scalar, R->ctx) ? 1 : 2;
+    default:
+        return 3;
+    }
+}
+
+static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R);
+
+static void print_operand(strbuf *b, const cx *e, int min_level, const scalar_ring *R)
+{
+    int paren = print_level(e, R) < min_level;
+    if (paren)
+        strbuf_putc(b, '(');
+    print_class_rec(b, e, R);
+    if (paren)
+        strbuf_putc(b, ')');
+}
+
+static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
+{
+    char *s;
+    switch (e->kind) {
+    case CX_SCALAR:
+        s = scalar_get_str(e->scalar, R);
+        strbuf_puts(b, s);
+        free(s);
+        break;
+    case CX_PSI:
+        strbuf_printf(b, "psi_%ld", (long)e->index);
+        break;
+    case CX_KAPPA:
+        strbuf_printf(b, "kappa_%ld", (long)e->index);
+        break;
+    case CX_ADD:
+        print_operand(b, e->a, 1, R);
+        strbuf_puts(b, " + ");
+        print_operand(b, e->b, 1, R);
+        break;
+    case CX_MUL:
+        print_operand(b, e->a, 2, R);
+        strbuf_putc(b, '*');
+        print_operand(b, e->b, 2, R);
+        break;
+    case CX_POW:
+        print_operand(b, e->a, 3, R);
+        strbuf_printf(b, "^%ld", (long)e->index);
+        break;
+    case CX_EXP:
+        strbuf_puts(b, "exp(");
+        print_class_rec(b, e->a, R);
+        strbuf_putc(b, ')');
+        break;
+    }
+}
+
+char *print_class(const cx *e, const scalar_ring *R)
+{
+    strbuf b;
+    strbuf_init(&b);
+    print_class_rec(&b, e, R);
+    return strbuf_take(&b);
+}
+
+void print_correlator(strbuf *b, slong g, const slong *d, slong n)
+{
+    strbuf_putc(b, '<');
+    for (slong i = n - 1; i >= 0;) {
+        slong j = i;
+        while (j >= 0 && d[j] == d[i])
+            j--;
+        strbuf_printf(b, "%stau_%ld", i < n - 1 ? " " : "", (long)d[i]);
+        if (i - j > 1)
+            strbuf_printf(b, "^%ld", (long)(i - j));
+        i = j;
+    }
+    strbuf_printf(b, ">_%ld", (long)g);
+}

@@ -1,0 +1,18 @@
+/* Text forms of class expressions and correlators. */
+#ifndef PSIKAPPA_PRINT_H
+#define PSIKAPPA_PRINT_H
+
+#include <flint/flint.h>
+
+#include "../classes/classexpr.h"
+#include "../scalar.h"
+#include "../strbuf.h"
+
+/* e.g. exp(2*pi^2*kappa_1 + L_1^2/2*psi_1); the caller frees the result. */
+char *print_class(const cx *e, const scalar_ring *R);
+
+/* Appends <tau_2 tau_3^2>_g for a multi-index d sorted in descending order
+   (printed ascending, equal entries shown as powers). */
+void print_correlator(strbuf *b, slong g, const slong *d, slong n);
+
+#endif

@@ -1,0 +1,302 @@
+/* The bridge from the language to the intersection engine: int[g,n] of a
+   class expression, correlators, and the printed psi-only reduction. Sizes
+   are estimated before any work starts, so absurd requests are refused. */
+#include <stdlib.h>
+#include <string.h>
+
+#include "classes/cpoly.h"
+#include "correlators/pushforward.h"
+#include "diag.h"
+#include "format/print.h"
+#include "interp.h"
+#include "strbuf.h"
+#include "util.h"
+
+/* Reports an unstable or oversized space; returns 1 when (g, n) is usable. */
+static int integrate_space_ok(interp *I, const node *where, slong g, slong n)
+{
+    if (2 * g - 2 + n <= 0) {
+        diag_error(&where->loc, "Mbar_{%ld,%ld} is not a stable moduli space (needs 2g-2+n > 0)", (long)g,
+                   (long)n);
+        return 0;
+    }
+    if (3 * g - 3 + n > I->lim.max_dim) {
+        diag_error(&where->loc, "Mbar_{%ld,%ld} has dimension %ld, beyond the limit of %ld", (long)g, (long)n,
+                   (long)(3 * g - 3 + n), (long)I->lim.max_dim);
+        return 0;
+    }
+    return 1;
+}
+
+static int integrate_table_ok(interp *I, const node *where, slong g, slong n)
+{
+    double est = wk_estimate_entries(g, n);
+    if (est <= I->lim.max_table)
+        return 1;
+    diag_error(&where->loc,
+               "correlators of genus %ld with %ld points need about %.3g table entries, above the limit "
+               "of %.3g (raise it with --max-table N)",
+               (long)g, (long)n, est, I->lim.max_table);
+    return 0;
+}
+
+static void integrate_report_engine(const node *where, int rc)
+{
+    if (rc == WK_LIMIT)
+        diag_error(&where->loc, "the correlator table reached its size limit (raise it with --max-table N)");
+    else
+        diag_error(&where->loc, "the intersection engine rejected this request (code %d)", rc);
+}
+
+value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n)
+{
+    if (!integrate_space_ok(I, where, g, n) || !integrate_table_ok(I, where, g, n))
+        return NULL;
+    fmpq_t r;
+    fmpq_init(r);
+    int rc = wk_table_correlator(r, I->wk, g, d, n);
+    value *v = rc == WK_OK ? value_new_fmpq(&I->ring, r) : NULL;
+    if (rc != WK_OK)
+        integrate_report_engine(where, rc);
+    fmpq_clear(r);
+    return v;
+}
+
+/* Expands integrand on Mbar_{g,n}, reporting errors at the responsible node. */
+static int integrate_expand(cpoly *P, const node *where, const value *integrand)
+{
+    cx *c = value_to_class(integrand);
+    const cx *bad = NULL;
+    int rc = cpoly_expand(P, c, &bad);
+    const node *at = bad && bad->origin ? bad->origin : where;
+    if (rc == CPOLY_PSI_RANGE)
+        diag_error(&at->loc, "psi_%ld does not exist on Mbar_{%ld,%ld} (its points are numbered 1..%ld)",
+                   (long)bad->index, (long)P->g, (long)P->n, (long)P->n);
+    else if (rc == CPOLY_EXP_CONSTANT)
+        diag_error(&at->loc, "exp() of a class with a nonzero degree-0 part has no exact value here; "
+                             "take the constant factor out");
+    else if (rc == CPOLY_TOO_BIG)
+        diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "
+                             "(raise the limit with --max-terms N)",
+                   (long)P->g, (long)P->n, (long)P->max_terms);
+    cx_release(c);
+    return rc == CPOLY_OK;
+}
+
+typedef struct {
+    interp *I;
+    double terms;
+    slong points;
+} integrate_estimate;
+
+static int integrate_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
+                                   const fmpq_mpoly_t coeff)
+{
+    (void)psi;
+    (void)coeff;
+    integrate_estimate *e = data;
+    e->terms += pf_estimate_terms(kmult, kmax);
+    slong pts = n;
+    for (slong j = 1; j <= kmax; j++)
+        pts += kmult[j];
+    if (pts > e->points)
+        e->points = pts;
+    return 0;
+}
+
+/* Refuses, before any work, an integral whose reduction is too large. */
+static int integrate_cost_ok(interp *I, const node *where, const cpoly *P)
+{
+    integrate_estimate e = {I, 0.0, P->n};
+    cpoly_foreach_top(P, integrate_estimate_term, &e);
+    if (e.terms > I->lim.max_terms) {
+        diag_error(&where->loc,
+                   "this integral reduces to about %.3g correlator terms, above the limit of %.3g "
+                   "(raise it with --max-terms N)",
+                   e.terms, I->lim.max_terms);
+        return 0;
+    }
+    return integrate_table_ok(I, where, P->g, e.points);
+}
+
+/* Memoised integral of one monomial; psi is sorted so that symmetric
+   monomials share an entry. */
+static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi, slong n, const slong *kmult,
+                              slong kmax)
+{
+    interp *I = data;
+    slong len = 2 + n + kmax;
+    slong *key = xmalloc((len + 1) * sizeof(slong));
+    key[0] = g;
+    key[1] = n;
+    memcpy(key + 2, psi, n * sizeof(slong));
+    for (slong i = 2; i < 2 + n; i++)   /* insertion sort: n is small */
+        for (slong j = i; j > 2 && key[j - 1] < key[j]; j--) {
+            slong t = key[j];
+            key[j] = key[j - 1];
+            key[j - 1] = t;
+        }
+    memcpy(key + 2 + n, kmult + 1, kmax * sizeof(slong));
+    const fmpq *hit = keymap_get(&I->integrals, key, len);
+    int rc = WK_OK;
+    if (hit) {
+        fmpq_set(res, hit);
+    } else {
+        rc = pf_integral(res, I->wk, g, key + 2, n, kmult, kmax);
+        if (rc == WK_OK)
+            keymap_set(&I->integrals, key, len, res);
+    }
+    free(key);
+    return rc;
+}
+
+value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    if (!integrate_space_ok(I, where, g, n))
+        return NULL;
+    cpoly P;
+    cpoly_init(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
+    value *r = NULL;
+    if (integrate_expand(&P, where, integrand) && integrate_cost_ok(I, where, &P)) {
+        r = value_new_num(&I->ring);
+        int rc = cpoly_integrate(r->num, &P, integrate_monomial, I);
+        if (rc != WK_OK) {
+            integrate_report_engine(where, rc);
+            value_release(r);
+            r = NULL;
+        }
+    }
+    cpoly_clear(&P);
+    return r;
+}
+
+/* The psi-only reduction as a list of (correlator, coefficient). */
+typedef struct {
+    interp *I;
+    slong g;
+    slong len, cap;
+    slong **keys;                 /* keys[i][0] = n, then the sorted multi-index */
+    fmpq_mpoly_struct *coeffs;
+    int rc;
+} reduction;
+
+static void reduction_add(reduction *R, const slong *d, slong n, const fmpz_t c, const fmpq_mpoly_t coeff)
+{
+    slong i;
+    for (i = 0; i < R->len; i++)
+        if (R->keys[i][0] == n && memcmp(R->keys[i] + 1, d, n * sizeof(slong)) == 0)
+            break;
+    if (i == R->len) {
+        if (R->len == R->cap) {
+            R->cap = R->cap ? 2 * R->cap : 16;
+            R->keys = xrealloc(R->keys, R->cap * sizeof(slong *));
+            R->coeffs = xrealloc(R->coeffs, R->cap * sizeof(fmpq_mpoly_struct));
+        }
+        R->keys[i] = xmalloc((n + 1) * sizeof(slong));
+        R->keys[i][0] = n;
+        memcpy(R->keys[i] + 1, d, n * sizeof(slong));
+        fmpq_mpoly_init(R->coeffs + i, R->I->ring.ctx);
+        R->len++;
+    }
+    fmpq_mpoly_t t;
+    fmpq_mpoly_init(t, R->I->ring.ctx);
+    fmpq_mpoly_scalar_mul_fmpz(t, coeff, c, R->I->ring.ctx);
+    fmpq_mpoly_add(R->coeffs + i, R->coeffs + i, t, R->I->ring.ctx);
+    fmpq_mpoly_clear(t, R->I->ring.ctx);
+}
+
+static int reduction_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
+                          const fmpq_mpoly_t coeff)
+{
+    reduction *R = data;
+    pf_expansion E;
+    pf_expansion_init(&E);
+    int rc = pf_expand(&E, R->g, psi, n, kmult, kmax, 0);
+    for (slong i = 0; rc == WK_OK && i < E.len; i++)
+        reduction_add(R, E.terms[i].d, E.terms[i].n, E.terms[i].coeff, coeff);
+    pf_expansion_clear(&E);
+    return rc;
+}
+
+static void reduction_print_coeff(strbuf *b, const fmpq_mpoly_t c, int first, const scalar_ring *ring)
+{
+    fmpq_mpoly_t a;
+    fmpq_mpoly_init(a, ring->ctx);
+    fmpq_mpoly_set(a, c, ring->ctx);
+    int single = fmpq_mpoly_length(a, ring->ctx) == 1;
+    fmpq_t lead;
+    fmpq_init(lead);
+    fmpq_mpoly_get_term_coeff_fmpq(lead, a, 0, ring->ctx);
+    if (single && fmpq_sgn(lead) < 0) {
+        strbuf_puts(b, first ? "-" : " - ");
+        fmpq_mpoly_neg(a, a, ring->ctx);
+    } else if (!first) {
+        strbuf_puts(b, " + ");
+    }
+    if (!fmpq_mpoly_is_one(a, ring->ctx)) {
+        char *s = scalar_get_str(a, ring);
+        if (single)
+            strbuf_puts(b, s);
+        else
+            strbuf_printf(b, "(%s)", s);
+        strbuf_putc(b, '*');
+        free(s);
+    }
+    fmpq_clear(lead);
+    fmpq_mpoly_clear(a, ring->ctx);
+}
+
+static void reduction_print(FILE *out, const reduction *R, const node *where)
+{
+    strbuf b;
+    strbuf_init(&b);
+    const char *line;
+    size_t len = source_line(where->loc.src, where->loc.first_line, &line);
+    if (where->loc.last_line == where->loc.first_line && (size_t)where->loc.last_column <= len + 1)
+        strbuf_printf(&b, "%.*s\n", where->loc.last_column - where->loc.first_column,
+                      line + where->loc.first_column - 1);
+    strbuf_puts(&b, "  = ");
+    int first = 1;
+    for (slong i = 0; i < R->len; i++) {
+        if (fmpq_mpoly_is_zero(R->coeffs + i, R->I->ring.ctx))
+            continue;
+        reduction_print_coeff(&b, R->coeffs + i, first, &R->I->ring);
+        print_correlator(&b, R->g, R->keys[i] + 1, R->keys[i][0]);
+        first = 0;
+    }
+    if (first)
+        strbuf_putc(&b, '0');
+    fprintf(out, "%s\n", b.data);
+    strbuf_clear(&b);
+}
+
+static void reduction_clear(reduction *R)
+{
+    for (slong i = 0; i < R->len; i++) {
+        free(R->keys[i]);
+        fmpq_mpoly_clear(R->coeffs + i, R->I->ring.ctx);
+    }
+    free(R->keys);
+    free(R->coeffs);
+}
+
+int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    if (!integrate_space_ok(I, where, g, n))
+        return 0;
+    cpoly P;
+    cpoly_init(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
+    int ok = integrate_expand(&P, where, integrand) && integrate_cost_ok(I, where, &P);
+    if (ok) {
+        reduction R = {I, g, 0, 0, NULL, NULL, WK_OK};
+        int rc = cpoly_foreach_top(&P, reduction_term, &R);
+        if (rc == WK_OK)
+            reduction_print(I->out, &R, where);
+        else
+            integrate_report_engine(where, rc);
+        ok = rc == WK_OK;
+        reduction_clear(&R);
+    }
+    cpoly_clear(&P);
+    return ok;
+}

@@ -1,0 +1,67 @@
+/* The interpreter: global state, limits, and running programs. */
+#ifndef PSIKAPPA_INTERP_H
+#define PSIKAPPA_INTERP_H
+
+#include <setjmp.h>
+#include <stdio.h>
+
+#include "ast.h"
+#include "correlators/wk.h"
+#include "env.h"
+#include "keymap.h"
+#include "scalar.h"
+#include "source.h"
+#include "value.h"
+
+/* Guards against requests that would exhaust memory or run for hours; each
+   has a command-line option to raise it. */
+typedef struct interp_limits {
+    double max_terms;      /* correlator terms of one integral (--max-terms) */
+    double max_table;      /* memo entries of the correlator table (--max-table) */
+    slong max_class_terms; /* monomials of an expanded class expression */
+    slong max_dim;         /* largest dimension 3g-3+n accepted */
+    int max_depth;         /* nesting of user-function calls (--max-depth) */
+} interp_limits;
+
+typedef struct interp {
+    scalar_ring ring;
+    scope *globals;
+    wk_table *wk;            /* Witten-Kontsevich numbers computed so far */
+    keymap integrals;        /* psi-kappa integrals computed so far */
+    interp_limits lim;
+    int depth;               /* current user-function call depth */
+    int explain_all;         /* print the reduction of every integral */
+    FILE *out;
+    node_list **programs;    /* kept alive: function bodies point into them */
+    source **sources;
+    int nprograms;
+} interp;
+
+void interp_init(interp *I);
+/* Routes FLINT's abort hook to the statement being run (call once). */
+void interp_install_abort_handler(void);
+void interp_clear(interp *I);
+
+/* Parses and runs src (taking ownership of it). Returns 0 when every
+   statement ran, 1 after reporting the first error; statements before the
+   error have printed their results. */
+int interp_run_source(interp *I, source *src);
+
+/* Evaluation entry points shared by the statement executor and builtins. */
+value *eval_expr(interp *I, scope *s, const node *n);
+/* Evaluates n as an integer >= lo; reports an error naming `what` otherwise. */
+int eval_slong(interp *I, scope *s, const node *n, const char *what, slong lo, slong *out);
+int exec_stmt(interp *I, scope *s, const node *n);
+
+/* int[g,n] of a value (integrate.c). `where` locates errors. */
+value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand);
+/* Prints the psi-only reduction of int[g,n] integrand, then its value. */
+int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand);
+/* <tau_d>_g with the same limits and messages as integrals. */
+value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n);
+
+/* Builtin functions (builtins.c): returns 1 and sets *result when name is a
+   builtin (result NULL after an error was reported), 0 when it is not. */
+int builtin_call(interp *I, scope *s, const node *call, value **result);
+
+#endif

@@ -1,0 +1,32 @@
+/* The front end: source text -> tokens (grammar/lexer.l) -> syntax tree
+   (grammar/parser.y). */
+#ifndef PSIKAPPA_PARSE_H
+#define PSIKAPPA_PARSE_H
+
+#include "ast.h"
+#include "source.h"
+
+#define PARSE_MAX_BRACKETS 256
+
+/* State shared by the lexer and the parser for one source. */
+typedef struct parse_state {
+    const source *src;
+    node_list *program;     /* top-level statements parsed so far (owned) */
+    /* lexer */
+    int line, column;       /* position of the next byte */
+    int depth;              /* open ( and [: newlines inside them are blanks */
+    int last_was_newline;
+    int eof_newline_sent;
+    const char *lex_error;  /* message for a LEXERROR token */
+    char lex_error_buf[96];
+    int nopen;              /* stack of open brackets, for "unclosed" notes */
+    char open_char[PARSE_MAX_BRACKETS];
+    srcloc open_loc[PARSE_MAX_BRACKETS];
+} parse_state;
+
+/* Parses src. Returns 0 on success, 1 after reporting a syntax error. In both
+   cases *program receives the statements that were complete before any error;
+   the caller owns it (ast_list_free). */
+int parse_source(const source *src, node_list **program);
+
+#endif

@@ -1,0 +1,162 @@
+#include "scalar.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+#include "strbuf.h"
+#include "util.h"
+
+void scalar_ring_init(scalar_ring *R)
+{
+    fmpq_mpoly_ctx_init(R->ctx, SCALAR_MAX_VARS, ORD_DEGLEX);
+    memset(R->names, 0, sizeof R->names);
+    R->names[SCALAR_PI] = xstrdup("pi");
+    R->nvars = 0;
+}
+
+void scalar_ring_clear(scalar_ring *R)
+{
+    for (int i = 0; i < SCALAR_MAX_VARS; i++)
+        free(R->names[i]);
+    fmpq_mpoly_ctx_clear(R->ctx);
+}
+
+int scalar_ring_declare(scalar_ring *R, const char *name)
+{
+    for (int i = 0; i < R->nvars; i++)
+        if (strcmp(R->names[i], name) == 0)
+            return i;
+    if (R->nvars >= SCALAR_MAX_VARS - 1)
+        return -1;
+    R->names[R->nvars] = xstrdup(name);
+    return R->nvars++;
+}
+
+void scalar_set_gen(fmpq_mpoly_t p, const scalar_ring *R, int var)
+{
+    fmpq_mpoly_gen(p, var, R->ctx);
+}
+
+int scalar_get_fmpq(fmpq_t q, const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    if (!fmpq_mpoly_is_fmpq(p, R->ctx))
+        return 0;
+    fmpq_mpoly_get_fmpq(q, p, R->ctx);
+    return 1;
+}
+
+int scalar_get_slong(slong *v, const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    fmpq_t q;
+    fmpq_init(q);
+    int ok = scalar_get_fmpq(q, p, R) && fmpz_is_one(fmpq_denref(q)) && fmpz_fits_si(fmpq_numref(q));
+    if (ok)
+        *v = fmpz_get_si(fmpq_numref(q));
+    fmpq_clear(q);
+    return ok;
+}
+
+int scalar_is_pi_only(const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    slong deg[SCALAR_MAX_VARS];
+    if (fmpq_mpoly_is_zero(p, R->ctx))
+        return 1;
+    fmpq_mpoly_degrees_si(deg, p, R->ctx);
+    for (int i = 0; i < SCALAR_PI; i++)
+        if (deg[i] > 0)
+            return 0;
+    return 1;
+}
+
+char *scalar_monomial_str(const fmpq_mpoly_t p, slong i, const scalar_ring *R)
+{
+    ulong exp[SCALAR_MAX_VARS];
+    fmpq_mpoly_get_term_exp_ui(exp, p, i, R->ctx);
+    strbuf b;
+    strbuf_init(&b);
+    for (int v = 0; v < SCALAR_MAX_VARS; v++) {
+        if (exp[v] == 0)
+            continue;
+        if (b.len > 0)
+            strbuf_putc(&b, '*');
+        strbuf_puts(&b, R->names[v] ? R->names[v] : "?");
+        if (exp[v] > 1)
+            strbuf_printf(&b, "^%lu", exp[v]);
+    }
+    return strbuf_take(&b);
+}
+
+/* Writes c*m for an integer coefficient c (sign handled by the caller). */
+static void scalar_put_term(strbuf *b, const fmpz_t c, const char *mono)
+{
+    if (mono[0] == '\0') {
+        strbuf_put_fmpz(b, c);
+    } else if (fmpz_is_one(c)) {
+        strbuf_puts(b, mono);
+    } else {
+        strbuf_put_fmpz(b, c);
+        strbuf_putc(b, '*');
+        strbuf_puts(b, mono);
+    }
+}
+
+/* Common denominator of all coefficients, so that the polynomial prints as
+   (integer polynomial)/d. */
+static void scalar_denominator(fmpz_t d, const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    fmpq_t c;
+    fmpq_init(c);
+    fmpz_one(d);
+    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
+        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
+        fmpz_lcm(d, d, fmpq_denref(c));
+    }
+    fmpq_clear(c);
+}
+
+static void scalar_put_numerator(strbuf *b, const fmpq_mpoly_t p, const fmpz_t d, const scalar_ring *R)
+{
+    fmpq_t c;
+    fmpz_t a;
+    fmpq_init(c);
+    fmpz_init(a);
+    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
+        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
+        fmpz_divexact(a, d, fmpq_denref(c));
+        fmpz_mul(a, a, fmpq_numref(c));
+        if (fmpz_sgn(a) < 0)
+            strbuf_puts(b, i == 0 ? "-" : " - ");
+        else if (i > 0)
+            strbuf_puts(b, " + ");
+        fmpz_abs(a, a);
+        char *mono = scalar_monomial_str(p, i, R);
+        scalar_put_term(b, a, mono);
+        free(mono);
+    }
+    fmpz_clear(a);
+    fmpq_clear(c);
+}
+
+char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    strbuf b;
+    strbuf_init(&b);
+    slong len = fmpq_mpoly_length(p, R->ctx);
+    if (len == 0)
+        return strbuf_puts(&b, "0"), strbuf_take(&b);
+    fmpz_t d;
+    fmpz_init(d);
+    scalar_denominator(d, p, R);
+    int paren = len > 1 && !fmpz_is_one(d);
+    if (paren)
+        strbuf_putc(&b, '(');
+    scalar_put_numerator(&b, p, d, R);
+    if (paren)
+        strbuf_putc(&b, ')');
+    if (!fmpz_is_one(d)) {
+        strbuf_putc(&b, '/');
+        strbuf_put_fmpz(&b, d);
+    }
+    fmpz_clear(d);
+    return strbuf_take(&b);
+}

@@ -1,0 +1,44 @@
+/* Scalars: the exact coefficient ring Q[x_1, ..., x_k, pi] of the language,
+   one fmpq_mpoly context whose variables are the declared formal variables
+   followed by the formal constant pi (kept last so that it prints last). */
+#ifndef PSIKAPPA_SCALAR_H
+#define PSIKAPPA_SCALAR_H
+
+#include <flint/fmpq_mpoly.h>
+
+#define SCALAR_MAX_VARS 128                /* including pi */
+#define SCALAR_PI (SCALAR_MAX_VARS - 1)    /* index of pi */
+
+typedef struct scalar_ring {
+    fmpq_mpoly_ctx_t ctx;
+    char *names[SCALAR_MAX_VARS];  /* owned; NULL for unused slots */
+    int nvars;                     /* declared variables, pi excluded */
+} scalar_ring;
+
+void scalar_ring_init(scalar_ring *R);
+void scalar_ring_clear(scalar_ring *R);
+
+/* Index of the variable called name, declaring it if needed; -1 when all
+   SCALAR_MAX_VARS - 1 slots are taken. */
+int scalar_ring_declare(scalar_ring *R, const char *name);
+
+/* Sets p to the variable of index var (or pi for SCALAR_PI). */
+void scalar_set_gen(fmpq_mpoly_t p, const scalar_ring *R, int var);
+
+/* Returns 1 and sets q when p is a rational constant, else 0. */
+int scalar_get_fmpq(fmpq_t q, const fmpq_mpoly_t p, const scalar_ring *R);
+
+/* Returns 1 and sets *v when p is an integer that fits in a slong, else 0. */
+int scalar_get_slong(slong *v, const fmpq_mpoly_t p, const scalar_ring *R);
+
+/* Returns 1 when p involves only pi (and so has a real decimal value). */
+int scalar_is_pi_only(const fmpq_mpoly_t p, const scalar_ring *R);
+
+/* Canonical readable form, e.g. 43/2880, pi^2/12, (L_1^2 + 4*pi^2)/48.
+   The caller frees the returned string. */
+char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R);
+
+/* The monomial of term i of p as text (e.g. L_1^2*pi^2), "" for 1; the caller frees it. */
+char *scalar_monomial_str(const fmpq_mpoly_t p, slong i, const scalar_ring *R);
+
+#endif

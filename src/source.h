@@ -1,0 +1,41 @@
+/* Source text and locations: byte offsets to line:column, and caret rendering
+   for diagnostics. */
+#ifndef PSIKAPPA_SOURCE_H
+#define PSIKAPPA_SOURCE_H
+
+#include <stddef.h>
+#include <stdio.h>
+
+typedef struct source {
+    char *name;          /* display name: a path, or "<-e>" for command-line code */
+    char *text;          /* the contents, NUL-terminated (embedded NULs are kept in len) */
+    size_t len;
+    size_t *line_starts; /* byte offset of the start of each line, 0-based */
+    int nlines;
+} source;
+
+/* A span of source text; lines and columns are 1-based, columns count bytes.
+   The field names are the ones Bison's location machinery expects. */
+typedef struct srcloc {
+    const source *src;
+    int first_line, first_column;
+    int last_line, last_column;
+} srcloc;
+
+/* Copies name and text into a new source; the caller owns the result
+   and frees it with source_free. */
+source *source_new(const char *name, const char *text, size_t len);
+void source_free(source *s);
+
+/* Reads a whole file (or stdin for "-") into a new source; NULL on failure
+   with errno set. The caller owns the result. */
+source *source_read_file(const char *path);
+
+/* Points *start at line `line` (1-based) and returns its length without the
+   newline; returns 0 with *start = "" when the line does not exist. */
+size_t source_line(const source *s, int line, const char **start);
+
+/* Prints the line of loc and a caret line under the span (clang style). */
+void source_print_caret(FILE *out, const srcloc *loc);
+
+#endif

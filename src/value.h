@@ -1,0 +1,42 @@
+/* Values of the language: exact scalars (polynomials over Q in the declared
+   variables and pi), lazy class expressions, and strings. Values are
+   reference counted and immutable once built. */
+#ifndef PSIKAPPA_VALUE_H
+#define PSIKAPPA_VALUE_H
+
+#include <flint/fmpq_mpoly.h>
+
+#include "classes/classexpr.h"
+#include "scalar.h"
+
+typedef enum { V_NUM, V_CLASS, V_STR } value_kind;
+
+typedef struct value {
+    value_kind kind;
+    int refs;
+    fmpq_mpoly_t num;                   /* V_NUM */
+    cx *cls;                            /* V_CLASS, owned reference */
+    char *str;                          /* V_STR, owned */
+    const fmpq_mpoly_ctx_struct *ctx;   /* ring of num (not owned) */
+} value;
+
+/* Constructors return a new reference owned by the caller. */
+value *value_new_num(const scalar_ring *R);            /* zero */
+value *value_new_si(const scalar_ring *R, slong c);
+value *value_new_fmpq(const scalar_ring *R, const fmpq_t c);
+value *value_new_class(cx *c, const scalar_ring *R);   /* takes the reference c */
+value *value_new_str(char *s, const scalar_ring *R);   /* takes ownership of s */
+
+value *value_ref(value *v);
+void value_release(value *v);
+
+/* A class-expression view of v (a scalar becomes a constant class); new reference. */
+cx *value_to_class(const value *v);
+
+/* Human-readable text of v; the caller frees it. */
+char *value_get_str(const value *v, const scalar_ring *R);
+
+/* The name of v's kind for messages ("number", "class", "string"). */
+const char *value_kind_name(const value *v);
+
+#endif
