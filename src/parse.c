@@ -15,6 +15,12 @@ int yyparse(yyscan_t scanner, parse_state *ps);
 
 int parse_source(const source *src, node_list **program)
 {
+    int incomplete;
+    return parse_source_ex(src, program, &incomplete);
+}
+
+int parse_source_ex(const source *src, node_list **program, int *incomplete)
+{
     parse_state *ps = xcalloc(1, sizeof(parse_state));
     ps->src = src;
     ps->program = ast_list_new();
@@ -26,6 +32,7 @@ int parse_source(const source *src, node_list **program)
         util_out_of_memory();
     yy_scan_bytes(src->text, (int)src->len, scanner);
     int rc = yyparse(scanner, ps);
+    *incomplete = rc != 0 && ps->hit_eof && ps->nopen > 0;
     yylex_destroy(scanner);
     *program = ps->program;
     free(ps);

@@ -17,6 +17,7 @@ typedef struct parse_state {
     int depth;              /* open ( and [: newlines inside them are blanks */
     int last_was_newline;
     int eof_newline_sent;
+    int hit_eof;            /* the lexer reached the end of the text */
     const char *lex_error;  /* message for a LEXERROR token */
     char lex_error_buf[96];
     int nopen;              /* stack of open brackets, for "unclosed" notes */
@@ -28,5 +29,9 @@ typedef struct parse_state {
    cases *program receives the statements that were complete before any error;
    the caller owns it (ast_list_free). */
 int parse_source(const source *src, node_list **program);
+
+/* As parse_source; *incomplete is set to 1 when the text ended inside an
+   open bracket or block (an interactive session then reads more lines). */
+int parse_source_ex(const source *src, node_list **program, int *incomplete);
 
 #endif
