@@ -53,22 +53,27 @@ void yyerror(YYLTYPE *loc, yyscan_t scanner, parse_state *ps, const char *msg);
 %token <text> PSI_LIT "psi_N" KAPPA_LIT "kappa_N" TAU_LIT "tau_N"
 %token LET "'let'" FOR "'for'" IN "'in'" VAR "'var'" PRINT "'print'"
 %token EXPLAIN "'explain'" IF "'if'" THEN "'then'" ELSE "'else'"
-%token SUM "'sum'" PROD "'prod'"
+%token SEQ "'seq'" TABLE "'table'" LOAD "'load'" OUTPUT "'output'"
+%token SUM "'sum'" PROD "'prod'" FREE "'F'" WITH "'with'" ORDER "'order'"
 %token INTKW "'int'" PSI "'psi'" KAPPA "'kappa'" TAU "'tau'" PI "'pi'"
 %token DOTDOT "'..'" CORR_CLOSE "'>_'" EQ "'=='" NE "'!='" LE "'<='" GE "'>='"
-%token DFACT "'!!'"
+%token DFACT "'!!'" AND "'and'" OR "'or'" NOT "'not'"
 %token NEWLINE "end of line"
 %token LEXERROR "invalid token"
 %token END 0 "end of file"
 
 %type <n> stmt expr primary insertion genus power vardecl param
-%type <list> args arg_list params stmt_list block insertions vardecls expr_list
+%type <n> rule range
+%type <list> args arg_list params stmt_list block insertions vardecls expr_list rules ranges
 
 %destructor { free($$); } <text>
 %destructor { ast_free($$); } <n>
 %destructor { ast_list_free($$); } <list>
 
 %precedence LOW
+%left OR
+%left AND
+%precedence NOT
 %nonassoc EQ NE '<' LE '>' GE
 %left '+' '-'
 %precedence SUMOP
@@ -92,6 +97,12 @@ stmt
     | PRINT expr_list                        { $$ = ast_with_list(S_PRINT, @$, NULL, $2); }
     | VAR vardecls                           { $$ = ast_with_list(S_VAR, @$, NULL, $2); }
     | EXPLAIN expr                           { $$ = ast_unary(S_EXPLAIN, @$, $2); }
+    | IF expr block                          { $$ = ast_with_list(S_IF, @$, NULL, $3); $$->a = $2; }
+    | IF expr block ELSE block               { $$ = ast_with_list(S_IF, @$, NULL, $3); $$->a = $2; $$->b = ast_with_list(S_IF, @5, NULL, $5); }
+    | TABLE '[' ranges ']' expr              { $$ = ast_with_list(S_TABLE, @$, NULL, $3); $$->a = $5; }
+    | LOAD STRING                            { $$ = ast_text(S_LOAD, @$, $2); }
+    | OUTPUT NAME                            { $$ = ast_text(S_OUTPUT, @$, $2); }
+    | OUTPUT NAME expr                       { $$ = ast_text(S_OUTPUT, @$, $2); $$->a = $3; }
     | expr                                   { $$ = ast_unary(S_EXPR, @$, $1); }
     ;
 
@@ -147,10 +158,15 @@ expr
     | expr LE expr                  { $$ = ast_compare(@$, CMP_LE, $1, $3); }
     | expr '>' expr                 { $$ = ast_compare(@$, CMP_GT, $1, $3); }
     | expr GE expr                  { $$ = ast_compare(@$, CMP_GE, $1, $3); }
+    | expr AND expr                 { $$ = ast_binop(@$, '&', $1, $3); $$->kind = N_LOGIC; }
+    | expr OR expr                  { $$ = ast_binop(@$, '|', $1, $3); $$->kind = N_LOGIC; }
+    | NOT expr                      { $$ = ast_unary(N_LOGIC, @$, $2); $$->op = '~'; }
     | INTKW '[' expr ',' expr ']' expr %prec LOW   { $$ = ast_ternary(N_INTEGRAL, @$, $3, $5, $7); }
     | IF expr THEN expr ELSE expr %prec LOW        { $$ = ast_ternary(N_IF, @$, $2, $4, $6); }
     | SUM '[' NAME '=' expr DOTDOT expr ']' expr %prec SUMOP
                                     { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = '+'; }
+    | SEQ '[' NAME '=' expr DOTDOT expr ']' expr %prec LOW
+                                    { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = 'L'; }
     | PROD '[' NAME '=' expr DOTDOT expr ']' expr %prec SUMOP
                                     { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = '*'; }
     ;
@@ -168,6 +184,31 @@ primary
     | KAPPA '[' expr ']'            { $$ = ast_unary(N_KAPPA, @$, $3); }
     | '<' insertions CORR_CLOSE genus   { $$ = ast_with_list(N_CORR, @$, NULL, $2); $$->a = $4; }
     | '(' expr ')'                  { $$ = $2; }
+    | '[' args ']'                  { $$ = ast_with_list(N_LIST, @$, NULL, $2); }
+    | FREE '[' expr ']' WITH rules ',' ORDER NAME '^' power
+                                    { $$ = ast_with_list(N_SPEC, @$, $9, $6); $$->a = $3; $$->b = $11; }
+    ;
+
+ranges
+    : range                         { $$ = ast_list_append(ast_list_new(), $1); }
+    | ranges ',' range              { $$ = ast_list_append($1, $3); }
+    ;
+
+range
+    : NAME '=' expr DOTDOT expr     { $$ = ast_ternary(N_RANGE, @$, $3, $5, NULL); $$->text = $1; }
+    ;
+
+rules
+    : rule                          { $$ = ast_list_append(ast_list_new(), $1); }
+    | rules ',' rule                { $$ = ast_list_append($1, $3); }
+    ;
+
+rule
+    : NAME '=' expr                 { $$ = ast_unary(N_RULE, @$, $3); $$->text = $1; }
+    | NAME '=' expr FOR NAME GE expr
+                                    { $$ = ast_ternary(N_RULE, @$, $3, $7, NULL); $$->text = $1; $$->list = ast_list_append(ast_list_new(), ast_text(N_NAME, @5, $5)); }
+    | NAME '=' expr FOR NAME IN expr DOTDOT expr
+                                    { $$ = ast_ternary(N_RULE, @$, $3, $7, $9); $$->text = $1; $$->list = ast_list_append(ast_list_new(), ast_text(N_NAME, @5, $5)); }
     ;
 
 args
@@ -220,7 +261,7 @@ static void parser_note_unclosed(const parse_state *ps)
 static int parser_is_operator(yysymbol_kind_t k)
 {
     static const char *ops[] = {"'+'", "'-'", "'*'", "'/'", "'^'", "'!'", "'!!'",
-                                "'=='", "'!='", "'<'", "'<='", "'>'", "'>='"};
+                                "'=='", "'!='", "'<'", "'<='", "'>'", "'>='", "'and'", "'or'"};
     for (size_t i = 0; i < sizeof ops / sizeof ops[0]; i++)
         if (strcmp(yysymbol_name(k), ops[i]) == 0)
             return 1;

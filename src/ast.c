@@ -118,8 +118,8 @@ static const char *ast_kind_name(node_kind k)
     static const char *names[] = {
         "number", "string", "pi", "name", "indexed", "call", "psi", "kappa",
         "correlator", "insert", "neg", "binop", "compare", "factorial",
-        "integral", "if", "sum", "let", "def", "for", "print", "var", "vardecl",
-        "explain", "expr"};
+        "integral", "if", "sum", "specialisation", "list", "logic", "range", "rule", "let", "def", "for", "print", "var", "vardecl",
+        "explain", "if", "table", "load", "output", "expr"};
     return names[k];
 }
 

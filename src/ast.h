@@ -26,6 +26,11 @@ typedef enum {
     N_INTEGRAL, /* int[a, b] c */
     N_IF,       /* if a then b else c */
     N_SUM,      /* sum[text = a..b] c (op '+') or prod[text = a..b] c (op '*') */
+    N_SPEC,     /* F[a] with list of N_RULE, order text^b */
+    N_LIST,     /* [list] */
+    N_LOGIC,    /* a and b (op '&'), a or b ('|'), not a ('~') */
+    N_RANGE,    /* text = a..b (in table[...]) */
+    N_RULE,     /* text = a; with list = (N_NAME k): for k >= b, or for k in b..c */
     /* statements */
     S_LET,      /* let text = a */
     S_DEF,      /* let text(list of N_NAME) = a */
@@ -34,6 +39,10 @@ typedef enum {
     S_VAR,      /* var list of N_VARDECL */
     N_VARDECL,  /* text, or text[a..b] */
     S_EXPLAIN,  /* explain a */
+    S_IF,       /* if a { list } [else b], b an S_IF holding the else block in its list */
+    S_TABLE,    /* table[list of N_RANGE] a */
+    S_LOAD,     /* load "text" */
+    S_OUTPUT,   /* output text [a] */
     S_EXPR      /* a */
 } node_kind;
 

@@ -4,18 +4,10 @@
 #include <string.h>
 
 #include "arb_compat.h"
+#include "builtins.h"
 #include "diag.h"
-#include "interp.h"
+#include "series_ops.h"
 #include "util.h"
-
-typedef value *(*builtin_fn)(interp *I, scope *s, const node *call, value **args);
-
-typedef struct {
-    const char *name;
-    int nargs;
-    builtin_fn fn;
-    const char *usage;
-} builtin;
 
 static value *builtin_fail(const node *at, const char *msg)
 {
@@ -23,18 +15,42 @@ static value *builtin_fail(const node *at, const char *msg)
     return NULL;
 }
 
-static value *builtin_exp(interp *I, scope *s, const node *call, value **args)
+value *builtin_fail_at(const node *call, int i, const char *msg)
 {
-    (void)s;
+    return builtin_fail(i >= 0 && i < call->list->len ? call->list->items[i] : call, msg);
+}
+
+slong builtin_get_var(interp *I, const node *call, value **args, int i)
+{
+    const value *v = args[i];
+    if (v->kind == V_NUM && fmpq_mpoly_length(v->num, I->ring.ctx) == 1)
+        for (slong k = 0; k < I->ring.nvars; k++)
+            if (fmpq_mpoly_is_gen(v->num, k, I->ring.ctx))
+                return k;
+    builtin_fail_at(call, i, "expected a formal variable declared with var");
+    return -1;
+}
+
+static value *builtin_exp(interp *I, const node *call, value **args)
+{
     if (args[0]->kind == V_CLASS)
         return value_new_class(cx_exp(value_to_class(args[0]), call), &I->ring);
+    if (args[0]->kind == V_SERIES) {
+        value *r = value_new_series(args[0]->ser->var, args[0]->ser->order, &I->ring);
+        int rc = tseries_exp(r->ser, args[0]->ser, I->ring.ctx);
+        if (rc == TS_OK)
+            return r;
+        value_release(r);
+        series_report(call, rc, "exp");
+        return NULL;
+    }
     if (args[0]->kind == V_NUM && fmpq_mpoly_is_zero(args[0]->num, I->ring.ctx))
         return value_new_si(&I->ring, 1);
     return builtin_fail(call, "exp() of a nonzero number has no exact value (exp is meant for classes)");
 }
 
 /* Reads argument i as a slong within [lo, hi]. */
-static int builtin_slong(interp *I, const node *call, value **args, int i, slong lo, slong hi, slong *out)
+int builtin_get_slong(interp *I, const node *call, value **args, int i, slong lo, slong hi, slong *out)
 {
     const node *at = call->list->items[i];
     if (args[i]->kind != V_NUM || !scalar_get_slong(out, args[i]->num, &I->ring)) {
@@ -50,12 +66,11 @@ static int builtin_slong(interp *I, const node *call, value **args, int i, slong
     return 1;
 }
 
-static value *builtin_binomial(interp *I, scope *s, const node *call, value **args)
+static value *builtin_binomial(interp *I, const node *call, value **args)
 {
-    (void)s;
     slong n, k;
-    if (!builtin_slong(I, call, args, 0, -1000000000, 1000000000, &n)
-        || !builtin_slong(I, call, args, 1, -1000000000, 1000000000, &k))
+    if (!builtin_get_slong(I, call, args, 0, -1000000000, 1000000000, &n)
+        || !builtin_get_slong(I, call, args, 1, -1000000000, 1000000000, &k))
         return NULL;
     if (k > 1000000)
         return builtin_fail(call->list->items[1], "binomial(n, k) is limited to k <= 1000000");
@@ -88,15 +103,13 @@ static value *builtin_part(interp *I, const node *call, value *arg, int numer)
     return v;
 }
 
-static value *builtin_numer(interp *I, scope *s, const node *call, value **args)
+static value *builtin_numer(interp *I, const node *call, value **args)
 {
-    (void)s;
     return builtin_part(I, call, args[0], 1);
 }
 
-static value *builtin_denom(interp *I, scope *s, const node *call, value **args)
+static value *builtin_denom(interp *I, const node *call, value **args)
 {
-    (void)s;
     return builtin_part(I, call, args[0], 0);
 }
 
@@ -125,13 +138,12 @@ static void builtin_arb_eval(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R
 }
 
 /* decimal(x, digits): x to the given number of correct significant digits. */
-static value *builtin_decimal(interp *I, scope *s, const node *call, value **args)
+static value *builtin_decimal(interp *I, const node *call, value **args)
 {
-    (void)s;
     slong digits;
     if (args[0]->kind != V_NUM || !scalar_is_pi_only(args[0]->num, &I->ring))
         return builtin_fail(call->list->items[0], "decimal() needs a number (pi allowed, no formal variables)");
-    if (!builtin_slong(I, call, args, 1, 1, 1000000, &digits))
+    if (!builtin_get_slong(I, call, args, 1, 1, 1000000, &digits))
         return NULL;
     arb_t r;
     arb_init(r);
@@ -148,19 +160,31 @@ static value *builtin_decimal(interp *I, scope *s, const node *call, value **arg
     return v;
 }
 
-static const builtin builtins[] = {
+static value *builtin_wpvolume(interp *I, const node *call, value **args)
+{
+    slong g, n;
+    if (!builtin_get_slong(I, call, args, 0, 0, 1000000, &g) || !builtin_get_slong(I, call, args, 1, 0, 1000000, &n))
+        return NULL;
+    return integrate_volume(I, call, g, n);
+}
+
+const builtin builtins_core[] = {
     {"exp", 1, builtin_exp, "exp(C) for a class expression C"},
     {"binomial", 2, builtin_binomial, "binomial(n, k)"},
     {"numer", 1, builtin_numer, "numer(q)"},
     {"denom", 1, builtin_denom, "denom(q)"},
     {"decimal", 2, builtin_decimal, "decimal(x, digits)"},
+    {"wpvolume", 2, builtin_wpvolume, "wpvolume(g, n): V_{g,n}(L_1..L_n)"},
+    {NULL, 0, NULL, NULL},
 };
 
 static const builtin *builtin_find(const char *name)
 {
-    for (size_t i = 0; i < sizeof builtins / sizeof builtins[0]; i++)
-        if (strcmp(builtins[i].name, name) == 0)
-            return &builtins[i];
+    const builtin *tables[] = {builtins_core, builtins_series};
+    for (size_t t = 0; t < sizeof tables / sizeof tables[0]; t++)
+        for (const builtin *b = tables[t]; b->name; b++)
+            if (strcmp(b->name, name) == 0)
+                return b;
     return NULL;
 }
 
@@ -183,7 +207,7 @@ int builtin_call(interp *I, scope *s, const node *call, value **result)
         if (!(args[i] = eval_expr(I, s, call->list->items[i])))
             break;
     if (i == b->nargs)
-        *result = b->fn(I, s, call, args);
+        *result = b->fn(I, call, args);
     for (int j = 0; j < b->nargs; j++)
         value_release(args[j]);
     return 1;

@@ -3,8 +3,10 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "cancel.h"
 #include "diag.h"
 #include "interp.h"
+#include "series_ops.h"
 #include "util.h"
 
 /* Exponents and factorial arguments beyond these would not fit in memory. */
@@ -15,6 +17,14 @@ static value *eval_fail(const node *n, const char *msg)
 {
     diag_error(&n->loc, "%s", msg);
     return NULL;
+}
+
+int eval_cancelled(const node *n)
+{
+    if (!cancel_flag)
+        return 0;
+    diag_error(&n->loc, "%s", cancel_message());
+    return 1;
 }
 
 static value *eval_number(interp *I, const node *n)
@@ -100,9 +110,24 @@ int eval_slong(interp *I, scope *s, const node *n, const char *what, slong lo, s
     return ok;
 }
 
+/* xs[i] for a list: 1-based, like the mathematics it transcribes. */
+static value *eval_list_index(interp *I, scope *s, const node *n, const value *list)
+{
+    slong i;
+    if (!eval_slong(I, s, n->a, "list index", 1, &i))
+        return NULL;
+    if (i > list->len) {
+        diag_error(&n->a->loc, "index %ld is past the end of a list of length %ld", (long)i, (long)list->len);
+        return NULL;
+    }
+    return value_ref(list->items[i - 1]);
+}
+
 static value *eval_indexed(interp *I, scope *s, const node *n)
 {
     binding *b = scope_lookup(s, n->text);
+    if (b && b->kind == B_VALUE && b->val->kind == V_LIST)
+        return eval_list_index(I, s, n, b->val);
     if (!b || b->kind != B_FAMILY) {
         char *msg = b && b->kind == B_FUNCTION
                         ? xasprintf("'%s' is a function: call it as %s(...)", n->text, n->text)
@@ -141,14 +166,18 @@ static value *eval_neg(interp *I, scope *s, const node *n)
     value *a = eval_expr(I, s, n->a);
     if (!a)
         return NULL;
-    if (a->kind == V_STR) {
+    if (a->kind == V_STR || a->kind == V_LIST) {
         value_release(a);
-        return eval_fail(n, "cannot negate a string");
+        return eval_fail(n, a->kind == V_STR ? "cannot negate a string" : "cannot negate a list");
     }
     value *r;
     if (a->kind == V_NUM) {
         r = value_new_num(&I->ring);
         fmpq_mpoly_neg(r->num, a->num, I->ring.ctx);
+    } else if (a->kind == V_SERIES) {
+        value *m = value_new_si(&I->ring, -1);
+        r = series_arith(I, n, '*', m, a);
+        value_release(m);
     } else {
         value *m = value_new_si(&I->ring, -1);
         r = value_new_class(cx_mul(value_to_class(m), value_to_class(a)), &I->ring);
@@ -212,8 +241,10 @@ static value *eval_pow(interp *I, scope *s, const node *n, value *a)
         return NULL;
     if (a->kind == V_NUM)
         return eval_pow_num(I, n, a, e);
-    if (a->kind == V_STR)
-        return eval_fail(n, "cannot raise a string to a power");
+    if (a->kind == V_SERIES)
+        return series_pow(I, n, a, e);
+    if (a->kind == V_STR || a->kind == V_LIST)
+        return eval_fail(n, "only numbers, classes and series have powers");
     return value_new_class(cx_pow(value_to_class(a), e, n), &I->ring);
 }
 
@@ -288,6 +319,10 @@ static value *eval_binop(interp *I, scope *s, const node *n)
     value *r = NULL;
     if (b && (a->kind == V_STR || b->kind == V_STR))
         eval_fail(n, "arithmetic on strings is not defined");
+    else if (b && (a->kind == V_LIST || b->kind == V_LIST))
+        eval_fail(n, "arithmetic on lists is not defined (build a new list with seq[i = a..b] E)");
+    else if (b && (a->kind == V_SERIES || b->kind == V_SERIES))
+        r = series_arith(I, n, n->op, a, b);
     else if (b && a->kind == V_NUM && b->kind == V_NUM)
         r = eval_arith_num(I, n, a, b);
     else if (b)
@@ -358,18 +393,42 @@ static value *eval_factorial(interp *I, scope *s, const node *n)
     return r;
 }
 
+int eval_truth(interp *I, scope *s, const node *n, int *truth)
+{
+    value *c = eval_expr(I, s, n);
+    if (!c)
+        return 0;
+    int ok = c->kind == V_NUM;
+    if (ok)
+        *truth = !fmpq_mpoly_is_zero(c->num, I->ring.ctx);
+    else
+        eval_fail(n, "a condition must be a number (0 is false)");
+    value_release(c);
+    return ok;
+}
+
 static value *eval_if(interp *I, scope *s, const node *n)
 {
-    value *c = eval_expr(I, s, n->a);
-    if (!c)
+    int truth;
+    if (!eval_truth(I, s, n->a, &truth))
         return NULL;
-    if (c->kind != V_NUM) {
-        value_release(c);
-        return eval_fail(n->a, "a condition must be a number (0 is false)");
-    }
-    int truth = !fmpq_mpoly_is_zero(c->num, I->ring.ctx);
-    value_release(c);
     return eval_expr(I, s, truth ? n->b : n->c);
+}
+
+/* and / or evaluate their right operand only when it decides the result. */
+static value *eval_logic(interp *I, scope *s, const node *n)
+{
+    int a, b = 0;
+    if (!eval_truth(I, s, n->a, &a))
+        return NULL;
+    if (n->op == '~')
+        return value_new_si(&I->ring, !a);
+    if ((n->op == '&' && a) || (n->op == '|' && !a)) {
+        if (!eval_truth(I, s, n->b, &b))
+            return NULL;
+        return value_new_si(&I->ring, b);
+    }
+    return value_new_si(&I->ring, a);
 }
 
 /* Collects the multi-index of a correlator; returns its length or -1. */
@@ -416,10 +475,50 @@ static value *eval_integral(interp *I, scope *s, const node *n)
     value *c = eval_expr(I, s, n->c);
     if (!c)
         return NULL;
-    value *r = c->kind == V_STR ? eval_fail(n->c, "cannot integrate a string")
+    value *r = c->kind == V_STR || c->kind == V_LIST || c->kind == V_SERIES
+                   ? eval_fail(n->c, "int[g, n] integrates a class expression or a number")
                                 : integrate_value(I, n, g, npts, c);
     value_release(c);
     return r;
+}
+
+/* Lists longer than this would not fit in memory anyway. */
+#define EVAL_MAX_LIST 100000000
+
+static value *eval_list(interp *I, scope *s, const node *n)
+{
+    value *v = value_new_list(n->list->len, &I->ring);
+    for (slong i = 0; i < v->len; i++)
+        if (!(v->items[i] = eval_expr(I, s, n->list->items[i]))) {
+            value_release(v);
+            return NULL;
+        }
+    return v;
+}
+
+/* seq[i = a..b] body: the list of the values of body. */
+static value *eval_seq(interp *I, scope *s, const node *n, slong lo, slong hi)
+{
+    if (hi - lo + 1 > EVAL_MAX_LIST) {
+        diag_error(&n->loc, "a list of %ld items is too long (limit %d)", (long)(hi - lo + 1), EVAL_MAX_LIST);
+        return NULL;
+    }
+    value *v = value_new_list(hi >= lo ? hi - lo + 1 : 0, &I->ring);
+    for (slong i = lo; i <= hi; i++) {
+        if (eval_cancelled(n)) {
+            value_release(v);
+            return NULL;
+        }
+        scope *body = scope_new(s);
+        scope_bind_value(body, n->text, value_new_si(&I->ring, i));
+        v->items[i - lo] = eval_expr(I, body, n->c);
+        scope_free(body);
+        if (!v->items[i - lo]) {
+            value_release(v);
+            return NULL;
+        }
+    }
+    return v;
 }
 
 /* sum[i = a..b] body and prod[i = a..b] body, each term in a fresh scope. */
@@ -429,17 +528,26 @@ static value *eval_sum(interp *I, scope *s, const node *n)
     if (!eval_slong(I, s, n->a, "range start", WORD_MIN / 2, &lo)
         || !eval_slong(I, s, n->b, "range end", WORD_MIN / 2, &hi))
         return NULL;
+    if (n->op == 'L')
+        return eval_seq(I, s, n, lo, hi);
     node op = *n;
     op.kind = N_BINOP;
+    op.a = op.b = NULL;
     value *acc = value_new_si(&I->ring, n->op == '*');
     for (slong i = lo; acc && i <= hi; i++) {
+        if (eval_cancelled(n)) {
+            value_release(acc);
+            return NULL;
+        }
         scope *body = scope_new(s);
         scope_bind_value(body, n->text, value_new_si(&I->ring, i));
         value *t = eval_expr(I, body, n->c);
         scope_free(body);
         value *next = NULL;
-        if (t && t->kind == V_STR)
-            eval_fail(n->c, "cannot add or multiply strings");
+        if (t && (t->kind == V_STR || t->kind == V_LIST))
+            eval_fail(n->c, "sum and prod need numbers, classes or series");
+        else if (t && (acc->kind == V_SERIES || t->kind == V_SERIES))
+            next = series_arith(I, &op, op.op, acc, t);
         else if (t)
             next = acc->kind == V_NUM && t->kind == V_NUM ? eval_arith_num(I, &op, acc, t)
                                                           : eval_arith_class(I, &op, acc, t);
@@ -459,6 +567,8 @@ static value *eval_user_call(interp *I, scope *s, const node *n, const node *def
         free(msg);
         return NULL;
     }
+    if (eval_cancelled(n))
+        return NULL;
     if (I->depth >= I->lim.max_depth) {
         char *msg = xasprintf("calls nested more than %d deep (endless recursion? raise with --max-depth)",
                               I->lim.max_depth);
@@ -532,8 +642,14 @@ value *eval_expr(interp *I, scope *s, const node *n)
         return eval_integral(I, s, n);
     case N_IF:
         return eval_if(I, s, n);
+    case N_LOGIC:
+        return eval_logic(I, s, n);
     case N_SUM:
         return eval_sum(I, s, n);
+    case N_SPEC:
+        return specialise_value(I, s, n);
+    case N_LIST:
+        return eval_list(I, s, n);
     default:
         return eval_fail(n, "not an expression");
     }

@@ -2,6 +2,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "cancel.h"
 #include "diag.h"
 #include "interp.h"
 #include "parse.h"
@@ -13,6 +14,7 @@ void interp_init(interp *I)
     scalar_ring_init(&I->ring);
     I->globals = scope_new(NULL);
     I->wk = wk_table_new();
+    wk_table_set_cancel(I->wk, &cancel_flag);
     keymap_init(&I->integrals);
     I->lim.max_terms = 2e7;
     I->lim.max_table = 3e7;
@@ -33,6 +35,14 @@ void interp_clear(interp *I)
     }
     free(I->programs);
     free(I->sources);
+    for (int i = 0; i < I->nsearch; i++)
+        free(I->search[i]);
+    for (int i = 0; i < I->nloaded; i++)
+        free(I->loaded[i]);
+    free(I->search);
+    free(I->loaded);
+    free(I->loading);
+    free(I->loading_names);
     scalar_ring_clear(&I->ring);
 }
 
@@ -74,6 +84,8 @@ static int exec_for(interp *I, scope *s, const node *n)
         || !eval_slong(I, s, n->b, "loop end", WORD_MIN / 2, &hi))
         return 0;
     for (slong i = lo; i <= hi; i++) {
+        if (eval_cancelled(n))
+            return 0;
         scope *body = scope_new(s);
         scope_bind_value(body, n->text, value_new_si(&I->ring, i));
         int ok = exec_block(I, body, n->list);
@@ -130,8 +142,10 @@ static int exec_var(interp *I, scope *s, const node *n)
 static int exec_explain(interp *I, scope *s, const node *n)
 {
     const node *e = n->a;
+    if (e->kind == N_SPEC)
+        return specialise_explain(I, s, e);
     if (e->kind != N_INTEGRAL) {
-        diag_error(&e->loc, "explain takes an integral int[g, n] C");
+        diag_error(&e->loc, "explain takes an integral int[g, n] C or a specialisation F[g] with ...");
         return 0;
     }
     slong g, npts;
@@ -149,6 +163,21 @@ static int exec_explain(interp *I, scope *s, const node *n)
         return 0;
     fputs("  = ", I->out);
     return exec_print_value(I, v, "\n");
+}
+
+/* if C { ... } else { ... }: each block runs in its own scope, like a loop body. */
+static int exec_if(interp *I, scope *s, const node *n)
+{
+    int truth;
+    if (!eval_truth(I, s, n->a, &truth))
+        return 0;
+    const node_list *body = truth ? n->list : n->b ? n->b->list : NULL;
+    if (!body)
+        return 1;
+    scope *inner = scope_new(s);
+    int ok = exec_block(I, inner, body);
+    scope_free(inner);
+    return ok;
 }
 
 int exec_stmt(interp *I, scope *s, const node *n)
@@ -171,6 +200,10 @@ int exec_stmt(interp *I, scope *s, const node *n)
         return exec_var(I, s, n);
     case S_EXPLAIN:
         return exec_explain(I, s, n);
+    case S_LOAD:
+        return exec_load(I, n);
+    case S_IF:
+        return exec_if(I, s, n);
     case S_EXPR:
         if (I->explain_all && n->a->kind == N_INTEGRAL) {
             node e = *n;
@@ -218,20 +251,18 @@ void interp_install_abort_handler(void)
 static int exec_program(interp *I, const node_list *program)
 {
     jmp_buf jb;
-    volatile int i = 0;
+    jmp_buf *outer = exec_recover_point;
+    volatile int i = 0, ok = 1;
     exec_recover_point = &jb;
     if (setjmp(jb)) {
         diag_error(&program->items[i]->loc, "internal arithmetic error inside FLINT; the statement was stopped");
-        exec_recover_point = NULL;
+        exec_recover_point = outer;
         return 0;
     }
-    for (; i < program->len; i++)
-        if (!exec_stmt(I, I->globals, program->items[i])) {
-            exec_recover_point = NULL;
-            return 0;
-        }
-    exec_recover_point = NULL;
-    return 1;
+    for (; ok && i < program->len; i++)
+        ok = exec_stmt(I, I->globals, program->items[i]);
+    exec_recover_point = outer;
+    return ok;
 }
 
 /* Syntax errors are held back until the statements before them have run,

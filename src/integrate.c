@@ -6,6 +6,7 @@
 
 #include "classes/cpoly.h"
 #include "correlators/pushforward.h"
+#include "cancel.h"
 #include "diag.h"
 #include "format/print.h"
 #include "interp.h"
@@ -40,9 +41,14 @@ static int integrate_table_ok(interp *I, const node *where, slong g, slong n)
     return 0;
 }
 
+/* Returned by the integration callbacks when a stop was requested. */
+#define INTEGRATE_CANCELLED (-1)
+
 static void integrate_report_engine(const node *where, int rc)
 {
-    if (rc == WK_LIMIT)
+    if (rc == INTEGRATE_CANCELLED || rc == WK_CANCELLED || cancel_flag)
+        eval_cancelled(where);
+    else if (rc == WK_LIMIT)
         diag_error(&where->loc, "the correlator table reached its size limit (raise it with --max-table N)");
     else
         diag_error(&where->loc, "the intersection engine rejected this request (code %d)", rc);
@@ -65,6 +71,11 @@ value *integrate_correlator(interp *I, const node *where, slong g, const slong *
 /* Expands integrand on Mbar_{g,n}, reporting errors at the responsible node. */
 static int integrate_expand(cpoly *P, const node *where, const value *integrand)
 {
+    if (integrand->kind != V_NUM && integrand->kind != V_CLASS) {
+        diag_error(&where->loc, "int[g, n] integrates a class expression or a number, not a %s",
+                   value_kind_name(integrand));
+        return 0;
+    }
     cx *c = value_to_class(integrand);
     const cx *bad = NULL;
     int rc = cpoly_expand(P, c, &bad);
@@ -125,6 +136,8 @@ static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi,
                               slong kmax)
 {
     interp *I = data;
+    if (cancel_flag)
+        return INTEGRATE_CANCELLED;
     slong len = 2 + n + kmax;
     slong *key = xmalloc((len + 1) * sizeof(slong));
     key[0] = g;
@@ -299,4 +312,142 @@ int integrate_explain(interp *I, const node *where, slong g, slong n, const valu
     }
     cpoly_clear(&P);
     return ok;
+}
+
+/* Coefficient of L^{2 alpha} pi^{2(D-m)} in V_{g,n}(L), m = |alpha|:
+   2^{D-m}/(D-m)! * int psi^alpha kappa_1^{D-m} / (2^m prod alpha_i!).
+   Memoised on the sorted alpha, since V_{g,n} is symmetric. */
+static int volume_coeff(fmpq_t c, interp *I, keymap *memo, slong g, slong n, const slong *alpha)
+{
+    slong *key = xmalloc((n + 1) * sizeof(slong));
+    memcpy(key, alpha, n * sizeof(slong));
+    for (slong i = 1; i < n; i++)
+        for (slong j = i; j > 0 && key[j - 1] < key[j]; j--) {
+            slong t = key[j];
+            key[j] = key[j - 1];
+            key[j - 1] = t;
+        }
+    const fmpq *hit = keymap_get(memo, key, n);
+    int rc = WK_OK;
+    if (hit) {
+        fmpq_set(c, hit);
+    } else {
+        slong D = 3 * g - 3 + n, m = 0, kmult[2];
+        for (slong i = 0; i < n; i++)
+            m += key[i];
+        kmult[0] = 0;
+        kmult[1] = D - m;
+        rc = integrate_monomial(c, I, g, key, n, kmult, D - m > 0 ? 1 : 0);
+        fmpz_t f;
+        fmpz_init(f);
+        fmpz_fac_ui(f, (ulong)(D - m));
+        fmpq_div_fmpz(c, c, f);
+        fmpq_mul_2exp(c, c, (ulong)(D - m));
+        fmpq_div_2exp(c, c, (ulong)m);
+        for (slong i = 0; i < n; i++) {
+            fmpz_fac_ui(f, (ulong)key[i]);
+            fmpq_div_fmpz(c, c, f);
+        }
+        fmpz_clear(f);
+        if (rc == WK_OK)
+            keymap_set(memo, key, n, c);
+    }
+    free(key);
+    return rc;
+}
+
+typedef struct {
+    interp *I;
+    keymap memo;
+    slong g, n, D;
+    const int *vars;       /* ring index of L_1..L_n */
+    slong *alpha;
+    ulong *exps;
+    fmpq_mpoly_struct *res;
+    fmpq_t c;
+} volume_walk;
+
+/* Visits every alpha with |alpha| <= D, adding its term to the result. */
+static int volume_visit(volume_walk *W, slong i, slong left)
+{
+    if (i == W->n) {
+        int rc = volume_coeff(W->c, W->I, &W->memo, W->g, W->n, W->alpha);
+        if (rc != WK_OK || fmpq_is_zero(W->c))
+            return rc;
+        memset(W->exps, 0, SCALAR_MAX_VARS * sizeof(ulong));
+        for (slong k = 0; k < W->n; k++)
+            W->exps[W->vars[k]] = 2 * (ulong)W->alpha[k];
+        W->exps[SCALAR_PI] = 2 * (ulong)left;
+        fmpq_mpoly_set_coeff_fmpq_ui(W->res, W->c, W->exps, W->I->ring.ctx);
+        return WK_OK;
+    }
+    for (slong a = 0; a <= left; a++) {
+        W->alpha[i] = a;
+        int rc = volume_visit(W, i + 1, left - a);
+        if (rc != WK_OK)
+            return rc;
+    }
+    return WK_OK;
+}
+
+/* Declares L_1..L_n (reusing existing ones) and records their ring indices. */
+static int volume_declare(interp *I, const node *where, slong n, int *vars)
+{
+    for (slong i = 0; i < n; i++) {
+        char name[32];
+        snprintf(name, sizeof name, "L_%ld", (long)(i + 1));
+        vars[i] = scalar_ring_declare(&I->ring, name);
+        if (vars[i] < 0) {
+            diag_error(&where->loc, "not enough formal variables left for L_1..L_%ld", (long)n);
+            return 0;
+        }
+    }
+    return 1;
+}
+
+value *integrate_volume(interp *I, const node *where, slong g, slong n)
+{
+    if (!integrate_space_ok(I, where, g, n))
+        return NULL;
+    slong D = 3 * g - 3 + n;
+    fmpz_t terms;
+    fmpz_init(terms);
+    fmpz_bin_uiui(terms, (ulong)(D + n), (ulong)n);
+    int small = fmpz_cmp_si(terms, I->lim.max_class_terms) <= 0;
+    if (!small)
+        diag_error(&where->loc, "V_{%ld,%ld}(L) has about %.3g terms, above the limit of %ld (raise it with --max-terms N)",
+                   (long)g, (long)n, fmpz_get_d(terms), (long)I->lim.max_class_terms);
+    fmpz_clear(terms);
+    if (!small || n > SCALAR_MAX_VARS - 1 || !integrate_table_ok(I, where, g, n + D))
+        return NULL;
+    int *vars = xmalloc((n + 1) * sizeof(int));
+    value *r = NULL;
+    if (volume_declare(I, where, n, vars)) {
+        r = value_new_num(&I->ring);
+        volume_walk W;
+        W.I = I;
+        W.g = g;
+        W.n = n;
+        W.D = D;
+        W.vars = vars;
+        W.alpha = xcalloc(n + 1, sizeof(slong));
+        W.exps = xcalloc(SCALAR_MAX_VARS, sizeof(ulong));
+        W.res = r->num;
+        keymap_init(&W.memo);
+        fmpq_init(W.c);
+        int rc = volume_visit(&W, 0, D);
+        fmpq_clear(W.c);
+        keymap_clear(&W.memo);
+        free(W.alpha);
+        free(W.exps);
+        if (rc != WK_OK) {
+            integrate_report_engine(where, rc);
+            value_release(r);
+            r = NULL;
+        } else {
+            r->termwise = 1;
+        }
+    }
+    free(vars);
+    return r;
 }

@@ -35,6 +35,13 @@ typedef struct interp {
     node_list **programs;    /* kept alive: function bodies point into them */
     source **sources;
     int nprograms;
+    char **search;           /* --lib folders for load */
+    int nsearch;
+    char **loading;          /* canonical paths of scripts being loaded (a stack) */
+    char **loading_names;    /* the same scripts as their paths were written, for messages */
+    int nloading;
+    char **loaded;           /* scripts already loaded, not loaded again */
+    int nloaded;
 } interp;
 
 void interp_init(interp *I);
@@ -47,18 +54,34 @@ void interp_clear(interp *I);
    error have printed their results. */
 int interp_run_source(interp *I, source *src);
 
+/* Adds a folder to the search path of load (copied). */
+void interp_add_search_dir(interp *I, const char *dir);
+/* load "file" (load.c). */
+int exec_load(interp *I, const node *n);
+
+/* Reports a pending interrupt or timeout at n and returns 1; 0 when none. */
+int eval_cancelled(const node *n);
+
 /* Evaluation entry points shared by the statement executor and builtins. */
 value *eval_expr(interp *I, scope *s, const node *n);
 /* Evaluates n as an integer >= lo; reports an error naming `what` otherwise. */
 int eval_slong(interp *I, scope *s, const node *n, const char *what, slong lo, slong *out);
 int exec_stmt(interp *I, scope *s, const node *n);
+/* Evaluates n as a condition (a number; nonzero is true); 0 after an error. */
+int eval_truth(interp *I, scope *s, const node *n, int *truth);
 
 /* int[g,n] of a value (integrate.c). `where` locates errors. */
 value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand);
 /* Prints the psi-only reduction of int[g,n] integrand, then its value. */
 int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand);
+/* V_{g,n}(L_1..L_n) in Mirzakhani's normalisation, declaring L_1..L_n. */
+value *integrate_volume(interp *I, const node *where, slong g, slong n);
 /* <tau_d>_g with the same limits and messages as integrals. */
 value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n);
+
+/* F[g] with ..., order x^N (specialise.c): the series, or its plan printed. */
+value *specialise_value(interp *I, scope *s, const node *n);
+int specialise_explain(interp *I, scope *s, const node *n);
 
 /* Builtin functions (builtins.c): returns 1 and sets *result when name is a
    builtin (result NULL after an error was reported), 0 when it is not. */

@@ -4,38 +4,47 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "cancel.h"
 #include "interp.h"
+#include "memory.h"
 #include "source.h"
 
 #define PSIKAPPA_VERSION "0.1.0"
+
+enum { EXIT_SCRIPT_ERROR = 1, EXIT_USAGE = 2 };
 
 static void main_usage(FILE *out)
 {
     fputs("usage: psikappa [options] [script.pk ...]\n"
           "       psikappa [options] -e CODE [-e CODE ...]\n"
           "\n"
-          "Exact intersection numbers of psi and kappa classes on Mbar_{g,n}.\n"
+          "Exact intersection numbers of psi and kappa classes on Mbar_{g,n}, Weil-Petersson\n"
+          "volumes and specialisations of the Witten-Kontsevich free energy.\n"
           "With no script and no -e, the program is read from standard input.\n"
           "\n"
           "options:\n"
-          "  -e CODE          run CODE (may be repeated; runs in order)\n"
-          "  --explain        print the psi-only reduction of every integral statement\n"
-          "  --max-terms N    refuse integrals reducing to more than N correlator terms\n"
-          "  --max-table N    refuse computations needing more than N memo entries\n"
-          "  --max-depth N    limit nesting of user-function calls\n"
-          "  -h, --help       show this help\n"
-          "  --version        show the version\n"
+          "  -e CODE            run CODE (may be repeated; everything runs in order, sharing definitions)\n"
+          "  --explain          print the psi-only reduction of every integral statement\n"
+          "  --lib DIR          add DIR to the folders searched by load \"file.pk\"\n"
+          "  --max-terms N      refuse integrals reducing to more than N correlator terms (default 2e7)\n"
+          "  --max-table N      refuse computations needing more than N memo entries (default 3e7)\n"
+          "  --max-depth N      limit nesting of user-function calls (default 2000)\n"
+          "  --max-memory GIB   cap the memory of the process at GIB gibibytes\n"
+          "  --time-limit S     stop after S seconds (exit status 124)\n"
+          "  -h, --help         show this help\n"
+          "  --version          show the version\n"
           "\n"
-          "exit status: 0 success, 1 error in a script, 2 bad command line\n",
+          "exit status: 0 success, 1 error in a script, 2 bad command line,\n"
+          "             124 time limit reached, 130 interrupted\n",
           out);
 }
 
-static int main_number_option(const char *opt, const char *arg, double *out)
+static int main_number(const char *opt, const char *arg, double *out)
 {
     char *end;
     errno = 0;
     double v = arg ? strtod(arg, &end) : 0;
-    if (!arg || errno || *end || v < 1) {
+    if (!arg || errno || *end || !(v > 0)) {
         fprintf(stderr, "psikappa: %s needs a positive number\n", opt);
         return 0;
     }
@@ -43,21 +52,48 @@ static int main_number_option(const char *opt, const char *arg, double *out)
     return 1;
 }
 
-/* Applies one option taking a value; returns 0 on a bad value. */
-static int main_limit_option(interp *I, const char *opt, const char *arg)
+typedef struct {
+    double time_limit;
+    int ran;       /* a script, -e, --help or --version was given */
+} main_state;
+
+/* Applies an option taking a value; returns 0 on a bad value. */
+static int main_valued_option(interp *I, main_state *M, const char *opt, const char *arg)
 {
     double v;
-    if (!main_number_option(opt, arg, &v))
+    if (strcmp(opt, "--lib") == 0) {
+        if (!arg)
+            fputs("psikappa: --lib needs a folder\n", stderr);
+        else
+            interp_add_search_dir(I, arg);
+        return arg != NULL;
+    }
+    if (!main_number(opt, arg, &v))
         return 0;
     if (strcmp(opt, "--max-terms") == 0) {
         I->lim.max_terms = v;
         I->lim.max_class_terms = v > 1e15 ? (slong)1e15 : (slong)v;
     } else if (strcmp(opt, "--max-table") == 0) {
         I->lim.max_table = v;
-    } else {
+    } else if (strcmp(opt, "--max-depth") == 0) {
         I->lim.max_depth = v > 1e6 ? 1000000 : (int)v;
+    } else if (strcmp(opt, "--max-memory") == 0) {
+        if (!memory_set_limit(v * 1073741824.0))
+            fputs("psikappa: warning: could not set the memory cap\n", stderr);
+    } else {
+        M->time_limit = v;
     }
     return 1;
+}
+
+static int main_is_valued(const char *a)
+{
+    static const char *opts[] = {"--max-terms", "--max-table", "--max-depth", "--max-memory", "--time-limit",
+                                 "--lib"};
+    for (size_t i = 0; i < sizeof opts / sizeof opts[0]; i++)
+        if (strcmp(a, opts[i]) == 0)
+            return 1;
+    return 0;
 }
 
 static int main_run_file(interp *I, const char *path)
@@ -65,57 +101,84 @@ static int main_run_file(interp *I, const char *path)
     source *src = source_read_file(path);
     if (!src) {
         fprintf(stderr, "psikappa: cannot read %s: %s\n", path, strerror(errno));
-        return 1;
+        return EXIT_SCRIPT_ERROR;
     }
     return interp_run_source(I, src);
 }
 
-static int main_is_limit(const char *a)
+static int main_run_code(interp *I, const char *code, int count)
 {
-    return strcmp(a, "--max-terms") == 0 || strcmp(a, "--max-table") == 0 || strcmp(a, "--max-depth") == 0;
+    char name[32];
+    snprintf(name, sizeof name, count > 1 ? "<-e#%d>" : "<-e>", count);
+    return interp_run_source(I, source_new(name, code, strlen(code)));
+}
+
+/* Options first pass: everything but the scripts, so that limits apply to all of them. */
+static int main_options(interp *I, main_state *M, int argc, char **argv)
+{
+    for (int i = 1; i < argc; i++) {
+        const char *a = argv[i];
+        if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
+            main_usage(stdout);
+            M->ran = 1;
+        } else if (strcmp(a, "--version") == 0) {
+            printf("psikappa %s\n", PSIKAPPA_VERSION);
+            M->ran = 1;
+        } else if (strcmp(a, "--explain") == 0) {
+            I->explain_all = 1;
+        } else if (main_is_valued(a)) {
+            if (!main_valued_option(I, M, a, i + 1 < argc ? argv[i + 1] : NULL))
+                return EXIT_USAGE;
+            i++;
+        } else if (strcmp(a, "-e") == 0) {
+            if (++i >= argc) {
+                fputs("psikappa: -e needs code\n", stderr);
+                return EXIT_USAGE;
+            }
+        } else if (a[0] == '-' && a[1] != '\0') {
+            fprintf(stderr, "psikappa: unknown option %s (see psikappa --help)\n", a);
+            return EXIT_USAGE;
+        }
+    }
+    return 0;
+}
+
+/* Second pass: runs -e code and scripts in the order given. */
+static int main_run(interp *I, main_state *M, int argc, char **argv)
+{
+    int status = 0, ecount = 0;
+    for (int i = 1; i < argc && status == 0; i++) {
+        const char *a = argv[i];
+        if (main_is_valued(a)) {
+            i++;
+        } else if (strcmp(a, "-e") == 0) {
+            status = main_run_code(I, argv[++i], ++ecount);
+            M->ran = 1;
+        } else if (a[0] != '-' || a[1] == '\0') {
+            status = main_run_file(I, a);
+            M->ran = 1;
+        }
+    }
+    if (status == 0 && !M->ran)
+        status = main_run_file(I, "-");
+    return status;
 }
 
 int main(int argc, char **argv)
 {
+    memory_install_hooks();
     interp I;
     interp_init(&I);
     interp_install_abort_handler();
-    int status = 0, ran = 0, ecount = 0;
-    for (int i = 1; i < argc && status == 0; i++) {
-        const char *a = argv[i];
-        if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
-            main_usage(stdout);
-            ran = 1;
-        } else if (strcmp(a, "--version") == 0) {
-            printf("psikappa %s\n", PSIKAPPA_VERSION);
-            ran = 1;
-        } else if (strcmp(a, "--explain") == 0) {
-            I.explain_all = 1;
-        } else if (main_is_limit(a)) {
-            status = main_limit_option(&I, a, i + 1 < argc ? argv[i + 1] : NULL) ? 0 : 2;
-            i++;
-        } else if (strcmp(a, "-e") == 0) {
-            if (i + 1 >= argc) {
-                fputs("psikappa: -e needs code\n", stderr);
-                status = 2;
-                break;
-            }
-            const char *code = argv[++i];
-            char name[32];
-            ecount++;
-            snprintf(name, sizeof name, ecount > 1 ? "<-e#%d>" : "<-e>", ecount);
-            status = interp_run_source(&I, source_new(name, code, strlen(code)));
-            ran = 1;
-        } else if (a[0] == '-' && a[1] != '\0') {
-            fprintf(stderr, "psikappa: unknown option %s (see psikappa --help)\n", a);
-            status = 2;
-        } else {
-            status = main_run_file(&I, a);
-            ran = 1;
-        }
+    main_state M = {0, 0};
+    int status = main_options(&I, &M, argc, argv);
+    if (status == 0) {
+        cancel_install(M.time_limit);
+        status = main_run(&I, &M, argc, argv);
+        if (status != 0 && cancel_flag)
+            status = cancel_exit_status();
     }
-    if (status == 0 && !ran)
-        status = main_run_file(&I, "-");
+    fflush(stdout);
     interp_clear(&I);
     flint_cleanup();
     return status;

@@ -137,6 +137,28 @@ static void scalar_put_numerator(strbuf *b, const fmpq_mpoly_t p, const fmpz_t d
     fmpq_clear(c);
 }
 
+char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    strbuf b;
+    strbuf_init(&b);
+    fmpq_mpoly_t t;
+    fmpq_mpoly_init(t, R->ctx);
+    slong len = fmpq_mpoly_length(p, R->ctx);
+    for (slong i = 0; i < len; i++) {
+        fmpq_mpoly_get_term(t, p, i, R->ctx);
+        char *s = scalar_get_str(t, R);
+        int neg = s[0] == '-';
+        if (i > 0)
+            strbuf_puts(&b, neg ? " - " : " + ");
+        strbuf_puts(&b, i > 0 && neg ? s + 1 : s);
+        free(s);
+    }
+    if (len == 0)
+        strbuf_putc(&b, '0');
+    fmpq_mpoly_clear(t, R->ctx);
+    return strbuf_take(&b);
+}
+
 char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R)
 {
     strbuf b;

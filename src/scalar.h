@@ -38,6 +38,10 @@ int scalar_is_pi_only(const fmpq_mpoly_t p, const scalar_ring *R);
    The caller frees the returned string. */
 char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R);
 
+/* Term by term, each a rational times a monomial: L_1^2/48 + pi^2/12.
+   The caller frees the string. */
+char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R);
+
 /* The monomial of term i of p as text (e.g. L_1^2*pi^2), "" for 1; the caller frees it. */
 char *scalar_monomial_str(const fmpq_mpoly_t p, slong i, const scalar_ring *R);
 

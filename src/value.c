@@ -3,6 +3,7 @@
 #include <stdlib.h>
 
 #include "format/print.h"
+#include "strbuf.h"
 #include "util.h"
 
 static value *value_alloc(value_kind kind, const scalar_ring *R)
@@ -51,6 +52,22 @@ value *value_new_str(char *s, const scalar_ring *R)
     return v;
 }
 
+value *value_new_series(slong var, slong order, const scalar_ring *R)
+{
+    value *v = value_alloc(V_SERIES, R);
+    v->ser = xmalloc(sizeof(tseries));
+    tseries_init(v->ser, var, order, R->ctx);
+    return v;
+}
+
+value *value_new_list(slong len, const scalar_ring *R)
+{
+    value *v = value_alloc(V_LIST, R);
+    v->items = xcalloc(len + 1, sizeof(value *));
+    v->len = len;
+    return v;
+}
+
 value *value_ref(value *v)
 {
     v->refs++;
@@ -65,6 +82,13 @@ void value_release(value *v)
         fmpq_mpoly_clear(v->num, v->ctx);
     cx_release(v->cls);
     free(v->str);
+    for (slong i = 0; i < v->len; i++)
+        value_release(v->items[i]);
+    free(v->items);
+    if (v->ser) {
+        tseries_clear(v->ser, v->ctx);
+        free(v->ser);
+    }
     free(v);
 }
 
@@ -79,17 +103,31 @@ char *value_get_str(const value *v, const scalar_ring *R)
 {
     switch (v->kind) {
     case V_NUM:
-        return scalar_get_str(v->num, R);
+        return v->termwise ? scalar_get_str_termwise(v->num, R) : scalar_get_str(v->num, R);
+    case V_SERIES:
+        return print_series(v->ser, R);
     case V_CLASS:
         return print_class(v->cls, R);
     case V_STR:
         return xstrdup(v->str);
+    case V_LIST: {
+        strbuf b;
+        strbuf_init(&b);
+        strbuf_putc(&b, '[');
+        for (slong i = 0; i < v->len; i++) {
+            char *s = value_get_str(v->items[i], R);
+            strbuf_printf(&b, "%s%s", i ? ", " : "", s);
+            free(s);
+        }
+        strbuf_putc(&b, ']');
+        return strbuf_take(&b);
+    }
     }
     return xstrdup("?");
 }
 
 const char *value_kind_name(const value *v)
 {
-    static const char *names[] = {"number", "class", "string"};
+    static const char *names[] = {"number", "class", "string", "series", "list"};
     return names[v->kind];
 }

@@ -8,8 +8,9 @@
 
 #include "classes/classexpr.h"
 #include "scalar.h"
+#include "series/tseries.h"
 
-typedef enum { V_NUM, V_CLASS, V_STR } value_kind;
+typedef enum { V_NUM, V_CLASS, V_STR, V_SERIES, V_LIST } value_kind;
 
 typedef struct value {
     value_kind kind;
@@ -17,6 +18,10 @@ typedef struct value {
     fmpq_mpoly_t num;                   /* V_NUM */
     cx *cls;                            /* V_CLASS, owned reference */
     char *str;                          /* V_STR, owned */
+    tseries *ser;                       /* V_SERIES, owned */
+    struct value **items;               /* V_LIST: owned references */
+    slong len;                          /* V_LIST: number of items */
+    int termwise;                       /* V_NUM: print term by term (rational * monomial) */
     const fmpq_mpoly_ctx_struct *ctx;   /* ring of num (not owned) */
 } value;
 
@@ -26,6 +31,11 @@ value *value_new_si(const scalar_ring *R, slong c);
 value *value_new_fmpq(const scalar_ring *R, const fmpq_t c);
 value *value_new_class(cx *c, const scalar_ring *R);   /* takes the reference c */
 value *value_new_str(char *s, const scalar_ring *R);   /* takes ownership of s */
+/* A zero series in variable var known to order `order`, to be filled by the caller. */
+value *value_new_series(slong var, slong order, const scalar_ring *R);
+
+/* A list of len items, each set by the caller (it owns the references it puts there). */
+value *value_new_list(slong len, const scalar_ring *R);
 
 value *value_ref(value *v);
 void value_release(value *v);

@@ -55,7 +55,7 @@ void pf_expansion_clear(pf_expansion *E)
 
 /* qsort comparator for descending slong order.
    Comparison without subtraction avoids overflow. */
-static int pf_cmp_desc(const void *x, const void *y)
+static int pf_cmp_slong_desc(const void *x, const void *y)
 {
     slong a = *(const slong *) x, b = *(const slong *) y;
     return (a < b) - (a > b);
@@ -192,7 +192,7 @@ static void pf_partition_multiplicity(fmpz_t c, const pf_enum *P, slong L)
 
 /* Turns the multiset partition blocks[0..L-1] into the term (-1)^{m-L} mult <tau_d prod tau_{b_B+1}>.
    Returns WK_LIMIT if the term budget is exceeded or memory runs out. */
-static int pf_emit(pf_expansion *E, pf_enum *P, slong L)
+static int pf_emit_partition(pf_expansion *E, pf_enum *P, slong L)
 {
     slong l, j, len = P->n;
     int st;
@@ -207,7 +207,7 @@ static int pf_emit(pf_expansion *E, pf_enum *P, slong L)
             b += P->kidx[j] * P->blocks[l * P->t + j];
         P->key[len++] = b + 1;
     }
-    qsort(P->key, (size_t) len, sizeof(slong), pf_cmp_desc);
+    qsort(P->key, (size_t) len, sizeof(slong), pf_cmp_slong_desc);
     fmpz_init(c);
     pf_partition_multiplicity(c, P, L);
     if ((P->m - L) % 2 != 0)
@@ -219,7 +219,7 @@ static int pf_emit(pf_expansion *E, pf_enum *P, slong L)
 
 /* Depth-first enumeration of all multiset partitions with an explicit level stack.
    Level L holds a block; when the remainder after it is empty the partition is emitted. */
-static int pf_enumerate(pf_expansion *E, pf_enum *P)
+static int pf_enumerate_partitions(pf_expansion *E, pf_enum *P)
 {
     slong L = 0, j, t = P->t;
     int st, empty;
@@ -237,7 +237,7 @@ static int pf_enumerate(pf_expansion *E, pf_enum *P)
             pf_block_first(P->blocks + L * t, Rn, beta, t);
             continue;
         }
-        st = pf_emit(E, P, L + 1);
+        st = pf_emit_partition(E, P, L + 1);
         if (st != WK_OK)
             return st;
         while (L >= 0 && !pf_block_next(P->blocks + L * t, P->rem + L * t, t))
@@ -349,10 +349,10 @@ int pf_expand(pf_expansion *E, slong g, const slong *d, slong n, const slong *km
     if (st == WK_OK && P.m == 0) {
         if (n > 0)
             memcpy(P.key, d, (size_t) n * sizeof(slong));
-        qsort(P.key, (size_t) n, sizeof(slong), pf_cmp_desc);
+        qsort(P.key, (size_t) n, sizeof(slong), pf_cmp_slong_desc);
         st = pf_term_append(E, P.numer, P.key, n);   /* numer = 1 here */
     } else if (st == WK_OK) {
-        st = pf_enumerate(E, &P);
+        st = pf_enumerate_partitions(E, &P);
     }
     pf_enum_clear(&P);
     if (st != WK_OK)

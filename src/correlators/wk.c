@@ -19,7 +19,7 @@
 #include <string.h>
 #include "wk_internal.h"
 
-static int wk_eval(wk_table *T, slong g, const slong *key, slong n, slong *idx);
+static int wk_eval_key(wk_table *T, slong g, const slong *key, slong n, slong *idx);
 
 /* Working data of one DVV step for <tau_{k+1} tau_S>_g (S sorted descending).
    All arrays live in one heap block owned by the step, keeping C stack frames small. */
@@ -77,6 +77,12 @@ void wk_table_set_limit(wk_table *T, slong max_entries)
 
 /* Number of memoised correlators.
    Returns 0 for NULL so callers can report sizes unconditionally. */
+void wk_table_set_cancel(wk_table *T, volatile sig_atomic_t *flag)
+{
+    if (T)
+        T->cancel = flag;
+}
+
 slong wk_table_entries(const wk_table *T)
 {
     return T == NULL ? 0 : T->len;
@@ -130,7 +136,7 @@ static int wk_compute_string(wk_table *T, slong g, const slong *key, slong n, fm
         for (j = i; j < m && key[j] == v; j++)
             ;
         buf[j - 1] = v - 1;          /* lowering the last copy keeps buf sorted */
-        st = wk_eval(T, g, buf, m, &idx);
+        st = wk_eval_key(T, g, buf, m, &idx);
         buf[j - 1] = v;
         if (st == WK_OK && idx >= 0)
             fmpz_addmul_ui(x, T->val + idx, (ulong) (2 * (2 * v + 1) * (j - i)));
@@ -145,7 +151,7 @@ static int wk_compute_string(wk_table *T, slong g, const slong *key, slong n, fm
 static int wk_compute_dilaton(wk_table *T, slong g, const slong *key, slong n, fmpz_t x)
 {
     slong idx;
-    int st = wk_eval(T, g, key, n - 1, &idx);
+    int st = wk_eval_key(T, g, key, n - 1, &idx);
     fmpz_zero(x);
     if (st == WK_OK && idx >= 0)
         fmpz_mul_ui(x, T->val + idx, (ulong) (6 * (2 * g - 3 + n)));
@@ -154,7 +160,7 @@ static int wk_compute_dilaton(wk_table *T, slong g, const slong *key, slong n, f
 
 /* DVV first sum: replace one d_j = v by v+k, coefficient 2(2v+1) times the multiplicity of v.
    Terms live at the same genus with one point fewer. */
-static int wk_dvv_first(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
+static int wk_dvv_sum_first(wk_table *T, wk_dvv_ctx *c, fmpz_t x)
 {
     slong i, idx, v;
     int st = WK_OK;
@@ -163,7 +169,7 @@ static int wk_dvv_first(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
         c->mul[i]--;                                 /* temporarily drop one copy of v */
         wk_key_from_counts(c->buf1, c->val, c->mul, c->p, v + c->k);
         c->mul[i]++;
-        st = wk_eval(T, c->g, c->buf1, c->ns, &idx);
+        st = wk_eval_key(T, c->g, c->buf1, c->ns, &idx);
         if (st == WK_OK && idx >= 0)
             fmpz_addmul_ui(x, T->val + idx, (ulong) (2 * (2 * v + 1) * c->mul[i]));
     }
@@ -172,7 +178,7 @@ static int wk_dvv_first(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
 
 /* DVV genus-reduction sum: 4 sum_{r+s=k-1} X_{g-1}(tau_r tau_s tau_S).
    The summand is symmetric in (r,s), so pairs r<s are counted once with weight 8. */
-static int wk_dvv_lower(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
+static int wk_dvv_sum_lower(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
 {
     slong r, s, idx, rs[2];
     int st = WK_OK;
@@ -183,7 +189,7 @@ static int wk_dvv_lower(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
         rs[0] = s;
         rs[1] = r;
         wk_key_merge(c->buf1, c->S, c->ns, rs, 2);
-        st = wk_eval(T, c->g - 1, c->buf1, c->ns + 2, &idx);
+        st = wk_eval_key(T, c->g - 1, c->buf1, c->ns + 2, &idx);
         if (st == WK_OK && idx >= 0)
             fmpz_addmul_ui(x, T->val + idx, r == s ? 4 : 8);
     }
@@ -192,7 +198,7 @@ static int wk_dvv_lower(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
 
 /* Advances the odometer a (0 <= a_i <= mul_i) over all sub-multisets I of S.
    Returns 0 after the last one (a is then back to all zeros). */
-static int wk_dvv_next_subset(const wk_dvv_ctx *c)
+static int wk_dvv_next_subset(wk_dvv_ctx *c)
 {
     slong i;
     for (i = 0; i < c->p; i++) {
@@ -207,7 +213,7 @@ static int wk_dvv_next_subset(const wk_dvv_ctx *c)
 
 /* Symmetry weight of the split term (r, I) versus its mirror (s, J): 0 = skip (mirror is counted),
    1 = self-mirror, 2 = counted for both.  Halves the work of the ordered split sum. */
-static int wk_dvv_split_weight(const wk_dvv_ctx *c, slong r, slong s)
+static int wk_dvv_get_split_weight(const wk_dvv_ctx *c, slong r, slong s)
 {
     slong i;
     if (r != s)
@@ -220,7 +226,7 @@ static int wk_dvv_split_weight(const wk_dvv_ctx *c, slong r, slong s)
 
 /* Adds w * prod_i C(mul_i, a_i) * X_{g1}(tau_r tau_I) * X_{g2}(tau_s tau_J) to x.
    Both factors are evaluated before either value is read, because evaluation may move T->val. */
-static int wk_dvv_split_term(wk_table *T, const wk_dvv_ctx *c, slong r, slong g1, int w, fmpz_t x)
+static int wk_dvv_add_split_term(wk_table *T, wk_dvv_ctx *c, slong r, slong g1, int w, fmpz_t x)
 {
     slong i, i1, i2, s = c->k - 1 - r, n1;
     int st;
@@ -231,9 +237,9 @@ static int wk_dvv_split_term(wk_table *T, const wk_dvv_ctx *c, slong r, slong g1
     wk_key_from_counts(c->buf2, c->val, c->a, c->p, s);
     for (i = 0; i < c->p; i++)
         c->a[i] = c->mul[i] - c->a[i];               /* restore I */
-    st = wk_eval(T, g1, c->buf1, n1, &i1);
+    st = wk_eval_key(T, g1, c->buf1, n1, &i1);
     if (st == WK_OK)
-        st = wk_eval(T, c->g - g1, c->buf2, c->ns + 2 - n1, &i2);
+        st = wk_eval_key(T, c->g - g1, c->buf2, c->ns + 2 - n1, &i2);
     if (st != WK_OK || i1 < 0 || i2 < 0)
         return st;
     fmpz_init(t);
@@ -252,7 +258,7 @@ static int wk_dvv_split_term(wk_table *T, const wk_dvv_ctx *c, slong r, slong g1
 
 /* DVV splitting sum over sub-multisets I of S (with binomial multiplicities, never 2^|S| subsets).
    For each I the genus g1 fixes r by degree: r = 3 g1 - 2 + |I| - sum(I). */
-static int wk_dvv_split(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
+static int wk_dvv_sum_split(wk_table *T, wk_dvv_ctx *c, fmpz_t x)
 {
     slong i, g1, sizeI, sumI, r;
     int st = WK_OK, w;
@@ -267,9 +273,9 @@ static int wk_dvv_split(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
                 continue;
             if ((g1 == 0 && sizeI < 2) || (g1 == c->g && c->ns - sizeI < 2))
                 continue;                            /* unstable factor: counts as zero */
-            w = wk_dvv_split_weight(c, r, c->k - 1 - r);
+            w = wk_dvv_get_split_weight(c, r, c->k - 1 - r);
             if (w > 0)
-                st = wk_dvv_split_term(T, c, r, g1, w, x);
+                st = wk_dvv_add_split_term(T, c, r, g1, w, x);
         }
     } while (st == WK_OK && wk_dvv_next_subset(c));
     return st;
@@ -277,7 +283,7 @@ static int wk_dvv_split(wk_table *T, const wk_dvv_ctx *c, fmpz_t x)
 
 /* Fills the distinct values / multiplicities of c->S and allocates the buffers in one block.
    Returns WK_OK or WK_LIMIT (out of memory); on success c->val must be freed by the caller. */
-static int wk_dvv_setup(wk_dvv_ctx *c)
+static int wk_dvv_init_ctx(wk_dvv_ctx *c)
 {
     slong i, p = 0, len = c->ns + 2;
     slong *blk = malloc((size_t) (3 * (c->ns + 1) + 2 * len) * sizeof(slong));
@@ -312,21 +318,21 @@ static int wk_compute_dvv(wk_table *T, slong g, const slong *key, slong n, fmpz_
     c.k = key[0] - 1;
     c.S = key + 1;
     c.ns = n - 1;
-    if (wk_dvv_setup(&c) != WK_OK)
+    if (wk_dvv_init_ctx(&c) != WK_OK)
         return WK_LIMIT;
     fmpz_zero(x);
-    st = wk_dvv_first(T, &c, x);
+    st = wk_dvv_sum_first(T, &c, x);
     if (st == WK_OK)
-        st = wk_dvv_lower(T, &c, x);
+        st = wk_dvv_sum_lower(T, &c, x);
     if (st == WK_OK)
-        st = wk_dvv_split(T, &c, x);
+        st = wk_dvv_sum_split(T, &c, x);
     free(c.val);
     return st;
 }
 
 /* X of a stable, degree-matching sorted key: base cases, else string, dilaton or DVV.
    The bases are <tau_0^3>_0 = 1 (X = 2) and <tau_1>_1 = 1/24 (X = 2^3 * 3!! / 24 = 1). */
-static int wk_compute(wk_table *T, slong g, const slong *key, slong n, fmpz_t x)
+static int wk_compute_key(wk_table *T, slong g, const slong *key, slong n, fmpz_t x)
 {
     if (g == 0 && n == 3) {
         fmpz_set_ui(x, 2);
@@ -345,7 +351,7 @@ static int wk_compute(wk_table *T, slong g, const slong *key, slong n, fmpz_t x)
 
 /* Memo lookup, computing and storing on a miss; *idx = -1 means the value is zero (unstable).
    Keys reaching here are sorted and degree-matching by construction of every caller. */
-static int wk_eval(wk_table *T, slong g, const slong *key, slong n, slong *idx)
+static int wk_eval_key(wk_table *T, slong g, const slong *key, slong n, slong *idx)
 {
     ulong h;
     int st;
@@ -357,8 +363,10 @@ static int wk_eval(wk_table *T, slong g, const slong *key, slong n, slong *idx)
     *idx = wk_memo_find(T, key, n, h);
     if (*idx >= 0)
         return WK_OK;
+    if (T->cancel && *T->cancel)
+        return WK_CANCELLED;
     fmpz_init(x);
-    st = wk_compute(T, g, key, n, x);
+    st = wk_compute_key(T, g, key, n, x);
     if (st == WK_OK)
         st = wk_memo_insert(T, key, n, h, x, idx);
     fmpz_clear(x);
@@ -399,7 +407,7 @@ static int wk_degree_matches(slong g, const slong *d, slong n)
 
 /* qsort comparator for descending slong order.
    Avoids subtraction so no overflow is possible. */
-static int wk_cmp_desc(const void *x, const void *y)
+static int wk_cmp_slong_desc(const void *x, const void *y)
 {
     slong a = *(const slong *) x, b = *(const slong *) y;
     return (a < b) - (a > b);
@@ -436,8 +444,8 @@ int wk_table_correlator(fmpq_t res, wk_table *T, slong g, const slong *d, slong 
         return WK_LIMIT;
     if (n > 0)
         memcpy(key, d, (size_t) n * sizeof(slong));
-    qsort(key, (size_t) n, sizeof(slong), wk_cmp_desc);
-    st = wk_eval(T, g, key, n, &idx);
+    qsort(key, (size_t) n, sizeof(slong), wk_cmp_slong_desc);
+    st = wk_eval_key(T, g, key, n, &idx);
     if (st == WK_OK && idx >= 0)
         wk_value_to_fmpq(res, T->val + idx, g, key, n);
     free(key);

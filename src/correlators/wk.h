@@ -12,6 +12,7 @@
 #ifndef PSIKAPPA_CORRELATORS_WK_H
 #define PSIKAPPA_CORRELATORS_WK_H
 
+#include <signal.h>
 #include <flint/fmpq.h>
 
 #ifdef __cplusplus
@@ -20,7 +21,7 @@ extern "C" {
 
 typedef struct wk_table wk_table;          /* opaque memo of <tau_d>_g */
 
-enum { WK_OK = 0, WK_UNSTABLE = 1, WK_BADARG = 2, WK_LIMIT = 3 };
+enum { WK_OK = 0, WK_UNSTABLE = 1, WK_BADARG = 2, WK_LIMIT = 3, WK_CANCELLED = 4 };
 
 /* Largest 2g-2+n accepted: bounds the recursion depth (each recursive step lowers 2g-2+n by at
    least one), so the engine cannot overflow the C stack.  Larger requests return WK_LIMIT. */
@@ -37,6 +38,10 @@ void wk_table_free(wk_table *T);
 /* Sets the maximum number of memo entries (0 = unlimited, negative treated as 0).
    A computation that would need more entries stops with WK_LIMIT; existing entries stay valid. */
 void wk_table_set_limit(wk_table *T, slong max_entries);
+
+/* Makes long computations poll *flag (e.g. set by a signal handler) and stop with
+   WK_CANCELLED once it is nonzero; NULL turns polling off. The flag is not owned. */
+void wk_table_set_cancel(wk_table *T, volatile sig_atomic_t *flag);
 
 /* Number of correlators currently memoised.
    Returns 0 for a NULL table. */

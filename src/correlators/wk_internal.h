@@ -19,6 +19,7 @@ typedef struct {
 
 struct wk_table {
     slong limit;               /* maximum number of entries, 0 = unlimited */
+    volatile sig_atomic_t *cancel;  /* polled before each new entry; not owned */
     slong len, alloc;          /* entries in use / allocated in ent and val */
     wk_entry *ent;
     fmpz *val;                 /* val[i] = X of entry i */

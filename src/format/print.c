@@ -1,6 +1,7 @@
 #include "print.h"
 
 #include <stdlib.h>
+#include <string.h>
 
 /* Binding strength of each kind, to decide where parentheses are needed. */
 static int print_level(const cx *e, const scalar_ring *R)
@@ -71,6 +72,37 @@ char *print_class(const cx *e, const scalar_ring *R)
     strbuf b;
     strbuf_init(&b);
     print_class_rec(&b, e, R);
+    return strbuf_take(&b);
+}
+
+char *print_series(const tseries *s, const scalar_ring *R)
+{
+    strbuf b;
+    strbuf_init(&b);
+    fmpq_mpoly_t c;
+    fmpq_mpoly_init(c, R->ctx);
+    const char *x = R->names[s->var] ? R->names[s->var] : "?";
+    int first = 1;
+    for (slong k = 0; k <= s->order; k++) {
+        tseries_coeff(c, s, k, R->ctx);
+        if (fmpq_mpoly_is_zero(c, R->ctx))
+            continue;
+        char *t = scalar_get_str(c, R);
+        int neg = t[0] == '-' && fmpq_mpoly_length(c, R->ctx) == 1;
+        const char *body = neg ? t + 1 : t;
+        strbuf_puts(&b, first ? (neg ? "-" : "") : (neg ? " - " : " + "));
+        int paren = fmpq_mpoly_length(c, R->ctx) > 1 && k > 0;
+        if (k == 0 || strcmp(body, "1") != 0)
+            strbuf_printf(&b, paren ? "(%s)%s" : "%s%s", body, k > 0 ? "*" : "");
+        if (k == 1)
+            strbuf_puts(&b, x);
+        else if (k > 1)
+            strbuf_printf(&b, "%s^%ld", x, (long)k);
+        free(t);
+        first = 0;
+    }
+    fmpq_mpoly_clear(c, R->ctx);
+    strbuf_printf(&b, "%sO(%s^%ld)", first ? "" : " + ", x, (long)(s->order + 1));
     return strbuf_take(&b);
 }
 

@@ -5,11 +5,15 @@
 #include <flint/flint.h>
 
 #include "../classes/classexpr.h"
+#include "../series/tseries.h"
 #include "../scalar.h"
 #include "../strbuf.h"
 
 /* e.g. exp(2*pi^2*kappa_1 + L_1^2/2*psi_1); the caller frees the result. */
 char *print_class(const cx *e, const scalar_ring *R);
+
+/* c0 + c1*x + ... + O(x^(N+1)); the caller frees the result. */
+char *print_series(const tseries *s, const scalar_ring *R);
 
 /* Appends <tau_2 tau_3^2>_g for a multi-index d sorted in descending order
    (printed ascending, equal entries shown as powers). */

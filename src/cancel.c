@@ -1,0 +1,44 @@
+#include "cancel.h"
+
+#include <string.h>
+#include <sys/time.h>
+
+volatile sig_atomic_t cancel_flag;
+
+static void cancel_on_signal(int sig)
+{
+    cancel_flag = sig == SIGALRM ? CANCEL_TIMEOUT : CANCEL_INTERRUPT;
+}
+
+void cancel_install(double seconds)
+{
+    struct sigaction sa;
+    memset(&sa, 0, sizeof sa);
+    sa.sa_handler = cancel_on_signal;
+    sigemptyset(&sa.sa_mask);
+    sigaction(SIGINT, &sa, NULL);
+    if (seconds <= 0)
+        return;
+    sigaction(SIGALRM, &sa, NULL);
+    struct itimerval t;
+    memset(&t, 0, sizeof t);
+    t.it_value.tv_sec = (time_t)seconds;
+    t.it_value.tv_usec = (suseconds_t)((seconds - (double)(time_t)seconds) * 1e6);
+    setitimer(ITIMER_REAL, &t, NULL);
+}
+
+void cancel_reset(void)
+{
+    cancel_flag = CANCEL_NONE;
+}
+
+int cancel_exit_status(void)
+{
+    return cancel_flag == CANCEL_TIMEOUT ? 124 : cancel_flag == CANCEL_INTERRUPT ? 130 : 1;
+}
+
+const char *cancel_message(void)
+{
+    return cancel_flag == CANCEL_TIMEOUT ? "time limit reached; the computation was stopped"
+                                         : "interrupted; the computation was stopped";
+}

@@ -1,0 +1,26 @@
+/* Interrupts (Ctrl-C) and the --time-limit timer. Signal handlers only set a
+   flag; long loops of the evaluator and the engine poll it and stop with a
+   clear message, so the output printed so far stays complete lines. */
+#ifndef PSIKAPPA_CANCEL_H
+#define PSIKAPPA_CANCEL_H
+
+#include <signal.h>
+
+enum { CANCEL_NONE = 0, CANCEL_INTERRUPT = 1, CANCEL_TIMEOUT = 2 };
+
+/* Nonzero (one of the CANCEL_ codes) once a stop was requested. */
+extern volatile sig_atomic_t cancel_flag;
+
+/* Installs the SIGINT handler, and a timer of `seconds` (0: none). */
+void cancel_install(double seconds);
+
+/* Clears a pending request (the interactive session does this after each input). */
+void cancel_reset(void);
+
+/* The exit status for the current request: 130 for an interrupt, 124 for a timeout. */
+int cancel_exit_status(void);
+
+/* The message for the current request. */
+const char *cancel_message(void);
+
+#endif

@@ -1,0 +1,120 @@
+/* load "file.pk": runs another script's statements in the global scope,
+   once per file. The file is looked up next to the script that loads it,
+   then along the search path (--lib DIR options, PSIKAPPA_PATH, and the
+   standard library shipped with psikappa). Cycles are reported with the
+   chain of loads that led to them. */
+#include <errno.h>
+#include <limits.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "diag.h"
+#include "interp.h"
+#include "util.h"
+
+#ifndef PSIKAPPA_STDLIB_DIR
+#define PSIKAPPA_STDLIB_DIR "lib"
+#endif
+
+void interp_add_search_dir(interp *I, const char *dir)
+{
+    I->search = xrealloc(I->search, (I->nsearch + 1) * sizeof(char *));
+    I->search[I->nsearch++] = xstrdup(dir);
+}
+
+/* Directory part of a path ("." when there is none); the caller frees it. */
+static char *load_dirname(const char *path)
+{
+    const char *slash = strrchr(path, '/');
+    if (!slash)
+        return xstrdup(".");
+    return xasprintf("%.*s", (int)(slash - path), path);
+}
+
+static char *load_try(const char *dir, const char *name)
+{
+    char *path = name[0] == '/' || strcmp(dir, ".") == 0 ? xstrdup(name) : xasprintf("%s/%s", dir, name);
+    if (access(path, R_OK) == 0)
+        return path;
+    free(path);
+    return NULL;
+}
+
+/* Finds name, first beside the loading script; NULL when nowhere. */
+static char *load_resolve(interp *I, const node *n)
+{
+    char *here = load_dirname(n->loc.src ? n->loc.src->name : ".");
+    char *path = load_try(here, n->text);
+    free(here);
+    for (int i = 0; !path && i < I->nsearch; i++)
+        path = load_try(I->search[i], n->text);
+    const char *env = getenv("PSIKAPPA_PATH");
+    if (!path && env) {
+        char *copy = xstrdup(env), *save = NULL;
+        for (char *d = strtok_r(copy, ":", &save); d && !path; d = strtok_r(NULL, ":", &save))
+            path = load_try(d, n->text);
+        free(copy);
+    }
+    if (!path)
+        path = load_try(PSIKAPPA_STDLIB_DIR, n->text);
+    return path;
+}
+
+static int load_index(char **list, int len, const char *path)
+{
+    for (int i = 0; i < len; i++)
+        if (strcmp(list[i], path) == 0)
+            return i;
+    return -1;
+}
+
+static void load_report_cycle(interp *I, const node *n, int from)
+{
+    diag_error(&n->loc, "load cycle: '%s' is already being loaded", n->text);
+    for (int i = from; i < I->nloading; i++)
+        diag_note(NULL, "  %s%s", I->loading_names[i], i + 1 < I->nloading ? " loads" : " loads it again");
+}
+
+static void load_push(char ***list, int *len, const char *path)
+{
+    *list = xrealloc(*list, (*len + 1) * sizeof(char *));
+    (*list)[(*len)++] = xstrdup(path);
+}
+
+int exec_load(interp *I, const node *n)
+{
+    char *found = load_resolve(I, n);
+    if (!found) {
+        diag_error(&n->loc, "cannot find '%s' (looked beside this script, in --lib folders, PSIKAPPA_PATH "
+                            "and %s)", n->text, PSIKAPPA_STDLIB_DIR);
+        return 0;
+    }
+    char real[PATH_MAX];
+    char *canon = realpath(found, real) ? xstrdup(real) : xstrdup(found);
+    int ok = 1, cycle = load_index(I->loading, I->nloading, canon);
+    if (cycle >= 0) {
+        load_report_cycle(I, n, cycle);
+        ok = 0;
+    } else if (load_index(I->loaded, I->nloaded, canon) < 0) {
+        source *src = source_read_file(found);
+        if (!src) {
+            diag_error(&n->loc, "cannot read '%s': %s", found, strerror(errno));
+            ok = 0;
+        } else {
+            int depth = I->nloading;
+            load_push(&I->loading_names, &depth, found);
+            load_push(&I->loading, &I->nloading, canon);
+            ok = interp_run_source(I, src) == 0;
+            free(I->loading[--I->nloading]);
+            free(I->loading_names[I->nloading]);
+            if (ok)
+                load_push(&I->loaded, &I->nloaded, canon);
+            else
+                diag_note(&n->loc, "in the script loaded here");
+        }
+    }
+    free(canon);
+    free(found);
+    return ok;
+}

@@ -1,0 +1,287 @@
+/* spec_eval.c - evaluation of a planned specialisation of F_g (see spec.h).
+ *
+ * The powers t_k^m/m! are computed once.  Walking the plan's enumeration tree, the product of
+ * the factors chosen so far is kept on a stack (one multiplication per tree node); each leaf adds
+ * <multiset>_g times the product.  When every used series is rational the whole computation runs
+ * on fmpq_poly (one conversion in, one out); otherwise on tseries with polynomial coefficients.
+ */
+#include <stdlib.h>
+#include <flint/fmpq_poly.h>
+#include "series/spec_internal.h"
+#include "series/tseries_internal.h"
+#include "util.h"
+
+typedef struct {
+    const spec_plan *P;
+    const fmpq_mpoly_ctx_struct *ctx;
+    wk_table *T;
+    slong len;                   /* coefficients kept: order' + 1 */
+    slong *mmax;                 /* highest power stored per k (-1: t_k unused) */
+    fmpq_t corr;
+    /* rational mode */
+    fmpq_poly_struct **qpow;     /* qpow[k][m] = t_k^m/m! */
+    fmpq_poly_struct *qstack;    /* running products by depth */
+    fmpq_poly_t qres, qtmp;
+    /* generic mode */
+    tseries **spow;
+    tseries *sstack;
+    tseries sres;
+    fmpq_mpoly_t stmp;
+} spec_eval;
+
+/* Highest power of t_k any multiset of the plan can use (-1 when t_k is not used).
+   From the dimension (k >= 2), the budget and the m_0 / m_1 bounds. */
+static slong spec_eval_mmax(const spec_plan *P, slong k)
+{
+    slong v = P->val[k], m;
+    if (!P->used[k])
+        return -1;
+    if (k == 0)
+        return P->m0max;
+    if (k == 1)
+        return P->m1max;
+    m = P->dmax / (k - 1);
+    return v > 0 ? FLINT_MIN(m, P->order / v) : m;
+}
+
+/* Checks the series that the plan reads: valid, one main variable, valuation not below plan.
+   Sets *var, *order (min of N and their orders) and *rational (all rational). */
+static int spec_eval_check(const spec_plan *P, const tseries *t, const fmpq_mpoly_ctx_t ctx,
+                           slong *var, slong *order, int *rational)
+{
+    slong k, v;
+    int first = 1;
+    *order = P->order;
+    *rational = 1;
+    for (k = 0; k <= P->max_k; k++) {
+        if (!P->used[k])
+            continue;
+        if (tseries_check(t + k, ctx) != TS_OK)
+            return SPEC_SERIES;
+        if (!first && t[k].var != *var)
+            return SPEC_MISMATCH;
+        *var = t[k].var, first = 0;
+        v = tseries_valuation(t + k, ctx);
+        if (v != -1 && v < P->val[k])
+            return SPEC_MISMATCH;
+        *order = FLINT_MIN(*order, t[k].order);
+        *rational = *rational && tseries_is_rational(t + k, ctx);
+    }
+    return SPEC_OK;
+}
+
+/* Rational mode, step: qstack[depth+1] = qstack[depth] * t_k^m/m!.
+   Never fails. */
+static int spec_eval_qstep(spec_walk *w, slong depth, slong k, slong m)
+{
+    spec_eval *E = w->data;
+    fmpq_poly_mullow(E->qstack + depth + 1, E->qstack + depth, E->qpow[k] + m, E->len);
+    return SPEC_OK;
+}
+
+/* Rational mode, leaf: qres += <d>_g * qstack[depth].
+   SPEC_WK when the correlator engine fails. */
+static int spec_eval_qleaf(spec_walk *w, slong depth)
+{
+    spec_eval *E = w->data;
+    if (wk_table_correlator(E->corr, E->T, E->P->g, w->d, w->n) != WK_OK)
+        return SPEC_WK;
+    fmpq_poly_scalar_mul_fmpq(E->qtmp, E->qstack + depth, E->corr);
+    fmpq_poly_add(E->qres, E->qres, E->qtmp);
+    return SPEC_OK;
+}
+
+/* Generic mode, step: sstack[depth+1] = sstack[depth] * t_k^m/m!.
+   SPEC_SERIES if the product fails. */
+static int spec_eval_sstep(spec_walk *w, slong depth, slong k, slong m)
+{
+    spec_eval *E = w->data;
+    if (tseries_mul(E->sstack + depth + 1, E->sstack + depth, E->spow[k] + m, E->ctx) != TS_OK)
+        return SPEC_SERIES;
+    return SPEC_OK;
+}
+
+/* Generic mode, leaf: sres += <d>_g * sstack[depth].
+   SPEC_WK when the correlator engine fails. */
+static int spec_eval_sleaf(spec_walk *w, slong depth)
+{
+    spec_eval *E = w->data;
+    if (wk_table_correlator(E->corr, E->T, E->P->g, w->d, w->n) != WK_OK)
+        return SPEC_WK;
+    fmpq_mpoly_scalar_mul_fmpq(E->stmp, E->sstack[depth].p, E->corr, E->ctx);
+    fmpq_mpoly_add(E->sres.p, E->sres.p, E->stmp, E->ctx);
+    return SPEC_OK;
+}
+
+/* Rational mode: qpow[k][0..mmax] from t_k truncated to len terms.
+   t_k must be rational (checked). */
+static void spec_eval_qpowers(spec_eval *E, const tseries *tk, slong k)
+{
+    slong m, mm = E->mmax[k];
+    fmpq_poly_t t;
+    fmpq_poly_init(t);
+    tseries_get_fmpq_poly(t, tk, E->ctx);
+    fmpq_poly_truncate(t, E->len);
+    E->qpow[k] = xmalloc((size_t) (mm + 1) * sizeof(fmpq_poly_struct));
+    for (m = 0; m <= mm; m++) {
+        fmpq_poly_init(E->qpow[k] + m);
+        if (m == 0)
+            fmpq_poly_one(E->qpow[k]);
+        else {
+            fmpq_poly_mullow(E->qpow[k] + m, E->qpow[k] + m - 1, t, E->len);
+            fmpq_poly_scalar_div_si(E->qpow[k] + m, E->qpow[k] + m, m);
+        }
+    }
+    fmpq_poly_clear(t);
+}
+
+/* Generic mode: spow[k][0..mmax] from t_k truncated to the common order.
+   Returns SPEC_OK or SPEC_SERIES. */
+static int spec_eval_spowers(spec_eval *E, const tseries *tk, slong k)
+{
+    slong m, mm = E->mmax[k];
+    fmpq_t inv;
+    int st = TS_OK;
+    fmpq_init(inv);
+    E->spow[k] = xmalloc((size_t) (mm + 1) * sizeof(tseries));
+    for (m = 0; m <= mm; m++) {
+        tseries_init(E->spow[k] + m, tk->var, E->len - 1, E->ctx);
+        if (m == 0)
+            fmpq_mpoly_one(E->spow[k][0].p, E->ctx);
+        else if (st == TS_OK) {
+            st = tseries_mul(E->spow[k] + m, E->spow[k] + m - 1, tk, E->ctx);
+            fmpq_set_si(inv, 1, m);
+            if (st == TS_OK)
+                st = tseries_scalar_mul_fmpq(E->spow[k] + m, E->spow[k] + m, inv, E->ctx);
+        }
+    }
+    fmpq_clear(inv);
+    return st == TS_OK ? SPEC_OK : SPEC_SERIES;
+}
+
+/* Allocates the evaluation state: power bounds per k, stacks (depth <= nparts + 2).
+   rational selects the mode; powers are filled by the caller. */
+static void spec_eval_init(spec_eval *E, const spec_plan *P, wk_table *T, slong var, slong order,
+                           int rational, const fmpq_mpoly_ctx_t ctx)
+{
+    slong k, depth = P->nparts + 3;
+    E->P = P, E->ctx = ctx, E->T = T, E->len = order + 1;
+    fmpq_init(E->corr);
+    E->mmax = xmalloc((size_t) (P->max_k + 1) * sizeof(slong));
+    for (k = 0; k <= P->max_k; k++)
+        E->mmax[k] = spec_eval_mmax(P, k);
+    E->qpow = rational ? xcalloc((size_t) (P->max_k + 1), sizeof(fmpq_poly_struct *)) : NULL;
+    E->spow = rational ? NULL : xcalloc((size_t) (P->max_k + 1), sizeof(tseries *));
+    E->qstack = rational ? xmalloc((size_t) depth * sizeof(fmpq_poly_struct)) : NULL;
+    E->sstack = rational ? NULL : xmalloc((size_t) depth * sizeof(tseries));
+    for (k = 0; k < depth; k++) {
+        if (rational)
+            fmpq_poly_init(E->qstack + k);
+        else
+            tseries_init(E->sstack + k, var, order, ctx);
+    }
+    if (rational)
+        fmpq_poly_one(E->qstack);
+    else
+        fmpq_mpoly_one(E->sstack[0].p, ctx);
+    fmpq_poly_init(E->qres), fmpq_poly_init(E->qtmp);
+    tseries_init(&E->sres, var, order, ctx);
+    fmpq_mpoly_init(E->stmp, ctx);
+}
+
+/* Releases the powers of one k in either mode.
+   Accepts k whose powers were never allocated. */
+static void spec_eval_clear_powers(spec_eval *E, slong k)
+{
+    slong m;
+    for (m = 0; m <= E->mmax[k]; m++) {
+        if (E->qpow != NULL && E->qpow[k] != NULL)
+            fmpq_poly_clear(E->qpow[k] + m);
+        if (E->spow != NULL && E->spow[k] != NULL)
+            tseries_clear(E->spow[k] + m, E->ctx);
+    }
+    if (E->qpow != NULL)
+        free(E->qpow[k]);
+    if (E->spow != NULL)
+        free(E->spow[k]);
+}
+
+/* Releases everything spec_eval_init and the power builders allocated.
+   E is unusable afterwards. */
+static void spec_eval_clear(spec_eval *E)
+{
+    slong k, depth = E->P->nparts + 3;
+    for (k = 0; k <= E->P->max_k; k++)
+        spec_eval_clear_powers(E, k);
+    for (k = 0; k < depth; k++) {
+        if (E->qstack != NULL)
+            fmpq_poly_clear(E->qstack + k);
+        if (E->sstack != NULL)
+            tseries_clear(E->sstack + k, E->ctx);
+    }
+    free(E->qstack), free(E->sstack), free(E->qpow), free(E->spow), free(E->mmax);
+    fmpq_poly_clear(E->qres), fmpq_poly_clear(E->qtmp);
+    tseries_clear(&E->sres, E->ctx);
+    fmpq_mpoly_clear(E->stmp, E->ctx);
+    fmpq_clear(E->corr);
+}
+
+/* Computes the powers, walks the plan and stores the sum in res (order len - 1).
+   Returns SPEC_OK or the first error. */
+static int spec_eval_run(tseries *res, spec_eval *E, const tseries *t, slong var, int rational)
+{
+    slong k;
+    int st = SPEC_OK;
+    for (k = 0; k <= E->P->max_k && st == SPEC_OK; k++)
+        if (E->mmax[k] >= 0) {
+            if (rational)
+                spec_eval_qpowers(E, t + k, k);
+            else
+                st = spec_eval_spowers(E, t + k, k);
+        }
+    if (st == SPEC_OK && E->P->dmax >= 0)
+        st = rational ? spec_walk_run(E->P, spec_eval_qstep, spec_eval_qleaf, E)
+                      : spec_walk_run(E->P, spec_eval_sstep, spec_eval_sleaf, E);
+    if (st != SPEC_OK)
+        return st;
+    res->var = var;
+    res->order = E->len - 1;
+    if (rational)
+        tseries_set_fmpq_poly(res, E->qres, E->ctx);
+    else
+        tseries_set_mpoly(res, E->sres.p, E->ctx);
+    return SPEC_OK;
+}
+
+/* Evaluation with a choice of path (allow_fast = 0 forces the generic one).
+   Contract of spec_plan_evaluate otherwise. */
+int spec_plan_evaluate_mode(tseries *res, const spec_plan *P, wk_table *T, const tseries *t,
+                            const fmpq_mpoly_ctx_t ctx, int allow_fast)
+{
+    spec_eval E;
+    slong var, order;
+    int rational, st;
+    if (res == NULL)
+        return SPEC_BADARG;
+    var = res->var;
+    if (P == NULL || T == NULL || (t == NULL && P->max_k >= 0))
+        st = SPEC_BADARG;
+    else
+        st = spec_eval_check(P, t, ctx, &var, &order, &rational);
+    if (st == SPEC_OK) {
+        spec_eval_init(&E, P, T, var, order, rational && allow_fast, ctx);
+        st = spec_eval_run(res, &E, t, var, rational && allow_fast);
+        spec_eval_clear(&E);
+    }
+    if (st != SPEC_OK)
+        tseries_set_error(res, var, ctx);
+    return st;
+}
+
+/* res = F_g at the times t (see spec.h).
+   Rational fast path when every used series is rational. */
+int spec_plan_evaluate(tseries *res, const spec_plan *P, wk_table *T, const tseries *t,
+                       const fmpq_mpoly_ctx_t ctx)
+{
+    return spec_plan_evaluate_mode(res, P, T, t, ctx, 1);
+}
