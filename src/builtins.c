@@ -3,7 +3,6 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "arb_compat.h"
 #include "builtins.h"
 #include "diag.h"
 #include "series_ops.h"
@@ -113,51 +112,15 @@ static value *builtin_denom(interp *I, const node *call, value **args)
     return builtin_part(I, call, args[0], 0);
 }
 
-/* Evaluates a polynomial in pi as a ball at the given precision. */
-static void builtin_arb_eval(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec)
-{
-    arb_t pi, t;
-    arb_init(pi);
-    arb_init(t);
-    arb_const_pi(pi, prec);
-    arb_zero(r);
-    fmpq_t c;
-    fmpq_init(c);
-    ulong exp[SCALAR_MAX_VARS];
-    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
-        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
-        fmpq_mpoly_get_term_exp_ui(exp, p, i, R->ctx);
-        arb_pow_ui(t, pi, exp[SCALAR_PI], prec);
-        arb_mul_fmpz(t, t, fmpq_numref(c), prec);
-        arb_div_fmpz(t, t, fmpq_denref(c), prec);
-        arb_add(r, r, t, prec);
-    }
-    fmpq_clear(c);
-    arb_clear(pi);
-    arb_clear(t);
-}
-
 /* decimal(x, digits): x to the given number of correct significant digits. */
 static value *builtin_decimal(interp *I, const node *call, value **args)
 {
     slong digits;
     if (args[0]->kind != V_NUM || !scalar_is_pi_only(args[0]->num, &I->ring))
         return builtin_fail(call->list->items[0], "decimal() needs a number (pi allowed, no formal variables)");
-    if (!builtin_get_slong(I, call, args, 1, 1, 1000000, &digits))
+    if (!builtin_get_slong(I, call, args, 1, 1, OUT_MAX_DIGITS, &digits))
         return NULL;
-    arb_t r;
-    arb_init(r);
-    slong want = (slong)(digits * 3.33) + 10;
-    for (slong prec = want + 30;; prec *= 2) {
-        builtin_arb_eval(r, args[0]->num, &I->ring, prec);
-        if (arb_is_exact(r) || arb_rel_accuracy_bits(r) >= want)
-            break;
-    }
-    char *t = arb_get_str(r, digits, ARB_STR_NO_RADIUS);
-    arb_clear(r);
-    value *v = value_new_str(xstrdup(t), &I->ring);
-    flint_free(t);
-    return v;
+    return value_new_str(out_decimal(args[0]->num, &I->ring, digits, 0), &I->ring);
 }
 
 static value *builtin_wpvolume(interp *I, const node *call, value **args)

@@ -15,13 +15,17 @@ void interp_init(interp *I)
     I->globals = scope_new(NULL);
     I->wk = wk_table_new();
     wk_table_set_cancel(I->wk, &cancel_flag);
+    wk_table_set_limit(I->wk, (slong)I->lim.max_table);
     keymap_init(&I->integrals);
     I->lim.max_terms = 2e7;
     I->lim.max_table = 3e7;
     I->lim.max_class_terms = 2000000;
     I->lim.max_dim = 2000;
     I->lim.max_depth = 2000;
+    I->lim.max_seconds = 600;
     I->out = stdout;
+    I->style.fmt = OUT_EXACT;
+    I->style.digits = 20;
 }
 
 void interp_clear(interp *I)
@@ -29,6 +33,7 @@ void interp_clear(interp *I)
     scope_free(I->globals);
     wk_table_free(I->wk);
     keymap_clear(&I->integrals);
+    fastvol_clear(I);
     for (int i = 0; i < I->nprograms; i++) {
         ast_list_free(I->programs[i]);
         source_free(I->sources[i]);
@@ -46,13 +51,21 @@ void interp_clear(interp *I)
     scalar_ring_clear(&I->ring);
 }
 
-static int exec_print_value(interp *I, value *v, const char *sep)
+/* Prints v in the current output style and releases it; strings print as
+   they are. Returns 0 after reporting when v cannot be shown in the style. */
+static int exec_print_value(interp *I, const node *at, value *v, const char *sep)
 {
-    char *s = value_get_str(v, &I->ring);
-    fprintf(I->out, "%s%s", s, sep);
+    char *err = NULL;
+    char *s = v->kind == V_STR && I->style.fmt != OUT_JSON && I->style.fmt != OUT_CSV
+                  ? xstrdup(v->str) : out_value(v, &I->ring, &I->style, &err);
+    if (s)
+        fprintf(I->out, "%s%s", s, sep);
+    else
+        diag_error(&at->loc, "%s", err ? err : "this value cannot be shown in this output format");
     free(s);
+    free(err);
     value_release(v);
-    return 1;
+    return s != NULL;
 }
 
 static int exec_print(interp *I, scope *s, const node *n)
@@ -64,7 +77,8 @@ static int exec_print(interp *I, scope *s, const node *n)
                 fputc('\n', I->out);
             return 0;
         }
-        exec_print_value(I, v, i + 1 < n->list->len ? " " : "\n");
+        if (!exec_print_value(I, n->list->items[i], v, i + 1 < n->list->len ? " " : "\n"))
+            return 0;
     }
     return 1;
 }
@@ -162,7 +176,7 @@ static int exec_explain(interp *I, scope *s, const node *n)
     if (!v)
         return 0;
     fputs("  = ", I->out);
-    return exec_print_value(I, v, "\n");
+    return exec_print_value(I, e, v, "\n");
 }
 
 /* if C { ... } else { ... }: each block runs in its own scope, like a loop body. */
@@ -204,6 +218,10 @@ int exec_stmt(interp *I, scope *s, const node *n)
         return exec_load(I, n);
     case S_IF:
         return exec_if(I, s, n);
+    case S_TABLE:
+        return exec_table(I, s, n);
+    case S_OUTPUT:
+        return exec_output(I, s, n);
     case S_EXPR:
         if (I->explain_all && n->a->kind == N_INTEGRAL) {
             node e = *n;
@@ -212,7 +230,7 @@ int exec_stmt(interp *I, scope *s, const node *n)
         }
         if (!(v = eval_expr(I, s, n->a)))
             return 0;
-        return exec_print_value(I, v, "\n");
+        return exec_print_value(I, n, v, "\n");
     default:
         diag_error(&n->loc, "not a statement");
         return 0;

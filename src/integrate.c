@@ -29,9 +29,20 @@ static int integrate_space_ok(interp *I, const node *where, slong g, slong n)
     return 1;
 }
 
-static int integrate_table_ok(interp *I, const node *where, slong g, slong n)
+/* Memo entries an integral needs: the engine's proven bound for correlators
+   with this many points, or, when kappa classes merge into fewer points, about
+   twenty entries per correlator term of the reduction (measured: 4 to 5 for
+   kappa_1^{3g-3}, g <= 12), whichever is smaller. The table's own limit stops
+   the computation should the estimate be too low. */
+static double integrate_table_estimate(slong g, slong n, slong points, double terms)
 {
-    double est = wk_estimate_entries(g, n);
+    double bound = wk_estimate_entries(g, points);
+    double by_terms = 20.0 * terms + wk_estimate_entries(g, n);
+    return bound < by_terms ? bound : by_terms;
+}
+
+static int integrate_table_ok_est(interp *I, const node *where, slong g, slong n, double est)
+{
     if (est <= I->lim.max_table)
         return 1;
     diag_error(&where->loc,
@@ -39,6 +50,11 @@ static int integrate_table_ok(interp *I, const node *where, slong g, slong n)
                "of %.3g (raise it with --max-table N)",
                (long)g, (long)n, est, I->lim.max_table);
     return 0;
+}
+
+static int integrate_table_ok(interp *I, const node *where, slong g, slong n)
+{
+    return integrate_table_ok_est(I, where, g, n, wk_estimate_entries(g, n));
 }
 
 /* Returned by the integration callbacks when a stop was requested. */
@@ -127,7 +143,8 @@ static int integrate_cost_ok(interp *I, const node *where, const cpoly *P)
                    e.terms, I->lim.max_terms);
         return 0;
     }
-    return integrate_table_ok(I, where, P->g, e.points);
+    return integrate_table_ok_est(I, where, P->g, e.points,
+                                  integrate_table_estimate(P->g, P->n, e.points, e.terms));
 }
 
 /* Memoised integral of one monomial; psi is sorted so that symmetric
@@ -163,10 +180,9 @@ static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi,
     return rc;
 }
 
-value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
+/* The reference route: expand the class, reduce each monomial to correlators. */
+static value *integrate_by_reduction(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
-    if (!integrate_space_ok(I, where, g, n))
-        return NULL;
     cpoly P;
     cpoly_init(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
     value *r = NULL;
@@ -181,6 +197,38 @@ value *integrate_value(interp *I, const node *where, slong g, slong n, const val
     }
     cpoly_clear(&P);
     return r;
+}
+
+/* With --verify, a result of the volume engine is recomputed by the reduction
+   (when that is within the limits) and any difference is reported. */
+static value *integrate_verify(interp *I, const node *where, slong g, slong n, const value *integrand, value *fast)
+{
+    slong D = 3 * g - 3 + n, kmult[2] = {0, D};
+    double terms = pf_estimate_terms(kmult, 1);
+    if (terms > I->lim.max_terms || integrate_table_estimate(g, n, n + D, terms) > I->lim.max_table)
+        return fast;   /* the reference route is out of reach: nothing to compare */
+    value *slow = integrate_by_reduction(I, where, g, n, integrand);
+    if (!slow)
+        return fast;
+    int same = fmpq_mpoly_equal(slow->num, fast->num, I->ring.ctx);
+    value_release(slow);
+    if (same)
+        return fast;
+    diag_error(&where->loc, "verification failed: the volume engine and the pushforward reduction disagree "
+                            "(please report this input)");
+    value_release(fast);
+    return NULL;
+}
+
+value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    if (!integrate_space_ok(I, where, g, n))
+        return NULL;
+    int handled;
+    value *fast = fastvol_try(I, where, g, n, integrand, &handled);
+    if (handled)
+        return fast && I->verify ? integrate_verify(I, where, g, n, integrand, fast) : fast;
+    return integrate_by_reduction(I, where, g, n, integrand);
 }
 
 /* The psi-only reduction as a list of (correlator, coefficient). */

@@ -8,6 +8,7 @@
 #include "ast.h"
 #include "correlators/wk.h"
 #include "env.h"
+#include "format/output.h"
 #include "keymap.h"
 #include "scalar.h"
 #include "source.h"
@@ -21,6 +22,7 @@ typedef struct interp_limits {
     slong max_class_terms; /* monomials of an expanded class expression */
     slong max_dim;         /* largest dimension 3g-3+n accepted */
     int max_depth;         /* nesting of user-function calls (--max-depth) */
+    double max_seconds;    /* predicted running time of one request (--max-seconds) */
 } interp_limits;
 
 typedef struct interp {
@@ -31,6 +33,11 @@ typedef struct interp {
     interp_limits lim;
     int depth;               /* current user-function call depth */
     int explain_all;         /* print the reduction of every integral */
+    out_style style;
+    fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
+    slong wpv_G, wpv_N;
+    int route_volumes;       /* send every recognised volume integral to the volume engine */
+    int verify;              /* compute by two independent routes and compare (--verify) */         /* how values print (output statement, --format, --digits) */
     FILE *out;
     node_list **programs;    /* kept alive: function bodies point into them */
     source **sources;
@@ -56,6 +63,16 @@ int interp_run_source(interp *I, source *src);
 
 /* Adds a folder to the search path of load (copied). */
 void interp_add_search_dir(interp *I, const char *dir);
+/* Volume integrals by the fast engine (fastvol.c). fastvol_try sets *handled
+   when it recognised the integrand (the result is then NULL after an error). */
+value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled);
+int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n);
+void fastvol_clear(interp *I);
+
+/* table[...] E and output FORMAT [digits] (exec_table.c). */
+int exec_table(interp *I, scope *s, const node *n);
+int exec_output(interp *I, scope *s, const node *n);
+
 /* load "file" (load.c). */
 int exec_load(interp *I, const node *n);
 

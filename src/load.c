@@ -58,6 +58,10 @@ static char *load_resolve(interp *I, const node *n)
     }
     if (!path)
         path = load_try(PSIKAPPA_STDLIB_DIR, n->text);
+#ifdef PSIKAPPA_INSTALLED_LIB_DIR
+    if (!path)
+        path = load_try(PSIKAPPA_INSTALLED_LIB_DIR, n->text);
+#endif
     return path;
 }
 
@@ -87,7 +91,7 @@ int exec_load(interp *I, const node *n)
     char *found = load_resolve(I, n);
     if (!found) {
         diag_error(&n->loc, "cannot find '%s' (looked beside this script, in --lib folders, PSIKAPPA_PATH "
-                            "and %s)", n->text, PSIKAPPA_STDLIB_DIR);
+                            "and the standard library)", n->text);
         return 0;
     }
     char real[PATH_MAX];

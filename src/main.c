@@ -3,10 +3,12 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "cancel.h"
 #include "interp.h"
 #include "memory.h"
+#include "repl.h"
 #include "source.h"
 
 #define PSIKAPPA_VERSION "0.1.0"
@@ -20,16 +22,21 @@ static void main_usage(FILE *out)
           "\n"
           "Exact intersection numbers of psi and kappa classes on Mbar_{g,n}, Weil-Petersson\n"
           "volumes and specialisations of the Witten-Kontsevich free energy.\n"
-          "With no script and no -e, the program is read from standard input.\n"
+          "With no script and no -e, the program is read from standard input; on a terminal\n"
+          "that is an interactive session (type help there).\n"
           "\n"
           "options:\n"
           "  -e CODE            run CODE (may be repeated; everything runs in order, sharing definitions)\n"
           "  --explain          print the psi-only reduction of every integral statement\n"
+          "  --verify           compute volume integrals by two independent routes and compare\n"
+          "  --format NAME      print values as exact (default), decimal, latex, csv or json\n"
+          "  --digits N         correct significant digits of decimal output (default 20)\n"
           "  --lib DIR          add DIR to the folders searched by load \"file.pk\"\n"
           "  --max-terms N      refuse integrals reducing to more than N correlator terms (default 2e7)\n"
           "  --max-table N      refuse computations needing more than N memo entries (default 3e7)\n"
           "  --max-depth N      limit nesting of user-function calls (default 2000)\n"
           "  --max-memory GIB   cap the memory of the process at GIB gibibytes\n"
+          "  --max-seconds S    refuse requests predicted to run longer than S seconds (default 600)\n"
           "  --time-limit S     stop after S seconds (exit status 124)\n"
           "  -h, --help         show this help\n"
           "  --version          show the version\n"
@@ -61,6 +68,12 @@ typedef struct {
 static int main_valued_option(interp *I, main_state *M, const char *opt, const char *arg)
 {
     double v;
+    if (strcmp(opt, "--format") == 0) {
+        if (arg && out_format_parse(&I->style.fmt, arg))
+            return 1;
+        fprintf(stderr, "psikappa: --format takes exact, decimal, latex, csv or json\n");
+        return 0;
+    }
     if (strcmp(opt, "--lib") == 0) {
         if (!arg)
             fputs("psikappa: --lib needs a folder\n", stderr);
@@ -75,8 +88,13 @@ static int main_valued_option(interp *I, main_state *M, const char *opt, const c
         I->lim.max_class_terms = v > 1e15 ? (slong)1e15 : (slong)v;
     } else if (strcmp(opt, "--max-table") == 0) {
         I->lim.max_table = v;
+        wk_table_set_limit(I->wk, v > 1e15 ? (slong)1e15 : (slong)v);
     } else if (strcmp(opt, "--max-depth") == 0) {
         I->lim.max_depth = v > 1e6 ? 1000000 : (int)v;
+    } else if (strcmp(opt, "--max-seconds") == 0) {
+        I->lim.max_seconds = v;
+    } else if (strcmp(opt, "--digits") == 0) {
+        I->style.digits = v > OUT_MAX_DIGITS ? OUT_MAX_DIGITS : (slong)v;
     } else if (strcmp(opt, "--max-memory") == 0) {
         if (!memory_set_limit(v * 1073741824.0))
             fputs("psikappa: warning: could not set the memory cap\n", stderr);
@@ -89,7 +107,7 @@ static int main_valued_option(interp *I, main_state *M, const char *opt, const c
 static int main_is_valued(const char *a)
 {
     static const char *opts[] = {"--max-terms", "--max-table", "--max-depth", "--max-memory", "--time-limit",
-                                 "--lib"};
+                                 "--lib", "--format", "--digits", "--max-seconds"};
     for (size_t i = 0; i < sizeof opts / sizeof opts[0]; i++)
         if (strcmp(a, opts[i]) == 0)
             return 1;
@@ -126,6 +144,8 @@ static int main_options(interp *I, main_state *M, int argc, char **argv)
             M->ran = 1;
         } else if (strcmp(a, "--explain") == 0) {
             I->explain_all = 1;
+        } else if (strcmp(a, "--verify") == 0) {
+            I->verify = 1;
         } else if (main_is_valued(a)) {
             if (!main_valued_option(I, M, a, i + 1 < argc ? argv[i + 1] : NULL))
                 return EXIT_USAGE;
@@ -160,7 +180,7 @@ static int main_run(interp *I, main_state *M, int argc, char **argv)
         }
     }
     if (status == 0 && !M->ran)
-        status = main_run_file(I, "-");
+        status = isatty(STDIN_FILENO) && isatty(STDOUT_FILENO) ? repl_run(I) : main_run_file(I, "-");
     return status;
 }
 

@@ -101,3 +101,45 @@ slong cx_max_psi(const cx *e)
     }
     return m;
 }
+
+/* Matches kappa_1 times a scalar (either order, or kappa_1 alone); sets c. */
+static int cx_match_scaled_kappa1(const cx *e, fmpq_mpoly_t c)
+{
+    if (e->kind == CX_KAPPA && e->index == 1) {
+        fmpq_mpoly_one(c, e->ctx);
+        return 1;
+    }
+    if (e->kind != CX_MUL)
+        return 0;
+    const cx *k = e->a->kind == CX_KAPPA ? e->a : e->b, *s = e->a->kind == CX_KAPPA ? e->b : e->a;
+    if (k->kind != CX_KAPPA || k->index != 1 || s->kind != CX_SCALAR)
+        return 0;
+    fmpq_mpoly_set(c, s->scalar, e->ctx);
+    return 1;
+}
+
+int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c)
+{
+    return e->kind == CX_EXP && cx_match_scaled_kappa1(e->a, c);
+}
+
+int cx_match_kappa1_power(const cx *e, fmpq_mpoly_t c, slong *k)
+{
+    const cx *p = e;
+    fmpq_mpoly_one(c, e->ctx);
+    if (e->kind == CX_MUL) {
+        const cx *s = e->a->kind == CX_SCALAR ? e->a : e->b;
+        p = e->a->kind == CX_SCALAR ? e->b : e->a;
+        if (s->kind != CX_SCALAR)
+            return 0;
+        fmpq_mpoly_set(c, s->scalar, e->ctx);
+    }
+    if (p->kind == CX_KAPPA && p->index == 1) {
+        *k = 1;
+        return 1;
+    }
+    if (p->kind != CX_POW || p->a->kind != CX_KAPPA || p->a->index != 1)
+        return 0;
+    *k = p->index;
+    return 1;
+}

@@ -14,10 +14,11 @@
  * t_0 or t_1 with a nonzero constant term (v = 0) would make infinitely many multisets contribute
  * and is refused (SPEC_T0_CONSTANT / SPEC_T1_CONSTANT).  With v_0 >= 1, m_0 <= N / v_0 and only
  * k <= 3g-2+N/v_0 can occur.  The plan then counts its multisets (refusing more than max_terms
- * with SPEC_TOO_BIG before any correlator is evaluated) and spec_plan_evaluate sums them:
- * powers t_k^m/m! are computed once, the running product of the factors chosen so far is shared
- * by all multisets below it in the enumeration tree, and each multiset costs one memoised
- * correlator and one scalar multiply-add.
+ * with SPEC_TOO_BIG before any correlator is evaluated) and spec_plan_evaluate sums them over
+ * the enumeration tree (multisets sharing their first choices share a path): the powers
+ * t_k^m/m! are computed once, each multiset costs one memoised correlator, and each tree edge
+ * one truncated multiplication and addition (on constants when the factors below are constant;
+ * all in fmpq_poly when every time is rational).
  *
  * Ownership: spec_plan_build allocates the plan, the caller releases it with spec_plan_free.
  * The plan keeps no pointer to the callback data or to the series.  Results are written to a
@@ -40,7 +41,7 @@ extern "C" {
 
 enum {
     SPEC_OK = 0,
-    SPEC_BADARG,       /* g < 0 or g > SPEC_MAX_GENUS, order < 0 or > SPEC_MAX_ORDER, max_terms <= 0, NULL */
+    SPEC_BADARG,       /* g or order out of [0, SPEC_MAX_*], max_terms <= 0, NULL pointers */
     SPEC_T0_CONSTANT,  /* t_0 has a nonzero constant term: infinitely many terms */
     SPEC_T1_CONSTANT,  /* t_1 has a nonzero constant term: infinitely many terms */
     SPEC_TOO_BIG,      /* more than max_terms multisets, or enumeration tables beyond SPEC_MAX_TABLE */

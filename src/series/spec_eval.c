@@ -1,9 +1,12 @@
 /* spec_eval.c - evaluation of a planned specialisation of F_g (see spec.h).
  *
- * The powers t_k^m/m! are computed once.  Walking the plan's enumeration tree, the product of
- * the factors chosen so far is kept on a stack (one multiplication per tree node); each leaf adds
- * <multiset>_g times the product.  When every used series is rational the whole computation runs
- * on fmpq_poly (one conversion in, one out); otherwise on tseries with polynomial coefficients.
+ * The powers t_k^m/m! are computed once.  The plan's enumeration tree is summed bottom-up: a
+ * leaf contributes its correlator <multiset>_g, and each edge "m copies of tau_k" multiplies the
+ * sum of the subtree below it by t_k^m/m! (one multiplication and one addition per edge).  Sums
+ * below constant factors stay constants, and a subtree below budget u is only kept to x-order
+ * N - u, so the long series arithmetic happens near the root only.  When every used series is
+ * rational the whole computation runs on fmpq_poly (one conversion in, one out); otherwise on
+ * tseries with polynomial coefficients.
  */
 #include <stdlib.h>
 #include <flint/fmpq_poly.h>
@@ -20,13 +23,12 @@ typedef struct {
     fmpq_t corr;
     /* rational mode */
     fmpq_poly_struct **qpow;     /* qpow[k][m] = t_k^m/m! */
-    fmpq_poly_struct *qstack;    /* running products by depth */
-    fmpq_poly_t qres, qtmp;
+    fmpq_poly_struct *qacc;      /* sums of the subtrees by depth */
+    fmpq_poly_t qtmp;
     /* generic mode */
     tseries **spow;
-    tseries *sstack;
-    tseries sres;
-    fmpq_mpoly_t stmp;
+    tseries *sacc;
+    tseries stmp;
 } spec_eval;
 
 /* Highest power of t_k any multiset of the plan can use (-1 when t_k is not used).
@@ -70,46 +72,77 @@ static int spec_eval_check(const spec_plan *P, const tseries *t, const fmpq_mpol
     return SPEC_OK;
 }
 
-/* Rational mode, step: qstack[depth+1] = qstack[depth] * t_k^m/m!.
+/* Budget spent above the edge (depth, k, m): w->used without the m copies of tau_k.
+   Used to truncate the subtree sums to the precision they are needed at. */
+static slong spec_eval_used_above(const spec_walk *w, slong k, slong m)
+{
+    return w->used - m * FLINT_MAX(w->P->val[k], 0);
+}
+
+/* Rational mode, enter: the child's sum starts at 0.
    Never fails. */
-static int spec_eval_qstep(spec_walk *w, slong depth, slong k, slong m)
+static int spec_eval_qenter(spec_walk *w, slong depth, slong k, slong m)
 {
     spec_eval *E = w->data;
-    fmpq_poly_mullow(E->qstack + depth + 1, E->qstack + depth, E->qpow[k] + m, E->len);
+    (void) k, (void) m;
+    fmpq_poly_zero(E->qacc + depth + 1);
     return SPEC_OK;
 }
 
-/* Rational mode, leaf: qres += <d>_g * qstack[depth].
+/* Rational mode, leave: qacc[depth] += t_k^m/m! * qacc[depth+1], truncated to the precision
+   order' - (budget above) the node needs.  Never fails. */
+static int spec_eval_qleave(spec_walk *w, slong depth, slong k, slong m)
+{
+    spec_eval *E = w->data;
+    slong len = E->len - spec_eval_used_above(w, k, m);
+    if (len <= 0)
+        return SPEC_OK;
+    fmpq_poly_mullow(E->qtmp, E->qpow[k] + m, E->qacc + depth + 1, len);
+    fmpq_poly_add(E->qacc + depth, E->qacc + depth, E->qtmp);
+    return SPEC_OK;
+}
+
+/* Rational mode, leaf: qacc[depth] += <d>_g.
    SPEC_WK when the correlator engine fails. */
 static int spec_eval_qleaf(spec_walk *w, slong depth)
 {
     spec_eval *E = w->data;
     if (wk_table_correlator(E->corr, E->T, E->P->g, w->d, w->n) != WK_OK)
         return SPEC_WK;
-    fmpq_poly_scalar_mul_fmpq(E->qtmp, E->qstack + depth, E->corr);
-    fmpq_poly_add(E->qres, E->qres, E->qtmp);
+    fmpq_poly_set_fmpq(E->qtmp, E->corr);
+    fmpq_poly_add(E->qacc + depth, E->qacc + depth, E->qtmp);
     return SPEC_OK;
 }
 
-/* Generic mode, step: sstack[depth+1] = sstack[depth] * t_k^m/m!.
-   SPEC_SERIES if the product fails. */
-static int spec_eval_sstep(spec_walk *w, slong depth, slong k, slong m)
+/* Generic mode, enter: the child's sum starts at 0.
+   Never fails. */
+static int spec_eval_senter(spec_walk *w, slong depth, slong k, slong m)
 {
     spec_eval *E = w->data;
-    if (tseries_mul(E->sstack + depth + 1, E->sstack + depth, E->spow[k] + m, E->ctx) != TS_OK)
+    (void) k, (void) m;
+    fmpq_mpoly_zero(E->sacc[depth + 1].p, E->ctx);
+    return SPEC_OK;
+}
+
+/* Generic mode, leave: sacc[depth] += t_k^m/m! * sacc[depth+1].
+   SPEC_SERIES if a series operation fails. */
+static int spec_eval_sleave(spec_walk *w, slong depth, slong k, slong m)
+{
+    spec_eval *E = w->data;
+    if (tseries_mul(&E->stmp, E->spow[k] + m, E->sacc + depth + 1, E->ctx) != TS_OK
+        || tseries_add(E->sacc + depth, E->sacc + depth, &E->stmp, E->ctx) != TS_OK)
         return SPEC_SERIES;
     return SPEC_OK;
 }
 
-/* Generic mode, leaf: sres += <d>_g * sstack[depth].
+/* Generic mode, leaf: sacc[depth] += <d>_g.
    SPEC_WK when the correlator engine fails. */
 static int spec_eval_sleaf(spec_walk *w, slong depth)
 {
     spec_eval *E = w->data;
     if (wk_table_correlator(E->corr, E->T, E->P->g, w->d, w->n) != WK_OK)
         return SPEC_WK;
-    fmpq_mpoly_scalar_mul_fmpq(E->stmp, E->sstack[depth].p, E->corr, E->ctx);
-    fmpq_mpoly_add(E->sres.p, E->sres.p, E->stmp, E->ctx);
+    fmpq_mpoly_add_fmpq(E->sacc[depth].p, E->sacc[depth].p, E->corr, E->ctx);
     return SPEC_OK;
 }
 
@@ -172,21 +205,16 @@ static void spec_eval_init(spec_eval *E, const spec_plan *P, wk_table *T, slong 
         E->mmax[k] = spec_eval_mmax(P, k);
     E->qpow = rational ? xcalloc((size_t) (P->max_k + 1), sizeof(fmpq_poly_struct *)) : NULL;
     E->spow = rational ? NULL : xcalloc((size_t) (P->max_k + 1), sizeof(tseries *));
-    E->qstack = rational ? xmalloc((size_t) depth * sizeof(fmpq_poly_struct)) : NULL;
-    E->sstack = rational ? NULL : xmalloc((size_t) depth * sizeof(tseries));
+    E->qacc = rational ? xmalloc((size_t) depth * sizeof(fmpq_poly_struct)) : NULL;
+    E->sacc = rational ? NULL : xmalloc((size_t) depth * sizeof(tseries));
     for (k = 0; k < depth; k++) {
         if (rational)
-            fmpq_poly_init(E->qstack + k);
+            fmpq_poly_init(E->qacc + k);
         else
-            tseries_init(E->sstack + k, var, order, ctx);
+            tseries_init(E->sacc + k, var, order, ctx);
     }
-    if (rational)
-        fmpq_poly_one(E->qstack);
-    else
-        fmpq_mpoly_one(E->sstack[0].p, ctx);
-    fmpq_poly_init(E->qres), fmpq_poly_init(E->qtmp);
-    tseries_init(&E->sres, var, order, ctx);
-    fmpq_mpoly_init(E->stmp, ctx);
+    fmpq_poly_init(E->qtmp);
+    tseries_init(&E->stmp, var, order, ctx);
 }
 
 /* Releases the powers of one k in either mode.
@@ -214,15 +242,14 @@ static void spec_eval_clear(spec_eval *E)
     for (k = 0; k <= E->P->max_k; k++)
         spec_eval_clear_powers(E, k);
     for (k = 0; k < depth; k++) {
-        if (E->qstack != NULL)
-            fmpq_poly_clear(E->qstack + k);
-        if (E->sstack != NULL)
-            tseries_clear(E->sstack + k, E->ctx);
+        if (E->qacc != NULL)
+            fmpq_poly_clear(E->qacc + k);
+        if (E->sacc != NULL)
+            tseries_clear(E->sacc + k, E->ctx);
     }
-    free(E->qstack), free(E->sstack), free(E->qpow), free(E->spow), free(E->mmax);
-    fmpq_poly_clear(E->qres), fmpq_poly_clear(E->qtmp);
-    tseries_clear(&E->sres, E->ctx);
-    fmpq_mpoly_clear(E->stmp, E->ctx);
+    free(E->qacc), free(E->sacc), free(E->qpow), free(E->spow), free(E->mmax);
+    fmpq_poly_clear(E->qtmp);
+    tseries_clear(&E->stmp, E->ctx);
     fmpq_clear(E->corr);
 }
 
@@ -240,16 +267,16 @@ static int spec_eval_run(tseries *res, spec_eval *E, const tseries *t, slong var
                 st = spec_eval_spowers(E, t + k, k);
         }
     if (st == SPEC_OK && E->P->dmax >= 0)
-        st = rational ? spec_walk_run(E->P, spec_eval_qstep, spec_eval_qleaf, E)
-                      : spec_walk_run(E->P, spec_eval_sstep, spec_eval_sleaf, E);
+        st = rational ? spec_walk_run(E->P, spec_eval_qenter, spec_eval_qleave, spec_eval_qleaf, E)
+                      : spec_walk_run(E->P, spec_eval_senter, spec_eval_sleave, spec_eval_sleaf, E);
     if (st != SPEC_OK)
         return st;
     res->var = var;
     res->order = E->len - 1;
     if (rational)
-        tseries_set_fmpq_poly(res, E->qres, E->ctx);
+        tseries_set_fmpq_poly(res, E->qacc, E->ctx);
     else
-        tseries_set_mpoly(res, E->sres.p, E->ctx);
+        tseries_set_mpoly(res, E->sacc[0].p, E->ctx);
     return SPEC_OK;
 }
 

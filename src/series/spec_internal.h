@@ -33,8 +33,9 @@ struct spec_plan {
 
 typedef struct spec_walk spec_walk;
 
-/* Called when a node takes m >= 1 copies of tau_k as the (depth+1)-th distinct factor.
-   Returns SPEC_OK or an error code that stops the walk. */
+/* Edge callbacks: called before (enter) and after (leave) the subtree reached by taking m >= 1
+   copies of tau_k as the (depth+1)-th distinct factor; w->used already includes them.
+   Return SPEC_OK or an error code that stops the walk. */
 typedef int (*spec_step_fn)(spec_walk *w, slong depth, slong k, slong m);
 
 /* Called at every stable leaf (the multiset is w->d[0..w->n-1]) after depth factors.
@@ -45,14 +46,16 @@ struct spec_walk {
     const spec_plan *P;
     slong *d, n;             /* current multiset as tau indices */
     slong m0, used;          /* m_0 and budget spent sum v_k m_k */
-    spec_step_fn step;
+    spec_step_fn enter, leave;
     spec_leaf_fn leaf;
     void *data;              /* the visitor's state */
 };
 
-/* Enumerates every multiset of the plan, calling step and leaf (neither may be NULL).
-   Returns SPEC_OK or the first error returned by a callback. */
-int spec_walk_run(const spec_plan *P, spec_step_fn step, spec_leaf_fn leaf, void *data);
+/* Enumerates every multiset of the plan depth-first, calling enter / leave around every edge and
+   leaf at every stable leaf (no callback may be NULL).  Returns SPEC_OK or the first error
+   returned by a callback. */
+int spec_walk_run(const spec_plan *P, spec_step_fn enter, spec_step_fn leave, spec_leaf_fn leaf,
+                  void *data);
 
 /* As spec_plan_evaluate; allow_fast = 0 forces the generic (tseries) path even when every series
    is rational (for tests comparing both paths). */

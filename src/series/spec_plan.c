@@ -2,12 +2,12 @@
  * the contributing multisets, counting and printing (see spec.h and spec_internal.h).
  */
 #include <limits.h>
-#include <math.h>
 #include <stdlib.h>
 #include "series/spec_internal.h"
 #include "util.h"
 
 static int spec_walk_node(spec_walk *w, slong i, slong D, slong B, slong depth);
+static int spec_walk_m1(spec_walk *w, slong D, slong B, slong depth);
 
 /* Least budget needed to fill dimension D with the parts part[i..] (SPEC_INF if impossible).
    Reads the table built by spec_plan_minc. */
@@ -43,16 +43,35 @@ static int spec_walk_leaf(spec_walk *w, slong depth)
     return w->leaf(w, depth);
 }
 
-/* Takes m >= 1 copies of part j at a node, then recurses on the remaining dimension and budget.
-   Returns the first error of the subtree. */
+/* Takes m >= 1 copies of part j at a node, then recurses on the remaining dimension and budget,
+   surrounded by the enter / leave callbacks.  Returns the first error of the subtree. */
 static int spec_walk_take(spec_walk *w, slong j, slong m, slong D, slong B, slong depth)
 {
     slong k = w->P->part[j];
     int st;
     spec_walk_push(w, k, m);
-    st = w->step(w, depth, k, m);
+    st = w->enter(w, depth, k, m);
     if (st == SPEC_OK)
         st = spec_walk_node(w, j + 1, D, B, depth + 1);
+    if (st == SPEC_OK)
+        st = w->leave(w, depth, k, m);
+    spec_walk_pop(w, k, m);
+    return st;
+}
+
+/* Takes m copies of tau_k (k = 0 or 1; nothing for m = 0) and walks the parts for dimension D
+   and budget B, or the m_1 level when k = 0.  Returns the first error of the subtree. */
+static int spec_walk_low(spec_walk *w, slong k, slong m, slong D, slong B, slong depth)
+{
+    int st = SPEC_OK;
+    slong d1 = depth + (m > 0);
+    spec_walk_push(w, k, m);
+    if (m > 0)
+        st = w->enter(w, depth, k, m);
+    if (st == SPEC_OK)
+        st = k == 0 ? spec_walk_m1(w, D, B, d1) : spec_walk_node(w, 0, D, B, d1);
+    if (st == SPEC_OK && m > 0)
+        st = w->leave(w, depth, k, m);
     spec_walk_pop(w, k, m);
     return st;
 }
@@ -87,26 +106,21 @@ static int spec_walk_m1(spec_walk *w, slong D, slong B, slong depth)
     const spec_plan *P = w->P;
     slong m1, v1 = P->val[1];
     int st = SPEC_OK;
-    for (m1 = 0; m1 <= P->m1max && m1 * v1 <= B && st == SPEC_OK; m1++) {
-        if (spec_minc(P, 0, D) > B - m1 * v1)
-            continue;
-        spec_walk_push(w, 1, m1);
-        st = m1 > 0 ? w->step(w, depth, 1, m1) : SPEC_OK;
-        if (st == SPEC_OK)
-            st = spec_walk_node(w, 0, D, B - m1 * v1, depth + (m1 > 0));
-        spec_walk_pop(w, 1, m1);
-    }
+    for (m1 = 0; m1 <= P->m1max && m1 * v1 <= B && st == SPEC_OK; m1++)
+        if (spec_minc(P, 0, D) <= B - m1 * v1)
+            st = spec_walk_low(w, 1, m1, D, B - m1 * v1, depth);
     return st;
 }
 
 /* Enumerates every multiset of the plan (m_0 outermost).
    Returns SPEC_OK or the first callback error. */
-int spec_walk_run(const spec_plan *P, spec_step_fn step, spec_leaf_fn leaf, void *data)
+int spec_walk_run(const spec_plan *P, spec_step_fn enter, spec_step_fn leave, spec_leaf_fn leaf,
+                  void *data)
 {
     spec_walk w;
     slong m0, D;
     int st = SPEC_OK;
-    w.P = P, w.step = step, w.leaf = leaf, w.data = data;
+    w.P = P, w.enter = enter, w.leave = leave, w.leaf = leaf, w.data = data;
     w.n = 0, w.used = 0;
     w.d = xmalloc((size_t) (P->m0max + P->m1max + FLINT_MAX(P->dmax, 0) + 1) * sizeof(slong));
     for (m0 = 0; m0 <= P->m0max && st == SPEC_OK; m0++) {
@@ -114,11 +128,7 @@ int spec_walk_run(const spec_plan *P, spec_step_fn step, spec_leaf_fn leaf, void
         if (D < 0)
             continue;
         w.m0 = m0;
-        spec_walk_push(&w, 0, m0);
-        st = m0 > 0 ? step(&w, 0, 0, m0) : SPEC_OK;
-        if (st == SPEC_OK)
-            st = spec_walk_m1(&w, D, P->order - w.used, m0 > 0);
-        spec_walk_pop(&w, 0, m0);
+        st = spec_walk_low(&w, 0, m0, D, P->order - m0 * FLINT_MAX(P->val[0], 0), 0);
     }
     free(w.d);
     return st;
@@ -190,14 +200,22 @@ typedef struct {
     double limit;
 } spec_counter;
 
-/* Counting visitor, step: records that t_k is used.
+/* Counting visitor, enter: records that t_k is used.
    Never fails. */
-static int spec_count_step(spec_walk *w, slong depth, slong k, slong m)
+static int spec_count_enter(spec_walk *w, slong depth, slong k, slong m)
 {
     spec_counter *c = w->data;
     (void) depth, (void) m;
     c->P->used[k] = 1;
     c->P->max_k = FLINT_MAX(c->P->max_k, k);
+    return SPEC_OK;
+}
+
+/* Counting visitor, leave: nothing to do.
+   Never fails. */
+static int spec_count_leave(spec_walk *w, slong depth, slong k, slong m)
+{
+    (void) w, (void) depth, (void) k, (void) m;
     return SPEC_OK;
 }
 
@@ -227,7 +245,7 @@ static int spec_plan_count(spec_plan *P, double max_terms)
     spec_plan_minc(P);
     c.P = P;
     c.limit = max_terms;
-    return spec_walk_run(P, spec_count_step, spec_count_leaf, &c);
+    return spec_walk_run(P, spec_count_enter, spec_count_leave, spec_count_leaf, &c);
 }
 
 /* Allocates an empty plan for genus g and order N.

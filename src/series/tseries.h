@@ -17,7 +17,8 @@
  *
  * Error policy: no function aborts on bad input.  Operations return TS_OK or an error code and
  * then leave the result as zero with order -1 (its var set to the first operand's var).
- * Preconditions checked (TS_BADARG): var in [0, nvars), order >= -1, exponents fitting in a slong.
+ * Preconditions checked (TS_BADARG): var in [0, nvars), -1 <= order <= TSERIES_MAX_ORDER,
+ * exponents fitting in a slong.
  */
 #ifndef PSIKAPPA_SERIES_TSERIES_H
 #define PSIKAPPA_SERIES_TSERIES_H
@@ -45,6 +46,10 @@ enum {
     TS_NOT_RATIONAL,         /* a coefficient that must be a rational number involves variables */
     TS_BADARG                /* invalid var/order, huge exponents, NULL */
 };
+
+/* Largest order accepted by the operations (beyond it they return TS_BADARG): the generic path
+   works on dense coefficient vectors of length order + 1. */
+#define TSERIES_MAX_ORDER ((slong) 1 << 20)
 
 /* Largest |e| accepted by tseries_pow_si when the constant term is not 0, 1 or -1 (beyond it the
    coefficients' size explodes); larger requests return TS_BADARG. */
@@ -100,7 +105,8 @@ int tseries_div(tseries *r, const tseries *a, const tseries *b, const fmpq_mpoly
 int tseries_derivative(tseries *r, const tseries *a, slong var, const fmpq_mpoly_ctx_t ctx);
 
 /* r = antiderivative of a in var vanishing at var = 0; for the main variable the order rises by
-   one, otherwise it is kept.  TS_BADARG for var out of range. */
+   one (TS_BADARG if it would exceed TSERIES_MAX_ORDER), otherwise it is kept.  TS_BADARG for var
+   out of range. */
 int tseries_integral(tseries *r, const tseries *a, slong var, const fmpq_mpoly_ctx_t ctx);
 
 /* r = f(g(x)), order min(f->order, g->order).  g's x^0 coefficient must be the zero polynomial

@@ -65,7 +65,8 @@ int tseries_generic_pow_si(tseries *r, const tseries *f, slong e, const fmpq_mpo
 int tseries_generic_compose(tseries *r, const tseries *f, const tseries *g, const fmpq_mpoly_ctx_t ctx);
 int tseries_generic_revert(tseries *r, const tseries *f, const fmpq_mpoly_ctx_t ctx);
 
-/* Returns TS_OK when s has a valid var, order >= -1 and slong-sized exponents, else TS_BADARG. */
+/* Returns TS_OK when s has a valid var, -1 <= order <= TSERIES_MAX_ORDER and slong-sized
+   exponents, else TS_BADARG. */
 int tseries_check(const tseries *s, const fmpq_mpoly_ctx_t ctx);
 
 /* As tseries_check for both operands, then TS_VAR_MISMATCH if their main variables differ. */

@@ -1,0 +1,101 @@
+/* Routing of recognisable Weil-Petersson integrals to the polynomial-time
+   volume engine (src/volumes): int[g,n] exp(c*kappa_1) and int[g,n] c*kappa_1^k.
+   The engine fills a table of all V_{g',n'} with g' <= G, n' <= N at once,
+   so the table is kept for the session and only grown. */
+#include <stdlib.h>
+
+#include "correlators/pushforward.h"
+#include "diag.h"
+#include "interp.h"
+#include "util.h"
+#include "volumes/wpvol.h"
+
+/* Below this many correlator terms the reduction is as fast as the engine,
+   and it stays the reference route. */
+#define FASTVOL_MIN_TERMS 10000.0
+
+/* Refuse tables whose predicted memory is beyond this (the machine has 24 GiB). */
+#define FASTVOL_MAX_BYTES (16.0 * 1073741824.0)
+
+static int fastvol_grow(interp *I, const node *where, slong g, slong n)
+{
+    if (I->wpv && g <= I->wpv_G && n <= I->wpv_N)
+        return 1;
+    slong G = g > I->wpv_G ? g : I->wpv_G, N = n > I->wpv_N ? n : I->wpv_N;
+    double sec, bytes;
+    wpvol_estimate(&sec, &bytes, G, N);
+    if (sec > I->lim.max_seconds || bytes > FASTVOL_MAX_BYTES) {
+        diag_error(&where->loc, "volumes up to genus %ld with %ld points need about %.3g s and %.3g GiB "
+                   "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", (long)G, (long)N, sec,
+                   bytes / 1073741824.0, I->lim.max_seconds, FASTVOL_MAX_BYTES / 1073741824.0);
+        return 0;
+    }
+    fmpq *t = _fmpq_vec_init((G + 1) * (N + 1));
+    int rc = wpvol_table(t, G, N, 2);
+    if (rc != WPVOL_OK) {
+        _fmpq_vec_clear(t, (G + 1) * (N + 1));
+        diag_error(&where->loc, "the volume engine failed (code %d)", rc);
+        return 0;
+    }
+    if (I->wpv)
+        _fmpq_vec_clear(I->wpv, (I->wpv_G + 1) * (I->wpv_N + 1));
+    I->wpv = t;
+    I->wpv_G = G;
+    I->wpv_N = N;
+    return 1;
+}
+
+int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n)
+{
+    if (!fastvol_grow(I, where, g, n))
+        return 0;
+    fmpq_set(v, I->wpv + g * (I->wpv_N + 1) + n);
+    return 1;
+}
+
+void fastvol_clear(interp *I)
+{
+    if (I->wpv)
+        _fmpq_vec_clear(I->wpv, (I->wpv_G + 1) * (I->wpv_N + 1));
+    I->wpv = NULL;
+}
+
+/* The integral as c^D V (exp) or c D! V (power k = D), V normalised. */
+static value *fastvol_scale(interp *I, const fmpq_t V, const fmpq_mpoly_t c, slong D, int is_exp)
+{
+    value *r = value_new_num(&I->ring);
+    if (is_exp) {
+        fmpq_mpoly_pow_ui(r->num, c, (ulong)D, I->ring.ctx);
+    } else {
+        fmpz_t f;
+        fmpz_init(f);
+        fmpz_fac_ui(f, (ulong)D);
+        fmpq_mpoly_scalar_mul_fmpz(r->num, c, f, I->ring.ctx);
+        fmpz_clear(f);
+    }
+    fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, V, I->ring.ctx);
+    return r;
+}
+
+value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled)
+{
+    *handled = 0;
+    if (integrand->kind != V_CLASS || 2 * g - 2 + n <= 0)
+        return NULL;
+    slong D = 3 * g - 3 + n, k = 0, kmult[2] = {0, D};
+    fmpq_mpoly_t c;
+    fmpq_mpoly_init(c, I->ring.ctx);
+    int is_exp = cx_match_exp_kappa1(integrand->cls, c);
+    int is_pow = !is_exp && cx_match_kappa1_power(integrand->cls, c, &k) && k == D;
+    value *r = NULL;
+    if ((is_exp || is_pow) && (I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS)) {
+        *handled = 1;
+        fmpq_t V;
+        fmpq_init(V);
+        if (fastvol_get(I, where, V, g, n))
+            r = fastvol_scale(I, V, c, D, is_exp);
+        fmpq_clear(V);
+    }
+    fmpq_mpoly_clear(c, I->ring.ctx);
+    return r;
+}

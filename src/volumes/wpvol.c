@@ -1,0 +1,433 @@
+/* wpvol.c - multi-modular driver of the Weil-Petersson volume engine: chooses primes, runs
+ * wpvol_modp_table for each of them on worker threads, combines the residues by Chinese
+ * remaindering and recovers the rationals by rational reconstruction, each one confirmed by
+ * primes that were not used to reconstruct it.  See wpvol.h for the contract.
+ */
+#include <math.h>
+#include <pthread.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include <flint/fmpz.h>
+#include <flint/fmpq.h>
+#include <flint/ulong_extras.h>
+
+#include "wpvol.h"
+#include "wpvol_internal.h"
+
+/* Primes of the form c 2^WPVOL_PRIME_K + 1 allow transforms up to 2^WPVOL_PRIME_K points. */
+#define WPVOL_PRIME_K 28
+
+/* Candidates must be confirmed by at least this many primes not used to reconstruct them. */
+#define WPVOL_CONFIRM 2
+
+/* Work shared by the worker threads of one batch (owned by wpvol_batch_run). */
+typedef struct
+{
+    pthread_mutex_t lock;
+    slong next, end;          /* next prime index to take, one past the last */
+    const ulong *primes;      /* all primes of the run */
+    ulong *res;               /* residues: res[i*nv + k] for prime i and value k */
+    slong G, N, nv;
+    int status;               /* first error met, WPVOL_OK otherwise */
+} wpvol_batch_t;
+
+/* Records the first error of a batch. */
+static void wpvol_batch_fail(wpvol_batch_t *b, int st)
+{
+    pthread_mutex_lock(&b->lock);
+    if (b->status == WPVOL_OK)
+        b->status = st;
+    pthread_mutex_unlock(&b->lock);
+}
+
+/* Worker: takes prime indices one at a time until the batch is exhausted or an error was
+   recorded, with one workspace for all its primes.  Returns NULL (pthread signature). */
+static void *wpvol_batch_worker(void *arg)
+{
+    wpvol_batch_t *b = arg;
+    wpvol_ws_t *ws = wpvol_ws_new(b->G, b->N);
+
+    if (ws == NULL)
+        wpvol_batch_fail(b, WPVOL_NOMEM);
+    for (;;)
+    {
+        slong i;
+        int st;
+        nmod_t mod;
+
+        pthread_mutex_lock(&b->lock);
+        i = (b->status == WPVOL_OK && b->next < b->end) ? b->next++ : -1;
+        pthread_mutex_unlock(&b->lock);
+        if (i < 0)
+            break;
+        nmod_init(&mod, b->primes[i]);
+        st = wpvol_modp_run(ws, b->res + i * b->nv, mod, 1);
+        if (st != WPVOL_OK)
+            wpvol_batch_fail(b, st);
+    }
+    wpvol_ws_free(ws);
+    flint_cleanup();   /* per-thread FLINT caches (keeps valgrind quiet) */
+    return NULL;
+}
+
+/* Computes the residues for primes[start..end) with up to `threads` threads (the calling
+   thread works too).  A thread that cannot be created just leaves more work to the others.
+   Returns WPVOL_OK or the first error of a worker. */
+static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong end, slong G,
+                           slong N, int threads)
+{
+    wpvol_batch_t b;
+    pthread_t *tid;
+    int t, started = 0;
+
+    b.next = start;
+    b.end = end;
+    b.primes = primes;
+    b.res = res;
+    b.G = G;
+    b.N = N;
+    b.nv = (G + 1) * (N + 1);
+    b.status = WPVOL_OK;
+    if (pthread_mutex_init(&b.lock, NULL) != 0)
+        return WPVOL_NOMEM;
+    tid = threads > 1 ? malloc((size_t) (threads - 1) * sizeof(pthread_t)) : NULL;
+    for (t = 0; tid != NULL && t < threads - 1 && t < end - start - 1; t++)
+        if (pthread_create(&tid[started], NULL, wpvol_batch_worker, &b) == 0)
+            started++;
+    wpvol_batch_worker(&b);
+    for (t = 0; t < started; t++)
+        pthread_join(tid[t], NULL);
+    free(tid);
+    pthread_mutex_destroy(&b.lock);
+    return b.status;
+}
+
+/* Appends primes to reach `count`, each below the previous one.  prime_bits in [20, 62]:
+   primes 1 mod 2^k (k = min(28, prime_bits-8)) below 2^prime_bits, which allow the transform
+   products; prime_bits = 63: consecutive primes above 2^62, which force the FLINT products.
+   Deterministic.  Returns 0, or -1 on exhausted memory or primes. */
+static int wpvol_primes_extend(ulong **primes, slong *have, slong count, int prime_bits)
+{
+    ulong *p = realloc(*primes, (size_t) count * sizeof(ulong));
+    slong i;
+
+    if (p == NULL)
+        return -1;
+    *primes = p;
+    for (i = *have; i < count; i++)
+    {
+        if (prime_bits >= 63)
+            p[i] = n_nextprime(i == 0 ? UWORD(1) << 62 : p[i - 1], 1);
+        else
+            p[i] = wpvol_ntt_prime_below(i == 0 ? UWORD(1) << prime_bits : p[i - 1],
+                                         FLINT_MIN(WPVOL_PRIME_K, prime_bits - 8));
+        if (p[i] == 0)
+            return -1;
+    }
+    *have = count;
+    return 0;
+}
+
+/* fac[d] = d! mod p for 0 <= d < len: the engine recovers int kappa_1^d = d! V_{g,n}, whose
+   denominator is much smaller than that of V_{g,n}. */
+static void wpvol_factorials_mod(ulong *fac, slong len, nmod_t mod)
+{
+    slong d;
+
+    fac[0] = 1;
+    for (d = 1; d < len; d++)
+        fac[d] = nmod_mul(fac[d - 1], (ulong) d, mod);
+}
+
+/* Per-value reconstruction state (owned by wpvol_table_ex). */
+typedef struct
+{
+    fmpz_t a;        /* residue of d! V modulo the product M of the primes absorbed so far */
+    fmpq_t cand;     /* candidate, valid when has_cand */
+    slong confirmed; /* primes that agreed with cand since it was found */
+    int has_cand, done;
+} wpvol_val_t;
+
+/* Rational reconstruction of a (mod M) with |num| <= M / 2^(db+2), 0 < den <= 2^db (then
+   2 |num| den < M, so a solution is unique).  Returns 1 and sets q on success. */
+static int wpvol_reconstruct_db(fmpq_t q, const fmpz_t a, const fmpz_t M, slong db)
+{
+    fmpz_t nb, dbz;
+    int ok = 0;
+
+    fmpz_init(nb);
+    fmpz_init_set_ui(dbz, 1);
+    fmpz_mul_2exp(dbz, dbz, (ulong) db);
+    fmpz_fdiv_q_2exp(nb, M, (ulong) (db + 2));
+    if (fmpz_sgn(nb) > 0)
+        ok = fmpq_reconstruct_fmpz_2(q, a, M, nb, dbz);
+    fmpz_clear(nb);
+    fmpz_clear(dbz);
+    return ok;
+}
+
+/* Tries a denominator bound from the size model of genus g first (the scaled values have
+   small denominators, so this needs the fewest primes), then a quarter and a half of the
+   available bits.  Returns 1 and sets q on success. */
+static int wpvol_reconstruct(fmpq_t q, const fmpz_t a, const fmpz_t M, slong g)
+{
+    slong bits = fmpz_bits(M), db = (slong) wpvol_estimate_den_bits(g);
+
+    if (db < bits / 4 && wpvol_reconstruct_db(q, a, M, db))
+        return 1;
+    if (wpvol_reconstruct_db(q, a, M, bits / 4))
+        return 1;
+    return wpvol_reconstruct_db(q, a, M, bits / 2 - 1);
+}
+
+/* Residue of the rational q modulo p, or UWORD_MAX if its denominator vanishes mod p. */
+static ulong wpvol_fmpq_mod(const fmpq_t q, nmod_t mod)
+{
+    ulong n = fmpz_fdiv_ui(fmpq_numref(q), mod.n), d = fmpz_fdiv_ui(fmpq_denref(q), mod.n);
+
+    if (d == 0)
+        return UWORD_MAX;
+    return nmod_mul(n, nmod_inv(d, mod), mod);
+}
+
+/* Run state of wpvol_table_ex (owned there; released by wpvol_run_clear). */
+typedef struct
+{
+    slong G, N, nv;
+    wpvol_val_t *val;
+    ulong *primes, *res;
+    slong nprimes, absorbed;   /* primes known, primes folded into the residues */
+    fmpz_t M;                  /* product of the absorbed primes */
+    slong *try_bits;           /* bits(M) needed before the next reconstruction attempt */
+} wpvol_drv_t;
+
+/* Releases everything in D (safe on a partly initialised D with val == NULL). */
+static void wpvol_run_clear(wpvol_drv_t *D)
+{
+    slong k;
+
+    for (k = 0; D->val != NULL && k < D->nv; k++)
+    {
+        fmpz_clear(D->val[k].a);
+        fmpq_clear(D->val[k].cand);
+    }
+    free(D->val);
+    free(D->primes);
+    free(D->res);
+    free(D->try_bits);
+    fmpz_clear(D->M);
+}
+
+/* Marks unstable entries as done (value 0) and initialises the others.  Returns 0 or -1. */
+static int wpvol_run_init(wpvol_drv_t *D, slong G, slong N)
+{
+    slong k;
+
+    memset(D, 0, sizeof(*D));
+    fmpz_init_set_ui(D->M, 1);
+    D->G = G;
+    D->N = N;
+    D->nv = (G + 1) * (N + 1);
+    D->val = malloc((size_t) D->nv * sizeof(wpvol_val_t));
+    D->try_bits = calloc((size_t) D->nv, sizeof(slong));
+    if (D->val == NULL || D->try_bits == NULL)
+    {
+        free(D->val);   /* entries not initialised yet: wpvol_run_clear must not see them */
+        D->val = NULL;
+        return -1;
+    }
+    for (k = 0; k < D->nv; k++)
+    {
+        slong g = k / (N + 1), n = k % (N + 1);
+        fmpz_init(D->val[k].a);
+        fmpq_init(D->val[k].cand);
+        D->val[k].has_cand = 0;
+        D->val[k].confirmed = 0;
+        D->val[k].done = (2 * g - 2 + n <= 0);
+        /* no attempt before the modulus reaches 3/4 of the modelled size */
+        D->try_bits[k] = (slong) (0.75 * wpvol_estimate_bits_gn(g, n));
+    }
+    return 0;
+}
+
+/* Folds the residues of prime i into every pending value: checks the candidate (if any)
+   against it, then extends the Chinese remainder a mod M by a mod p_i.  fac: scratch of
+   nfac = 3G+N+1 words for the factorials d! mod p_i. */
+static void wpvol_run_absorb(wpvol_drv_t *D, slong i, ulong *fac, slong nfac)
+{
+    nmod_t mod;
+    ulong minv;
+    slong k;
+
+    nmod_init(&mod, D->primes[i]);
+    wpvol_factorials_mod(fac, nfac, mod);
+    minv = nmod_inv(fmpz_fdiv_ui(D->M, mod.n), mod);
+    for (k = 0; k < D->nv; k++)
+    {
+        wpvol_val_t *v = &D->val[k];
+        slong g = k / (D->N + 1), n = k % (D->N + 1);
+        ulong r, t;
+
+        if (v->done)
+            continue;
+        r = nmod_mul(D->res[i * D->nv + k], fac[3 * g - 3 + n], mod);
+        if (v->has_cand)
+        {
+            if (wpvol_fmpq_mod(v->cand, mod) == r)
+                v->done = (++v->confirmed >= WPVOL_CONFIRM);
+            else
+                v->has_cand = 0;
+        }
+        /* a + M ((r - a) / M mod p) */
+        t = nmod_mul(nmod_sub(r, fmpz_fdiv_ui(v->a, mod.n), mod), minv, mod);
+        fmpz_addmul_ui(v->a, D->M, t);
+    }
+    fmpz_mul_ui(D->M, D->M, mod.n);
+}
+
+/* Attempts reconstruction of the pending values without candidate whose attempt threshold
+   is reached; a failure raises the threshold by 1/8 so that attempts stay few.  Returns the
+   number of values still pending; *uncand counts those without a candidate. */
+static slong wpvol_run_reconstruct(wpvol_drv_t *D, slong *uncand)
+{
+    slong k, pending = 0, bits = fmpz_bits(D->M);
+
+    *uncand = 0;
+
+    for (k = 0; k < D->nv; k++)
+    {
+        wpvol_val_t *v = &D->val[k];
+
+        if (v->done)
+            continue;
+        pending++;
+        if (v->has_cand)
+            continue;
+        if (bits < D->try_bits[k])
+        {
+            ++*uncand;
+            continue;
+        }
+        if (wpvol_reconstruct(v->cand, v->a, D->M, k / (D->N + 1)))
+        {
+            v->has_cand = 1;
+            v->confirmed = 0;
+        }
+        else
+            D->try_bits[k] = bits + bits / 8;
+        *uncand += !v->has_cand;
+    }
+    return pending;
+}
+
+/* Writes out[k] = cand / d! for every value (0 for unstable ones). */
+static void wpvol_run_output(fmpq *out, const wpvol_drv_t *D)
+{
+    slong k;
+    fmpz_t f;
+
+    fmpz_init(f);
+    for (k = 0; k < D->nv; k++)
+    {
+        slong g = k / (D->N + 1), n = k % (D->N + 1);
+        if (2 * g - 2 + n <= 0)
+        {
+            fmpq_zero(out + k);
+            continue;
+        }
+        fmpz_fac_ui(f, (ulong) (3 * g - 3 + n));
+        fmpq_div_fmpz(out + k, D->val[k].cand, f);
+    }
+    fmpz_clear(f);
+}
+
+/* Number of primes for the first batch: the size model of the largest entry (scaled to this
+   prime size) plus two for the asymmetric reconstruction margin, at least min_primes and at
+   least one per thread. */
+static slong wpvol_first_batch(slong G, slong N, int threads, int prime_bits, slong min_primes)
+{
+    double bits = wpvol_estimate_bits(G, N), b = prime_bits >= 62 ? 61.0 : prime_bits - 2.0;
+    slong np = (slong) (bits / b) + 2;
+
+    np = FLINT_MAX(np, min_primes);
+    return FLINT_MAX(np, (slong) threads);
+}
+
+/* Main loop: batches of primes until every value is reconstructed and confirmed.  After a
+   batch where every pending value has a candidate, the next batch only has to confirm them
+   (WPVOL_CONFIRM primes, rounded up to the threads); otherwise the modulus grows by 1/16.
+   Returns WPVOL_OK or an error code. */
+static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong first)
+{
+    slong target = first, nfac = 3 * D->G + D->N + 1;
+    ulong *fac = malloc((size_t) nfac * sizeof(ulong)), *r;
+    int status = fac == NULL ? WPVOL_NOMEM : WPVOL_OK;
+
+    while (status == WPVOL_OK)
+    {
+        slong start = D->nprimes, i, pending, uncand;
+
+        if (target > 1000000)
+            status = WPVOL_LIMIT;
+        else if (wpvol_primes_extend(&D->primes, &D->nprimes, target, prime_bits) != 0)
+            status = WPVOL_NOMEM;
+        else if ((r = realloc(D->res, (size_t) target * (size_t) D->nv * sizeof(ulong))) == NULL)
+            status = WPVOL_NOMEM;
+        if (status != WPVOL_OK)
+            break;
+        D->res = r;
+        status = wpvol_batch_run(D->res, D->primes, start, target, D->G, D->N, threads);
+        if (status != WPVOL_OK)
+            break;
+        for (i = start; i < target; i++)
+            wpvol_run_absorb(D, i, fac, nfac);
+        D->absorbed = target;
+        pending = wpvol_run_reconstruct(D, &uncand);
+        if (pending == 0)
+            break;
+        if (uncand == 0)
+            target += FLINT_MAX((slong) threads, (slong) WPVOL_CONFIRM);
+        else
+            target += FLINT_MAX((slong) threads, target / 16 + 1);
+    }
+    free(fac);
+    return status;
+}
+
+/* See wpvol.h. */
+int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slong min_primes,
+                   slong *primes_used)
+{
+    wpvol_drv_t D;
+    double sec, bytes;
+    slong k;
+    int status;
+
+    if (primes_used != NULL)
+        *primes_used = 0;
+    if (out == NULL || G < 0 || N < 0 || threads < 1 || prime_bits < 20 || prime_bits > 63)
+        return WPVOL_BADARG;
+    for (k = 0; k < (G + 1) * (N + 1); k++)
+        fmpq_zero(out + k);
+    wpvol_estimate(&sec, &bytes, G, N);
+    if (sec > WPVOL_MAX_SECONDS || bytes > WPVOL_MAX_BYTES)
+        return WPVOL_LIMIT;
+    if (wpvol_run_init(&D, G, N) != 0)
+        status = WPVOL_NOMEM;
+    else
+        status = wpvol_run_loop(&D, threads, prime_bits,
+                                wpvol_first_batch(G, N, threads, prime_bits, min_primes));
+    if (status == WPVOL_OK)
+        wpvol_run_output(out, &D);
+    if (primes_used != NULL)
+        *primes_used = D.nprimes;
+    wpvol_run_clear(&D);
+    return status;
+}
+
+/* See wpvol.h: 62-bit transform-friendly primes, first batch from the size model. */
+int wpvol_table(fmpq *out, slong G, slong N, int threads)
+{
+    return wpvol_table_ex(out, G, N, threads, 62, 1, NULL);
+}

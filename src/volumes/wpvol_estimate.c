@@ -1,0 +1,107 @@
+/* wpvol_estimate.c - size, time and memory models of the volume engine.
+ *
+ * The size model was fitted (least squares, then checked at the corners of the tables) on the
+ * exact results of this engine for g <= 50, n <= 5; g <= 3, n <= 500; g <= 20, n <= 60 and
+ * g <= 8, n <= 200.  Writing W = (3g-3+n)! V_{g,n} = int kappa_1^{3g-3+n}:
+ *     bits(num W) + bits(den W) ~ log2((3g-3+n)!) + log2((2g-3+n)!) + 18.8 g + 0.71 n - 36,
+ *     bits(den W) <= 11.5 g + 20  (observed maxima: 39, 97, 206, 339, 449, 561 at g = 5..50).
+ * The factorials reflect the growth V_{g,n} ~ (2g-3+n)! (4 pi^2)^{2g-3+n} / (2 pi^2)^{3g-3+n}
+ * for large g.  The models only size the first batch of primes and the first attempt of each
+ * reconstruction; wrong guesses cost time, never correctness.
+ */
+#include <math.h>
+
+#include "wpvol.h"
+#include "wpvol_internal.h"
+
+/* log2(k!) (0 for k <= 1), by lgamma. */
+static double wpvol_estimate_lfact(slong k)
+{
+    return k <= 1 ? 0.0 : lgamma((double) k + 1.0) / log(2.0);
+}
+
+/* Model of bits(num) + bits(den) of (3g-3+n)! V_{g,n} for stable (g, n) (0 otherwise). */
+double wpvol_estimate_bits_gn(slong g, slong n)
+{
+    double b;
+
+    if (g < 0 || n < 0 || 2 * g - 2 + n <= 0)
+        return 0.0;
+    b = wpvol_estimate_lfact(3 * g - 3 + n) + wpvol_estimate_lfact(2 * g - 3 + n)
+        + 18.8 * (double) g + 0.71 * (double) n - 36.0;
+    return b > 8.0 ? b : 8.0;
+}
+
+/* Model bound for bits(den) of (3g-3+n)! V_{g,n} (the scaled values have small denominators). */
+double wpvol_estimate_den_bits(slong g)
+{
+    return 11.5 * (double) g + 20.0;
+}
+
+/* Largest model size over the table (the model grows with g and n, but check both n = 0 and
+   n = N for every genus to stay safe at the unstable corner). */
+double wpvol_estimate_bits(slong G, slong N)
+{
+    double m = 0.0;
+    slong g;
+
+    for (g = 0; g <= G; g++)
+    {
+        double a = wpvol_estimate_bits_gn(g, N), b = wpvol_estimate_bits_gn(g, 0);
+        m = a > m ? a : m;
+        m = b > m ? b : m;
+    }
+    return m;
+}
+
+/* Relative single-core cost of one prime (arbitrary units): pointwise products of the cached
+   transforms (g/2 pairs of length T_g), transforms (about two of length T_g per genus) and the
+   row products by I_2 in d_0 (three per genus, quadratic in the row lengths L - d). */
+static double wpvol_estimate_work(slong G, slong N)
+{
+    double L = (double) (N >= 1 ? 3 * G + N - 4 : 3 * G - 3) + 1.0, w = 0.0;
+    slong g;
+
+    if (L < 1.0)
+        L = 1.0;
+    for (g = 2; g <= G; g++)
+    {
+        double need = (3.0 * (double) g - 2.0) * (2.0 * L - 1.0), T = 1.0, r;
+        while (T < need)
+            T *= 2.0;
+        r = L - 3.0 * (double) g;
+        r = r > 0.0 ? r : 0.0;
+        w += 0.5 * (double) g * T * 1.3 + 2.0 * T * log2(T) * 0.75
+             + 3.0 * (L * L * L - r * r * r) / 6.0 * 0.9;
+    }
+    /* outputs and genus 0: series of length N, a few per genus */
+    w += (double) (G + 1) * (double) N * (double) N * 2.0 + 1.0e5;
+    return w * 1.0e-9;   /* calibrated so that one unit is about one second */
+}
+
+/* See wpvol.h.  Seconds: primes (from the size model) times the per-prime work, plus the
+   Chinese remaindering (quadratic in the number of primes per value).  Bytes: one thread's
+   workspace (cached transforms, stored rows, buffers) plus residues and big integers. */
+void wpvol_estimate(double *seconds, double *bytes, slong G, slong N)
+{
+    double primes, L, T = 1.0, nv, ws;
+
+    *seconds = 0.0;
+    *bytes = 0.0;
+    if (G < 0 || N < 0)
+        return;
+    primes = wpvol_estimate_bits(G, N) / 61.0 + 3.0;
+    L = (double) (N >= 1 ? 3 * G + N - 4 : 3 * G - 3) + 1.0;
+    L = L < 1.0 ? 1.0 : L;
+    if (G >= 2)
+        while (T < (3.0 * (double) G - 2.0) * (2.0 * L - 1.0))
+            T *= 2.0;
+    nv = (double) (G + 1) * (double) (N + 1);
+    ws = 8.0 * ((double) G * T                       /* cached transforms */
+                + 1.5 * (double) G * (double) G * L  /* rows of B_h, h < G */
+                + 3.0 * (3.0 * (double) G + 1.0) * L /* A, C, D of one genus */
+                + 5.0 * T);                          /* product buffer, twiddle tables */
+    *bytes = ws + 8.0 * nv * primes                  /* residues */
+             + 3.0 * nv * 8.0 * primes;              /* CRT values and candidates */
+    *seconds = primes * wpvol_estimate_work(G, N) + 1.0e-9 * nv * primes * primes * 20.0;
+}

@@ -1,0 +1,194 @@
+/* wpvol_internal.h - internals of the Weil-Petersson volume engine (not a public interface).
+ *
+ * Everything here works modulo one word-size prime p (FLINT nmod_t).  A "biv" is a truncated
+ * bivariate series  sum_{m} c_m(u) v^{-m}: a block of `rows` power series in u, row r holding
+ * the coefficient of v^{-(mlo+r)} truncated to `len` terms (u^0 .. u^{len-1}).  A triangular
+ * biv keeps fewer terms in lower rows: the row at distance d from the top row is truncated to
+ * len - d terms (the engine only ever needs the terms u^o v^{-m} with d + o below a fixed bound,
+ * and that set is closed under d_0 and products); the entries beyond are zero or unused.
+ *
+ * Ownership: a wpvol_biv owns its coefficient array (wpvol_biv_init / wpvol_biv_clear); the other
+ * functions never keep pointers to their arguments.  Series arguments (ulong arrays) belong to
+ * the caller.  Nothing here is shared between threads: each worker thread uses its own objects.
+ */
+#ifndef PSIKAPPA_VOLUMES_WPVOL_INTERNAL_H
+#define PSIKAPPA_VOLUMES_WPVOL_INTERNAL_H
+
+#include <flint/flint.h>
+#include <flint/nmod_vec.h>
+#include <flint/nmod_poly.h>
+
+typedef struct
+{
+    slong mlo;   /* power of v^{-1} of row 0 */
+    slong rows;  /* number of rows (0 allowed) */
+    slong len;   /* series length of every row */
+    int tri;     /* 1: row r only holds len - (rows-1-r) meaningful terms (see below) */
+    ulong *c;    /* rows*len coefficients, row-major; NULL when rows*len == 0 */
+} wpvol_biv_struct;
+
+typedef wpvol_biv_struct wpvol_biv_t[1];
+
+/* Series data shared by all genera for one prime (read-only after wpvol_ctx_init, except the
+   scratch behind `work`).  Owns every array it points to except `ntt`. */
+typedef struct
+{
+    nmod_t mod;
+    slong len;      /* length of the stored series below */
+    ulong *i2;      /* I_2(u) = J_1(2 sqrt u)/sqrt u = sum (-1)^k u^k / (k! (k+1)!) */
+    ulong *i2inv;   /* 1 / I_2(u) */
+    ulong *inv;     /* inv[k] = 1/k mod p for 1 <= k < invlen (inv[0] unused, 0) */
+    slong invlen;
+    /* optional transform path for the products by I_2 of long rows (wpvol_ctx_attach_ntt) */
+    const struct wpvol_ntt_struct_tag *ntt;   /* borrowed tables, NULL: classical only */
+    int lgmax;                   /* transforms of length 2^lg for WPVOL_ROW_LG <= lg <= lgmax */
+    ulong *i2hat[64];            /* transform of I_2 (truncated to 2^(lg-1)+1 terms) */
+    ulong *i2pre[64];            /* Shoup quotients of i2hat[lg] */
+    ulong tinv[64];              /* 1/2^lg mod p */
+    ulong *work;                 /* scratch of 2^lgmax words */
+} wpvol_ctx_struct;
+
+/* Rows of at most 2^(WPVOL_ROW_LG-2) terms are multiplied by I_2 classically; longer rows of
+   length l by a transform of the least length 2^lg >= 2l, lg >= WPVOL_ROW_LG. */
+#define WPVOL_ROW_LG 9
+
+typedef wpvol_ctx_struct wpvol_ctx_t[1];
+
+/* --- wpvol_series.c ---------------------------------------------------------------------- */
+
+/* Zeroed biv with the given shape (tri: triangular truncation); returns 0, or -1 if memory is
+   exhausted (then b->c == NULL and b can still be passed to wpvol_biv_clear).  rows, len >= 0. */
+int wpvol_biv_init(wpvol_biv_t b, slong mlo, slong rows, slong len, int tri);
+
+/* Number of meaningful terms of row r (len, or len - distance to the top row if triangular;
+   never negative). */
+slong wpvol_biv_rowlen(const wpvol_biv_t b, slong r);
+
+/* Releases the coefficients; b becomes an empty biv.  Safe on an empty or failed biv. */
+void wpvol_biv_clear(wpvol_biv_t b);
+
+/* Row for the power v^{-m}, or NULL if m is outside [mlo, mlo+rows). */
+ulong *wpvol_biv_row(const wpvol_biv_t b, slong m);
+
+/* Y = d_0 X with d_0 = v^{-1} (d/du - I_2(u) d/dv), truncated to X->len terms.  Y must be
+   initialised with mlo = X->mlo+1, rows = X->rows+1, len = X->len, tri = X->tri (overwritten).
+   For a rectangular X the last coefficient of every row of Y is not exact (it would need X one
+   term longer); for a triangular X every kept term of Y is exact. */
+void wpvol_biv_d0(wpvol_biv_t Y, const wpvol_biv_t X, const wpvol_ctx_t ctx);
+
+/* R += s * X * Y, rows and series truncated to t terms (t <= lengths of R, X, Y) by Kronecker
+   substitution (one nmod_poly multiplication).  X == Y (same object) is allowed.  The product
+   rows must lie inside R: R->mlo <= X->mlo+Y->mlo and the top row inside R.
+   Returns 0, or -1 if scratch memory could not be allocated (R unchanged then). */
+int wpvol_biv_addmul(wpvol_biv_t R, const wpvol_biv_t X, const wpvol_biv_t Y, slong t, ulong s,
+                     nmod_t mod);
+
+/* Series inverse: res[0..n) = 1/a mod u^n, a[0] invertible, a has at least n terms; res and a
+   must not overlap.  Quadratic-time (the lengths here are at most a few thousand). */
+void wpvol_series_inv(ulong *res, const ulong *a, slong n, nmod_t mod);
+
+/* Prepares the series of ctx for the prime in mod up to length len (>= 1), and the inverses
+   1..invlen-1.  Requires p > max(len, invlen) + 1 so that the factorials are invertible.
+   Returns 0, or -1 on exhausted memory (ctx then cleared and reusable). */
+int wpvol_ctx_init(wpvol_ctx_t ctx, nmod_t mod, slong len, slong invlen);
+
+/* Releases the series of ctx (and its transform data). */
+void wpvol_ctx_clear(wpvol_ctx_t ctx);
+
+/* Enables transform products by I_2 for rows of up to maxrow terms, using the tables F (which
+   must outlive ctx's use and support length 2^lg for the largest lg needed; otherwise nothing
+   is enabled).  Returns 0, or -1 on exhausted memory (ctx then stays classical). */
+int wpvol_ctx_attach_ntt(wpvol_ctx_t ctx, const struct wpvol_ntt_struct_tag *F, slong maxrow);
+
+/* res[0..l) = x * I_2 mod u^l (x has l terms, res must not overlap x). */
+void wpvol_ctx_mul_i2(ulong *res, const ulong *x, slong l, const wpvol_ctx_t ctx);
+
+/* --- wpvol_ntt.c ------------------------------------------------------------------------- */
+
+/* Twiddle tables of a number-theoretic transform modulo p = c 2^k + 1 < 2^62 (owned). */
+typedef struct wpvol_ntt_struct_tag
+{
+    nmod_t mod;
+    slong n;                 /* largest supported length (power of two), 0 when empty */
+    ulong *w, *wpre;         /* w[len+j] = root_{2len}^j and Shoup quotients */
+    ulong *iw, *iwpre;       /* the same for the inverse roots */
+} wpvol_ntt_struct;
+
+typedef wpvol_ntt_struct wpvol_ntt_t[1];
+
+/* Largest prime below min(below, 2^62) (below == 0: 2^62) congruent to 1 mod 2^k; 0 if none. */
+ulong wpvol_ntt_prime_below(ulong below, int k);
+
+/* Tables for lengths up to n (power of two, p = 1 mod n, p < 2^62).  Returns 0, -1 (memory) or
+   -2 (unsuitable p or n); F is empty on failure.  Release with wpvol_ntt_clear. */
+int wpvol_ntt_init(wpvol_ntt_t F, nmod_t mod, slong n);
+
+/* Refills the tables of an initialised F for another prime (same maximal length, no new
+   memory).  Returns 0 or -2 (unsuitable p: F unchanged). */
+int wpvol_ntt_set_prime(wpvol_ntt_t F, nmod_t mod);
+
+/* Frees the tables; F becomes empty. */
+void wpvol_ntt_clear(wpvol_ntt_t F);
+
+/* In place, length n (power of two <= F->n), inputs in [0,p): natural order in, bit-reversed
+   order out, reduced. */
+void wpvol_ntt_fwd(ulong *a, slong n, const wpvol_ntt_t F);
+
+/* Inverse of wpvol_ntt_fwd up to the factor n (the result is n times the input), reduced;
+   inputs may be in [0, 2p). */
+void wpvol_ntt_inv(ulong *a, slong n, const wpvol_ntt_t F);
+
+/* pre[i] = Shoup quotient of b[i] (b in [0,p)). */
+void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod);
+
+/* a[i] = a[i] b[i] mod p, result in [0, 2p) (accepted as input by wpvol_ntt_inv). */
+void wpvol_ntt_mul_shoup_vec(ulong *a, const ulong *b, const ulong *pre, slong n, nmod_t mod);
+
+/* a[i] *= c mod p for i < n (a in [0,p)). */
+void wpvol_ntt_scale(ulong *a, slong n, ulong c, nmod_t mod);
+
+/* out[i] = 2 sum_{k<npairs} a[k][i] b[k][i] + (sq ? sq[i]^2 : 0) mod p, i < n (out may not alias
+   the inputs).  Exact three-word accumulation, one reduction per entry. */
+void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, const ulong *sq,
+                    slong n, nmod_t mod);
+
+/* --- wpvol_modp.c ------------------------------------------------------------------------ */
+
+/* Truncation orders used for the tables up to (G,N): see wpvol_modp.c.  Maximum series length
+   over all genera; callers use it to choose primes (p must exceed it, see wpvol_modp_table). */
+slong wpvol_modp_maxlen(slong G, slong N);
+
+/* Buffers for all primes of one (G, N) (opaque; one per thread). */
+typedef struct wpvol_ws_struct wpvol_ws_t;
+
+/* New workspace for tables up to (G, N) (G, N >= 0), or NULL on exhausted memory.  Owned by
+   the caller: release with wpvol_ws_free (NULL allowed). */
+wpvol_ws_t *wpvol_ws_new(slong G, slong N);
+void wpvol_ws_free(wpvol_ws_t *ws);
+
+/* As wpvol_modp_table_ex for the (G, N) of ws, reusing its buffers. */
+int wpvol_modp_run(wpvol_ws_t *ws, ulong *res, nmod_t mod, int allow_ntt);
+
+/* res[g*(N+1)+n] = V_{g,n} mod p for 0 <= g <= G, 0 <= n <= N (0 for unstable (g,n)).
+   p must be prime with p > wpvol_modp_maxlen(G,N) + 5G + 30.  Returns WPVOL_OK, WPVOL_BADARG
+   (prime too small), WPVOL_NOMEM or WPVOL_INTERNAL (the top-down consistency check failed). */
+int wpvol_modp_table(ulong *res, slong G, slong N, nmod_t mod);
+
+/* As wpvol_modp_table; allow_ntt = 0 forces FLINT's products even when p = 1 mod 2^k would
+   allow cached transforms (the two paths must agree: used by the tests). */
+int wpvol_modp_table_ex(ulong *res, slong G, slong N, nmod_t mod, int allow_ntt);
+
+/* --- wpvol_estimate.c -------------------------------------------------------------------- */
+
+/* Rough number of bits of the product of primes needed to reconstruct every (int kappa_1^d)
+   of the table up to (G, N) (numerator plus denominator bits of the largest entry, plus a
+   margin).  Used to size the first batch of primes; underestimates only cost extra batches. */
+double wpvol_estimate_bits(slong G, slong N);
+
+/* Model of bits(num) + bits(den) of (3g-3+n)! V_{g,n} (0 for unstable (g, n)). */
+double wpvol_estimate_bits_gn(slong g, slong n);
+
+/* Model bound on bits(den) of (3g-3+n)! V_{g,n}: the first denominator bound tried. */
+double wpvol_estimate_den_bits(slong g);
+
+#endif
