@@ -34,6 +34,8 @@ void interp_clear(interp *I)
     wk_table_free(I->wk);
     keymap_clear(&I->integrals);
     fastvol_clear(I);
+    results_close(I);
+    free(I->store_path);
     for (int i = 0; i < I->nprograms; i++) {
         ast_list_free(I->programs[i]);
         source_free(I->sources[i]);

@@ -220,15 +220,41 @@ static value *integrate_verify(interp *I, const node *where, slong g, slong n, c
     return NULL;
 }
 
-value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
+static value *integrate_compute(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
-    if (!integrate_space_ok(I, where, g, n))
-        return NULL;
     int handled;
     value *fast = fastvol_try(I, where, g, n, integrand, &handled);
     if (handled)
         return fast && I->verify ? integrate_verify(I, where, g, n, integrand, fast) : fast;
     return integrate_by_reduction(I, where, g, n, integrand);
+}
+
+/* The exact question, as the store's key: the space and the class as printed. */
+static char *integrate_question(interp *I, slong g, slong n, const value *integrand)
+{
+    char *c = value_get_str(integrand, &I->ring);
+    char *q = xasprintf("int[%ld,%ld] %s", (long)g, (long)n, c);
+    free(c);
+    return q;
+}
+
+value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    if (!integrate_space_ok(I, where, g, n))
+        return NULL;
+    if (I->verify || integrand->kind != V_CLASS)
+        return integrate_compute(I, where, g, n, integrand);
+    char *q = integrate_question(I, g, n, integrand);
+    value *r = value_new_num(&I->ring);
+    if (!results_lookup(I, q, r->num)) {
+        value_release(r);
+        double t0 = results_clock();
+        r = integrate_compute(I, where, g, n, integrand);
+        if (r)
+            results_save(I, q, r->num, results_clock() - t0);
+    }
+    free(q);
+    return r;
 }
 
 /* The psi-only reduction as a list of (correlator, coefficient). */

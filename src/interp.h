@@ -37,7 +37,11 @@ typedef struct interp {
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
     slong wpv_G, wpv_N;
     int route_volumes;       /* send every recognised volume integral to the volume engine */
-    int verify;              /* compute by two independent routes and compare (--verify) */         /* how values print (output statement, --format, --digits) */
+    int verify;              /* compute by two independent routes and compare (--verify) */
+    struct store *store;     /* results store, opened on first use (results.c) */
+    char *store_path;        /* --store PATH (owned), NULL for the default */
+    int store_off;           /* --no-store, or the store could not be opened */
+    int store_always;        /* store every answer, however cheap (tests) */         /* how values print (output statement, --format, --digits) */
     FILE *out;
     node_list **programs;    /* kept alive: function bodies point into them */
     source **sources;
@@ -68,6 +72,12 @@ void interp_add_search_dir(interp *I, const char *dir);
 value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled);
 int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n);
 void fastvol_clear(interp *I);
+
+/* The results store (results.c): lookup returns 1 and sets out on a hit. */
+int results_lookup(interp *I, const char *question, fmpq_mpoly_t out);
+void results_save(interp *I, const char *question, const fmpq_mpoly_t value, double seconds);
+double results_clock(void);
+void results_close(interp *I);
 
 /* table[...] E and output FORMAT [digits] (exec_table.c). */
 int exec_table(interp *I, scope *s, const node *n);

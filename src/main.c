@@ -10,6 +10,7 @@
 #include "memory.h"
 #include "repl.h"
 #include "source.h"
+#include "util.h"
 
 #define PSIKAPPA_VERSION "0.1.0"
 
@@ -28,6 +29,8 @@ static void main_usage(FILE *out)
           "options:\n"
           "  -e CODE            run CODE (may be repeated; everything runs in order, sharing definitions)\n"
           "  --explain          print the psi-only reduction of every integral statement\n"
+          "  --no-store         do not keep or reuse answers in the results store\n"
+          "  --store FILE       keep the results store in FILE (default ~/.cache/psikappa/results.sqlite)\n"
           "  --verify           compute volume integrals by two independent routes and compare\n"
           "  --format NAME      print values as exact (default), decimal, latex, csv or json\n"
           "  --digits N         correct significant digits of decimal output (default 20)\n"
@@ -74,6 +77,16 @@ static int main_valued_option(interp *I, main_state *M, const char *opt, const c
         fprintf(stderr, "psikappa: --format takes exact, decimal, latex, csv or json\n");
         return 0;
     }
+    if (strcmp(opt, "--store") == 0) {
+        if (!arg) {
+            fputs("psikappa: --store needs a file\n", stderr);
+            return 0;
+        }
+        free(I->store_path);
+        I->store_path = xstrdup(arg);
+        I->store_always = getenv("PSIKAPPA_STORE_ALL") != NULL;
+        return 1;
+    }
     if (strcmp(opt, "--lib") == 0) {
         if (!arg)
             fputs("psikappa: --lib needs a folder\n", stderr);
@@ -107,7 +120,7 @@ static int main_valued_option(interp *I, main_state *M, const char *opt, const c
 static int main_is_valued(const char *a)
 {
     static const char *opts[] = {"--max-terms", "--max-table", "--max-depth", "--max-memory", "--time-limit",
-                                 "--lib", "--format", "--digits", "--max-seconds"};
+                                 "--lib", "--format", "--digits", "--max-seconds", "--store"};
     for (size_t i = 0; i < sizeof opts / sizeof opts[0]; i++)
         if (strcmp(a, opts[i]) == 0)
             return 1;
@@ -146,6 +159,8 @@ static int main_options(interp *I, main_state *M, int argc, char **argv)
             I->explain_all = 1;
         } else if (strcmp(a, "--verify") == 0) {
             I->verify = 1;
+        } else if (strcmp(a, "--no-store") == 0) {
+            I->store_off = 1;
         } else if (main_is_valued(a)) {
             if (!main_valued_option(I, M, a, i + 1 < argc ? argv[i + 1] : NULL))
                 return EXIT_USAGE;
@@ -191,6 +206,8 @@ int main(int argc, char **argv)
     interp_init(&I);
     interp_install_abort_handler();
     main_state M = {0, 0};
+    const char *env_store = getenv("PSIKAPPA_STORE");
+    I.store_off = env_store && strcmp(env_store, "off") == 0;
     int status = main_options(&I, &M, argc, argv);
     if (status == 0) {
         cancel_install(M.time_limit);

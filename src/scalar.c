@@ -182,3 +182,76 @@ char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R)
     fmpz_clear(d);
     return strbuf_take(&b);
 }
+
+char *scalar_serialise(const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    strbuf b;
+    strbuf_init(&b);
+    fmpq_t c;
+    fmpq_init(c);
+    ulong exp[SCALAR_MAX_VARS];
+    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
+        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
+        fmpq_mpoly_get_term_exp_ui(exp, p, i, R->ctx);
+        strbuf_put_fmpq(&b, c);
+        for (int v = 0; v < SCALAR_MAX_VARS; v++)
+            if (exp[v] > 0)
+                strbuf_printf(&b, " %s^%lu", R->names[v] ? R->names[v] : "?", exp[v]);
+        strbuf_putc(&b, '\n');
+    }
+    fmpq_clear(c);
+    return strbuf_take(&b);
+}
+
+/* Reads one "name^e" factor into exp; returns the text after it or NULL. */
+static const char *scalar_read_factor(const char *s, ulong *exp, scalar_ring *R)
+{
+    const char *caret = strchr(s, '^');
+    const char *end = strpbrk(s, " \n");
+    if (!caret || (end && caret > end))
+        return NULL;
+    char *name = xasprintf("%.*s", (int)(caret - s), s);
+    int v = strcmp(name, "pi") == 0 ? SCALAR_PI : scalar_ring_declare(R, name);
+    free(name);
+    char *after;
+    unsigned long e = strtoul(caret + 1, &after, 10);
+    if (v < 0 || after == caret + 1)
+        return NULL;
+    exp[v] += e;
+    return after;
+}
+
+/* Reads one line "c f1 f2 ..." and adds the term to p; NULL on malformed text. */
+static const char *scalar_read_term(fmpq_mpoly_t p, const char *s, scalar_ring *R)
+{
+    ulong exp[SCALAR_MAX_VARS] = {0};
+    size_t len = strcspn(s, " \n");
+    char *num = xasprintf("%.*s", (int)len, s);
+    fmpq_t c;
+    fmpq_init(c);
+    int ok = fmpq_set_str(c, num, 10) == 0;
+    free(num);
+    for (s += len; ok && *s == ' ';)
+        ok = (s = scalar_read_factor(s + 1, exp, R)) != NULL;
+    ok = ok && *s == '\n';
+    if (ok) {
+        fmpq_mpoly_t t;
+        fmpq_mpoly_init(t, R->ctx);
+        fmpq_mpoly_set_coeff_fmpq_ui(t, c, exp, R->ctx);
+        fmpq_mpoly_add(p, p, t, R->ctx);
+        fmpq_mpoly_clear(t, R->ctx);
+    }
+    fmpq_clear(c);
+    return ok ? s + 1 : NULL;
+}
+
+int scalar_deserialise(fmpq_mpoly_t p, const char *text, scalar_ring *R)
+{
+    fmpq_mpoly_zero(p, R->ctx);
+    for (const char *s = text; s && *s;)
+        if (!(s = scalar_read_term(p, s, R))) {
+            fmpq_mpoly_zero(p, R->ctx);
+            return 0;
+        }
+    return 1;
+}

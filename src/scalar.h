@@ -42,6 +42,14 @@ char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R);
    The caller frees the string. */
 char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R);
 
+/* A plain serial form for storage: one term per line, "coefficient name^e ...".
+   The caller frees the string. */
+char *scalar_serialise(const fmpq_mpoly_t p, const scalar_ring *R);
+
+/* Reads the serial form back into p, declaring variables named there if
+   needed. Returns 1 on success, 0 on malformed text (p is then zero). */
+int scalar_deserialise(fmpq_mpoly_t p, const char *text, scalar_ring *R);
+
 /* The monomial of term i of p as text (e.g. L_1^2*pi^2), "" for 1; the caller frees it. */
 char *scalar_monomial_str(const fmpq_mpoly_t p, slong i, const scalar_ring *R);
 

@@ -3,7 +3,6 @@
  * remaindering and recovers the rationals by rational reconstruction, each one confirmed by
  * primes that were not used to reconstruct it.  See wpvol.h for the contract.
  */
-#include <math.h>
 #include <pthread.h>
 #include <stdlib.h>
 #include <string.h>
@@ -41,11 +40,10 @@ static void wpvol_batch_fail(wpvol_batch_t *b, int st)
     pthread_mutex_unlock(&b->lock);
 }
 
-/* Worker: takes prime indices one at a time until the batch is exhausted or an error was
-   recorded, with one workspace for all its primes.  Returns NULL (pthread signature). */
-static void *wpvol_batch_worker(void *arg)
+/* Takes prime indices one at a time until the batch is exhausted or an error was recorded,
+   with one workspace for all its primes (allocating per prime would cost page faults). */
+static void wpvol_batch_loop(wpvol_batch_t *b)
 {
-    wpvol_batch_t *b = arg;
     wpvol_ws_t *ws = wpvol_ws_new(b->G, b->N);
 
     if (ws == NULL)
@@ -67,7 +65,14 @@ static void *wpvol_batch_worker(void *arg)
             wpvol_batch_fail(b, st);
     }
     wpvol_ws_free(ws);
-    flint_cleanup();   /* per-thread FLINT caches (keeps valgrind quiet) */
+}
+
+/* Entry point of the extra threads: the loop, then release of this thread's FLINT caches
+   before it exits (keeps valgrind clean).  Returns NULL (pthread signature). */
+static void *wpvol_batch_thread(void *arg)
+{
+    wpvol_batch_loop(arg);
+    flint_cleanup();
     return NULL;
 }
 
@@ -93,9 +98,9 @@ static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong e
         return WPVOL_NOMEM;
     tid = threads > 1 ? malloc((size_t) (threads - 1) * sizeof(pthread_t)) : NULL;
     for (t = 0; tid != NULL && t < threads - 1 && t < end - start - 1; t++)
-        if (pthread_create(&tid[started], NULL, wpvol_batch_worker, &b) == 0)
+        if (pthread_create(&tid[started], NULL, wpvol_batch_thread, &b) == 0)
             started++;
-    wpvol_batch_worker(&b);
+    wpvol_batch_loop(&b);
     for (t = 0; t < started; t++)
         pthread_join(tid[t], NULL);
     free(tid);
@@ -197,7 +202,7 @@ typedef struct
     slong G, N, nv;
     wpvol_val_t *val;
     ulong *primes, *res;
-    slong nprimes, absorbed;   /* primes known, primes folded into the residues */
+    slong nprimes;             /* primes used so far (all folded into the residues) */
     fmpz_t M;                  /* product of the absorbed primes */
     slong *try_bits;           /* bits(M) needed before the next reconstruction attempt */
 } wpvol_drv_t;
@@ -382,7 +387,6 @@ static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong fir
             break;
         for (i = start; i < target; i++)
             wpvol_run_absorb(D, i, fac, nfac);
-        D->absorbed = target;
         pending = wpvol_run_reconstruct(D, &uncand);
         if (pending == 0)
             break;

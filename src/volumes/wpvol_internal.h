@@ -15,6 +15,8 @@
 #define PSIKAPPA_VOLUMES_WPVOL_INTERNAL_H
 
 #include <flint/flint.h>
+#include <flint/ulong_extras.h>
+#include <flint/nmod.h>
 #include <flint/nmod_vec.h>
 #include <flint/nmod_poly.h>
 

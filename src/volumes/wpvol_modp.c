@@ -11,12 +11,16 @@
  * (n = 0) follows from d_0 F_g = sum_m (f_{m-1}' + (m-2) I_2 f_{m-2}) v^{-m} solved from the
  * top power of v down (F_g = sum_m f_m v^{-m}, m in [2g-1, 5g-5]).
  *
- * Truncation.  With d = (top power) - m the distance of a row from the top and o the order in u,
- * the terms needed are {o <= R_h} (for n >= 1: R_h = N-1+3(G-h), since d_0^4 F_{h} feeds genus
- * h+1 and costs three orders) together with {d + o <= S}, S = 3G-3 (for n = 0: the top-down
- * step needs c_j up to order j-2g).  Both regions are closed under d_0 and products, so every
- * genus is stored as a rectangle of length 1 + max(R_h, S); entries outside the region are
- * computed but never reach an entry inside it.
+ * Truncation.  With d = (top power) - m the distance of a row from the top and o the order in
+ * u, d_0 maps (d, o) to (d+1, o-1) and (d, o+r), and products add both d and o, so the set
+ * {d + o <= S} is closed under every operation used.  One S serves all genera (see
+ * wpvol_modp_tri); every genus is stored as rows of length L = S+1, the row at distance d
+ * holding L - d meaningful terms (triangular biv).
+ *
+ * Products.  The sum over h of d_0^2 F_h d_0^2 F_{g-h} is computed with the Kronecker
+ * substitution (row r in slot r(2L-1)); with a prime p = c 2^k + 1 each d_0^2 F_h is
+ * transformed once (wpvol_ntt.c) and every genus needs one pointwise multiply-accumulate and
+ * one inverse transform.  Any other prime uses FLINT's products (same results).
  */
 #include <stdlib.h>
 #include <string.h>

@@ -3,6 +3,8 @@
 # ```output block must print exactly that output (stdout and stderr together,
 # so that documented error messages are checked too).
 set -u
+# Golden tests never touch the user's results store.
+export PSIKAPPA_STORE=off
 exe=$1
 doc=$2
 tmp=$(mktemp -d)

@@ -6,6 +6,8 @@
 #   X.status  expected exit status (absent: 1 when X.err exists, else 0)
 #   X.args    extra command-line options, one line (optional)
 set -u
+# Golden tests never touch the user's results store.
+export PSIKAPPA_STORE=off
 exe=$1
 script=$2
 dir=$(dirname "$script")
