@@ -4,6 +4,7 @@
 #include <string.h>
 
 #include "builtins.h"
+#include "real_ops.h"
 #include "diag.h"
 #include "series_ops.h"
 #include "util.h"
@@ -112,10 +113,29 @@ static value *builtin_denom(interp *I, const node *call, value **args)
     return builtin_part(I, call, args[0], 0);
 }
 
+/* real(x, digits): a certified ball for x, to continue numerically. */
+static value *builtin_real(interp *I, const node *call, value **args)
+{
+    slong digits;
+    if (!builtin_get_slong(I, call, args, 1, 1, OUT_MAX_DIGITS, &digits))
+        return NULL;
+    return real_from_exact(I, call->list->items[0], args[0], digits);
+}
+
 /* decimal(x, digits): x to the given number of correct significant digits. */
 static value *builtin_decimal(interp *I, const node *call, value **args)
 {
     slong digits;
+    if (args[0]->kind == V_REAL) {
+        if (!builtin_get_slong(I, call, args, 1, 1, OUT_MAX_DIGITS, &digits))
+            return NULL;
+        if (!arb_is_exact(args[0]->re) && arb_rel_accuracy_bits(args[0]->re) < (slong)(digits * 3.3219280948873623))
+            return builtin_fail(call, "this real is not known to that many digits (make it with more digits)");
+        char *t = arb_get_str(args[0]->re, digits, ARB_STR_NO_RADIUS);
+        value *r = value_new_str(xstrdup(t), &I->ring);
+        flint_free(t);
+        return r;
+    }
     if (args[0]->kind != V_NUM || !scalar_is_pi_only(args[0]->num, &I->ring))
         return builtin_fail(call->list->items[0], "decimal() needs a number (pi allowed, no formal variables)");
     if (!builtin_get_slong(I, call, args, 1, 1, OUT_MAX_DIGITS, &digits))
@@ -137,13 +157,14 @@ const builtin builtins_core[] = {
     {"numer", 1, builtin_numer, "numer(q)"},
     {"denom", 1, builtin_denom, "denom(q)"},
     {"decimal", 2, builtin_decimal, "decimal(x, digits)"},
+    {"real", 2, builtin_real, "real(x, digits): x as a certified real with that many correct digits"},
     {"wpvolume", 2, builtin_wpvolume, "wpvolume(g, n): V_{g,n}(L_1..L_n)"},
     {NULL, 0, NULL, NULL},
 };
 
 static const builtin *builtin_find(const char *name)
 {
-    const builtin *tables[] = {builtins_core, builtins_series};
+    const builtin *tables[] = {builtins_core, builtins_series, builtins_toolkit};
     for (size_t t = 0; t < sizeof tables / sizeof tables[0]; t++)
         for (const builtin *b = tables[t]; b->name; b++)
             if (strcmp(b->name, name) == 0)

@@ -17,6 +17,7 @@ typedef struct {
 
 extern const builtin builtins_core[];    /* builtins.c, ends with a NULL name */
 extern const builtin builtins_series[];  /* builtins_series.c */
+extern const builtin builtins_toolkit[]; /* toolkit.c: sequences, extrapolation, recognition, plots */
 
 /* Reports msg at the call's argument i (or the call itself when i < 0). */
 value *builtin_fail_at(const node *call, int i, const char *msg);

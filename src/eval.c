@@ -6,6 +6,7 @@
 #include "cancel.h"
 #include "diag.h"
 #include "interp.h"
+#include "real_ops.h"
 #include "series_ops.h"
 #include "util.h"
 
@@ -174,9 +175,9 @@ static value *eval_neg(interp *I, scope *s, const node *n)
     if (a->kind == V_NUM) {
         r = value_new_num(&I->ring);
         fmpq_mpoly_neg(r->num, a->num, I->ring.ctx);
-    } else if (a->kind == V_SERIES) {
+    } else if (a->kind == V_SERIES || a->kind == V_REAL) {
         value *m = value_new_si(&I->ring, -1);
-        r = series_arith(I, n, '*', m, a);
+        r = a->kind == V_REAL ? real_arith(I, n, '*', m, a) : series_arith(I, n, '*', m, a);
         value_release(m);
     } else {
         value *m = value_new_si(&I->ring, -1);
@@ -243,6 +244,8 @@ static value *eval_pow(interp *I, scope *s, const node *n, value *a)
         return eval_pow_num(I, n, a, e);
     if (a->kind == V_SERIES)
         return series_pow(I, n, a, e);
+    if (a->kind == V_REAL)
+        return real_pow(I, n, a, e);
     if (a->kind == V_STR || a->kind == V_LIST)
         return eval_fail(n, "only numbers, classes and series have powers");
     return value_new_class(cx_pow(value_to_class(a), e, n), &I->ring);
@@ -321,6 +324,8 @@ static value *eval_binop(interp *I, scope *s, const node *n)
         eval_fail(n, "arithmetic on strings is not defined");
     else if (b && (a->kind == V_LIST || b->kind == V_LIST))
         eval_fail(n, "arithmetic on lists is not defined (build a new list with seq[i = a..b] E)");
+    else if (b && (a->kind == V_REAL || b->kind == V_REAL))
+        r = real_arith(I, n, n->op, a, b);
     else if (b && (a->kind == V_SERIES || b->kind == V_SERIES))
         r = series_arith(I, n, n->op, a, b);
     else if (b && a->kind == V_NUM && b->kind == V_NUM)
@@ -546,6 +551,8 @@ static value *eval_sum(interp *I, scope *s, const node *n)
         value *next = NULL;
         if (t && (t->kind == V_STR || t->kind == V_LIST))
             eval_fail(n->c, "sum and prod need numbers, classes or series");
+        else if (t && (acc->kind == V_REAL || t->kind == V_REAL))
+            next = real_arith(I, &op, op.op, acc, t);
         else if (t && (acc->kind == V_SERIES || t->kind == V_SERIES))
             next = series_arith(I, &op, op.op, acc, t);
         else if (t)

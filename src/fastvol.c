@@ -21,7 +21,10 @@ static int fastvol_grow(interp *I, const node *where, slong g, slong n)
 {
     if (I->wpv && g <= I->wpv_G && n <= I->wpv_N)
         return 1;
-    slong G = g > I->wpv_G ? g : I->wpv_G, N = n > I->wpv_N ? n : I->wpv_N;
+    /* grow in steps, so that a loop over g or n does not recompute the table each time */
+    slong G = I->wpv ? I->wpv_G + I->wpv_G / 4 : g, N = I->wpv ? I->wpv_N : 6;
+    G = g > G ? g : G;
+    N = n > N ? n : N;
     double sec, bytes;
     wpvol_estimate(&sec, &bytes, G, N);
     if (sec > I->lim.max_seconds || bytes > FASTVOL_MAX_BYTES) {

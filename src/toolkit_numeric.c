@@ -1,18 +1,13 @@
-/* Numerical builtins of the toolkit, all by Arb ball arithmetic: ball,
-   recognise (integer relations found by LLL and then verified), the first
-   zero of the Bessel function J_0, J_1, and the constant 2/(x_0 J_1(x_0)). */
+/* Numerical builtins of the toolkit, all by Arb ball arithmetic: ball, the
+   first zero of the Bessel function J_0, J_1, and the constant 2/(x_0 J_1(x_0)).
+   Also the readers of exact numbers and decimal strings as balls that
+   toolkit_recognise.c and toolkit_svg.c share. */
 #include <ctype.h>
 #include <errno.h>
-#include <math.h>
 #include <stdlib.h>
-#include <string.h>
-
-#include <flint/fmpz_lll.h>
-#include <flint/fmpz_mat.h>
 
 #include "arb_compat.h"
 #include "builtins.h"
-#include "strbuf.h"
 #include "util.h"
 
 #ifdef PSIKAPPA_FLINT3_ARB
@@ -24,7 +19,6 @@
 #define TK_LOG2_10 3.321928094887362
 #define TK_LOG10_2 0.3010299956639812
 #define TK_MAX_DIGITS 100000   /* decimal(): same order; more would take minutes */
-#define TK_MAX_BASIS 30        /* LLL on larger lattices is slow and rarely meaningful */
 
 /* Evaluates p, a polynomial in pi alone, as a ball at precision prec.
    Used for every exact number handed to the numerical builtins. */
@@ -279,8 +273,9 @@ value *toolkit_j1(interp *I, const node *call, value **args)
             v = tk_str_value(I, y, digits, ARB_STR_NO_RADIUS);
     }
     if (!v && read) {
-        char *msg = xasprintf("J_1(x) is known to only about %ld digits here (is x given to enough digits?)",
-                              (long)(arb_rel_accuracy_bits(y) * TK_LOG10_2));
+        slong known = arb_is_finite(y) ? FLINT_MAX(0, (slong)(arb_rel_accuracy_bits(y) * TK_LOG10_2)) : 0;
+        char *msg = xasprintf("J_1(x) is known to only about %ld digits here (is x huge, or given to too few digits?)",
+                              (long)known);
         builtin_fail_at(call, 0, msg);
         free(msg);
     }
@@ -290,7 +285,8 @@ value *toolkit_j1(interp *I, const node *call, value **args)
 }
 
 /* mz_constant(d): 2/(x_0 J_1(x_0)) = -2/(x_0 J_0'(x_0)), x_0 the first zero
-   of J_0, to d digits: the growth constant of the genus-0 volumes. */
+   of J_0, to d digits: the growth constant of the volumes in fixed genus (Manin-Zograf
+   2000; docs/asymptotics.md checks it against the genus-0 volumes). */
 value *toolkit_mz_constant(interp *I, const node *call, value **args)
 {
     slong digits;

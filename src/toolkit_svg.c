@@ -189,8 +189,11 @@ static void svg_ranges(svg_plot *P)
     if (P->inverse)
         P->xlo = 0.0;
     svg_axis_fit(&P->xlo, &P->xhi, &P->xstep);
-    if (!P->inverse && P->xstep < 1.0) /* indices are integers: no ticks between them */
+    if (!P->inverse && P->xstep < 1.0) { /* indices are integers: no ticks between them */
         P->xstep = 1.0;
+        P->xlo = floor(P->xlo);
+        P->xhi = ceil(P->xhi);
+    }
     svg_axis_fit(&P->ylo, &P->yhi, &P->ystep);
 }
 

@@ -68,6 +68,14 @@ value *value_new_list(slong len, const scalar_ring *R)
     return v;
 }
 
+value *value_new_real(const scalar_ring *R)
+{
+    value *v = value_alloc(V_REAL, R);
+    v->re = xmalloc(sizeof(arb_struct));
+    arb_init(v->re);
+    return v;
+}
+
 value *value_ref(value *v)
 {
     v->refs++;
@@ -85,6 +93,10 @@ void value_release(value *v)
     for (slong i = 0; i < v->len; i++)
         value_release(v->items[i]);
     free(v->items);
+    if (v->re) {
+        arb_clear(v->re);
+        free(v->re);
+    }
     if (v->ser) {
         tseries_clear(v->ser, v->ctx);
         free(v->ser);
@@ -106,6 +118,8 @@ char *value_get_str(const value *v, const scalar_ring *R)
         return v->termwise ? scalar_get_str_termwise(v->num, R) : scalar_get_str(v->num, R);
     case V_SERIES:
         return print_series(v->ser, R);
+    case V_REAL:
+        return print_real(v->re);
     case V_CLASS:
         return print_class(v->cls, R);
     case V_STR:
@@ -128,6 +142,6 @@ char *value_get_str(const value *v, const scalar_ring *R)
 
 const char *value_kind_name(const value *v)
 {
-    static const char *names[] = {"number", "class", "string", "series", "list"};
+    static const char *names[] = {"number", "class", "string", "series", "list", "real"};
     return names[v->kind];
 }

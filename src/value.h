@@ -9,8 +9,9 @@
 #include "classes/classexpr.h"
 #include "scalar.h"
 #include "series/tseries.h"
+#include "arb_compat.h"
 
-typedef enum { V_NUM, V_CLASS, V_STR, V_SERIES, V_LIST } value_kind;
+typedef enum { V_NUM, V_CLASS, V_STR, V_SERIES, V_LIST, V_REAL } value_kind;
 
 typedef struct value {
     value_kind kind;
@@ -21,6 +22,7 @@ typedef struct value {
     tseries *ser;                       /* V_SERIES, owned */
     struct value **items;               /* V_LIST: owned references */
     slong len;                          /* V_LIST: number of items */
+    arb_struct *re;                     /* V_REAL: a certified ball (owned) */
     int termwise;                       /* V_NUM: print term by term (rational * monomial) */
     const fmpq_mpoly_ctx_struct *ctx;   /* ring of num (not owned) */
 } value;
@@ -36,6 +38,9 @@ value *value_new_series(slong var, slong order, const scalar_ring *R);
 
 /* A list of len items, each set by the caller (it owns the references it puts there). */
 value *value_new_list(slong len, const scalar_ring *R);
+
+/* A real ball (zero), to be set by the caller; arithmetic on it is ball arithmetic. */
+value *value_new_real(const scalar_ring *R);
 
 value *value_ref(value *v);
 void value_release(value *v);

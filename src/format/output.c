@@ -640,6 +640,19 @@ static char *out_value_styled(const value *v, const scalar_ring *R, const out_st
 {
     char *s, *t;
     strbuf b;
+    if (v->kind == V_REAL) {
+        /* a ball prints its certain digits in every format; JSON keeps it a string */
+        s = print_real(v->re);
+        if (st->fmt != OUT_JSON && st->fmt != OUT_CSV)
+            return s;
+        strbuf_init(&b);
+        if (st->fmt == OUT_JSON)
+            out_json_put_string(&b, s);
+        else
+            strbuf_puts(&b, s);
+        free(s);
+        return strbuf_take(&b);
+    }
     switch (st->fmt) {
     case OUT_DECIMAL:
         return out_value_decimal(v, R, st, err);

@@ -40,10 +40,12 @@ char *out_decimal(const fmpq_mpoly_t p, const scalar_ring *R, slong digits, int 
 char *out_latex_scalar(const fmpq_mpoly_t p, const scalar_ring *R);
 
 /* Text of one value in the style: OUT_EXACT the usual form, OUT_DECIMAL
-   digits, OUT_LATEX math-mode text, OUT_CSV one quoted-if-needed field,
-   OUT_JSON one JSON value (a string literal: exact values as strings).
-   Returns NULL and sets *err when the value cannot be shown so (a decimal of
-   a class, or of a polynomial in a formal variable). */
+   digits (series coefficient by coefficient, lists item by item; strings
+   unchanged), OUT_LATEX math-mode text, OUT_CSV one quoted-if-needed field,
+   OUT_JSON one JSON value (exact values as strings, lists as arrays).
+   *err is set to NULL first. Returns NULL and sets *err when the value cannot
+   be shown so (a decimal of a class, or of anything with a formal variable;
+   digits outside 1..OUT_MAX_DIGITS). */
 char *out_value(const value *v, const scalar_ring *R, const out_style *st, char **err);
 
 /* Prints a table with row labels (named row_name), column labels (named

@@ -3,6 +3,8 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "../util.h"
+
 /* Binding strength of each kind, to decide where parentheses are needed. */
 static int print_level(const cx *e, const scalar_ring *R)
 {
@@ -104,6 +106,16 @@ char *print_series(const tseries *s, const scalar_ring *R)
     fmpq_mpoly_clear(c, R->ctx);
     strbuf_printf(&b, "%sO(%s^%ld)", first ? "" : " + ", x, (long)(s->order + 1));
     return strbuf_take(&b);
+}
+
+char *print_real(const arb_t x)
+{
+    slong bits = arb_rel_accuracy_bits(x);
+    slong digits = arb_is_exact(x) ? 30 : (slong)(bits * 0.30102999566398) - 1;
+    char *s = digits >= 1 ? arb_get_str(x, digits, ARB_STR_NO_RADIUS) : arb_get_str(x, 5, 0);
+    char *r = xstrdup(s);
+    flint_free(s);
+    return r;
 }
 
 void print_correlator(strbuf *b, slong g, const slong *d, slong n)

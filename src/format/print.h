@@ -6,6 +6,7 @@
 
 #include "../classes/classexpr.h"
 #include "../series/tseries.h"
+#include "../arb_compat.h"
 #include "../scalar.h"
 #include "../strbuf.h"
 
@@ -14,6 +15,10 @@ char *print_class(const cx *e, const scalar_ring *R);
 
 /* c0 + c1*x + ... + O(x^(N+1)); the caller frees the result. */
 char *print_series(const tseries *s, const scalar_ring *R);
+
+/* The digits of a ball that are certain (rounded), e.g. 0.3183098861837906715;
+   the caller frees the result. */
+char *print_real(const arb_t x);
 
 /* Appends <tau_2 tau_3^2>_g for a multi-index d sorted in descending order
    (printed ascending, equal entries shown as powers). */

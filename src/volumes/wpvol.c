@@ -173,15 +173,15 @@ static int wpvol_reconstruct_db(fmpq_t q, const fmpz_t a, const fmpz_t M, slong 
 }
 
 /* Tries a denominator bound from the size model of genus g first (the scaled values have
-   small denominators, so this needs the fewest primes), then a quarter and a half of the
-   available bits.  Returns 1 and sets q on success. */
+   small denominators, so this needs the fewest primes), then twice that, then the balanced
+   bound.  Returns 1 and sets q on success. */
 static int wpvol_reconstruct(fmpq_t q, const fmpz_t a, const fmpz_t M, slong g)
 {
     slong bits = fmpz_bits(M), db = (slong) wpvol_estimate_den_bits(g);
 
-    if (db < bits / 4 && wpvol_reconstruct_db(q, a, M, db))
+    if (db < bits / 2 - 1 && wpvol_reconstruct_db(q, a, M, db))
         return 1;
-    if (wpvol_reconstruct_db(q, a, M, bits / 4))
+    if (2 * db < bits / 2 - 1 && wpvol_reconstruct_db(q, a, M, 2 * db))
         return 1;
     return wpvol_reconstruct_db(q, a, M, bits / 2 - 1);
 }
@@ -250,8 +250,8 @@ static int wpvol_run_init(wpvol_drv_t *D, slong G, slong N)
         D->val[k].has_cand = 0;
         D->val[k].confirmed = 0;
         D->val[k].done = (2 * g - 2 + n <= 0);
-        /* no attempt before the modulus reaches 3/4 of the modelled size */
-        D->try_bits[k] = (slong) (0.75 * wpvol_estimate_bits_gn(g, n));
+        /* no attempt before the modulus reaches 7/8 of the modelled need */
+        D->try_bits[k] = (slong) (0.875 * wpvol_estimate_need_bits(g, n));
     }
     return 0;
 }
@@ -347,13 +347,12 @@ static void wpvol_run_output(fmpq *out, const wpvol_drv_t *D)
     fmpz_clear(f);
 }
 
-/* Number of primes for the first batch: the size model of the largest entry (scaled to this
-   prime size) plus two for the asymmetric reconstruction margin, at least min_primes and at
-   least one per thread. */
+/* Number of primes for the first batch: the modelled need of the largest entry (scaled to
+   this prime size) plus one, at least min_primes and at least one per thread. */
 static slong wpvol_first_batch(slong G, slong N, int threads, int prime_bits, slong min_primes)
 {
     double bits = wpvol_estimate_bits(G, N), b = prime_bits >= 62 ? 61.0 : prime_bits - 2.0;
-    slong np = (slong) (bits / b) + 2;
+    slong np = (slong) (bits / b) + 1;
 
     np = FLINT_MAX(np, min_primes);
     return FLINT_MAX(np, (slong) threads);

@@ -2,9 +2,11 @@
  *
  * The size model was fitted (least squares, then checked at the corners of the tables) on the
  * exact results of this engine for g <= 50, n <= 5; g <= 3, n <= 500; g <= 20, n <= 60 and
- * g <= 8, n <= 200.  Writing W = (3g-3+n)! V_{g,n} = int kappa_1^{3g-3+n}:
- *     bits(num W) + bits(den W) ~ log2((3g-3+n)!) + log2((2g-3+n)!) + 18.8 g + 0.71 n - 36,
- *     bits(den W) <= 11.5 g + 20  (observed maxima: 39, 97, 206, 339, 449, 561 at g = 5..50).
+ * g <= 8, n <= 200 (largest under-estimate 62 bits).  Writing W = (3g-3+n)! V_{g,n}:
+ *     bits(num W) + bits(den W) ~ log2((3g-3+n)!) + log2((2g-3+n)!)
+ *                                 + 4.78 g + 2.72 g log2(g+1) + 0.67 n - 5.8,
+ *     bits(den W) ~ 11.2 g (observed maxima: 39, 97, 206, 339, 449, 561 at g = 5..50),
+ * and the reconstruction first assumes bits(den W) <= 12 g + 40.
  * The factorials reflect the growth V_{g,n} ~ (2g-3+n)! (4 pi^2)^{2g-3+n} / (2 pi^2)^{3g-3+n}
  * for large g.  The models only size the first batch of primes and the first attempt of each
  * reconstruction; wrong guesses cost time, never correctness.
@@ -28,18 +30,29 @@ double wpvol_estimate_bits_gn(slong g, slong n)
     if (g < 0 || n < 0 || 2 * g - 2 + n <= 0)
         return 0.0;
     b = wpvol_estimate_lfact(3 * g - 3 + n) + wpvol_estimate_lfact(2 * g - 3 + n)
-        + 18.8 * (double) g + 0.71 * (double) n - 36.0;
+        + 4.78 * (double) g + 2.72 * (double) g * log2((double) g + 1.0) + 0.67 * (double) n
+        - 5.8;
     return b > 8.0 ? b : 8.0;
 }
 
-/* Model bound for bits(den) of (3g-3+n)! V_{g,n} (the scaled values have small denominators). */
+/* Denominator bound of the first reconstruction attempt for genus g: above the observed
+   bits(den W) ~ 11.2 g with some room, since a failed attempt costs primes. */
 double wpvol_estimate_den_bits(slong g)
 {
-    return 11.5 * (double) g + 20.0;
+    return 12.0 * (double) g + 40.0;
 }
 
-/* Largest model size over the table (the model grows with g and n, but check both n = 0 and
-   n = N for every genus to stay safe at the unstable corner). */
+/* Bits of modulus that the first reconstruction attempt of (g, n) needs: the numerator (model
+   total minus the expected denominator) plus the denominator bound plus 2. */
+double wpvol_estimate_need_bits(slong g, slong n)
+{
+    double b = wpvol_estimate_bits_gn(g, n) - 11.2 * (double) g + wpvol_estimate_den_bits(g);
+
+    return b + 2.0;
+}
+
+/* Largest modulus size needed over the table (the model grows with g and n, but check both
+   n = 0 and n = N for every genus to stay safe at the unstable corner). */
 double wpvol_estimate_bits(slong G, slong N)
 {
     double m = 0.0;
@@ -47,7 +60,7 @@ double wpvol_estimate_bits(slong G, slong N)
 
     for (g = 0; g <= G; g++)
     {
-        double a = wpvol_estimate_bits_gn(g, N), b = wpvol_estimate_bits_gn(g, 0);
+        double a = wpvol_estimate_need_bits(g, N), b = wpvol_estimate_need_bits(g, 0);
         m = a > m ? a : m;
         m = b > m ? b : m;
     }
@@ -74,9 +87,11 @@ static double wpvol_estimate_work(slong G, slong N)
         w += 0.5 * (double) g * T * 1.3 + 2.0 * T * log2(T) * 0.75
              + 3.0 * (L * L * L - r * r * r) / 6.0 * 0.9;
     }
-    /* outputs and genus 0: series of length N, a few per genus */
-    w += (double) (G + 1) * (double) N * (double) N * 2.0 + 1.0e5;
-    return w * 1.0e-9;   /* calibrated so that one unit is about one second */
+    /* outputs: a series composition of length N per genus (FLINT, about N^2 log N) */
+    w += (double) (G + 1) * (double) N * (double) N * log2((double) N + 2.0) * 1.5 + 1.0e5;
+    /* one unit = 1 ns of the work above; the factor 1.6 matches CPU seconds measured for
+       (50,5), (100,5), (3,500) on a heavily shared 2-core VM (so it is rather pessimistic) */
+    return w * 1.6e-9;
 }
 
 /* See wpvol.h.  Seconds: primes (from the size model) times the per-prime work, plus the

@@ -146,9 +146,6 @@ void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod);
 /* a[i] = a[i] b[i] mod p, result in [0, 2p) (accepted as input by wpvol_ntt_inv). */
 void wpvol_ntt_mul_shoup_vec(ulong *a, const ulong *b, const ulong *pre, slong n, nmod_t mod);
 
-/* a[i] *= c mod p for i < n (a in [0,p)). */
-void wpvol_ntt_scale(ulong *a, slong n, ulong c, nmod_t mod);
-
 /* out[i] = 2 sum_{k<npairs} a[k][i] b[k][i] + (sq ? sq[i]^2 : 0) mod p, i < n (out may not alias
    the inputs).  Exact three-word accumulation, one reduction per entry. */
 void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, const ulong *sq,
@@ -183,9 +180,12 @@ int wpvol_modp_table_ex(ulong *res, slong G, slong N, nmod_t mod, int allow_ntt)
 /* --- wpvol_estimate.c -------------------------------------------------------------------- */
 
 /* Rough number of bits of the product of primes needed to reconstruct every (int kappa_1^d)
-   of the table up to (G, N) (numerator plus denominator bits of the largest entry, plus a
-   margin).  Used to size the first batch of primes; underestimates only cost extra batches. */
+   of the table up to (G, N) (max of wpvol_estimate_need_bits).  Used to size the first batch
+   of primes; underestimates only cost extra batches. */
 double wpvol_estimate_bits(slong G, slong N);
+
+/* Model of the modulus bits needed by the first reconstruction attempt of (g, n). */
+double wpvol_estimate_need_bits(slong g, slong n);
 
 /* Model of bits(num) + bits(den) of (3g-3+n)! V_{g,n} (0 for unstable (g, n)). */
 double wpvol_estimate_bits_gn(slong g, slong n);

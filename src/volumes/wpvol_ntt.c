@@ -225,19 +225,6 @@ void wpvol_ntt_inv(ulong *a, slong n, const wpvol_ntt_t F)
         a[j] = a[j] >= p ? a[j] - p : a[j];
 }
 
-/* a[i] = a[i] * c mod p for i < n (a in [0, p)), one Shoup quotient for all entries. */
-void wpvol_ntt_scale(ulong *a, slong n, ulong c, nmod_t mod)
-{
-    ulong pre = wpvol_ntt_shoup_pre(c, mod.n);
-    slong i;
-
-    for (i = 0; i < n; i++)
-    {
-        ulong r = wpvol_ntt_mulshoup(a[i], c, pre, mod.n);
-        a[i] = r >= mod.n ? r - mod.n : r;
-    }
-}
-
 /* pre[i] = Shoup quotient of b[i] (b in [0, p)), for repeated multiplication by b. */
 void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod)
 {

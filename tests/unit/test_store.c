@@ -220,6 +220,47 @@ static void test_corrupt_files(void)
     expect_rebuilt(path, file_size(path), "foreign schema");
 }
 
+/* Above the size where the full check is skipped: damage inside must still
+   never produce a wrong answer, only misses, and the store must keep working. */
+static void test_large_damaged_store(void)
+{
+    char *err = NULL, q[32], a[1000];
+    const char *path = in_dir(0, "large.sqlite");
+    store *S = store_open(path, "0.1.0", &err);
+    free(err);
+    if (!S)
+        return;
+    for (int i = 0; i < 5000; i++) {
+        snprintf(q, sizeof q, "q%d", i);
+        memset(a, 'a' + i % 26, sizeof a - 1);
+        a[sizeof a - 1] = '\0';
+        store_put(S, q, a);
+    }
+    store_close(S);
+    long size = file_size(path);
+    UNIT_CHECK(&rep, size > (4L << 20), "large store is %ld bytes, want more than 4 MiB", size);
+    write_bytes(path, 2L << 20, 64L << 10, 13);
+    S = store_open(path, "0.1.0", &err);
+    UNIT_CHECK(&rep, S != NULL, "large damaged store opens: %s", err ? err : "");
+    free(err);
+    if (!S)
+        return;
+    int hits = 0, wrong = 0;
+    for (int i = 0; i < 5000; i++) {
+        char *got = NULL;
+        snprintf(q, sizeof q, "q%d", i);
+        if (store_get(S, q, &got)) {
+            hits++;
+            wrong += strlen(got) != sizeof a - 1 || got[0] != 'a' + i % 26 || got[998] != 'a' + i % 26;
+            free(got);
+        }
+    }
+    UNIT_CHECK(&rep, wrong == 0, "%d wrong answers from a damaged store", wrong);
+    UNIT_CHECK(&rep, hits > 0 && hits < 5000, "damage must cost some rows, not all: %d hits", hits);
+    store_put(S, "after damage", "still usable?");
+    store_close(S);
+}
+
 static void test_tampered_rows(void)
 {
     char *err = NULL;
@@ -274,6 +315,7 @@ int main(void)
     test_versions();
     test_corrupt_files();
     test_tampered_rows();
+    test_large_damaged_store();
     test_unusable_paths();
     if (rep.failed == 0) {
         char cmd[128];
