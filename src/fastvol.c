@@ -12,7 +12,7 @@
 
 /* Below this many correlator terms the reduction is as fast as the engine,
    and it stays the reference route. */
-#define FASTVOL_MIN_TERMS 10000.0
+#define FASTVOL_MIN_TERMS 2000.0
 
 /* Refuse tables whose predicted memory is beyond this (the machine has 24 GiB). */
 #define FASTVOL_MAX_BYTES (16.0 * 1073741824.0)
@@ -63,12 +63,14 @@ void fastvol_clear(interp *I)
     I->wpv = NULL;
 }
 
-/* The integral as c^D V (exp) or c D! V (power k = D), V normalised. */
-static value *fastvol_scale(interp *I, const fmpq_t V, const fmpq_mpoly_t c, slong D, int is_exp)
+/* The integral as f c^D V (exp) or c D! V (power k = D), V normalised. */
+static value *fastvol_scale(interp *I, const fmpq_t V, const fmpq_mpoly_t c, const fmpq_mpoly_t f, slong D,
+                            int is_exp)
 {
     value *r = value_new_num(&I->ring);
     if (is_exp) {
         fmpq_mpoly_pow_ui(r->num, c, (ulong)D, I->ring.ctx);
+        fmpq_mpoly_mul(r->num, r->num, f, I->ring.ctx);
     } else {
         fmpz_t f;
         fmpz_init(f);
@@ -86,9 +88,10 @@ value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *
     if (integrand->kind != V_CLASS || 2 * g - 2 + n <= 0)
         return NULL;
     slong D = 3 * g - 3 + n, k = 0, kmult[2] = {0, D};
-    fmpq_mpoly_t c;
+    fmpq_mpoly_t c, f;
     fmpq_mpoly_init(c, I->ring.ctx);
-    int is_exp = cx_match_exp_kappa1(integrand->cls, c);
+    fmpq_mpoly_init(f, I->ring.ctx);
+    int is_exp = cx_match_exp_kappa1(integrand->cls, c, f);
     int is_pow = !is_exp && cx_match_kappa1_power(integrand->cls, c, &k) && k == D;
     value *r = NULL;
     if ((is_exp || is_pow) && (I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS)) {
@@ -96,9 +99,10 @@ value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *
         fmpq_t V;
         fmpq_init(V);
         if (fastvol_get(I, where, V, g, n))
-            r = fastvol_scale(I, V, c, D, is_exp);
+            r = fastvol_scale(I, V, c, f, D, is_exp);
         fmpq_clear(V);
     }
     fmpq_mpoly_clear(c, I->ring.ctx);
+    fmpq_mpoly_clear(f, I->ring.ctx);
     return r;
 }

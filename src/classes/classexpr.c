@@ -118,22 +118,27 @@ static int cx_match_scaled_kappa1(const cx *e, fmpq_mpoly_t c)
     return 1;
 }
 
-int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c)
+/* Strips scalar factors s1*(s2*(X)) down to X, multiplying them into f. */
+static const cx *cx_peel_scalars(const cx *e, fmpq_mpoly_t f)
 {
-    return e->kind == CX_EXP && cx_match_scaled_kappa1(e->a, c);
+    fmpq_mpoly_one(f, e->ctx);
+    while (e->kind == CX_MUL && (e->a->kind == CX_SCALAR || e->b->kind == CX_SCALAR)) {
+        const cx *s = e->a->kind == CX_SCALAR ? e->a : e->b;
+        fmpq_mpoly_mul(f, f, s->scalar, e->ctx);
+        e = e->a->kind == CX_SCALAR ? e->b : e->a;
+    }
+    return e;
+}
+
+int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c, fmpq_mpoly_t factor)
+{
+    const cx *x = cx_peel_scalars(e, factor);
+    return x->kind == CX_EXP && cx_match_scaled_kappa1(x->a, c);
 }
 
 int cx_match_kappa1_power(const cx *e, fmpq_mpoly_t c, slong *k)
 {
-    const cx *p = e;
-    fmpq_mpoly_one(c, e->ctx);
-    if (e->kind == CX_MUL) {
-        const cx *s = e->a->kind == CX_SCALAR ? e->a : e->b;
-        p = e->a->kind == CX_SCALAR ? e->b : e->a;
-        if (s->kind != CX_SCALAR)
-            return 0;
-        fmpq_mpoly_set(c, s->scalar, e->ctx);
-    }
+    const cx *p = cx_peel_scalars(e, c);
     if (p->kind == CX_KAPPA && p->index == 1) {
         *k = 1;
         return 1;

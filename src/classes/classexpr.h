@@ -33,8 +33,8 @@ cx *cx_exp(cx *a, const void *origin);
 cx *cx_ref(cx *e);
 void cx_release(cx *e);
 
-/* Recognises exp(c*kappa_1) for a scalar c (c = 1 for exp(kappa_1)); sets c. */
-int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c);
+/* Recognises f*exp(c*kappa_1) for scalars f, c (each 1 when absent); sets both. */
+int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c, fmpq_mpoly_t factor);
 
 /* Recognises c*kappa_1^k (c = 1 when absent); sets c and k. */
 int cx_match_kappa1_power(const cx *e, fmpq_mpoly_t c, slong *k);

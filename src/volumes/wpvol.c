@@ -154,8 +154,10 @@ typedef struct
     int has_cand, done;
 } wpvol_val_t;
 
-/* Rational reconstruction of a (mod M) with |num| <= M / 2^(db+2), 0 < den <= 2^db (then
-   2 |num| den < M, so a solution is unique).  Returns 1 and sets q on success. */
+/* Rational reconstruction of a (mod M) with |num| <= M / 2^(db+16), 0 < den <= 2^db.  Then
+   2 |num| den < M, so a solution is unique, and the 2^14-fold slack makes it unlikely that a
+   modulus still too small yields a (wrong) candidate, which would cost a confirmation round.
+   Returns 1 and sets q on success. */
 static int wpvol_reconstruct_db(fmpq_t q, const fmpz_t a, const fmpz_t M, slong db)
 {
     fmpz_t nb, dbz;
@@ -164,7 +166,7 @@ static int wpvol_reconstruct_db(fmpq_t q, const fmpz_t a, const fmpz_t M, slong 
     fmpz_init(nb);
     fmpz_init_set_ui(dbz, 1);
     fmpz_mul_2exp(dbz, dbz, (ulong) db);
-    fmpz_fdiv_q_2exp(nb, M, (ulong) (db + 2));
+    fmpz_fdiv_q_2exp(nb, M, (ulong) (db + 16));
     if (fmpz_sgn(nb) > 0)
         ok = fmpq_reconstruct_fmpz_2(q, a, M, nb, dbz);
     fmpz_clear(nb);
@@ -172,18 +174,22 @@ static int wpvol_reconstruct_db(fmpq_t q, const fmpz_t a, const fmpz_t M, slong 
     return ok;
 }
 
-/* Tries a denominator bound from the size model of genus g first (the scaled values have
-   small denominators, so this needs the fewest primes), then twice that, then the balanced
-   bound.  Returns 1 and sets q on success. */
+/* Tries denominator bounds db, 5db/4, 3db/2, 2db with db from the size model of genus g (the
+   scaled values have small denominators, so this needs the fewest primes), then the balanced
+   bound.  Each attempt is cheap next to a prime.  Returns 1 and sets q on success. */
 static int wpvol_reconstruct(fmpq_t q, const fmpz_t a, const fmpz_t M, slong g)
 {
-    slong bits = fmpz_bits(M), db = (slong) wpvol_estimate_den_bits(g);
+    slong bits = fmpz_bits(M), db = (slong) wpvol_estimate_den_bits(g), k;
 
-    if (db < bits / 2 - 1 && wpvol_reconstruct_db(q, a, M, db))
-        return 1;
-    if (2 * db < bits / 2 - 1 && wpvol_reconstruct_db(q, a, M, 2 * db))
-        return 1;
-    return wpvol_reconstruct_db(q, a, M, bits / 2 - 1);
+    for (k = 4; k <= 8; k += (k < 6 ? 1 : 2))
+    {
+        slong b = db * k / 4;
+        if (b + 16 >= bits / 2)
+            break;
+        if (wpvol_reconstruct_db(q, a, M, b))
+            return 1;
+    }
+    return bits > 40 && wpvol_reconstruct_db(q, a, M, bits / 2 - 8);
 }
 
 /* Residue of the rational q modulo p, or UWORD_MAX if its denominator vanishes mod p. */
@@ -292,7 +298,7 @@ static void wpvol_run_absorb(wpvol_drv_t *D, slong i, ulong *fac, slong nfac)
 }
 
 /* Attempts reconstruction of the pending values without candidate whose attempt threshold
-   is reached; a failure raises the threshold by 1/8 so that attempts stay few.  Returns the
+   is reached; a failure raises the threshold by 1/32 so that attempts stay few.  Returns the
    number of values still pending; *uncand counts those without a candidate. */
 static slong wpvol_run_reconstruct(wpvol_drv_t *D, slong *uncand)
 {
@@ -320,7 +326,7 @@ static slong wpvol_run_reconstruct(wpvol_drv_t *D, slong *uncand)
             v->confirmed = 0;
         }
         else
-            D->try_bits[k] = bits + bits / 8;
+            D->try_bits[k] = bits + FLINT_MAX(64, bits / 32);
         *uncand += !v->has_cand;
     }
     return pending;
@@ -360,7 +366,8 @@ static slong wpvol_first_batch(slong G, slong N, int threads, int prime_bits, sl
 
 /* Main loop: batches of primes until every value is reconstructed and confirmed.  After a
    batch where every pending value has a candidate, the next batch only has to confirm them
-   (WPVOL_CONFIRM primes, rounded up to the threads); otherwise the modulus grows by 1/16.
+   (WPVOL_CONFIRM primes, rounded up to the threads); otherwise the modulus grows by 1/32
+   (small steps: an overshoot costs whole primes, a round only a reconstruction pass).
    Returns WPVOL_OK or an error code. */
 static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong first)
 {
@@ -392,7 +399,7 @@ static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong fir
         if (uncand == 0)
             target += FLINT_MAX((slong) threads, (slong) WPVOL_CONFIRM);
         else
-            target += FLINT_MAX((slong) threads, target / 16 + 1);
+            target += FLINT_MAX((slong) threads, target / 32 + 1);
     }
     free(fac);
     return status;

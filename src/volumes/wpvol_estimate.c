@@ -6,7 +6,7 @@
  *     bits(num W) + bits(den W) ~ log2((3g-3+n)!) + log2((2g-3+n)!)
  *                                 + 4.78 g + 2.72 g log2(g+1) + 0.67 n - 5.8,
  *     bits(den W) ~ 11.2 g (observed maxima: 39, 97, 206, 339, 449, 561 at g = 5..50),
- * and the reconstruction first assumes bits(den W) <= 12 g + 40.
+ * and the reconstruction first assumes bits(den W) <= 12.5 g + 40.
  * The factorials reflect the growth V_{g,n} ~ (2g-3+n)! (4 pi^2)^{2g-3+n} / (2 pi^2)^{3g-3+n}
  * for large g.  The models only size the first batch of primes and the first attempt of each
  * reconstruction; wrong guesses cost time, never correctness.
@@ -39,16 +39,17 @@ double wpvol_estimate_bits_gn(slong g, slong n)
    bits(den W) ~ 11.2 g with some room, since a failed attempt costs primes. */
 double wpvol_estimate_den_bits(slong g)
 {
-    return 12.0 * (double) g + 40.0;
+    return 12.5 * (double) g + 40.0;
 }
 
 /* Bits of modulus that the first reconstruction attempt of (g, n) needs: the numerator (model
-   total minus the expected denominator) plus the denominator bound plus 2. */
+   total minus the expected denominator) plus the denominator bound plus the 16 bits of slack
+   of the reconstruction bounds (wpvol.c). */
 double wpvol_estimate_need_bits(slong g, slong n)
 {
     double b = wpvol_estimate_bits_gn(g, n) - 11.2 * (double) g + wpvol_estimate_den_bits(g);
 
-    return b + 2.0;
+    return b + 16.0;
 }
 
 /* Largest modulus size needed over the table (the model grows with g and n, but check both

@@ -20,7 +20,10 @@ for pk in "$tmp"/ex*.pk; do
   [ -e "$pk" ] || continue
   want=${pk%.pk}.expected
   [ -f "$want" ] || continue
-  (cd "$tmp" && "$exe" "$(basename "$pk")" > "${pk%.pk}.actual" 2>&1)
+  # each example runs as example.pk in a folder of its own, so messages name a stable file
+  run="${pk%.pk}.dir"
+  mkdir -p "$run" && cp "$pk" "$run/example.pk"
+  (cd "$run" && "$exe" example.pk > "${pk%.pk}.actual" 2>&1)
   if diff -u "$want" "${pk%.pk}.actual" > "${pk%.pk}.diff"; then
     pass=$((pass + 1))
   else
