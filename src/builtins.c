@@ -74,13 +74,16 @@ static value *builtin_binomial(interp *I, const node *call, value **args)
         return NULL;
     if (k > 1000000)
         return builtin_fail(call->list->items[1], "binomial(n, k) is limited to k <= 1000000");
-    /* binomial(n, k) = n (n-1) ... (n-k+1) / k!, valid for negative n too */
+    /* binomial(n, k) = n (n-1) ... (n-k+1) / k!; for n < 0 it is
+       (-1)^k binomial(k-n-1, k) */
     fmpz_t r;
     fmpz_init(r);
-    fmpz_set_ui(r, k >= 0);
-    for (slong j = 0; j < k; j++) {
-        fmpz_mul_si(r, r, n - j);
-        fmpz_divexact_ui(r, r, (ulong)(j + 1));
+    if (k >= 0 && n >= 0)
+        fmpz_bin_uiui(r, (ulong)n, (ulong)k);
+    else if (k >= 0) {
+        fmpz_bin_uiui(r, (ulong)(k - n - 1), (ulong)k);
+        if (k % 2)
+            fmpz_neg(r, r);
     }
     value *v = value_new_num(&I->ring);
     fmpq_mpoly_set_fmpz(v->num, r, I->ring.ctx);

@@ -1,5 +1,6 @@
 /* Expression evaluation. Every function returns a new reference, or NULL
    after reporting an error at the node responsible. */
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -12,7 +13,6 @@
 
 /* Exponents and factorial arguments beyond these would not fit in memory. */
 #define EVAL_MAX_RESULT_BITS 200000000.0
-#define EVAL_MAX_FACTORIAL 10000000
 
 static value *eval_fail(const node *n, const char *msg)
 {
@@ -209,9 +209,28 @@ static int eval_pow_size_ok(interp *I, const node *n, const value *base, slong e
     return 0;
 }
 
+/* Refuses a power of a polynomial with too many terms: in v variables of total
+   degree d, a^e has at most binomial(v + d e, v) terms. */
+static int eval_pow_terms_ok(interp *I, const node *n, const value *a, slong e)
+{
+    slong deg[SCALAR_MAX_VARS], v = 0;
+    if (e <= 1 || fmpq_mpoly_length(a->num, I->ring.ctx) <= 1)
+        return 1;
+    fmpq_mpoly_degrees_si(deg, a->num, I->ring.ctx);
+    for (int i = 0; i < SCALAR_MAX_VARS; i++)
+        v += deg[i] > 0;
+    double D = (double)fmpq_mpoly_total_degree_si(a->num, I->ring.ctx) * (double)e;
+    double terms = exp(lgamma(v + D + 1) - lgamma(v + 1.0) - lgamma(D + 1));
+    if (terms <= (double)I->lim.max_class_terms)
+        return 1;
+    diag_error(&n->loc, "this power would have about %.3g terms, above the limit of %.3g (raise it with --max-terms N)",
+               terms, (double)I->lim.max_class_terms);
+    return 0;
+}
+
 static value *eval_pow_num(interp *I, const node *n, const value *a, slong e)
 {
-    if (!eval_pow_size_ok(I, n, a, e))
+    if (!eval_pow_size_ok(I, n, a, e) || !eval_pow_terms_ok(I, n, a, e))
         return NULL;
     value *r = value_new_num(&I->ring);
     if (e >= 0) {
@@ -379,18 +398,31 @@ static value *eval_factorial(interp *I, scope *s, const node *n)
     int dbl = n->op == 2;
     if (!eval_slong(I, s, n->a, dbl ? "argument of !!" : "argument of !", dbl ? -1 : 0, &k))
         return NULL;
-    if (k > EVAL_MAX_FACTORIAL) {
-        diag_error(&n->loc, "factorial of %ld is too large (limit %d)", (long)k, EVAL_MAX_FACTORIAL);
+    double bits = k > 1 ? (double)k * (log2((double)k) - 1.4426950408889634) / (dbl ? 2.0 : 1.0) : 1.0;
+    if (bits > EVAL_MAX_RESULT_BITS) {
+        diag_error(&n->loc, "this factorial would need about %.3g bits, above the limit of %.3g", bits,
+                   EVAL_MAX_RESULT_BITS);
         return NULL;
     }
     fmpz_t f;
     fmpz_init(f);
     if (!dbl) {
         fmpz_fac_ui(f, (ulong)k);
-    } else {
+    } else if (k <= 0) {
         fmpz_one(f);
-        for (slong j = k; j > 1; j -= 2)
-            fmpz_mul_ui(f, f, (ulong)j);
+    } else if (k % 2 == 0) {
+        /* (2m)!! = 2^m m! */
+        fmpz_fac_ui(f, (ulong)(k / 2));
+        fmpz_mul_2exp(f, f, (ulong)(k / 2));
+    } else {
+        /* (2m+1)!! = (2m+1)! / (2^m m!) */
+        fmpz_t d;
+        fmpz_init(d);
+        fmpz_fac_ui(f, (ulong)k);
+        fmpz_fac_ui(d, (ulong)(k / 2));
+        fmpz_mul_2exp(d, d, (ulong)(k / 2));
+        fmpz_divexact(f, f, d);
+        fmpz_clear(d);
     }
     value *r = value_new_num(&I->ring);
     fmpq_mpoly_set_fmpz(r->num, f, I->ring.ctx);
@@ -616,6 +648,9 @@ static value *eval_call(interp *I, scope *s, const node *n)
 
 value *eval_expr(interp *I, scope *s, const node *n)
 {
+    if (util_stack_exhausted())
+        return eval_fail(n, "evaluation nested too deeply for the stack (a very long chain of operators, "
+                            "or deep recursion: try --max-depth lower, or split the expression)");
     switch (n->kind) {
     case N_NUMBER:
         return eval_number(I, n);

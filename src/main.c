@@ -201,6 +201,8 @@ static int main_run(interp *I, main_state *M, int argc, char **argv)
 
 int main(int argc, char **argv)
 {
+    char stack_base;
+    util_stack_init(&stack_base);
     memory_install_hooks();
     interp I;
     interp_init(&I);

@@ -4,6 +4,30 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/resource.h>
+
+static char *util_stack_base;
+static size_t util_stack_budget;
+
+void util_stack_init(void *base)
+{
+    struct rlimit r;
+    size_t size = 8u << 20;
+    if (getrlimit(RLIMIT_STACK, &r) == 0 && r.rlim_cur != RLIM_INFINITY && r.rlim_cur > (1u << 20))
+        size = (size_t)r.rlim_cur;
+    util_stack_base = base;
+    /* keep a quarter (at least 1 MiB) for the libraries called from the deepest frame */
+    util_stack_budget = size - (size / 4 > (1u << 20) ? size / 4 : (1u << 20));
+}
+
+int util_stack_exhausted(void)
+{
+    char here;
+    if (!util_stack_base)
+        return 0;
+    size_t used = util_stack_base > &here ? (size_t)(util_stack_base - &here) : (size_t)(&here - util_stack_base);
+    return used > util_stack_budget;
+}
 
 void util_out_of_memory(void)
 {

@@ -12,6 +12,14 @@ char *xstrdup(const char *s);
 /* Returns a new string formatted like printf; the caller frees it. */
 char *xasprintf(const char *fmt, ...) __attribute__((format(printf, 1, 2)));
 
+/* Records the base of the C stack (call first thing in main, or at the start
+   of a thread that evaluates scripts) and how much of it may be used. */
+void util_stack_init(void *base);
+
+/* 1 when the evaluation is so deep that the C stack is nearly used up:
+   recursive code stops with an error instead of crashing. */
+int util_stack_exhausted(void);
+
 /* Called when memory runs out: prints a message and exits with status 1. */
 void util_out_of_memory(void) __attribute__((noreturn));
 

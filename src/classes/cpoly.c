@@ -223,12 +223,19 @@ static int cpoly_expand_pow(cpoly *P, const cx *e, const cx **bad)
         rc = cpoly_set_scalar(P, one);
     fmpq_mpoly_clear(one, P->ctx);
     int nilpotent = !cpoly_has_constant(&A);
-    slong k = nilpotent && e->index > P->D + 1 ? P->D + 1 : e->index;
-    for (slong i = 0; i < k && rc == CPOLY_OK && P->len > 0; i++) {
+    ulong k = nilpotent && e->index > P->D + 1 ? (ulong)P->D + 1 : (ulong)e->index;
+    /* square and multiply: O(log k) truncated products even for huge k */
+    for (int bit = FLINT_BITS - 1; bit >= 0 && rc == CPOLY_OK; bit--) {
         cpoly_init(&T, P->g, P->n, P->max_terms, P->ctx);
-        rc = cpoly_mul(&T, P, &A);
+        rc = cpoly_mul(&T, P, P);
         cpoly_swap(P, &T);
         cpoly_clear(&T);
+        if (rc == CPOLY_OK && ((k >> bit) & 1)) {
+            cpoly_init(&T, P->g, P->n, P->max_terms, P->ctx);
+            rc = cpoly_mul(&T, P, &A);
+            cpoly_swap(P, &T);
+            cpoly_clear(&T);
+        }
     }
     if (rc == CPOLY_TOO_BIG)
         *bad = e;
@@ -304,6 +311,10 @@ static int cpoly_expand_kappa(cpoly *P, const cx *e)
 
 static int cpoly_expand_rec(cpoly *P, const cx *e, const cx **bad)
 {
+    if (util_stack_exhausted()) {
+        *bad = e;
+        return CPOLY_TOO_DEEP;
+    }
     switch (e->kind) {
     case CX_SCALAR:
         return cpoly_set_scalar(P, e->scalar);

@@ -26,7 +26,7 @@ typedef struct cpoly {
     const fmpq_mpoly_ctx_struct *ctx;
 } cpoly;
 
-enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_NEGATIVE_POWER, CPOLY_TOO_BIG };
+enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG };
 
 /* A space needs D <= CPOLY_MAX_DIM so that exponents fit cpoly_exp. */
 #define CPOLY_MAX_DIM 60000

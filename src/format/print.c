@@ -35,6 +35,10 @@ static void print_operand(strbuf *b, const cx *e, int min_level, const scalar_ri
 static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
 {
     char *s;
+    if (util_stack_exhausted()) {
+        strbuf_puts(b, "...");
+        return;
+    }
     switch (e->kind) {
     case CX_SCALAR:
         s = scalar_get_str(e->scalar, R);
