@@ -5,7 +5,9 @@
 #include <stdlib.h>
 
 #include "correlators/pushforward.h"
+#include "cancel.h"
 #include "diag.h"
+#include "progress.h"
 #include "interp.h"
 #include "util.h"
 #include "volumes/wpvol.h"
@@ -34,10 +36,18 @@ static int fastvol_grow(interp *I, const node *where, slong g, slong n)
         return 0;
     }
     fmpq *t = _fmpq_vec_init((G + 1) * (N + 1));
+    char what[96];
+    snprintf(what, sizeof what, "volume engine: all V_{g,n} with g <= %ld, n <= %ld", (long)G, (long)N);
+    progress_note(what, sec / 2);
+    wpvol_set_cancel(&cancel_flag);
     int rc = wpvol_table(t, G, N, 2);
+    progress_clear_note(sec / 2);
     if (rc != WPVOL_OK) {
         _fmpq_vec_clear(t, (G + 1) * (N + 1));
-        diag_error(&where->loc, "the volume engine failed (code %d)", rc);
+        if (rc == WPVOL_CANCELLED || cancel_flag)
+            eval_cancelled(where);
+        else
+            diag_error(&where->loc, "the volume engine failed (code %d)", rc);
         return 0;
     }
     if (I->wpv)

@@ -8,6 +8,7 @@
 #include "correlators/pushforward.h"
 #include "cancel.h"
 #include "diag.h"
+#include "progress.h"
 #include "format/print.h"
 #include "interp.h"
 #include "strbuf.h"
@@ -119,6 +120,13 @@ typedef struct {
     slong points;
 } integrate_estimate;
 
+/* What the monomial callback needs besides the interpreter: progress counting. */
+typedef struct {
+    interp *I;
+    progress bar;
+    double done;
+} integrate_run;
+
 static int integrate_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                                    const fmpq_mpoly_t coeff)
 {
@@ -155,7 +163,9 @@ static int integrate_cost_ok(interp *I, const node *where, const cpoly *P)
 static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi, slong n, const slong *kmult,
                               slong kmax)
 {
-    interp *I = data;
+    integrate_run *run = data;
+    interp *I = run->I;
+    progress_update(&run->bar, ++run->done);
     if (cancel_flag)
         return INTEGRATE_CANCELLED;
     slong len = 2 + n + kmax;
@@ -191,7 +201,14 @@ static value *integrate_by_reduction(interp *I, const node *where, slong g, slon
     value *r = NULL;
     if (integrate_expand(&P, where, integrand) && integrate_cost_ok(I, where, &P)) {
         r = value_new_num(&I->ring);
-        int rc = cpoly_integrate(r->num, &P, integrate_monomial, I);
+        integrate_run run;
+        run.I = I;
+        run.done = 0;
+        char what[64];
+        snprintf(what, sizeof what, "int[%ld,%ld]: monomials", (long)g, (long)n);
+        progress_start(&run.bar, what, (double)P.len);
+        int rc = cpoly_integrate(r->num, &P, integrate_monomial, &run);
+        progress_end(&run.bar);
         if (rc != WK_OK) {
             integrate_report_engine(where, rc);
             value_release(r);
@@ -414,7 +431,12 @@ static int volume_coeff(fmpq_t c, interp *I, keymap *memo, slong g, slong n, con
             m += key[i];
         kmult[0] = 0;
         kmult[1] = D - m;
-        rc = integrate_monomial(c, I, g, key, n, kmult, D - m > 0 ? 1 : 0);
+        integrate_run run;
+        run.I = I;
+        run.done = 0;
+        progress_start(&run.bar, "wpvolume: coefficients", 0);
+        run.bar.enabled = 0;   /* one monomial at a time: the caller's loop is what takes long */
+        rc = integrate_monomial(c, &run, g, key, n, kmult, D - m > 0 ? 1 : 0);
         fmpz_t f;
         fmpz_init(f);
         fmpz_fac_ui(f, (ulong)(D - m));

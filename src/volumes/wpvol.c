@@ -40,6 +40,13 @@ static void wpvol_batch_fail(wpvol_batch_t *b, int st)
     pthread_mutex_unlock(&b->lock);
 }
 
+static volatile sig_atomic_t *wpvol_cancel_flag;
+
+void wpvol_set_cancel(volatile sig_atomic_t *flag)
+{
+    wpvol_cancel_flag = flag;
+}
+
 /* Takes prime indices one at a time until the batch is exhausted or an error was recorded,
    with one workspace for all its primes (allocating per prime would cost page faults). */
 static void wpvol_batch_loop(wpvol_batch_t *b)
@@ -54,6 +61,8 @@ static void wpvol_batch_loop(wpvol_batch_t *b)
         int st;
         nmod_t mod;
 
+        if (wpvol_cancel_flag && *wpvol_cancel_flag)
+            wpvol_batch_fail(b, WPVOL_CANCELLED);
         pthread_mutex_lock(&b->lock);
         i = (b->status == WPVOL_OK && b->next < b->end) ? b->next++ : -1;
         pthread_mutex_unlock(&b->lock);

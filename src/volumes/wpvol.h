@@ -17,6 +17,7 @@
 #ifndef PSIKAPPA_VOLUMES_WPVOL_H
 #define PSIKAPPA_VOLUMES_WPVOL_H
 
+#include <signal.h>
 #include <flint/fmpq.h>
 
 #ifdef __cplusplus
@@ -25,7 +26,7 @@ extern "C" {
 
 /* WPVOL_NOMEM: an allocation of the engine failed; WPVOL_INTERNAL: a built-in consistency check
    failed (should never happen; reported rather than returning a wrong value). */
-enum { WPVOL_OK = 0, WPVOL_BADARG = 1, WPVOL_LIMIT = 2, WPVOL_NOMEM = 3, WPVOL_INTERNAL = 4 };
+enum { WPVOL_OK = 0, WPVOL_BADARG = 1, WPVOL_LIMIT = 2, WPVOL_NOMEM = 3, WPVOL_INTERNAL = 4, WPVOL_CANCELLED = 5 };
 
 /* Requests whose estimated working memory exceeds this many bytes are refused with WPVOL_LIMIT. */
 #define WPVOL_MAX_BYTES (8.0 * 1024.0 * 1024.0 * 1024.0)
@@ -38,6 +39,10 @@ enum { WPVOL_OK = 0, WPVOL_BADARG = 1, WPVOL_LIMIT = 2, WPVOL_NOMEM = 3, WPVOL_I
    threads (one prime per thread at a time).  Returns WPVOL_OK, or WPVOL_BADARG (G<0, N<0,
    threads<1, out NULL), WPVOL_LIMIT (estimate beyond WPVOL_MAX_BYTES / WPVOL_MAX_SECONDS),
    WPVOL_NOMEM, WPVOL_INTERNAL; on error every entry of out is 0. */
+/* Makes wpvol_table poll *flag between primes (e.g. set by a signal handler) and return
+   WPVOL_CANCELLED once it is nonzero; NULL turns polling off. The flag is not owned. */
+void wpvol_set_cancel(volatile sig_atomic_t *flag);
+
 int wpvol_table(fmpq *out, slong G, slong N, int threads);
 
 /* Rough estimates for wpvol_table(., G, N, .): *seconds of single-core time (calibrated on a
