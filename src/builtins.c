@@ -78,11 +78,17 @@ static value *builtin_binomial(interp *I, const node *call, value **args)
        (-1)^k binomial(k-n-1, k) */
     fmpz_t r;
     fmpz_init(r);
-    if (k >= 0 && n >= 0)
-        fmpz_bin_uiui(r, (ulong)n, (ulong)k);
-    else if (k >= 0) {
-        fmpz_bin_uiui(r, (ulong)(k - n - 1), (ulong)k);
-        if (k % 2)
+    if (k >= 0 && (n < 0 || k <= n)) {
+        /* top = n, or k-n-1 for negative n; binomial = rising factorial / k!,
+           both by binary splitting, which stays fast for huge arguments */
+        ulong top = n >= 0 ? (ulong)n : (ulong)(k - n - 1);
+        fmpz_t f;
+        fmpz_init(f);
+        fmpz_rfac_uiui(r, top - (ulong)k + 1, (ulong)k);
+        fmpz_fac_ui(f, (ulong)k);
+        fmpz_divexact(r, r, f);
+        fmpz_clear(f);
+        if (n < 0 && k % 2)
             fmpz_neg(r, r);
     }
     value *v = value_new_num(&I->ring);
