@@ -26,11 +26,15 @@ cd "$(dirname "$0")"
   for ((i = 0; i < 50000; i++)); do printf '!!'; done
   printf ')/0\n'; } > deep_postfix_chain.pk
 
-# A recursive function whose body is 30 additions deep, called 5000 deep:
-# the call-depth limit (2000) must trip before the C stack runs out.
-{ printf 'let f(k) = if k == 0 then 0 else f(k - 1)'
-  for ((i = 0; i < 30; i++)); do printf ' + 1'; done
-  printf '\nprint f(10)\nf(5000)\n'; } > rec_deep_body.pk
+# An endless recursion whose body is a chain of 1000 additions: each call
+# takes about a thousand nested evaluations, so the C stack runs out long
+# before the call-depth limit (2000). The first operand is 130 digits long so
+# that every node of the chain is wider than the caret window (160 columns):
+# wherever the stack guard trips in the chain, the message looks the same.
+{ printf 'print "start"\nlet f(k) = f(k + 1) + 1'
+  for ((i = 0; i < 129; i++)); do printf '0'; done
+  for ((i = 0; i < 1000; i++)); do printf ' + 1'; done
+  printf '\nf(0)\n'; } > rec_deep_body.pk
 
 # A 1 MB line (1+1+...+1, 524288 bytes of "1+" twice over) ending in a stray '@'.
 { for ((i = 0; i < 524287; i++)); do printf '1+'; done
