@@ -1,31 +1,9 @@
 #include "real_ops.h"
 
 #include "diag.h"
+#include "scalar_arb.h"
 
 #define REAL_LOG2_10 3.3219280948873623
-
-void real_eval_scalar(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec)
-{
-    arb_t pi, t;
-    arb_init(pi);
-    arb_init(t);
-    arb_const_pi(pi, prec);
-    arb_zero(r);
-    fmpq_t c;
-    fmpq_init(c);
-    ulong exp[SCALAR_MAX_VARS];
-    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
-        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
-        fmpq_mpoly_get_term_exp_ui(exp, p, i, R->ctx);
-        arb_pow_ui(t, pi, exp[SCALAR_PI], prec);
-        arb_mul_fmpz(t, t, fmpq_numref(c), prec);
-        arb_div_fmpz(t, t, fmpq_denref(c), prec);
-        arb_add(r, r, t, prec);
-    }
-    fmpq_clear(c);
-    arb_clear(pi);
-    arb_clear(t);
-}
 
 /* Working precision of a ball: enough bits for its own accuracy plus a margin. */
 static slong real_prec(const arb_t x)
@@ -42,7 +20,7 @@ static int real_operand(interp *I, const node *n, arb_t r, const value *v, slong
         return 1;
     }
     if (v->kind == V_NUM && scalar_is_pi_only(v->num, &I->ring)) {
-        real_eval_scalar(r, v->num, &I->ring, prec);
+        scalar_get_arb(r, v->num, &I->ring, prec);
         return 1;
     }
     diag_error(&n->loc, "a real number combines only with numbers (pi allowed) and reals, not a %s",
@@ -104,7 +82,7 @@ value *real_from_exact(interp *I, const node *at, const value *x, slong digits)
     value *r = value_new_real(&I->ring);
     slong want = (slong)(digits * REAL_LOG2_10) + 4;
     for (slong prec = want + 32;; prec *= 2) {
-        real_eval_scalar(r->re, x->num, &I->ring, prec);
+        scalar_get_arb(r->re, x->num, &I->ring, prec);
         if (arb_is_exact(r->re) || arb_rel_accuracy_bits(r->re) >= want || prec > 64 * want + 100000)
             break;
     }

@@ -14,7 +14,4 @@ value *real_pow(interp *I, const node *n, const value *a, slong e);
 /* real(x, digits): x (in Q[pi]) as a ball with at least `digits` correct digits. */
 value *real_from_exact(interp *I, const node *at, const value *x, slong digits);
 
-/* Evaluates p, a polynomial in pi alone, as a ball at precision prec. */
-void real_eval_scalar(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec);
-
 #endif

@@ -8,6 +8,7 @@
 
 #include "arb_compat.h"
 #include "builtins.h"
+#include "scalar_arb.h"
 #include "util.h"
 
 #ifdef PSIKAPPA_FLINT3_ARB
@@ -19,31 +20,6 @@
 #define TK_LOG2_10 3.321928094887362
 #define TK_LOG10_2 0.3010299956639812
 #define TK_MAX_DIGITS 100000   /* decimal(): same order; more would take minutes */
-
-/* Evaluates p, a polynomial in pi alone, as a ball at precision prec.
-   Used for every exact number handed to the numerical builtins. */
-void toolkit_arb_of_num(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec)
-{
-    arb_t pi, t;
-    arb_init(pi);
-    arb_init(t);
-    arb_const_pi(pi, prec);
-    arb_zero(r);
-    fmpq_t c;
-    fmpq_init(c);
-    ulong exp[SCALAR_MAX_VARS];
-    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
-        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
-        fmpq_mpoly_get_term_exp_ui(exp, p, i, R->ctx);
-        arb_pow_ui(t, pi, exp[SCALAR_PI], prec);
-        arb_mul_fmpz(t, t, fmpq_numref(c), prec);
-        arb_div_fmpz(t, t, fmpq_denref(c), prec);
-        arb_add(r, r, t, prec);
-    }
-    fmpq_clear(c);
-    arb_clear(pi);
-    arb_clear(t);
-}
 
 /* Checks the shape [-+]digits[.digits][(e|E)[-+]digits] and returns the
    exponent of the last written digit (value of one unit there is 10^ret);
@@ -102,7 +78,7 @@ static int tk_get_real(arb_t r, interp *I, const node *call, value **args, int i
 {
     const value *v = args[i];
     if (v->kind == V_NUM && scalar_is_pi_only(v->num, &I->ring)) {
-        toolkit_arb_of_num(r, v->num, &I->ring, prec);
+        scalar_get_arb(r, v->num, &I->ring, prec);
         return 1;
     }
     if (v->kind == V_STR && toolkit_arb_of_decimal(r, v->str, prec))

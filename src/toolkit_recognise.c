@@ -18,7 +18,7 @@
 #include "util.h"
 
 /* toolkit_numeric.c */
-void toolkit_arb_of_num(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec);
+#include "scalar_arb.h"
 int toolkit_arb_of_decimal(arb_t r, const char *s, slong prec);
 
 #define TK_LOG2_10 3.321928094887362
@@ -178,7 +178,7 @@ static void tk_item_eval(arb_t r, const tk_item *it, const scalar_ring *R, slong
 {
     switch (it->src) {
     case TK_NUM:
-        toolkit_arb_of_num(r, it->val->num, R, prec);
+        scalar_get_arb(r, it->val->num, R, prec);
         return;
     case TK_DECIMAL:
         toolkit_arb_of_decimal(r, it->val->str, prec);

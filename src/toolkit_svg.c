@@ -12,7 +12,7 @@
 #include "util.h"
 
 /* toolkit_numeric.c */
-void toolkit_arb_of_num(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec);
+#include "scalar_arb.h"
 
 #define SVG_W 720
 #define SVG_H 440
@@ -74,7 +74,7 @@ static char *svg_series_read(svg_series *S, const value *v, slong which, const s
             err = xasprintf("item %ld of series %ld is not a number in Q[pi]", (long)(j + 1), (long)which);
             break;
         }
-        toolkit_arb_of_num(t, it->num, R, 64);
+        scalar_get_arb(t, it->num, R, 64);
         S->y[j] = arf_get_d(arb_midref(t), ARF_RND_NEAR);
         if (!isfinite(S->y[j]) || fabs(S->y[j]) > 1e300)
             err = xasprintf("item %ld of series %ld is too large to plot", (long)(j + 1), (long)which);

@@ -4,6 +4,7 @@
 #include <string.h>
 
 #include "../arb_compat.h"
+#include "../scalar_arb.h"
 #include "../strbuf.h"
 #include "../util.h"
 #include "print.h"
@@ -30,31 +31,6 @@ const char *out_format_name(out_format f)
 }
 
 /* ------------------------------------------------------------ decimals */
-
-/* Evaluates p (polynomial in pi) as an Arb ball at precision prec.
-   r receives the enclosure; p must not involve formal variables. */
-static void out_decimal_eval(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec)
-{
-    arb_t pi, t;
-    fmpq_t c;
-    ulong exp[SCALAR_MAX_VARS];
-    arb_init(pi);
-    arb_init(t);
-    fmpq_init(c);
-    arb_const_pi(pi, prec);
-    arb_zero(r);
-    for (slong i = 0; i < fmpq_mpoly_length(p, R->ctx); i++) {
-        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
-        fmpq_mpoly_get_term_exp_ui(exp, p, i, R->ctx);
-        arb_pow_ui(t, pi, exp[SCALAR_PI], prec);
-        arb_mul_fmpz(t, t, fmpq_numref(c), prec);
-        arb_div_fmpz(t, t, fmpq_denref(c), prec);
-        arb_add(r, r, t, prec);
-    }
-    fmpq_clear(c);
-    arb_clear(t);
-    arb_clear(pi);
-}
 
 /* Rewrites Arb's 9.7e+1 as 97 in place when the exponent is smaller than
    the number of digits shown, so no zero is printed that was not computed. */
@@ -93,7 +69,7 @@ char *out_decimal(const fmpq_mpoly_t p, const scalar_ring *R, slong digits, int 
     arb_init(r);
     slong want = (slong)((double)digits * 3.33) + 10;
     for (slong prec = want + 30;; prec *= 2) {
-        out_decimal_eval(r, p, R, prec);
+        scalar_get_arb(r, p, R, prec);
         if (arb_is_exact(r) || arb_rel_accuracy_bits(r) >= want)
             break;
     }
