@@ -137,7 +137,7 @@ static void scalar_put_numerator(strbuf *b, const fmpq_mpoly_t p, const fmpz_t d
     fmpq_clear(c);
 }
 
-char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R)
+char *scalar_join_terms(const fmpq_mpoly_t p, const scalar_ring *R, scalar_term_fn term)
 {
     strbuf b;
     strbuf_init(&b);
@@ -146,7 +146,7 @@ char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R)
     slong len = fmpq_mpoly_length(p, R->ctx);
     for (slong i = 0; i < len; i++) {
         fmpq_mpoly_get_term(t, p, i, R->ctx);
-        char *s = scalar_get_str(t, R);
+        char *s = term(t, R);
         int neg = s[0] == '-';
         if (i > 0)
             strbuf_puts(&b, neg ? " - " : " + ");
@@ -157,6 +157,11 @@ char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R)
         strbuf_putc(&b, '0');
     fmpq_mpoly_clear(t, R->ctx);
     return strbuf_take(&b);
+}
+
+char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    return scalar_join_terms(p, R, scalar_get_str);
 }
 
 char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R)

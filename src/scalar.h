@@ -42,6 +42,11 @@ char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R);
    The caller frees the string. */
 char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R);
 
+/* Joins the texts of the terms of p (each made by `term`) with + and -; the
+   caller frees the result. Shared by the exact and LaTeX term-by-term forms. */
+typedef char *(*scalar_term_fn)(const fmpq_mpoly_t term, const scalar_ring *R);
+char *scalar_join_terms(const fmpq_mpoly_t p, const scalar_ring *R, scalar_term_fn term);
+
 /* A plain serial form for storage: one term per line, "coefficient name^e ...".
    The caller frees the string. */
 char *scalar_serialise(const fmpq_mpoly_t p, const scalar_ring *R);

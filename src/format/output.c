@@ -551,23 +551,7 @@ static char *out_value_decimal(const value *v, const scalar_ring *R, const out_s
 /* LaTeX of a number printed term by term (each term its own fraction). */
 static char *out_latex_termwise(const fmpq_mpoly_t p, const scalar_ring *R)
 {
-    strbuf b;
-    strbuf_init(&b);
-    fmpq_mpoly_t t;
-    fmpq_mpoly_init(t, R->ctx);
-    slong len = fmpq_mpoly_length(p, R->ctx);
-    for (slong i = 0; i < len; i++) {
-        fmpq_mpoly_get_term(t, p, i, R->ctx);
-        char *s = out_latex_scalar(t, R);
-        int neg = s[0] == '-';
-        strbuf_puts(&b, i == 0 ? (neg ? "-" : "") : (neg ? " - " : " + "));
-        strbuf_puts(&b, neg ? s + 1 : s);
-        free(s);
-    }
-    if (len == 0)
-        strbuf_putc(&b, '0');
-    fmpq_mpoly_clear(t, R->ctx);
-    return strbuf_take(&b);
+    return scalar_join_terms(p, R, out_latex_scalar);
 }
 
 /* Math-mode LaTeX of v; strings become \mbox{...}. Never fails. */

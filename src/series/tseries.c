@@ -260,13 +260,15 @@ static void tseries_rational_mul(tseries *r, const fmpq_poly_t a, const fmpq_pol
     fmpq_poly_clear(q);
 }
 
-/* Generic product by truncated convolution of the coefficient vectors.
-   Same contract as tseries_mul. */
-int tseries_generic_mul(tseries *r, const tseries *a, const tseries *b, const fmpq_mpoly_ctx_t ctx)
+typedef void (*tsvec_binary_fn)(tsvec *r, const tsvec *a, const tsvec *b, const fmpq_mpoly_ctx_t ctx);
+
+/* r = op(a, b) on coefficient vectors, to order min(a->order, b->order), once the operands
+   passed their check (st); on a failed check r becomes the error series and st is returned. */
+static int tseries_generic_binary(tseries *r, const tseries *a, const tseries *b, int st, tsvec_binary_fn op,
+                                  const fmpq_mpoly_ctx_t ctx)
 {
     slong var = tseries_var_of(a), order;
     tsvec va, vb, vr;
-    int st = tseries_check_pair(a, b, ctx);
     if (st != TS_OK) {
         tseries_set_error(r, var, ctx);
         return st;
@@ -275,12 +277,19 @@ int tseries_generic_mul(tseries *r, const tseries *a, const tseries *b, const fm
     tsvec_init_series(&va, a, ctx);
     tsvec_init_series(&vb, b, ctx);
     tsvec_init(&vr, order + 1, ctx);
-    tsvec_mullow(&vr, &va, &vb, ctx);
+    op(&vr, &va, &vb, ctx);
     tseries_set_tsvec(r, &vr, var, order, ctx);
     tsvec_clear(&vr, ctx);
     tsvec_clear(&vb, ctx);
     tsvec_clear(&va, ctx);
     return TS_OK;
+}
+
+/* Generic product by truncated convolution of the coefficient vectors.
+   Same contract as tseries_mul. */
+int tseries_generic_mul(tseries *r, const tseries *a, const tseries *b, const fmpq_mpoly_ctx_t ctx)
+{
+    return tseries_generic_binary(r, a, b, tseries_check_pair(a, b, ctx), tsvec_mullow, ctx);
 }
 
 /* r = a * b, order min(a->order, b->order); fmpq_poly fast path when both are rational.
@@ -319,23 +328,7 @@ static int tseries_div_check(const tseries *a, const tseries *b, const fmpq_mpol
    Same contract as tseries_div. */
 int tseries_generic_div(tseries *r, const tseries *a, const tseries *b, const fmpq_mpoly_ctx_t ctx)
 {
-    slong var = tseries_var_of(a), order;
-    tsvec va, vb, vr;
-    int st = tseries_div_check(a, b, ctx);
-    if (st != TS_OK) {
-        tseries_set_error(r, var, ctx);
-        return st;
-    }
-    order = FLINT_MIN(a->order, b->order);
-    tsvec_init_series(&va, a, ctx);
-    tsvec_init_series(&vb, b, ctx);
-    tsvec_init(&vr, order + 1, ctx);
-    tsvec_div(&vr, &va, &vb, ctx);
-    tseries_set_tsvec(r, &vr, var, order, ctx);
-    tsvec_clear(&vr, ctx);
-    tsvec_clear(&vb, ctx);
-    tsvec_clear(&va, ctx);
-    return TS_OK;
+    return tseries_generic_binary(r, a, b, tseries_div_check(a, b, ctx), tsvec_div, ctx);
 }
 
 /* r = a / b; fmpq_poly_div_series when both are rational (b(0) checked nonzero first).
