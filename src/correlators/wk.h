@@ -57,6 +57,20 @@ int wk_table_correlator(fmpq_t res, wk_table *T, slong g, const slong *d, slong 
    Cheap (O((3g+n)(g+n)) flops); returns HUGE_VAL when the bound certainly exceeds 1e21, 0 if g<0 or n<0. */
 double wk_estimate_entries(slong g, slong n);
 
+/* What wk_closed_form found: no closed form applies, the degree does not match (the answer is 0
+   however large g and n are), or a value from a closed formula. */
+enum { WK_CLOSED_NONE = 0, WK_CLOSED_ZERO = 1, WK_CLOSED_VALUE = 2 };
+
+/* Largest 3g-3+n for which wk_closed_form evaluates a formula (its numbers have O(D log D) bits). */
+#define WK_CLOSED_MAX_DIM 100000
+
+/* res = <tau_{d[0]} ... tau_{d[n-1]}>_g without any table, when a closed form applies
+   (wk_closed.c): WK_CLOSED_ZERO if sum d_i != 3g-3+n; WK_CLOSED_VALUE for n = 1
+   (1/(24^g g!)) and for g = 0 ((n-3)!/prod d_i!) up to WK_CLOSED_MAX_DIM; otherwise, and for
+   invalid or unstable input (left to wk_table_correlator to report), WK_CLOSED_NONE.  res is 0
+   unless WK_CLOSED_VALUE. */
+int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n);
+
 #ifdef __cplusplus
 }
 #endif
