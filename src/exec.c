@@ -3,6 +3,7 @@
 #include <string.h>
 
 #include "cancel.h"
+#include "correlators/wk_kdv.h"
 #include "diag.h"
 #include "interp.h"
 #include "parse.h"
@@ -32,6 +33,7 @@ void interp_clear(interp *I)
 {
     scope_free(I->globals);
     wk_table_free(I->wk);
+    wk_kdv_table_free(I->wk_kdv);
     keymap_clear(&I->integrals);
     fastvol_clear(I);
     results_close(I);

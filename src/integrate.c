@@ -5,7 +5,9 @@
 #include <string.h>
 
 #include "classes/cpoly.h"
+#include "correlators/kappashift.h"
 #include "correlators/pushforward.h"
+#include "correlators/wk_kdv.h"
 #include "cancel.h"
 #include "diag.h"
 #include "progress.h"
@@ -71,16 +73,75 @@ static void integrate_report_engine(const node *where, int rc)
         diag_error(&where->loc, "the intersection engine rejected this request (code %d)", rc);
 }
 
-value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n)
+/* The memo of the second correlator route, created on first use with the table limit.
+   Returns NULL when memory is exhausted; the interpreter owns the table. */
+static wk_kdv_table *integrate_kdv_table(interp *I)
 {
-    if (!integrate_space_ok(I, where, g, n) || !integrate_table_ok(I, where, g, n))
-        return NULL;
+    if (I->wk_kdv == NULL) {
+        I->wk_kdv = wk_kdv_table_new();
+        if (I->wk_kdv == NULL)
+            return NULL;
+        wk_kdv_table_set_cancel(I->wk_kdv, &cancel_flag);
+        wk_kdv_table_set_limit(I->wk_kdv, I->lim.max_table > 1e15 ? (slong)1e15 : (slong)I->lim.max_table);
+    }
+    return I->wk_kdv;
+}
+
+/* res = <tau_d>_g by the KdV recursion when its estimate is within --max-table.
+   Returns WK_OK, WK_LIMIT when out of reach (nothing to compare), or WK_CANCELLED. */
+static int integrate_kdv_second(interp *I, fmpq_t res, slong g, const slong *d, slong n)
+{
+    if (wk_kdv_estimate_entries(g, n) > I->lim.max_table || 2 * g - 2 + n > WK_KDV_MAX_EULER)
+        return WK_LIMIT;
+    wk_kdv_table *K = integrate_kdv_table(I);
+    int rc = K ? wk_kdv_correlator(res, K, g, d, n) : WK_LIMIT;
+    return rc == WK_CANCELLED || cancel_flag ? WK_CANCELLED : rc == WK_OK ? WK_OK : WK_LIMIT;
+}
+
+/* With --verify, a correlator value by the first route is recomputed by the KdV recursion and
+   compared; out of reach, nothing is compared.  Returns 0 after reporting an error, else 1. */
+static int integrate_verify_correlator(interp *I, const node *where, slong g, const slong *d, slong n,
+                                       const fmpq_t first, const char *route)
+{
     fmpq_t r;
     fmpq_init(r);
-    int rc = wk_table_correlator(r, I->wk, g, d, n);
-    value *v = rc == WK_OK ? value_new_fmpq(&I->ring, r) : NULL;
-    if (rc != WK_OK)
+    int rc = integrate_kdv_second(I, r, g, d, n), ok = 1;
+    if (rc == WK_OK && !fmpq_equal(first, r)) {
+        diag_error(&where->loc, "verification failed: %s and the KdV recursion disagree on this correlator "
+                                "(please report this input)", route);
+        ok = 0;
+    } else if (rc == WK_CANCELLED) {
         integrate_report_engine(where, rc);
+        ok = 0;
+    }
+    fmpq_clear(r);
+    return ok;
+}
+
+/* A dimension mismatch is 0 however large the space; one-point and genus-0 correlators have
+   closed forms; the rest come from the DVV table, within the size estimates. */
+value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n)
+{
+    fmpq_t r;
+    fmpq_init(r);
+    int closed = wk_closed_form_kind(g, d, n), ok = 0;
+    if (closed == WK_CLOSED_ZERO) {
+        ok = 1;
+    } else if (integrate_space_ok(I, where, g, n)) {
+        if (closed == WK_CLOSED_VALUE) {
+            wk_closed_form(r, g, d, n);
+            ok = 1;
+        } else if (integrate_table_ok(I, where, g, n)) {
+            int rc = wk_table_correlator(r, I->wk, g, d, n);
+            ok = rc == WK_OK;
+            if (!ok)
+                integrate_report_engine(where, rc);
+        }
+        if (ok && I->verify)
+            ok = integrate_verify_correlator(I, where, g, d, n, r,
+                                             closed == WK_CLOSED_VALUE ? "the closed formula" : "the DVV recursion");
+    }
+    value *v = ok ? value_new_fmpq(&I->ring, r) : NULL;
     fmpq_clear(r);
     return v;
 }
@@ -116,8 +177,10 @@ static int integrate_expand(cpoly *P, const node *where, const value *integrand)
 
 typedef struct {
     interp *I;
+    slong g;
     double terms;
     slong points;
+    int table;     /* some monomial needs the correlator table (no closed form) */
 } integrate_estimate;
 
 /* What the monomial callback needs besides the interpreter: progress counting. */
@@ -130,9 +193,11 @@ typedef struct {
 static int integrate_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                                    const fmpq_mpoly_t coeff)
 {
-    (void)psi;
     (void)coeff;
     integrate_estimate *e = data;
+    if (kmax == 0 && wk_closed_form_kind(e->g, psi, n) != WK_CLOSED_NONE)
+        return 0;   /* answered by a closed form, without the table */
+    e->table = 1;
     e->terms += pf_estimate_terms(kmult, kmax);
     slong pts = n;
     for (slong j = 1; j <= kmax; j++)
@@ -145,8 +210,10 @@ static int integrate_estimate_term(void *data, const slong *psi, slong n, const 
 /* Refuses, before any work, an integral whose reduction is too large. */
 static int integrate_cost_ok(interp *I, const node *where, const cpoly *P)
 {
-    integrate_estimate e = {I, 0.0, P->n};
+    integrate_estimate e = {I, P->g, 0.0, P->n, 0};
     cpoly_foreach_top(P, integrate_estimate_term, &e);
+    if (!e.table)
+        return 1;
     if (e.terms > I->lim.max_terms) {
         diag_error(&where->loc,
                    "this integral reduces to about %.3g correlator terms, above the limit of %.3g "
@@ -184,6 +251,8 @@ static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi,
     int rc = WK_OK;
     if (hit) {
         fmpq_set(res, hit);
+    } else if (kmax == 0 && wk_closed_form(res, g, key + 2, n) != WK_CLOSED_NONE) {
+        keymap_set(&I->integrals, key, len, res);
     } else {
         rc = pf_integral(res, I->wk, g, key + 2, n, kmult, kmax);
         if (rc == WK_OK)
@@ -191,6 +260,76 @@ static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi,
     }
     free(key);
     return rc;
+}
+
+/* Data of the second route of --verify: the progress of the first route's callback (its fallback)
+   and how many monomials really went by a second route. */
+typedef struct {
+    integrate_run run;
+    double checked;
+} integrate_second;
+
+/* Whether the time shift for this kappa monomial is within --max-terms and --max-table.
+   Its correlators have at most n plus the kappa degree points. */
+static int integrate_shift_in_reach(interp *I, slong g, slong n, const slong *kmult, slong kmax)
+{
+    double work = ks_estimate_work(kmult, kmax);
+    slong K = ks_kappa_degree(kmult, kmax);
+    return K >= 0 && work <= I->lim.max_terms && integrate_table_estimate(g, n, n + K, work) <= I->lim.max_table;
+}
+
+/* One monomial by its second route: the time shift when it holds kappa classes, the KdV recursion
+   when it is psi only; out of reach (estimate or table limit), the first route's value. */
+static int integrate_monomial_second(fmpq_t res, void *data, slong g, const slong *psi, slong n,
+                                     const slong *kmult, slong kmax)
+{
+    integrate_second *s = data;
+    interp *I = s->run.I;
+    if (cancel_flag)
+        return INTEGRATE_CANCELLED;
+    int rc = WK_LIMIT;
+    if (kmax > 0 && integrate_shift_in_reach(I, g, n, kmult, kmax))
+        rc = ks_integral(res, I->wk, g, psi, n, kmult, kmax, &cancel_flag);
+    else if (kmax == 0)
+        rc = integrate_kdv_second(I, res, g, psi, n);
+    if (rc == WK_OK) {
+        s->checked++;
+        progress_update(&s->run.bar, ++s->run.done);
+        return WK_OK;
+    }
+    if (rc == WK_CANCELLED || cancel_flag)
+        return INTEGRATE_CANCELLED;
+    return integrate_monomial(res, &s->run, g, psi, n, kmult, kmax);
+}
+
+/* With --verify, the integral r of the expanded class P is recomputed monomial by monomial by the
+   second routes and compared.  Takes ownership of r; returns it, or NULL after reporting. */
+static value *integrate_verify_reduction(interp *I, const node *where, const cpoly *P, value *r)
+{
+    integrate_second s;
+    s.run.I = I;
+    s.run.done = 0;
+    s.checked = 0;
+    char what[64];
+    snprintf(what, sizeof what, "int[%ld,%ld]: second route", (long)P->g, (long)P->n);
+    progress_start(&s.run.bar, what, (double)P->len);
+    fmpq_mpoly_t second;
+    fmpq_mpoly_init(second, I->ring.ctx);
+    int rc = cpoly_integrate(second, P, integrate_monomial_second, &s);
+    progress_end(&s.run.bar);
+    if (rc != WK_OK) {
+        integrate_report_engine(where, rc);
+        value_release(r);
+        r = NULL;
+    } else if (s.checked > 0 && !fmpq_mpoly_equal(second, r->num, I->ring.ctx)) {
+        diag_error(&where->loc, "verification failed: the pushforward reduction and the second route (time "
+                                "shift for kappa classes, KdV recursion for psi classes) disagree (please "
+                                "report this input)");
+        value_release(r);
+        r = NULL;
+    }
+    fmpq_mpoly_clear(second, I->ring.ctx);
+    return r;
 }
 
 /* The reference route: expand the class, reduce each monomial to correlators. */
@@ -213,6 +352,8 @@ static value *integrate_by_reduction(interp *I, const node *where, slong g, slon
             integrate_report_engine(where, rc);
             value_release(r);
             r = NULL;
+        } else if (I->verify) {
+            r = integrate_verify_reduction(I, where, &P, r);
         }
     }
     cpoly_clear(&P);

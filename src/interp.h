@@ -29,6 +29,7 @@ typedef struct interp {
     scalar_ring ring;
     scope *globals;
     wk_table *wk;            /* Witten-Kontsevich numbers computed so far */
+    struct wk_kdv_table *wk_kdv; /* the same by the KdV recursion (--verify), created on first use */
     keymap integrals;        /* psi-kappa integrals computed so far */
     interp_limits lim;
     int depth;               /* current user-function call depth */

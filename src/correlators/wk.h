@@ -71,6 +71,9 @@ enum { WK_CLOSED_NONE = 0, WK_CLOSED_ZERO = 1, WK_CLOSED_VALUE = 2 };
    unless WK_CLOSED_VALUE. */
 int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n);
 
+/* The code wk_closed_form would return, without computing the value (cheap: O(n)). */
+int wk_closed_form_kind(slong g, const slong *d, slong n);
+
 #ifdef __cplusplus
 }
 #endif

@@ -56,12 +56,11 @@ static void wk_closed_genus0(fmpq_t res, const slong *d, slong n)
     fmpz_clear(f);
 }
 
-/* Closed forms; see wk.h for the codes.
+/* Which closed form applies; see wk.h for the codes.
    Validation mirrors wk_table_correlator, so invalid input is left to it. */
-int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n)
+int wk_closed_form_kind(slong g, const slong *d, slong n)
 {
     slong i;
-    fmpq_zero(res);
     if (g < 0 || n < 0 || (n > 0 && d == NULL) || g > WORD_MAX / 8 || n > WORD_MAX / 8)
         return WK_CLOSED_NONE;
     for (i = 0; i < n; i++)
@@ -73,6 +72,17 @@ int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n)
         return WK_CLOSED_ZERO;
     if (3 * g - 3 + n > WK_CLOSED_MAX_DIM || (n != 1 && g != 0))
         return WK_CLOSED_NONE;
+    return WK_CLOSED_VALUE;
+}
+
+/* res = the closed form when one applies (see wk.h).
+   res is zero unless the code is WK_CLOSED_VALUE. */
+int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n)
+{
+    int kind = wk_closed_form_kind(g, d, n);
+    fmpq_zero(res);
+    if (kind != WK_CLOSED_VALUE)
+        return kind;
     if (n == 1)
         wk_closed_one_point(res, g);
     else
