@@ -38,7 +38,7 @@ typedef struct interp {
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
     slong wpv_G, wpv_N;
     int route_volumes;       /* send every recognised volume integral to the volume engine */
-    int verify;              /* compute by two independent routes and compare (--verify) */
+    int verify;              /* recompute by a second, independent route and compare (--verify) */
     struct store *store;     /* results store, opened on first use (results.c) */
     char *store_path;        /* --store PATH (owned), NULL for the default */
     int store_off;           /* --no-store, or the store could not be opened */
