@@ -75,7 +75,7 @@ static void integrate_report_engine(const node *where, int rc)
 
 /* The memo of the second correlator route, created on first use with the table limit.
    Returns NULL when memory is exhausted; the interpreter owns the table. */
-static wk_kdv_table *integrate_kdv_table(interp *I)
+static wk_kdv_table *integrate_get_kdv_table(interp *I)
 {
     if (I->wk_kdv == NULL) {
         I->wk_kdv = wk_kdv_table_new();
@@ -89,11 +89,11 @@ static wk_kdv_table *integrate_kdv_table(interp *I)
 
 /* res = <tau_d>_g by the KdV recursion when its estimate is within --max-table.
    Returns WK_OK, WK_LIMIT when out of reach (nothing to compare), or WK_CANCELLED. */
-static int integrate_kdv_second(interp *I, fmpq_t res, slong g, const slong *d, slong n)
+static int integrate_compute_kdv(interp *I, fmpq_t res, slong g, const slong *d, slong n)
 {
     if (wk_kdv_estimate_entries(g, n) > I->lim.max_table || 2 * g - 2 + n > WK_KDV_MAX_EULER)
         return WK_LIMIT;
-    wk_kdv_table *K = integrate_kdv_table(I);
+    wk_kdv_table *K = integrate_get_kdv_table(I);
     int rc = K ? wk_kdv_correlator(res, K, g, d, n) : WK_LIMIT;
     return rc == WK_CANCELLED || cancel_flag ? WK_CANCELLED : rc == WK_OK ? WK_OK : WK_LIMIT;
 }
@@ -105,7 +105,7 @@ static int integrate_verify_correlator(interp *I, const node *where, slong g, co
 {
     fmpq_t r;
     fmpq_init(r);
-    int rc = integrate_kdv_second(I, r, g, d, n), ok = 1;
+    int rc = integrate_compute_kdv(I, r, g, d, n), ok = 1;
     if (rc == WK_OK && !fmpq_equal(first, r)) {
         diag_error(&where->loc, "verification failed: %s and the KdV recursion disagree on this correlator "
                                 "(please report this input)", route);
@@ -190,6 +190,8 @@ typedef struct {
     double done;
 } integrate_run;
 
+/* Adds one monomial's reduction terms and points to the estimate; monomials with a closed form
+   need neither, so they are not counted. */
 static int integrate_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                                    const fmpq_mpoly_t coeff)
 {
@@ -271,7 +273,7 @@ typedef struct {
 
 /* Whether the time shift for this kappa monomial is within --max-terms and --max-table.
    Its correlators have at most n plus the kappa degree points. */
-static int integrate_shift_in_reach(interp *I, slong g, slong n, const slong *kmult, slong kmax)
+static int integrate_check_shift_reach(interp *I, slong g, slong n, const slong *kmult, slong kmax)
 {
     double work = ks_estimate_work(kmult, kmax);
     slong K = ks_kappa_degree(kmult, kmax);
@@ -280,7 +282,7 @@ static int integrate_shift_in_reach(interp *I, slong g, slong n, const slong *km
 
 /* One monomial by its second route: the time shift when it holds kappa classes, the KdV recursion
    when it is psi only; out of reach (estimate or table limit), the first route's value. */
-static int integrate_monomial_second(fmpq_t res, void *data, slong g, const slong *psi, slong n,
+static int integrate_compute_second(fmpq_t res, void *data, slong g, const slong *psi, slong n,
                                      const slong *kmult, slong kmax)
 {
     integrate_second *s = data;
@@ -288,10 +290,10 @@ static int integrate_monomial_second(fmpq_t res, void *data, slong g, const slon
     if (cancel_flag)
         return INTEGRATE_CANCELLED;
     int rc = WK_LIMIT;
-    if (kmax > 0 && integrate_shift_in_reach(I, g, n, kmult, kmax))
+    if (kmax > 0 && integrate_check_shift_reach(I, g, n, kmult, kmax))
         rc = ks_integral(res, I->wk, g, psi, n, kmult, kmax, &cancel_flag);
     else if (kmax == 0)
-        rc = integrate_kdv_second(I, res, g, psi, n);
+        rc = integrate_compute_kdv(I, res, g, psi, n);
     if (rc == WK_OK) {
         s->checked++;
         progress_update(&s->run.bar, ++s->run.done);
@@ -315,7 +317,7 @@ static value *integrate_verify_reduction(interp *I, const node *where, const cpo
     progress_start(&s.run.bar, what, (double)P->len);
     fmpq_mpoly_t second;
     fmpq_mpoly_init(second, I->ring.ctx);
-    int rc = cpoly_integrate(second, P, integrate_monomial_second, &s);
+    int rc = cpoly_integrate(second, P, integrate_compute_second, &s);
     progress_end(&s.run.bar);
     if (rc != WK_OK) {
         integrate_report_engine(where, rc);
@@ -381,6 +383,8 @@ static value *integrate_verify(interp *I, const node *where, slong g, slong n, c
     return NULL;
 }
 
+/* The volume engine when it recognises the integrand (checked by the reduction with --verify),
+   else the reduction (checked monomial by monomial by the second routes with --verify). */
 static value *integrate_compute(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
     int handled;

@@ -33,7 +33,7 @@ typedef struct {
 
 /* A = A mod (s_j^{m_j+1}): drops every term with an exponent above its bound.
    The kept terms keep their order, so the result is canonical. */
-static void ks_truncate(fmpq_mpoly_t A, const ks_walk *W)
+static void ks_poly_truncate(fmpq_mpoly_t A, const ks_walk *W)
 {
     slong i, j, len = fmpq_mpoly_length(A, W->ctx);
     ulong *exp = flint_malloc((size_t) W->r * sizeof(ulong));
@@ -78,7 +78,7 @@ static void ks_fill_times(ks_walk *W, const slong *idx)
             fmpq_mpoly_add(W->q + k, W->q + k, t, W->ctx);      /* k p_k = sum j s_j (-p_{k-j}) */
         }
         fmpq_mpoly_scalar_div_si(W->q + k, W->q + k, -k, W->ctx);   /* q_k = -p_k */
-        ks_truncate(W->q + k, W);
+        ks_poly_truncate(W->q + k, W);
     }
     fmpq_mpoly_clear(t, W->ctx);
     fmpq_mpoly_clear(s, W->ctx);
@@ -86,7 +86,7 @@ static void ks_fill_times(ks_walk *W, const slong *idx)
 
 /* Leaf of the walk: adds coefficient(s^m in P) * <prod tau_{d_i} prod_k tau_{k+1}^{e_k}>_g.
    Returns the correlator's status, or WK_CANCELLED when a stop was requested. */
-static int ks_leaf(ks_walk *W, const fmpq_mpoly_t P)
+static int ks_walk_add_leaf(ks_walk *W, const fmpq_mpoly_t P)
 {
     slong k, c, len = W->n;
     int st;
@@ -115,7 +115,7 @@ static int ks_walk_parts(ks_walk *W, slong k, slong R, const fmpq_mpoly_t P)
     int st = WK_OK;
     fmpq_mpoly_t Q;
     if (R == 0)
-        return ks_leaf(W, P);
+        return ks_walk_add_leaf(W, P);
     if (k == 0)
         return WK_OK;
     if (k > R)
@@ -126,7 +126,7 @@ static int ks_walk_parts(ks_walk *W, slong k, slong R, const fmpq_mpoly_t P)
         if (e > 0) {
             fmpq_mpoly_mul(Q, Q, W->q + k, W->ctx);
             fmpq_mpoly_scalar_div_si(Q, Q, e, W->ctx);
-            ks_truncate(Q, W);
+            ks_poly_truncate(Q, W);
             if (fmpq_mpoly_is_zero(Q, W->ctx))
                 break;                                  /* every larger e is zero as well */
         }
@@ -155,7 +155,7 @@ slong ks_kappa_degree(const slong *kmult, slong kmax)
 
 /* Sets up the variables (one per kappa index present), runs the walk and scales by prod m_j!.
    W->g, n, d, K, T, cancel and res are set by the caller. */
-static int ks_run(ks_walk *W, const slong *kmult, slong kmax)
+static int ks_integral_run(ks_walk *W, const slong *kmult, slong kmax)
 {
     slong j, v, *idx;
     int st;
@@ -235,7 +235,7 @@ int ks_integral(fmpq_t res, wk_table *T, slong g, const slong *d, slong n, const
     W.d = d;
     W.K = K;
     W.res = res;
-    st = ks_run(&W, kmult, kmax);
+    st = ks_integral_run(&W, kmult, kmax);
     if (st != WK_OK)
         fmpq_zero(res);
     return st;
@@ -243,7 +243,7 @@ int ks_integral(fmpq_t res, wk_table *T, slong g, const slong *d, slong n, const
 
 /* Marks in ok[0..K] the weights k reachable as sum_j j a_j with 0 <= a_j <= m_j (bounded subset
    sums); p_k survives truncation only for such k. */
-static void ks_reachable(char *ok, slong K, const slong *kmult, slong kmax)
+static void ks_mark_reachable(char *ok, slong K, const slong *kmult, slong kmax)
 {
     slong j, a, k;
     ok[0] = 1;
@@ -273,7 +273,7 @@ double ks_estimate_work(const slong *kmult, slong kmax)
         free(ok), free(cnt);
         return HUGE_VAL;
     }
-    ks_reachable(ok, K, kmult, kmax);
+    ks_mark_reachable(ok, K, kmult, kmax);
     cnt[0] = 1.0;
     for (k = 1; k <= K; k++)                  /* partitions of N into allowed parts */
         if (ok[k])

@@ -26,7 +26,7 @@ static int wk_closed_degree_matches(slong g, const slong *d, slong n)
 
 /* res = 1/(24^g g!).
    g >= 1 and bounded by the caller. */
-static void wk_closed_one_point(fmpq_t res, slong g)
+static void wk_closed_set_one_point(fmpq_t res, slong g)
 {
     fmpz_t f;
     fmpz_init(f);
@@ -40,7 +40,7 @@ static void wk_closed_one_point(fmpq_t res, slong g)
 
 /* res = (n-3)! / prod d_i! (already in lowest terms after canonicalisation).
    n >= 3 and sum d_i = n-3. */
-static void wk_closed_genus0(fmpq_t res, const slong *d, slong n)
+static void wk_closed_set_genus0(fmpq_t res, const slong *d, slong n)
 {
     slong i;
     fmpz_t f;
@@ -84,8 +84,8 @@ int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n)
     if (kind != WK_CLOSED_VALUE)
         return kind;
     if (n == 1)
-        wk_closed_one_point(res, g);
+        wk_closed_set_one_point(res, g);
     else
-        wk_closed_genus0(res, d, n);
+        wk_closed_set_genus0(res, d, n);
     return WK_CLOSED_VALUE;
 }

@@ -264,7 +264,7 @@ static void kdv_key_sort(slong *key, slong n)
 
 /* Evaluates an unsorted key (sorting buf in place first).
    Same contract as kdv_eval. */
-static int kdv_eval_buf(wk_kdv_table *T, slong *buf, slong n, fmpq_t out)
+static int kdv_eval_unsorted(wk_kdv_table *T, slong *buf, slong n, fmpq_t out)
 {
     kdv_key_sort(buf, n);
     return kdv_eval(T, buf, n, out);
@@ -272,7 +272,7 @@ static int kdv_eval_buf(wk_kdv_table *T, slong *buf, slong n, fmpq_t out)
 
 /* String equation: key ends with a 0, which is removed; each distinct value v >= 1 of the rest is
    lowered once, the term counted with the multiplicity of v (lowering the last copy keeps order). */
-static int kdv_string(wk_kdv_table *T, const slong *key, slong n, fmpq_t x)
+static int kdv_compute_string(wk_kdv_table *T, const slong *key, slong n, fmpq_t x)
 {
     slong m = n - 1, i = 0, j;
     int st = WK_OK;
@@ -299,7 +299,7 @@ static int kdv_string(wk_kdv_table *T, const slong *key, slong n, fmpq_t x)
 
 /* Dilaton equation: key ends with a 1 and has no 0: X = (2g-3+n) <key without that 1>.
    The prefix of a sorted key is sorted. */
-static int kdv_dilaton(wk_kdv_table *T, slong g, const slong *key, slong n, fmpq_t x)
+static int kdv_compute_dilaton(wk_kdv_table *T, slong g, const slong *key, slong n, fmpq_t x)
 {
     int st = kdv_eval(T, key, n - 1, x);
     fmpq_mul_si(x, x, 2 * g - 3 + n);
@@ -335,7 +335,7 @@ static int kdv_step_init(kdv_step *c)
 
 /* Writes top, then v_i repeated cnt_i times (i = 0..p-1, or mul_i - cnt_i when complement), then
    `zeros` zeros into out; returns the length.  top < 0 means no top entry. */
-static slong kdv_step_key(const kdv_step *c, slong *out, slong top, int complement, slong zeros)
+static slong kdv_step_write_key(const kdv_step *c, slong *out, slong top, int complement, slong zeros)
 {
     slong i, r, o = 0;
     if (top >= 0)
@@ -369,7 +369,7 @@ static int kdv_step_add_lowered(wk_kdv_table *T, kdv_step *c, slong top, slong i
         c->buf[o++] = v;
     }
     fmpq_init(t);
-    st = kdv_eval_buf(T, c->buf, o, t);
+    st = kdv_eval_unsorted(T, c->buf, o, t);
     fmpq_mul_si(t, t, w);
     fmpq_add(x, x, t);
     fmpq_clear(t);
@@ -378,7 +378,7 @@ static int kdv_step_add_lowered(wk_kdv_table *T, kdv_step *c, slong top, slong i
 
 /* S1 = sum_j <tau_{a+1} tau_M(m_j - 1)>, grouped by distinct values.
    Every term is at the same (g, n) with largest index a+1. */
-static int kdv_step_s1(wk_kdv_table *T, kdv_step *c, fmpq_t s1)
+static int kdv_step_sum_s1(wk_kdv_table *T, kdv_step *c, fmpq_t s1)
 {
     slong i;
     int st = WK_OK;
@@ -389,7 +389,7 @@ static int kdv_step_s1(wk_kdv_table *T, kdv_step *c, fmpq_t s1)
 
 /* S2' = sum_j <tau_{a+2} tau_M(m_j - 2)> + 2 sum_{j<l} <tau_{a+2} tau_M(m_j - 1, m_l - 1)>, pairs of
    positions grouped by values (C(c_i, 2) inside a value, c_i c_k across two); S2 = S2' + 2 S1. */
-static int kdv_step_s2(wk_kdv_table *T, kdv_step *c, fmpq_t s2)
+static int kdv_step_sum_s2(wk_kdv_table *T, kdv_step *c, fmpq_t s2)
 {
     slong i, k;
     int st = WK_OK;
@@ -422,7 +422,7 @@ static int kdv_step_next_subset(kdv_step *c)
    Both factors are read off their degrees; either may be zero (unstable or no integral genus). */
 static int kdv_step_add_product(wk_kdv_table *T, kdv_step *c, slong z1, slong z2, const fmpz_t w, fmpq_t x)
 {
-    slong n1 = kdv_step_key(c, c->buf, c->a + 1, 0, z1), n2 = kdv_step_key(c, c->buf2, -1, 1, z2);
+    slong n1 = kdv_step_write_key(c, c->buf, c->a + 1, 0, z1), n2 = kdv_step_write_key(c, c->buf2, -1, 1, z2);
     int st;
     fmpq_t u, v;
     fmpq_init(u);
@@ -440,7 +440,7 @@ static int kdv_step_add_product(wk_kdv_table *T, kdv_step *c, slong z1, slong z2
 
 /* R = sum over proper sub-multisets I of M (each standing for prod C(mul_i, cnt_i) splittings) of
    <tau_{a+1} tau_0 tau_I><tau_0^3 tau_J> + 2 <tau_{a+1} tau_0^2 tau_I><tau_0^2 tau_J>. */
-static int kdv_step_r(wk_kdv_table *T, kdv_step *c, fmpq_t r)
+static int kdv_step_sum_products(wk_kdv_table *T, kdv_step *c, fmpq_t r)
 {
     slong i, size;
     int st = WK_OK;
@@ -469,9 +469,9 @@ static int kdv_step_r(wk_kdv_table *T, kdv_step *c, fmpq_t r)
 
 /* A = 1/4 <tau_{a+1} tau_0^4 tau_M>_{g-1}; needs the odometer at zero (the complement is M).
    The key is written already sorted. */
-static int kdv_step_a(wk_kdv_table *T, kdv_step *c, fmpq_t a)
+static int kdv_step_get_a(wk_kdv_table *T, kdv_step *c, fmpq_t a)
 {
-    slong n = kdv_step_key(c, c->buf, c->a + 1, 1, 4);
+    slong n = kdv_step_write_key(c, c->buf, c->a + 1, 1, 4);
     int st = kdv_eval(T, c->buf, n, a);
     fmpq_div_2exp(a, a, 2);
     return st;
@@ -494,13 +494,13 @@ static int kdv_compute_step(wk_kdv_table *T, slong g, const slong *key, slong n,
     fmpq_init(s1);
     fmpq_init(s2);
     fmpz_init_set_si(den, 2 * c.a + 4);
-    st = kdv_step_a(T, &c, x);
+    st = kdv_step_get_a(T, &c, x);
     if (st == WK_OK)
-        st = kdv_step_r(T, &c, x);
+        st = kdv_step_sum_products(T, &c, x);
     if (st == WK_OK)
-        st = kdv_step_s1(T, &c, s1);
+        st = kdv_step_sum_s1(T, &c, s1);
     if (st == WK_OK)
-        st = kdv_step_s2(T, &c, s2);
+        st = kdv_step_sum_s2(T, &c, s2);
     fmpq_add(x, x, s1);
     fmpq_add(s2, s2, s1);
     fmpq_add(s2, s2, s1);
@@ -527,15 +527,15 @@ static int kdv_compute(wk_kdv_table *T, slong g, const slong *key, slong n, fmpq
         return WK_OK;
     }
     if (key[n - 1] == 0)
-        return kdv_string(T, key, n, x);
+        return kdv_compute_string(T, key, n, x);
     if (key[n - 1] == 1)
-        return kdv_dilaton(T, g, key, n, x);
+        return kdv_compute_dilaton(T, g, key, n, x);
     return kdv_compute_step(T, g, key, n, x);
 }
 
 /* Genus of a sorted key read off its degree (sum d = 3g-3+n), or -1 when no stable genus fits.
    Callers build keys whose genus is fixed by degree, so this is the only place that decides it. */
-static slong kdv_key_genus(const slong *key, slong n)
+static slong kdv_key_get_genus(const slong *key, slong n)
 {
     slong i, D = 0, g;
     for (i = 0; i < n; i++)
@@ -550,7 +550,7 @@ static slong kdv_key_genus(const slong *key, slong n)
    Memo lookup, else computes under the nesting cap and stores; out is zero on error. */
 static int kdv_eval(wk_kdv_table *T, const slong *key, slong n, fmpq_t out)
 {
-    slong g = kdv_key_genus(key, n), idx;
+    slong g = kdv_key_get_genus(key, n), idx;
     ulong h;
     int st;
     fmpq_zero(out);
@@ -618,7 +618,7 @@ int wk_kdv_correlator(fmpq_t res, wk_kdv_table *T, slong g, const slong *d, slon
     if (n > 0)
         memcpy(key, d, (size_t) n * sizeof(slong));
     T->nest = 0;
-    st = kdv_eval_buf(T, key, n, res);
+    st = kdv_eval_unsorted(T, key, n, res);
     free(key);
     return st;
 }
