@@ -118,7 +118,7 @@ static int integrate_verify_correlator(interp *I, const node *where, slong g, co
     return ok;
 }
 
-/* A dimension mismatch is 0 however large the space; one-point and genus-0 correlators have
+/* A degree mismatch is 0 however large the space; one-point and genus-0 correlators have
    closed forms; the rest come from the DVV table, within the size estimates. */
 value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n)
 {
@@ -253,8 +253,6 @@ static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi,
     int rc = WK_OK;
     if (hit) {
         fmpq_set(res, hit);
-    } else if (kmax == 0 && wk_closed_form(res, g, key + 2, n) != WK_CLOSED_NONE) {
-        keymap_set(&I->integrals, key, len, res);
     } else {
         rc = pf_integral(res, I->wk, g, key + 2, n, kmult, kmax);
         if (rc == WK_OK)
@@ -262,6 +260,19 @@ static int integrate_monomial(fmpq_t res, void *data, slong g, const slong *psi,
     }
     free(key);
     return rc;
+}
+
+/* The first route for one monomial: a closed form for psi-only monomials that have one (they were
+   left out of the estimate), else the memoised reduction of integrate_monomial. */
+static int integrate_compute_first(fmpq_t res, void *data, slong g, const slong *psi, slong n,
+                                   const slong *kmult, slong kmax)
+{
+    integrate_run *run = data;
+    if (kmax == 0 && wk_closed_form(res, g, psi, n) != WK_CLOSED_NONE) {
+        progress_update(&run->bar, ++run->done);
+        return cancel_flag ? INTEGRATE_CANCELLED : WK_OK;
+    }
+    return integrate_monomial(res, data, g, psi, n, kmult, kmax);
 }
 
 /* Data of the second route of --verify: the progress of the first route's callback (its fallback)
@@ -301,7 +312,7 @@ static int integrate_compute_second(fmpq_t res, void *data, slong g, const slong
     }
     if (rc == WK_CANCELLED || cancel_flag)
         return INTEGRATE_CANCELLED;
-    return integrate_monomial(res, &s->run, g, psi, n, kmult, kmax);
+    return integrate_compute_first(res, &s->run, g, psi, n, kmult, kmax);
 }
 
 /* With --verify, the integral r of the expanded class P is recomputed monomial by monomial by the
@@ -348,7 +359,7 @@ static value *integrate_by_reduction(interp *I, const node *where, slong g, slon
         char what[64];
         snprintf(what, sizeof what, "int[%ld,%ld]: monomials", (long)g, (long)n);
         progress_start(&run.bar, what, (double)P.len);
-        int rc = cpoly_integrate(r->num, &P, integrate_monomial, &run);
+        int rc = cpoly_integrate(r->num, &P, integrate_compute_first, &run);
         progress_end(&run.bar);
         if (rc != WK_OK) {
             integrate_report_engine(where, rc);
