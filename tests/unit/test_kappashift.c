@@ -75,11 +75,11 @@ static void test_hand_and_published(wk_table *T)
     /* Weil-Petersson volumes V = (2 pi^2)^D/D! int kappa_1^D (docs/conventions.md):
        V_{0,5} = 10 pi^4 (P. Zograf, "The Weil-Petersson volume of the moduli space of punctured
        spheres", 1993, from memory) gives 5 (also hand-computed above);
-       V_{1,2} = pi^4/4 and V_{2,0} = 43 pi^6/2160 (M. Mirzakhani, "Simple geodesics and
-       Weil-Petersson volumes", Invent. Math. 2007, from memory, stack normalisation) give 1/8 and
-       43/2880. */
+       V_{1,2} = pi^4/4 (M. Mirzakhani, "Simple geodesics and Weil-Petersson volumes", Invent. Math.
+       2007, from memory; no orbifold factor for (1,2)) gives 1/8, and V_{2,0} = 43 pi^6/2160 in the
+       stack normalisation (docs/conventions.md, the example int kappa_1^3 = 43/2880 there). */
     km[1] = 2; check_value(T, 1, 2, km, 1, 1, 8, "Mirzakhani 2007, from memory");
-    km[1] = 3; check_value(T, 2, 0, km, 1, 43, 2880, "Mirzakhani 2007, from memory");
+    km[1] = 3; check_value(T, 2, 0, km, 1, 43, 2880, "docs/conventions.md, from memory");
 }
 
 /* Fills km[1..KMAX] with a random kappa multiset of total weight K; returns the largest index used. */

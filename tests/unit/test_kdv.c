@@ -60,8 +60,9 @@ static void check_kdv_value(wk_kdv_table *K, slong g, const slong *d, slong n, s
 }
 
 /* Published small values by the KdV route alone, on a fresh table so no value comes from elsewhere.
-   Bases from Witten 1991; the genus-2 and genus-3 values are recalled from memory (the same list
-   Itzykson-Zuber 1992 tabulate, "Combinatorics of the modular group II: the Kontsevich integrals"). */
+   Bases from Witten 1991; the genus-2 and genus-3 values are recalled from memory (values of this
+   kind are tabulated in Itzykson-Zuber 1992, "Combinatorics of the modular group II: the Kontsevich
+   integrals"; not checked against the paper here). */
 static void test_published(void)
 {
     wk_kdv_table *K = wk_kdv_table_new();
