@@ -1,0 +1,201 @@
+/* wpoly.c - driver of the few-point volume polynomials (wpoly.h): the multi-indices, the size
+ * and cost models, and the job handed to the multi-modular driver of wpvol.c (primes, threads,
+ * Chinese remaindering, rational reconstruction confirmed by further primes).  The values
+ * recovered are (D-|a|)! W_a = int psi^a kappa_1^{D-|a|}, whose denominators are small.
+ */
+#include <math.h>
+#include <stdlib.h>
+
+#include <flint/fmpz.h>
+
+#include "wpoly.h"
+#include "wpvol_internal.h"
+
+/* Parameters of one request (lives on the stack of wpoly_coeffs_ex). */
+typedef struct
+{
+    slong g, n, extra, nidx;
+    slong *idx;
+} wpoly_job_data_t;
+
+/* Writes the sorted multi-indices with a_i <= cap and sum <= left from position i on
+   (lexicographic); returns the running count. */
+static slong wpoly_indices_rec(slong *idx, slong *cur, slong i, slong n, slong cap, slong left,
+                               slong count)
+{
+    slong a, k;
+
+    if (i == n)
+    {
+        if (idx != NULL)
+            for (k = 0; k < n; k++)
+                idx[count * n + k] = cur[k];
+        return count + 1;
+    }
+    for (a = 0; a <= cap && a <= left; a++)
+    {
+        cur[i] = a;
+        count = wpoly_indices_rec(idx, cur, i + 1, n, a, left - a, count);
+    }
+    return count;
+}
+
+/* See wpoly.h. */
+slong wpoly_indices(slong *idx, slong g, slong n)
+{
+    slong cur[WPOLY_MAX_POINTS], D = 3 * g - 3 + n;
+
+    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return 0;
+    return wpoly_indices_rec(idx, cur, 0, n, D, D, 0);
+}
+
+static void *wpoly_job_ws_new(const wpvol_job_t *job)
+{
+    const wpoly_job_data_t *d = job->data;
+    return wpoly_ws_new(d->g, d->n, d->extra, d->idx, d->nidx);
+}
+
+static void wpoly_job_ws_free(void *ws)
+{
+    wpoly_ws_free(ws);
+}
+
+static int wpoly_job_run(void *ws, ulong *res, nmod_t mod)
+{
+    return wpoly_modp_run(ws, res, mod);
+}
+
+/* Model of the modulus bits of int psi^a kappa_1^{D-|a|}: the kappa_1 integral of the same
+   space bounds them in practice (measured for g <= 20, n <= 3), plus room for the psi
+   denominators (24^g g! for psi^D). */
+static double wpoly_need_bits(slong g, slong n)
+{
+    return wpvol_estimate_need_bits(g, n) + 2.0 * (double) g + 16.0;
+}
+
+static double wpoly_job_need(const wpvol_job_t *job, slong k)
+{
+    const wpoly_job_data_t *d = job->data;
+    (void) k;
+    return wpoly_need_bits(d->g, d->n);
+}
+
+static slong wpoly_job_den(const wpvol_job_t *job, slong k)
+{
+    const wpoly_job_data_t *d = job->data;
+    (void) k;
+    return (slong) wpvol_estimate_den_bits(d->g) + 2 * d->g;
+}
+
+/* Relative cost of one prime: per multi-index with q points a_i >= 2, per genus G the biv
+   products ((G/2)(3^q - 1) of Kronecker length about 6 G L) and the applications of d_0
+   (about 3 2^q rows of quadratic cost); the component without perturbation once. */
+static double wpoly_estimate_work(slong g, slong n)
+{
+    double L = 3.0 * (double) g + (double) n - 3.0, w = 0.0, base = 0.0, pert[WPOLY_MAX_POINTS + 1];
+    slong G, q, k, nidx = wpoly_indices(NULL, g, n);
+    slong *idx = malloc((size_t) (nidx * n + 1) * sizeof(slong));
+
+    for (q = 0; q <= n; q++)
+        pert[q] = 0.0;
+    for (G = 2; G <= g; G++)
+    {
+        double len = 6.0 * (double) G * L, prod = len * log2(len + 2.0), d0 = 3.0 * (double) G * L * L / 2.0;
+        base += 0.5 * (double) G * prod + 3.0 * d0;
+        for (q = 1; q <= n; q++)
+            pert[q] += 0.5 * (double) G * (pow(3.0, (double) q) - 1.0) * prod
+                       + 3.0 * (pow(2.0, (double) q) - 1.0) * d0;
+    }
+    w = base;
+    if (idx != NULL)
+    {
+        wpoly_indices(idx, g, n);
+        for (k = 0; k < nidx; k++)
+        {
+            for (q = 0; q < n && idx[k * n + q] >= 2; q++)
+                ;
+            w += pert[q];
+        }
+        free(idx);
+    }
+    return w * 1.0e-9;
+}
+
+/* See wpoly.h. */
+void wpoly_estimate(double *seconds, double *bytes, slong g, slong n)
+{
+    double L, primes, nidx;
+
+    *seconds = 0.0;
+    *bytes = 0.0;
+    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return;
+    L = 3.0 * (double) g + (double) n - 3.0;
+    primes = wpoly_need_bits(g, n) / 61.0 + 3.0;
+    nidx = (double) wpoly_indices(NULL, g, n);
+    *seconds = primes * wpoly_estimate_work(g, n) + 1.0e-9 * nidx * primes * primes * 20.0;
+    /* A, B, C of every genus and component (3h rows of L words), f, residues, CRT values */
+    *bytes = 8.0 * (3.0 * 1.5 * (double) g * (double) g * L * pow(2.0, (double) n)
+                    + 3.0 * (double) g * L * pow(2.0, (double) n))
+             + 8.0 * nidx * primes + 3.0 * 8.0 * nidx * primes;
+}
+
+/* See wpoly.h. */
+int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, slong min_primes,
+                    slong extra, slong *primes_used)
+{
+    wpoly_job_data_t d;
+    wpvol_job_t job;
+    double sec, bytes;
+    slong k;
+    int status;
+
+    if (primes_used != NULL)
+        *primes_used = 0;
+    if (out == NULL || g < 2 || n < 1 || n > WPOLY_MAX_POINTS || threads < 1 || prime_bits < 20
+        || prime_bits > 63 || extra < 0 || extra > 1000)
+        return WPVOL_BADARG;
+    d.g = g;
+    d.n = n;
+    d.extra = extra;
+    d.nidx = wpoly_indices(NULL, g, n);
+    for (k = 0; k < d.nidx; k++)
+        fmpq_zero(out + k);
+    wpoly_estimate(&sec, &bytes, g, n);
+    if (sec > WPVOL_MAX_SECONDS || bytes > WPVOL_MAX_BYTES)
+        return WPVOL_LIMIT;
+    d.idx = malloc((size_t) (d.nidx * n) * sizeof(slong));
+    if (d.idx == NULL)
+        return WPVOL_NOMEM;
+    wpoly_indices(d.idx, g, n);
+    job.nv = d.nidx;
+    job.ws_new = wpoly_job_ws_new;
+    job.ws_free = wpoly_job_ws_free;
+    job.run = wpoly_job_run;
+    job.need_bits = wpoly_job_need;
+    job.den_bits = wpoly_job_den;
+    job.first_bits = wpoly_need_bits(g, n);
+    job.data = &d;
+    status = wpvol_drive(out, &job, threads, prime_bits, min_primes, primes_used);
+    /* (D-|a|)! W_a back to W_a */
+    for (k = 0; status == WPVOL_OK && k < d.nidx; k++)
+    {
+        slong i, s = 3 * g - 3 + n;
+        fmpz_t f;
+        for (i = 0; i < n; i++)
+            s -= d.idx[k * n + i];
+        fmpz_init(f);
+        fmpz_fac_ui(f, (ulong) s);
+        fmpq_div_fmpz(out + k, out + k, f);
+        fmpz_clear(f);
+    }
+    free(d.idx);
+    return status;
+}
+
+/* See wpoly.h: 62-bit primes, first batch from the size model, the proven truncation. */
+int wpoly_coeffs(fmpq *out, slong g, slong n, int threads)
+{
+    return wpoly_coeffs_ex(out, g, n, threads, 62, 1, 0, NULL);
+}
