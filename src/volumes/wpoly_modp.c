@@ -16,6 +16,11 @@
  * Finally u solves the string equation u = I_0(u) in J (nilpotent, n+1 iterations),
  * v = 1 - I_1(u), and F_g(u, v) needs each f_m to order n in u.
  *
+ * Products: with a prime p = c 2^k + 1 (the driver's default) every d_0^2 F_h component is
+ * transformed once (the component {} once per prime, for all multi-indices) and each genus
+ * and component needs one pointwise multiply-accumulate and one inverse transform, as in
+ * wpvol_modp.c; other primes use FLINT's Kronecker products (same results).
+ *
  * Truncation: the perturbations are series in u, so the set {d + o <= S} of wpvol_modp.c is
  * still closed; the top-down step loses one order per row, so order n of the lowest row
  * f_{2g-1} needs S = 3g + n - 4 (rows of L = S + 1 terms, triangular).  The unused equation
@@ -41,6 +46,12 @@ struct wpoly_ws_struct
     ulong *f;                 /* f[S*fsz + (m-(2g-1))*(L+1) + o] = [u^o] f_m[S], one zero row more */
     slong fsz;                /* (3g-2)(L+1): rows of L+1 words so that f_{m+1}' stays inside */
     ulong *tmp;               /* L words */
+    slong Tmax;               /* transform length of genus g */
+    ulong **hat;              /* hat[h*nm+S]: transform of B[h*nm+S] (allocated on first use) */
+    ulong *buf;               /* Tmax words */
+    ulong **pa, **pb;         /* pointer lists for wpvol_ntt_dot2, g 2^n entries each */
+    wpvol_ntt_t F;            /* tables, allocated on first use, refilled per prime */
+    int use_ntt;
     /* per prime */
     nmod_t mod;
     wpvol_ctx_t ctx;
@@ -111,25 +122,92 @@ static int wpoly_products(wpvol_biv_t R, slong G, slong S, wpoly_ws_t *ws)
     return ok ? WPVOL_OK : WPVOL_NOMEM;
 }
 
+/* Transform length for the products of genus G (rows 3h-1 and 3(G-h)-1 in slots 2L-1). */
+static slong wpoly_ntt_len(slong G, slong L)
+{
+    slong need = (3 * G - 2) * (2 * L - 1), T = 1;
+
+    while (T < need)
+        T *= 2;
+    return T;
+}
+
+/* hat[h][S] = length-Tmax transform of the Kronecker image of B[h][S]; its first T_G entries
+   are the transform of length T_G (the image fills less than T_G).  WPVOL_OK or WPVOL_NOMEM. */
+static int wpoly_hat(wpoly_ws_t *ws, slong h, slong S)
+{
+    const wpvol_biv_struct *b = wpoly_at(ws->B, ws, h, S);
+    slong r, slot = 2 * ws->L - 1, T = ws->Tmax;
+    ulong **x = ws->hat + h * ws->nm + S;
+
+    if (*x == NULL && (*x = malloc((size_t) T * sizeof(ulong))) == NULL)
+        return WPVOL_NOMEM;
+    memset(*x, 0, (size_t) T * sizeof(ulong));
+    for (r = 0; r < b->rows; r++)
+        memcpy(*x + r * slot, b->c + r * b->len, (size_t) wpvol_biv_rowlen(b, r) * sizeof(ulong));
+    wpvol_ntt_fwd(*x, T, ws->F);
+    return WPVOL_OK;
+}
+
+/* The sum of wpoly_products times 2 T_G by cached transforms: the same pairs, one pointwise
+   sum (wpvol_ntt_dot2 doubles it; the halved square of S = {} enters undoubled) and one
+   inverse transform; product row i is row i+1 of R. */
+static void wpoly_products_ntt(wpvol_biv_t R, slong G, slong S, wpoly_ws_t *ws)
+{
+    slong h, T, r, np = 0, TG = wpoly_ntt_len(G, ws->L), slot = 2 * ws->L - 1, nm = ws->nm;
+    const ulong *sq = NULL;
+
+    for (h = 1; 2 * h <= G; h++)
+    {
+        T = S;
+        do
+        {
+            if (2 * h < G || (S != 0 && T < (S ^ T)))
+            {
+                ws->pa[np] = ws->hat[h * nm + T];
+                ws->pb[np++] = ws->hat[(G - h) * nm + (S ^ T)];
+            }
+            else if (S == 0)
+                sq = ws->hat[h * nm];
+            T = (T - 1) & S;
+        } while (T != S);
+    }
+    wpvol_ntt_dot2(ws->buf, ws->pa, ws->pb, np, sq, TG, ws->mod);
+    wpvol_ntt_inv(ws->buf, TG, ws->F);
+    for (r = 0; r + 1 < R->rows; r++)
+        _nmod_vec_add(R->c + (r + 1) * R->len, R->c + (r + 1) * R->len, ws->buf + r * slot,
+                      wpvol_biv_rowlen(R, r + 1), ws->mod);
+}
+
 /* A[G][S] = (d_0 F_G)[S] from the lower genera: C = d_0 B_{G-1}, D = d_0 C, the bracket
    R = D/12 + products, then c_m = r_{m+1}/m.  Returns WPVOL_OK or WPVOL_NOMEM. */
 static int wpoly_step(wpoly_ws_t *ws, slong G, slong S)
 {
     wpvol_biv_struct *A = wpoly_at(ws->A, ws, G, S), *D = &ws->Dv;
     slong r, L = ws->L;
-    int st;
+    ulong k = 1, kinv = 1;
+    int st = WPVOL_OK;
 
+    if (ws->use_ntt)   /* the transforms deliver 2 T_G times the products: scale D alike */
+    {
+        k = nmod_mul(2, (ulong) wpoly_ntt_len(G, L) % ws->mod.n, ws->mod);
+        kinv = nmod_inv(k, ws->mod);
+    }
     wpoly_d0(wpoly_at(ws->C, ws, G - 1, S), wpoly_at(ws->B, ws, G - 1, 0), S, ws);
     D->mlo = 2 * G + 1;
     D->rows = 3 * G - 2;
     wpoly_d0(D, wpoly_at(ws->C, ws, G - 1, 0), S, ws);
     A->mlo = 2 * G + 1;
-    _nmod_vec_scalar_mul_nmod(A->c, D->c, A->rows * L, ws->ctx->inv[12], ws->mod);
-    st = wpoly_products(A, G, S, ws);
+    _nmod_vec_scalar_mul_nmod(A->c, D->c, A->rows * L, nmod_mul(ws->ctx->inv[12], k, ws->mod),
+                              ws->mod);
+    if (ws->use_ntt)
+        wpoly_products_ntt(A, G, S, ws);
+    else
+        st = wpoly_products(A, G, S, ws);
     A->mlo = 2 * G;
     for (r = 0; r < A->rows; r++)
         _nmod_vec_scalar_mul_nmod(A->c + r * L, A->c + r * L, wpvol_biv_rowlen(A, r),
-                                  ws->ctx->inv[2 * G + r], ws->mod);
+                                  nmod_mul(ws->ctx->inv[2 * G + r], kinv, ws->mod), ws->mod);
     return st;
 }
 
@@ -157,8 +235,12 @@ static int wpoly_genera(wpoly_ws_t *ws, slong lo, slong hi)
             return WPVOL_CANCELLED;
         for (S = lo; S < hi && st == WPVOL_OK && h >= 2; S++)
             st = wpoly_step(ws, h, S);
-        for (S = lo; S < hi && h < ws->g; S++)
+        for (S = lo; S < hi && h < ws->g && st == WPVOL_OK; S++)
+        {
             wpoly_d0(wpoly_at(ws->B, ws, h, S), wpoly_at(ws->A, ws, h, 0), S, ws);
+            if (ws->use_ntt)
+                st = wpoly_hat(ws, h, S);
+        }
     }
     return st;
 }
@@ -319,12 +401,36 @@ static void wpoly_set_index(wpoly_ws_t *ws, const slong *a)
         ws->e[ws->q++] = a[i] - 2;
 }
 
-/* Per-prime factorials up to the largest index used (exponents, scale (D-|a|)!). */
+/* Transform products when p - 1 is divisible by Tmax and p < 2^62 (tables made on first use,
+   refilled for later primes), FLINT products otherwise.  Returns WPVOL_OK or WPVOL_NOMEM. */
+static int wpoly_setup_products(wpoly_ws_t *ws)
+{
+    ws->use_ntt = 0;
+    if (ws->mod.n >= (UWORD(1) << 62) || (ws->mod.n - 1) % (ulong) ws->Tmax != 0)
+        return WPVOL_OK;
+    if (ws->F->n == 0)
+    {
+        int e = wpvol_ntt_init(ws->F, ws->mod, ws->Tmax);
+        if (e == -1)
+            return WPVOL_NOMEM;
+        if (e != 0)
+            return WPVOL_OK;
+    }
+    else if (wpvol_ntt_set_prime(ws->F, ws->mod) != 0)
+        return WPVOL_OK;
+    ws->use_ntt = 1;
+    return WPVOL_OK;
+}
+
+/* Per-prime factorials up to the largest index used (exponents, scale (D-|a|)!), the
+   series of ctx and the product method.  Returns WPVOL_OK or WPVOL_NOMEM. */
 static int wpoly_prime_setup(wpoly_ws_t *ws, nmod_t mod)
 {
     slong k;
 
     ws->mod = mod;
+    if (wpoly_setup_products(ws) != WPVOL_OK)
+        return WPVOL_NOMEM;
     if (wpvol_ctx_init(ws->ctx, mod, ws->L, 5 * ws->g + 30) != 0)
         return WPVOL_NOMEM;
     ws->fact[0] = 1;
@@ -388,7 +494,13 @@ void wpoly_ws_free(wpoly_ws_t *ws)
             wpvol_biv_clear(&ws->B[k]);
         if (ws->C != NULL)
             wpvol_biv_clear(&ws->C[k]);
+        if (ws->hat != NULL)
+            free(ws->hat[k]);
     }
+    free(ws->hat);
+    free(ws->buf);
+    free(ws->pa);
+    wpvol_ntt_clear(ws->F);
     wpvol_biv_clear(&ws->Dv);
     free(ws->A);
     free(ws->B);
@@ -439,12 +551,19 @@ wpoly_ws_t *wpoly_ws_new(slong g, slong n, slong extra, const slong *idx, slong 
     ws->C = calloc((size_t) nb, sizeof(wpvol_biv_struct));
     ws->f = calloc((size_t) (ws->nm * ws->fsz), sizeof(ulong));
     ws->tmp = calloc((size_t) ws->L, sizeof(ulong));
+    ws->Tmax = wpoly_ntt_len(g, ws->L);
+    ws->hat = calloc((size_t) nb, sizeof(ulong *));
+    ws->buf = malloc((size_t) ws->Tmax * sizeof(ulong));
+    ws->pa = malloc((size_t) (2 * nb) * sizeof(ulong *));
     ws->fact = malloc((size_t) (2 * ws->nfact) * sizeof(ulong));
     ok = ws->A != NULL && ws->B != NULL && ws->C != NULL && ws->f != NULL && ws->tmp != NULL
-         && ws->fact != NULL
+         && ws->fact != NULL && ws->hat != NULL && ws->buf != NULL && ws->pa != NULL
          && wpvol_biv_init(&ws->Dv, 0, 3 * g - 2, ws->L, 1) == 0;
     if (ok)
+    {
         ws->ifact = ws->fact + ws->nfact;
+        ws->pb = ws->pa + nb;
+    }
     for (h = 1; ok && h <= g; h++)
         ok = wpoly_ws_alloc_genus(ws, h);
     if (!ok)
