@@ -20,9 +20,12 @@
    and it stays the reference route. */
 #define FASTVOL_MIN_TERMS 2000.0
 
-/* The same for wpvolume(g, n) (correlator terms summed over the sorted
+/* The same for wpvolume(g, 1) (correlator terms summed over the sorted
    multi-indices): measured with bench_wpoly, V_{10,1} (18460 terms) takes
-   0.10 s by the reduction and 0.13 s by the engine, V_{12,1} 0.65 s and 0.42 s. */
+   0.10 s by the reduction and 0.12 s by the engine, V_{12,1} 0.69 s and 0.42 s.
+   With n >= 2 the reduction shares its memo between many more coefficients
+   and stays faster (V_{13,2}: 2.6 s against 17 s), so the engine only takes
+   the cases the reduction refuses (its table estimate beyond --max-table). */
 #define FASTVOL_POLY_MIN_TERMS 10000.0
 
 /* Refuse tables whose predicted memory is beyond this (the machine has 24 GiB). */
@@ -272,7 +275,8 @@ value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, in
     double terms = fastvol_poly_terms(g, n, idx, nidx);
     value *r = NULL;
     int vars[WPOLY_MAX_POINTS];
-    if (I->route_volumes || terms > FASTVOL_POLY_MIN_TERMS) {
+    int refused = wk_estimate_entries(g, n + D) > I->lim.max_table;
+    if (I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS)) {
         *handled = 1;
         fmpq *w = fastvol_declare(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, nidx) : NULL;
         if (w) {
