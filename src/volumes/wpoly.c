@@ -88,45 +88,72 @@ static slong wpoly_job_den(const wpvol_job_t *job, slong k)
     return (slong) wpvol_estimate_den_bits(d->g) + 2 * d->g;
 }
 
-/* Relative cost of one prime: per multi-index with q points a_i >= 2, per genus G the biv
-   products ((G/2)(3^q - 1) of Kronecker length about 6 G L) and the applications of d_0
-   (about 3 2^q rows of quadratic cost); the component without perturbation once. */
-static double wpoly_estimate_work(slong g, slong n)
+/* Relative cost of one component with k perturbed points, summed over the genera G <= g:
+   the pointwise sums over (G/2) 2^k pairs of transforms of length T_G, two transforms, and
+   three d_0 (3G rows, quadratic products by I_2). */
+static double wpoly_estimate_comp(slong g, slong n, slong k)
 {
-    double L = 3.0 * (double) g + (double) n - 3.0, w = 0.0, base = 0.0, pert[WPOLY_MAX_POINTS + 1];
-    slong G, q, k, nidx = wpoly_indices(NULL, g, n);
-    slong *idx = malloc((size_t) (nidx * n + 1) * sizeof(slong));
+    double L = 3.0 * (double) g + (double) n - 3.0, w = 0.0;
+    slong G;
 
-    for (q = 0; q <= n; q++)
-        pert[q] = 0.0;
     for (G = 2; G <= g; G++)
     {
-        double len = 6.0 * (double) G * L, prod = len * log2(len + 2.0), d0 = 3.0 * (double) G * L * L / 2.0;
-        base += 0.5 * (double) G * prod + 3.0 * d0;
-        for (q = 1; q <= n; q++)
-            pert[q] += 0.5 * (double) G * (pow(3.0, (double) q) - 1.0) * prod
-                       + 3.0 * (pow(2.0, (double) q) - 1.0) * d0;
+        double T = 1.0;
+        while (T < (3.0 * (double) G - 2.0) * (2.0 * L - 1.0))
+            T *= 2.0;
+        w += 0.5 * (double) G * pow(2.0, (double) k) * T * 1.3 + 2.0 * T * log2(T) * 0.75
+             + 3.0 * 3.0 * (double) G * L * L / 2.0 * 0.9;
     }
-    w = base;
-    if (idx != NULL)
+    return w;
+}
+
+/* Relative cost of one prime: the components wpoly_modp.c computes, replaying its reuse (a
+   component is recomputed when the exponents of its points change; with n >= 2 the one-point
+   components once per exponent). */
+static double wpoly_estimate_work(slong g, slong n)
+{
+    slong k, S, i, nidx = wpoly_indices(NULL, g, n), nm = WORD(1) << n;
+    slong *idx = malloc((size_t) (nidx * n + 1) * sizeof(slong)), last[1 << WPOLY_MAX_POINTS];
+    double w = wpoly_estimate_comp(g, n, 0), ck[WPOLY_MAX_POINTS + 1];
+
+    if (idx == NULL)
+        return 1.0e30;   /* refused: the request could not run anyway */
+    for (k = 0; k <= n; k++)
+        ck[k] = wpoly_estimate_comp(g, n, k);
+    if (n >= 2)
+        w += (double) (3 * g + n - 4) * ck[1];
+    for (S = 0; S < nm; S++)
+        last[S] = -1;
+    wpoly_indices(idx, g, n);
+    for (k = 0; k < nidx; k++)
     {
-        wpoly_indices(idx, g, n);
-        for (k = 0; k < nidx; k++)
+        const slong *a = idx + k * n;
+        for (S = 1; S < nm; S++)
         {
-            for (q = 0; q < n && idx[k * n + q] >= 2; q++)
-                ;
-            w += pert[q];
+            slong key = 0, pc = 0, ok = 1;
+            for (i = 0; i < n; i++)
+                if (S & (WORD(1) << i))
+                {
+                    ok &= a[i] >= 2;
+                    key = key * (3 * g + n) + a[i];
+                    pc++;
+                }
+            if (!ok || (n >= 2 && pc == 1) || last[S] == key)
+                continue;
+            last[S] = key;
+            w += ck[pc];
         }
-        free(idx);
     }
-    /* one unit = 0.4 ns: matches the CPU seconds of bench_wpoly for g = 15..25, n = 1 */
-    return w * 0.4e-9;
+    free(idx);
+    /* one unit = 1 ns: within 10% of bench_wpoly's CPU seconds for (15,1), (25,1), (10,2),
+       (13,2), (9,3) */
+    return w * 1.0e-9;
 }
 
 /* See wpoly.h. */
 void wpoly_estimate(double *seconds, double *bytes, slong g, slong n)
 {
-    double L, primes, nidx;
+    double L, primes, nidx, T, blocks;
 
     *seconds = 0.0;
     *bytes = 0.0;
@@ -137,8 +164,12 @@ void wpoly_estimate(double *seconds, double *bytes, slong g, slong n)
     nidx = (double) wpoly_indices(NULL, g, n);
     *seconds = primes * wpoly_estimate_work(g, n) + 1.0e-9 * nidx * primes * primes * 20.0;
     /* A, B, C of every genus and component (3h rows of L words), f, residues, CRT values */
-    *bytes = 8.0 * (3.0 * 1.5 * (double) g * (double) g * L * pow(2.0, (double) n)
-                    + 3.0 * (double) g * L * pow(2.0, (double) n))
+    /* component blocks (A, B, C: 3h rows of L words per genus; transforms; f) for the masks
+       and, with n >= 2, one per exponent; residues and CRT values */
+    for (T = 1.0; T < (3.0 * (double) g - 2.0) * (2.0 * L - 1.0);)
+        T *= 2.0;
+    blocks = pow(2.0, (double) n) + (n >= 2 ? L : 0.0);
+    *bytes = 8.0 * blocks * (4.5 * (double) g * (double) g * L + (double) g * T + 3.0 * (double) g * L)
              + 8.0 * nidx * primes + 3.0 * 8.0 * nidx * primes;
 }
 

@@ -12,7 +12,10 @@
  * (the cross term sends row c_m v^{-m} of X[S\i] to m u^{e_i}/e_i! c_m v^{-m-2}), products
  * are subset convolutions of biv products, and F_g = sum_m f_m v^{-m} follows top-down from
  * d_0 F_g as in wpvol_modp.c with 1/I_2 over J.  The component S = {} is the plain recursion:
- * it is computed once per prime and shared by all multi-indices.
+ * it is computed once per prime and shared by all multi-indices.  A component only depends on
+ * the exponents of its own points, so it is kept and reused while they do not change (the
+ * order of wpoly_indices varies the last point fastest), and with n >= 2 the one-point
+ * components are kept for every exponent (per prime).
  * Finally u solves the string equation u = I_0(u) in J (nilpotent, n+1 iterations),
  * v = 1 - I_1(u), and F_g(u, v) needs each f_m to order n in u.
  *
@@ -33,21 +36,37 @@
 #include "wpoly.h"
 #include "wpvol_internal.h"
 
+/* One component S of the recursion, for every genus h: X[0][h] = (d_0 F_h)[S] (h <= g),
+   X[1][h] = (d_0^2 F_h)[S] and X[2][h] = (d_0^3 F_h)[S] (h < g), hat[h] the transform of
+   X[1][h], and f[(m-(2g-1))*(L+1) + o] = [u^o] f_m[S] of genus g (one zero row more).  Valid
+   for the prime of `epoch` and the exponents `sig` of its points.  Owned by the workspace
+   (allocated on first use). */
+typedef struct
+{
+    wpvol_biv_struct *X[3];
+    ulong **hat;
+    ulong *f;
+    slong epoch;
+    slong sig[WPOLY_MAX_POINTS];
+} wpoly_comp_t;
+
+enum { WPOLY_A = 0, WPOLY_B = 1, WPOLY_C = 2 };
+
 /* Buffers for all primes and multi-indices of one (g, n) (owned by wpoly_ws_new/free). */
 struct wpoly_ws_struct
 {
     slong g, n, L, nm;        /* nm = 2^n components */
     slong nidx;
     const slong *idx;         /* borrowed multi-indices, n each */
-    wpvol_biv_struct *A;      /* A[h*nm+S] = (d_0 F_h)[S], 1 <= h <= g */
-    wpvol_biv_struct *B;      /* B[h*nm+S] = (d_0^2 F_h)[S], h < g */
-    wpvol_biv_struct *C;      /* C[h*nm+S] = (d_0^3 F_h)[S], h < g */
+    wpoly_comp_t *comp;       /* [0]: S = {}; [S]: S with 2+ points (or n = 1); [nm+e]: one
+                                 point with exponent e (n >= 2) */
+    slong ncomp;
+    wpoly_comp_t *cur[1 << WPOLY_MAX_POINTS];   /* the block of each S for the current index */
+    slong epoch;              /* number of the current prime (blocks of older ones are stale) */
     wpvol_biv_struct Dv;      /* d_0^4 F_{h} of one component (scratch) */
-    ulong *f;                 /* f[S*fsz + (m-(2g-1))*(L+1) + o] = [u^o] f_m[S], one zero row more */
     slong fsz;                /* (3g-2)(L+1): rows of L+1 words so that f_{m+1}' stays inside */
     ulong *tmp;               /* L words */
     slong Tmax;               /* transform length of genus g */
-    ulong **hat;              /* hat[h*nm+S]: transform of B[h*nm+S] (allocated on first use) */
     ulong *buf;               /* Tmax words */
     ulong **pa, **pb;         /* pointer lists for wpvol_ntt_dot2, g 2^n entries each */
     wpvol_ntt_t F;            /* tables, allocated on first use, refilled per prime */
@@ -62,10 +81,10 @@ struct wpoly_ws_struct
     slong e[WPOLY_MAX_POINTS];
 };
 
-/* A view of A, B or C for genus h and component S. */
-static wpvol_biv_struct *wpoly_at(wpvol_biv_struct *X, const wpoly_ws_t *ws, slong h, slong S)
+/* d_0^{sel+1} F_h, component S, of the current multi-index. */
+static wpvol_biv_struct *wpoly_at(const wpoly_ws_t *ws, int sel, slong h, slong S)
 {
-    return X + h * ws->nm + S;
+    return &ws->cur[S]->X[sel][h];
 }
 
 /* Y += the cross term of point i on X: row c_m of X adds m u^{e_i}/e_i! c_m to row m+2 of Y
@@ -84,15 +103,15 @@ static void wpoly_cross(wpvol_biv_t Y, const wpvol_biv_t X, slong e, const wpoly
     }
 }
 
-/* Y = (d_0 X)[S] over J from the components X[T], T subset of S (X points at component 0). */
-static void wpoly_d0(wpvol_biv_t Y, const wpvol_biv_struct *X, slong S, const wpoly_ws_t *ws)
+/* Y = (d_0 X)[S] over J from the components X[T], T subset of S, X = d_0^{sel+1} F_h. */
+static void wpoly_d0(wpvol_biv_t Y, int sel, slong h, slong S, const wpoly_ws_t *ws)
 {
     slong i;
 
-    wpvol_biv_d0(Y, X + S, ws->ctx);
+    wpvol_biv_d0(Y, wpoly_at(ws, sel, h, S), ws->ctx);
     for (i = 0; i < ws->q; i++)
         if (S & (WORD(1) << i))
-            wpoly_cross(Y, X + (S ^ (WORD(1) << i)), ws->e[i], ws);
+            wpoly_cross(Y, wpoly_at(ws, sel, h, S ^ (WORD(1) << i)), ws->e[i], ws);
 }
 
 /* R += 1/2 sum_{h=1}^{G-1} sum_{T subset S} B_h[T] B_{G-h}[S\T]: each product once per pair
@@ -108,8 +127,8 @@ static int wpoly_products(wpvol_biv_t R, slong G, slong S, wpoly_ws_t *ws)
         T = S;
         do
         {
-            const wpvol_biv_struct *x = wpoly_at(ws->B, ws, h, T);
-            const wpvol_biv_struct *y = wpoly_at(ws->B, ws, G - h, S ^ T);
+            const wpvol_biv_struct *x = wpoly_at(ws, WPOLY_B, h, T);
+            const wpvol_biv_struct *y = wpoly_at(ws, WPOLY_B, G - h, S ^ T);
             if (2 * h < G)
                 ok = wpvol_biv_addmul(R, x, y, ws->L, 1, ws->mod) == 0;
             else if (S == 0)
@@ -136,9 +155,9 @@ static slong wpoly_ntt_len(slong G, slong L)
    are the transform of length T_G (the image fills less than T_G).  WPVOL_OK or WPVOL_NOMEM. */
 static int wpoly_hat(wpoly_ws_t *ws, slong h, slong S)
 {
-    const wpvol_biv_struct *b = wpoly_at(ws->B, ws, h, S);
+    const wpvol_biv_struct *b = wpoly_at(ws, WPOLY_B, h, S);
     slong r, slot = 2 * ws->L - 1, T = ws->Tmax;
-    ulong **x = ws->hat + h * ws->nm + S;
+    ulong **x = ws->cur[S]->hat + h;
 
     if (*x == NULL && (*x = malloc((size_t) T * sizeof(ulong))) == NULL)
         return WPVOL_NOMEM;
@@ -154,7 +173,7 @@ static int wpoly_hat(wpoly_ws_t *ws, slong h, slong S)
    inverse transform; product row i is row i+1 of R. */
 static void wpoly_products_ntt(wpvol_biv_t R, slong G, slong S, wpoly_ws_t *ws)
 {
-    slong h, T, r, np = 0, TG = wpoly_ntt_len(G, ws->L), slot = 2 * ws->L - 1, nm = ws->nm;
+    slong h, T, r, np = 0, TG = wpoly_ntt_len(G, ws->L), slot = 2 * ws->L - 1;
     const ulong *sq = NULL;
 
     for (h = 1; 2 * h <= G; h++)
@@ -164,11 +183,11 @@ static void wpoly_products_ntt(wpvol_biv_t R, slong G, slong S, wpoly_ws_t *ws)
         {
             if (2 * h < G || (S != 0 && T < (S ^ T)))
             {
-                ws->pa[np] = ws->hat[h * nm + T];
-                ws->pb[np++] = ws->hat[(G - h) * nm + (S ^ T)];
+                ws->pa[np] = ws->cur[T]->hat[h];
+                ws->pb[np++] = ws->cur[S ^ T]->hat[G - h];
             }
             else if (S == 0)
-                sq = ws->hat[h * nm];
+                sq = ws->cur[0]->hat[h];
             T = (T - 1) & S;
         } while (T != S);
     }
@@ -183,7 +202,7 @@ static void wpoly_products_ntt(wpvol_biv_t R, slong G, slong S, wpoly_ws_t *ws)
    R = D/12 + products, then c_m = r_{m+1}/m.  Returns WPVOL_OK or WPVOL_NOMEM. */
 static int wpoly_step(wpoly_ws_t *ws, slong G, slong S)
 {
-    wpvol_biv_struct *A = wpoly_at(ws->A, ws, G, S), *D = &ws->Dv;
+    wpvol_biv_struct *A = wpoly_at(ws, WPOLY_A, G, S), *D = &ws->Dv;
     slong r, L = ws->L;
     ulong k = 1, kinv = 1;
     int st = WPVOL_OK;
@@ -193,10 +212,10 @@ static int wpoly_step(wpoly_ws_t *ws, slong G, slong S)
         k = nmod_mul(2, (ulong) wpoly_ntt_len(G, L) % ws->mod.n, ws->mod);
         kinv = nmod_inv(k, ws->mod);
     }
-    wpoly_d0(wpoly_at(ws->C, ws, G - 1, S), wpoly_at(ws->B, ws, G - 1, 0), S, ws);
+    wpoly_d0(wpoly_at(ws, WPOLY_C, G - 1, S), WPOLY_B, G - 1, S, ws);
     D->mlo = 2 * G + 1;
     D->rows = 3 * G - 2;
-    wpoly_d0(D, wpoly_at(ws->C, ws, G - 1, 0), S, ws);
+    wpoly_d0(D, WPOLY_C, G - 1, S, ws);
     A->mlo = 2 * G + 1;
     _nmod_vec_scalar_mul_nmod(A->c, D->c, A->rows * L, nmod_mul(ws->ctx->inv[12], k, ws->mod),
                               ws->mod);
@@ -211,17 +230,18 @@ static int wpoly_step(wpoly_ws_t *ws, slong G, slong S)
     return st;
 }
 
-/* The genus recursion for the components lo <= S < hi (the lower ones are available):
-   A_1 = I_2/24 v^{-2} over J (E_i/24 in component {i}), then A_h and B_h up to genus g.
-   Returns WPVOL_OK, WPVOL_NOMEM or WPVOL_CANCELLED. */
-static int wpoly_genera(wpoly_ws_t *ws, slong lo, slong hi)
+/* The genus recursion for the components list[0..len) (increasing; the other subsets are
+   available): A_1 = I_2/24 v^{-2} over J (E_i/24 in component {i}), then A_h and B_h up to
+   genus g.  Returns WPVOL_OK, WPVOL_NOMEM or WPVOL_CANCELLED. */
+static int wpoly_genera(wpoly_ws_t *ws, const slong *list, slong len)
 {
-    slong h, S, i;
+    slong h, k, i;
     int st = WPVOL_OK;
 
-    for (S = lo; S < hi; S++)
+    for (k = 0; k < len; k++)
     {
-        wpvol_biv_struct *A = wpoly_at(ws->A, ws, 1, S);
+        slong S = list[k];
+        wpvol_biv_struct *A = wpoly_at(ws, WPOLY_A, 1, S);
         memset(A->c, 0, (size_t) ws->L * sizeof(ulong));
         if (S == 0)
             _nmod_vec_scalar_mul_nmod(A->c, ws->ctx->i2, ws->L, ws->ctx->inv[24], ws->mod);
@@ -233,13 +253,13 @@ static int wpoly_genera(wpoly_ws_t *ws, slong lo, slong hi)
     {
         if (wpvol_cancelled())
             return WPVOL_CANCELLED;
-        for (S = lo; S < hi && st == WPVOL_OK && h >= 2; S++)
-            st = wpoly_step(ws, h, S);
-        for (S = lo; S < hi && h < ws->g && st == WPVOL_OK; S++)
+        for (k = 0; k < len && st == WPVOL_OK && h >= 2; k++)
+            st = wpoly_step(ws, h, list[k]);
+        for (k = 0; k < len && h < ws->g && st == WPVOL_OK; k++)
         {
-            wpoly_d0(wpoly_at(ws->B, ws, h, S), wpoly_at(ws->A, ws, h, 0), S, ws);
+            wpoly_d0(wpoly_at(ws, WPOLY_B, h, list[k]), WPOLY_A, h, list[k], ws);
             if (ws->use_ntt)
-                st = wpoly_hat(ws, h, S);
+                st = wpoly_hat(ws, h, list[k]);
         }
     }
     return st;
@@ -252,8 +272,8 @@ static int wpoly_genera(wpoly_ws_t *ws, slong lo, slong hi)
 static int wpoly_topdown(wpoly_ws_t *ws, slong S)
 {
     slong g = ws->g, L = ws->L, W = L + 1, flo = 2 * g - 1, top = 5 * g - 3, j, k, i;
-    const wpvol_biv_struct *A = wpoly_at(ws->A, ws, g, S);
-    ulong *f = ws->f + S * ws->fsz, *tmp = ws->tmp;
+    const wpvol_biv_struct *A = wpoly_at(ws, WPOLY_A, g, S);
+    ulong *f = ws->cur[S]->f, *tmp = ws->tmp;
     const ulong *c;
     nmod_t mod = ws->mod;
 
@@ -269,7 +289,7 @@ static int wpoly_topdown(wpoly_ws_t *ws, slong S)
         for (i = 0; i < ws->q; i++)
             if ((S & (WORD(1) << i)) && ws->e[i] < l)
                 _nmod_vec_scalar_addmul_nmod(tmp + ws->e[i],
-                                             ws->f + (S ^ (WORD(1) << i)) * ws->fsz
+                                             ws->cur[S ^ (WORD(1) << i)]->f
                                                  + (j - 2 - flo) * W,
                                              l - ws->e[i], nmod_neg(ws->ifact[ws->e[i]], mod),
                                              mod);
@@ -378,7 +398,7 @@ static ulong wpoly_readout(wpoly_ws_t *ws, const slong *a)
             continue;
         for (S = 0; S < (WORD(1) << ws->q); S++)
         {
-            const ulong *fm = ws->f + S * ws->fsz + (m - (2 * g - 1)) * (ws->L + 1);
+            const ulong *fm = ws->cur[S]->f + (m - (2 * g - 1)) * (ws->L + 1);
             memset(x, 0, (size_t) nm * sizeof(ulong));
             for (k = 0; k <= n; k++)   /* x = s^S f_m[S](u) */
                 for (M = 0; M < nm; M++)
@@ -442,10 +462,95 @@ static int wpoly_prime_setup(wpoly_ws_t *ws, nmod_t mod)
     return WPVOL_OK;
 }
 
+/* Allocates the arrays of a component block on first use.  Returns 1 on success (a failed
+   block stays partly allocated and is released by wpoly_ws_free). */
+static int wpoly_comp_alloc(wpoly_ws_t *ws, wpoly_comp_t *c)
+{
+    slong h, g = ws->g;
+    int ok, sel;
+
+    if (c->f != NULL)
+        return 1;
+    for (sel = 0; sel < 3; sel++)
+        if (c->X[sel] == NULL && (c->X[sel] = calloc((size_t) (g + 1), sizeof(wpvol_biv_struct))) == NULL)
+            return 0;
+    if (c->hat == NULL && (c->hat = calloc((size_t) (g + 1), sizeof(ulong *))) == NULL)
+        return 0;
+    ok = 1;
+    for (h = 1; ok && h <= g; h++)
+    {
+        ok = c->X[WPOLY_A][h].c != NULL
+             || wpvol_biv_init(&c->X[WPOLY_A][h], 2 * h, 3 * h - 2, ws->L, 1) == 0;
+        if (ok && h < g)
+            ok = (c->X[WPOLY_B][h].c != NULL
+                  || wpvol_biv_init(&c->X[WPOLY_B][h], 2 * h + 1, 3 * h - 1, ws->L, 1) == 0)
+                 && (c->X[WPOLY_C][h].c != NULL
+                     || wpvol_biv_init(&c->X[WPOLY_C][h], 2 * h + 2, 3 * h, ws->L, 1) == 0);
+    }
+    if (ok)
+        c->f = calloc((size_t) ws->fsz, sizeof(ulong));
+    return ok && c->f != NULL;
+}
+
+/* Points cur[S] at the block of every component of the current index and lists (increasing)
+   the components whose block is stale: one-point components (n >= 2) by exponent, the others
+   by mask, reused while their exponents are unchanged.  Returns the list length, or -1 if a
+   block cannot be allocated. */
+static slong wpoly_plan(wpoly_ws_t *ws, slong *list)
+{
+    slong S, i, len = 0;
+
+    for (S = 1; S < (WORD(1) << ws->q); S++)
+    {
+        wpoly_comp_t *c;
+        int fresh = 1;
+        if (ws->n >= 2 && (S & (S - 1)) == 0)
+        {
+            for (i = 0; (S >> i) != 1; i++)
+                ;
+            c = &ws->comp[ws->nm + ws->e[i]];
+        }
+        else
+        {
+            c = &ws->comp[S];
+            for (i = 0; i < ws->q; i++)
+                if ((S & (WORD(1) << i)) && c->sig[i] != ws->e[i])
+                    fresh = 0;
+        }
+        if (!wpoly_comp_alloc(ws, c))
+            return -1;
+        ws->cur[S] = c;
+        if (c->epoch == ws->epoch && fresh)
+            continue;
+        c->epoch = 0;   /* stale until computed */
+        for (i = 0; i < ws->q; i++)
+            c->sig[i] = (S & (WORD(1) << i)) ? ws->e[i] : -1;
+        list[len++] = S;
+    }
+    return len;
+}
+
+/* Recomputes the stale components of the current index (recursion, then top-down) and marks
+   them valid for this prime.  Returns a status code. */
+static int wpoly_update(wpoly_ws_t *ws)
+{
+    slong list[1 << WPOLY_MAX_POINTS] = { 0 }, len = wpoly_plan(ws, list), k;
+    int st;
+
+    if (len < 0)
+        return WPVOL_NOMEM;
+    st = wpoly_genera(ws, list, len);
+    for (k = 0; k < len && st == WPVOL_OK; k++)
+        st = wpoly_topdown(ws, list[k]);
+    for (k = 0; k < len && st == WPVOL_OK; k++)
+        ws->cur[list[k]]->epoch = ws->epoch;
+    return st;
+}
+
 /* See wpvol_internal.h. */
 int wpoly_modp_run(wpoly_ws_t *ws, ulong *res, nmod_t mod)
 {
-    slong k, D, i;
+    slong k, D, i, zero = 0;
     int st;
 
     if (ws == NULL)
@@ -453,21 +558,22 @@ int wpoly_modp_run(wpoly_ws_t *ws, ulong *res, nmod_t mod)
     D = 3 * ws->g - 3 + ws->n;
     if (mod.n <= (ulong) (ws->nfact + ws->L + 5 * ws->g + 30))
         return WPVOL_BADARG;
+    ws->epoch++;
     st = wpoly_prime_setup(ws, mod);
     ws->q = 0;
+    ws->cur[0] = &ws->comp[0];
+    if (st == WPVOL_OK && !wpoly_comp_alloc(ws, ws->cur[0]))
+        st = WPVOL_NOMEM;
     if (st == WPVOL_OK)
-        st = wpoly_genera(ws, 0, 1);
+        st = wpoly_genera(ws, &zero, 1);
     if (st == WPVOL_OK)
         st = wpoly_topdown(ws, 0);
     for (k = 0; k < ws->nidx && st == WPVOL_OK; k++)
     {
         const slong *a = ws->idx + k * ws->n;
-        slong S, s = 0;
+        slong s = 0;
         wpoly_set_index(ws, a);
-        if (ws->q > 0)
-            st = wpoly_genera(ws, 1, WORD(1) << ws->q);
-        for (S = 1; S < (WORD(1) << ws->q) && st == WPVOL_OK; S++)
-            st = wpoly_topdown(ws, S);
+        st = wpoly_update(ws);
         for (i = 0; i < ws->n; i++)
             s += a[i];
         if (st == WPVOL_OK)
@@ -479,6 +585,23 @@ int wpoly_modp_run(wpoly_ws_t *ws, ulong *res, nmod_t mod)
     return st;
 }
 
+/* Releases a component block (safe on a partly allocated one). */
+static void wpoly_comp_clear(wpoly_comp_t *c, slong g)
+{
+    slong h;
+    int sel;
+
+    for (sel = 0; sel < 3; sel++)
+        for (h = 0; c->X[sel] != NULL && h <= g; h++)
+            wpvol_biv_clear(&c->X[sel][h]);
+    for (h = 0; c->hat != NULL && h <= g; h++)
+        free(c->hat[h]);
+    for (sel = 0; sel < 3; sel++)
+        free(c->X[sel]);
+    free(c->hat);
+    free(c->f);
+}
+
 /* See wpvol_internal.h. */
 void wpoly_ws_free(wpoly_ws_t *ws)
 {
@@ -486,53 +609,23 @@ void wpoly_ws_free(wpoly_ws_t *ws)
 
     if (ws == NULL)
         return;
-    for (k = 0; k < (ws->g + 1) * ws->nm; k++)
-    {
-        if (ws->A != NULL)
-            wpvol_biv_clear(&ws->A[k]);
-        if (ws->B != NULL)
-            wpvol_biv_clear(&ws->B[k]);
-        if (ws->C != NULL)
-            wpvol_biv_clear(&ws->C[k]);
-        if (ws->hat != NULL)
-            free(ws->hat[k]);
-    }
-    free(ws->hat);
+    for (k = 0; ws->comp != NULL && k < ws->ncomp; k++)
+        wpoly_comp_clear(&ws->comp[k], ws->g);
+    free(ws->comp);
     free(ws->buf);
     free(ws->pa);
     wpvol_ntt_clear(ws->F);
     wpvol_biv_clear(&ws->Dv);
-    free(ws->A);
-    free(ws->B);
-    free(ws->C);
-    free(ws->f);
     free(ws->tmp);
     free(ws->fact);
     free(ws);
 }
 
-/* Allocates the bivs of genus h for every component (A for h <= g; B, C for h < g).
-   Returns 1 on success. */
-static int wpoly_ws_alloc_genus(wpoly_ws_t *ws, slong h)
-{
-    slong S;
-    int ok = 1;
-
-    for (S = 0; S < ws->nm && ok; S++)
-    {
-        ok = wpvol_biv_init(wpoly_at(ws->A, ws, h, S), 2 * h, 3 * h - 2, ws->L, 1) == 0;
-        if (ok && h < ws->g)
-            ok = wpvol_biv_init(wpoly_at(ws->B, ws, h, S), 2 * h + 1, 3 * h - 1, ws->L, 1) == 0
-                 && wpvol_biv_init(wpoly_at(ws->C, ws, h, S), 2 * h + 2, 3 * h, ws->L, 1) == 0;
-    }
-    return ok;
-}
-
-/* See wpvol_internal.h. */
+/* See wpvol_internal.h.  Component blocks are allocated on first use. */
 wpoly_ws_t *wpoly_ws_new(slong g, slong n, slong extra, const slong *idx, slong nidx)
 {
     wpoly_ws_t *ws = calloc(1, sizeof(wpoly_ws_t));
-    slong h, nb;
+    slong nb;
     int ok;
 
     if (ws == NULL)
@@ -545,31 +638,22 @@ wpoly_ws_t *wpoly_ws_new(slong g, slong n, slong extra, const slong *idx, slong 
     ws->nidx = nidx;
     ws->fsz = (3 * g - 2) * (ws->L + 1);
     ws->nfact = 3 * g + n + 2;
+    ws->ncomp = ws->nm + (n >= 2 ? 3 * g + n - 4 : 0);
     nb = (g + 1) * ws->nm;
-    ws->A = calloc((size_t) nb, sizeof(wpvol_biv_struct));
-    ws->B = calloc((size_t) nb, sizeof(wpvol_biv_struct));
-    ws->C = calloc((size_t) nb, sizeof(wpvol_biv_struct));
-    ws->f = calloc((size_t) (ws->nm * ws->fsz), sizeof(ulong));
+    ws->comp = calloc((size_t) ws->ncomp, sizeof(wpoly_comp_t));
     ws->tmp = calloc((size_t) ws->L, sizeof(ulong));
     ws->Tmax = wpoly_ntt_len(g, ws->L);
-    ws->hat = calloc((size_t) nb, sizeof(ulong *));
     ws->buf = malloc((size_t) ws->Tmax * sizeof(ulong));
     ws->pa = malloc((size_t) (2 * nb) * sizeof(ulong *));
     ws->fact = malloc((size_t) (2 * ws->nfact) * sizeof(ulong));
-    ok = ws->A != NULL && ws->B != NULL && ws->C != NULL && ws->f != NULL && ws->tmp != NULL
-         && ws->fact != NULL && ws->hat != NULL && ws->buf != NULL && ws->pa != NULL
-         && wpvol_biv_init(&ws->Dv, 0, 3 * g - 2, ws->L, 1) == 0;
-    if (ok)
-    {
-        ws->ifact = ws->fact + ws->nfact;
-        ws->pb = ws->pa + nb;
-    }
-    for (h = 1; ok && h <= g; h++)
-        ok = wpoly_ws_alloc_genus(ws, h);
+    ok = ws->comp != NULL && ws->tmp != NULL && ws->fact != NULL && ws->buf != NULL
+         && ws->pa != NULL && wpvol_biv_init(&ws->Dv, 0, 3 * g - 2, ws->L, 1) == 0;
     if (!ok)
     {
         wpoly_ws_free(ws);
         return NULL;
     }
+    ws->ifact = ws->fact + ws->nfact;
+    ws->pb = ws->pa + nb;
     return ws;
 }
