@@ -2,7 +2,8 @@
    volume engine (src/volumes): int[g,n] exp(c*kappa_1) and int[g,n] c*kappa_1^k.
    The engine fills a table of all V_{g',n'} with g' <= G, n' <= N at once,
    so the table is kept for the session and only grown. wpvolume(g, n) with
-   few points goes to the polynomial engine (volumes/wpoly.h) when large. */
+   few points, and int[g,n] psi^a kappa_1^k (or times exp(c*kappa_1)), go to
+   the polynomial engine (volumes/wpoly.h) when large. */
 #include <stdlib.h>
 #include <string.h>
 
@@ -30,6 +31,9 @@
 
 /* Refuse tables whose predicted memory is beyond this (the machine has 24 GiB). */
 #define FASTVOL_MAX_BYTES (16.0 * 1073741824.0)
+
+static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
+                              int *handled);
 
 static int fastvol_grow(interp *I, const node *where, slong g, slong n)
 {
@@ -126,6 +130,8 @@ value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *
     }
     fmpq_mpoly_clear(c, I->ring.ctx);
     fmpq_mpoly_clear(f, I->ring.ctx);
+    if (!is_exp && !is_pow)
+        r = fastvol_try_psi(I, where, g, n, integrand, handled);
     return r;
 }
 
@@ -212,12 +218,12 @@ static void fastvol_poly_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const 
     fmpz_clear(f);
 }
 
-/* Runs the polynomial engine; returns the W_a (caller clears nidx entries)
-   or NULL after reporting an error. */
-static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, slong nidx)
+/* Runs the polynomial engine on the sorted multi-indices idx; returns the
+   W_a (caller clears nidx entries) or NULL after reporting an error. */
+static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx)
 {
     double sec, bytes;
-    wpoly_estimate(&sec, &bytes, g, n);
+    wpoly_estimate_at(&sec, &bytes, g, n, idx, nidx);
     if (sec > I->lim.max_seconds || bytes > FASTVOL_MAX_BYTES) {
         diag_error(&where->loc, "V_{%ld,%ld}(L) by the volume engine needs about %.3g s and %.3g GiB "
                    "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", (long)g, (long)n, sec,
@@ -229,7 +235,7 @@ static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, sl
     snprintf(what, sizeof what, "volume engine: V_{%ld,%ld}(L)", (long)g, (long)n);
     progress_note(what, sec / 2);
     wpvol_set_cancel(&cancel_flag);
-    int rc = wpoly_coeffs(w, g, n, 2);
+    int rc = wpoly_coeffs_at(w, g, n, idx, nidx, 2);
     progress_clear_note(sec / 2);
     if (rc == WPVOL_OK)
         return w;
@@ -278,7 +284,7 @@ value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, in
     int refused = wk_estimate_entries(g, n + D) > I->lim.max_table;
     if (I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS)) {
         *handled = 1;
-        fmpq *w = fastvol_declare(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, nidx) : NULL;
+        fmpq *w = fastvol_declare(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
         if (w) {
             r = value_new_num(&I->ring);
             for (slong k = 0; k < nidx; k++)
@@ -289,5 +295,52 @@ value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, in
         }
     }
     free(idx);
+    return r;
+}
+
+/* int[g,n] f psi^a kappa_1^k (times exp(c kappa_1)) with some psi: the
+   coefficient of kappa_1^{D-|a|} times (D-|a|)! W_a from the polynomial
+   engine, when the reduction of that monomial would be large (or
+   route_volumes). Sets *handled when it takes the integral. */
+static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
+                              int *handled)
+{
+    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return NULL;
+    cx_monomial m;
+    fmpq_mpoly_init(m.factor, I->ring.ctx);
+    fmpq_mpoly_init(m.c, I->ring.ctx);
+    slong a[WPOLY_MAX_POINTS], s = 0, D = 3 * g - 3 + n;
+    int ok = cx_match_psi_kappa1(integrand->cls, n, &m);
+    for (slong i = 0; ok && i < n; i++) {   /* sorted decreasingly: V is symmetric */
+        slong x = m.psi[i], j = i;
+        for (; j > 0 && a[j - 1] < x; j--)
+            a[j] = a[j - 1];
+        a[j] = x;
+        s += x;
+    }
+    slong j = D - s - (ok ? m.kappa1 : 0), kmult[2] = {0, D - s};
+    ok = ok && s > 0 && j >= 0 && (m.is_exp || j == 0);
+    value *r = NULL;
+    if (ok && (I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS)) {
+        *handled = 1;
+        fmpq *w = fastvol_poly_run(I, where, g, n, a, 1);
+        if (w) {
+            fmpz_t f;
+            fmpz_init(f);
+            r = value_new_num(&I->ring);
+            fmpq_mpoly_pow_ui(r->num, m.c, (ulong)j, I->ring.ctx);   /* c^j/j! of exp(c kappa_1) */
+            fmpz_fac_ui(f, (ulong)j);
+            fmpq_mpoly_scalar_div_fmpz(r->num, r->num, f, I->ring.ctx);
+            fmpz_fac_ui(f, (ulong)(D - s));
+            fmpq_mpoly_scalar_mul_fmpz(r->num, r->num, f, I->ring.ctx);
+            fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, w, I->ring.ctx);
+            fmpq_mpoly_mul(r->num, r->num, m.factor, I->ring.ctx);
+            fmpz_clear(f);
+            _fmpq_vec_clear(w, 1);
+        }
+    }
+    fmpq_mpoly_clear(m.factor, I->ring.ctx);
+    fmpq_mpoly_clear(m.c, I->ring.ctx);
     return r;
 }

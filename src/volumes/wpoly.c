@@ -15,7 +15,7 @@
 typedef struct
 {
     slong g, n, extra, nidx;
-    slong *idx;
+    const slong *idx;
 } wpoly_job_data_t;
 
 /* Writes the sorted multi-indices with a_i <= cap and sum <= left from position i on
@@ -107,24 +107,21 @@ static double wpoly_estimate_comp(slong g, slong n, slong k)
     return w;
 }
 
-/* Relative cost of one prime: the components wpoly_modp.c computes, replaying its reuse (a
-   component is recomputed when the exponents of its points change; with n >= 2 the one-point
-   components once per exponent). */
-static double wpoly_estimate_work(slong g, slong n)
+/* Relative cost of one prime for the multi-indices idx: the components wpoly_modp.c
+   computes, replaying its reuse (a component is recomputed when the exponents of its points
+   change; with n >= 2 a one-point component once per exponent). */
+static double wpoly_estimate_work(slong g, slong n, const slong *idx, slong nidx)
 {
-    slong k, S, i, nidx = wpoly_indices(NULL, g, n), nm = WORD(1) << n;
-    slong *idx = malloc((size_t) (nidx * n + 1) * sizeof(slong)), last[1 << WPOLY_MAX_POINTS];
+    slong k, S, i, nm = WORD(1) << n, D = 3 * g - 3 + n, last[1 << WPOLY_MAX_POINTS];
+    char *seen = calloc((size_t) (D + 1), 1);
     double w = wpoly_estimate_comp(g, n, 0), ck[WPOLY_MAX_POINTS + 1];
 
-    if (idx == NULL)
+    if (seen == NULL)
         return 1.0e30;   /* refused: the request could not run anyway */
     for (k = 0; k <= n; k++)
         ck[k] = wpoly_estimate_comp(g, n, k);
-    if (n >= 2)
-        w += (double) (3 * g + n - 4) * ck[1];
     for (S = 0; S < nm; S++)
         last[S] = -1;
-    wpoly_indices(idx, g, n);
     for (k = 0; k < nidx; k++)
     {
         const slong *a = idx + k * n;
@@ -135,47 +132,92 @@ static double wpoly_estimate_work(slong g, slong n)
                 if (S & (WORD(1) << i))
                 {
                     ok &= a[i] >= 2;
-                    key = key * (3 * g + n) + a[i];
+                    key = key * (D + 1) + a[i];
                     pc++;
                 }
-            if (!ok || (n >= 2 && pc == 1) || last[S] == key)
+            if (!ok || (n >= 2 && pc == 1 && seen[key]) || (!(n >= 2 && pc == 1) && last[S] == key))
                 continue;
+            if (n >= 2 && pc == 1)
+                seen[key] = 1;
             last[S] = key;
             w += ck[pc];
         }
     }
-    free(idx);
+    free(seen);
     /* one unit = 1 ns: within 10% of bench_wpoly's CPU seconds for (15,1), (25,1), (10,2),
        (13,2), (9,3) */
     return w * 1.0e-9;
 }
 
-/* See wpoly.h. */
-void wpoly_estimate(double *seconds, double *bytes, slong g, slong n)
+/* 1 if idx holds nidx >= 1 valid multi-indices of (g, n): sorted decreasingly, entries >= 0,
+   sum <= D. */
+static int wpoly_valid(slong g, slong n, const slong *idx, slong nidx)
 {
-    double L, primes, nidx, T, blocks;
+    slong k, i;
+
+    if (idx == NULL || nidx < 1 || g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return 0;
+    for (k = 0; k < nidx; k++)
+    {
+        slong s = 0;
+        for (i = 0; i < n; i++)
+        {
+            if (idx[k * n + i] < 0 || (i > 0 && idx[k * n + i] > idx[k * n + i - 1]))
+                return 0;
+            s += idx[k * n + i];
+        }
+        if (s > 3 * g - 3 + n)
+            return 0;
+    }
+    return 1;
+}
+
+/* See wpoly.h. */
+void wpoly_estimate_at(double *seconds, double *bytes, slong g, slong n, const slong *idx,
+                       slong nidx)
+{
+    double L, primes, T, blocks;
 
     *seconds = 0.0;
     *bytes = 0.0;
-    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+    if (!wpoly_valid(g, n, idx, nidx))
         return;
     L = 3.0 * (double) g + (double) n - 3.0;
     primes = wpoly_need_bits(g, n) / 61.0 + 3.0;
-    nidx = (double) wpoly_indices(NULL, g, n);
-    *seconds = primes * wpoly_estimate_work(g, n) + 1.0e-9 * nidx * primes * primes * 20.0;
-    /* A, B, C of every genus and component (3h rows of L words), f, residues, CRT values */
+    *seconds = primes * wpoly_estimate_work(g, n, idx, nidx)
+               + 1.0e-9 * (double) nidx * primes * primes * 20.0;
     /* component blocks (A, B, C: 3h rows of L words per genus; transforms; f) for the masks
        and, with n >= 2, one per exponent; residues and CRT values */
     for (T = 1.0; T < (3.0 * (double) g - 2.0) * (2.0 * L - 1.0);)
         T *= 2.0;
     blocks = pow(2.0, (double) n) + (n >= 2 ? L : 0.0);
     *bytes = 8.0 * blocks * (4.5 * (double) g * (double) g * L + (double) g * T + 3.0 * (double) g * L)
-             + 8.0 * nidx * primes + 3.0 * 8.0 * nidx * primes;
+             + 32.0 * (double) nidx * primes;
 }
 
 /* See wpoly.h. */
-int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, slong min_primes,
-                    slong extra, slong *primes_used)
+void wpoly_estimate(double *seconds, double *bytes, slong g, slong n)
+{
+    slong nidx = wpoly_indices(NULL, g, n);
+    slong *idx = nidx > 0 ? malloc((size_t) (nidx * n) * sizeof(slong)) : NULL;
+
+    *seconds = 0.0;
+    *bytes = 0.0;
+    if (idx == NULL)
+    {
+        if (nidx > 0)
+            *seconds = 1.0e30;   /* too large to list: refused */
+        return;
+    }
+    wpoly_indices(idx, g, n);
+    wpoly_estimate_at(seconds, bytes, g, n, idx, nidx);
+    free(idx);
+}
+
+/* The driver run for the given multi-indices (validated by the callers); out has nidx
+   entries, zeroed on error. */
+static int wpoly_run(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads,
+                     int prime_bits, slong min_primes, slong extra, slong *primes_used)
 {
     wpoly_job_data_t d;
     wpvol_job_t job;
@@ -183,25 +225,17 @@ int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, sl
     slong k;
     int status;
 
-    if (primes_used != NULL)
-        *primes_used = 0;
-    if (out == NULL || g < 2 || n < 1 || n > WPOLY_MAX_POINTS || threads < 1 || prime_bits < 20
-        || prime_bits > 63 || extra < 0 || extra > 1000)
-        return WPVOL_BADARG;
+    for (k = 0; k < nidx; k++)
+        fmpq_zero(out + k);
+    wpoly_estimate_at(&sec, &bytes, g, n, idx, nidx);
+    if (sec > WPVOL_MAX_SECONDS || bytes > WPVOL_MAX_BYTES)
+        return WPVOL_LIMIT;
     d.g = g;
     d.n = n;
     d.extra = extra;
-    d.nidx = wpoly_indices(NULL, g, n);
-    for (k = 0; k < d.nidx; k++)
-        fmpq_zero(out + k);
-    wpoly_estimate(&sec, &bytes, g, n);
-    if (sec > WPVOL_MAX_SECONDS || bytes > WPVOL_MAX_BYTES)
-        return WPVOL_LIMIT;
-    d.idx = malloc((size_t) (d.nidx * n) * sizeof(slong));
-    if (d.idx == NULL)
-        return WPVOL_NOMEM;
-    wpoly_indices(d.idx, g, n);
-    job.nv = d.nidx;
+    d.nidx = nidx;
+    d.idx = idx;
+    job.nv = nidx;
     job.ws_new = wpoly_job_ws_new;
     job.ws_free = wpoly_job_ws_free;
     job.run = wpoly_job_run;
@@ -211,18 +245,39 @@ int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, sl
     job.data = &d;
     status = wpvol_drive(out, &job, threads, prime_bits, min_primes, primes_used);
     /* (D-|a|)! W_a back to W_a */
-    for (k = 0; status == WPVOL_OK && k < d.nidx; k++)
+    for (k = 0; status == WPVOL_OK && k < nidx; k++)
     {
         slong i, s = 3 * g - 3 + n;
         fmpz_t f;
         for (i = 0; i < n; i++)
-            s -= d.idx[k * n + i];
+            s -= idx[k * n + i];
         fmpz_init(f);
         fmpz_fac_ui(f, (ulong) s);
         fmpq_div_fmpz(out + k, out + k, f);
         fmpz_clear(f);
     }
-    free(d.idx);
+    return status;
+}
+
+/* See wpoly.h. */
+int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, slong min_primes,
+                    slong extra, slong *primes_used)
+{
+    slong nidx, *idx;
+    int status;
+
+    if (primes_used != NULL)
+        *primes_used = 0;
+    if (out == NULL || g < 2 || n < 1 || n > WPOLY_MAX_POINTS || threads < 1 || prime_bits < 20
+        || prime_bits > 63 || extra < 0 || extra > 1000)
+        return WPVOL_BADARG;
+    nidx = wpoly_indices(NULL, g, n);
+    idx = malloc((size_t) (nidx * n) * sizeof(slong));
+    if (idx == NULL)
+        return WPVOL_NOMEM;
+    wpoly_indices(idx, g, n);
+    status = wpoly_run(out, g, n, idx, nidx, threads, prime_bits, min_primes, extra, primes_used);
+    free(idx);
     return status;
 }
 
@@ -230,4 +285,12 @@ int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, sl
 int wpoly_coeffs(fmpq *out, slong g, slong n, int threads)
 {
     return wpoly_coeffs_ex(out, g, n, threads, 62, 1, 0, NULL);
+}
+
+/* See wpoly.h. */
+int wpoly_coeffs_at(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads)
+{
+    if (out == NULL || threads < 1 || !wpoly_valid(g, n, idx, nidx))
+        return WPVOL_BADARG;
+    return wpoly_run(out, g, n, idx, nidx, threads, 62, 1, 0, NULL);
 }

@@ -44,9 +44,18 @@ int wpoly_coeffs(fmpq *out, slong g, slong n, int threads);
 int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, slong min_primes,
                     slong extra, slong *primes_used);
 
+/* out[k] = W_a for the k-th of the nidx >= 1 multi-indices in idx (n entries each, sorted
+   decreasingly, entries >= 0, sum <= 3g-3+n; borrowed), e.g. a single coefficient.  Return
+   codes as wpoly_coeffs (WPVOL_BADARG also for an invalid idx). */
+int wpoly_coeffs_at(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads);
+
 /* Rough single-core *seconds and peak *bytes of wpoly_coeffs(., g, n, .) (0 for unsupported
    (g, n)).  Cheap. */
 void wpoly_estimate(double *seconds, double *bytes, slong g, slong n);
+
+/* The same for wpoly_coeffs_at(., g, n, idx, nidx, .) (0 for invalid arguments). */
+void wpoly_estimate_at(double *seconds, double *bytes, slong g, slong n, const slong *idx,
+                       slong nidx);
 
 #ifdef __cplusplus
 }

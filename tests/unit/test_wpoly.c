@@ -342,6 +342,33 @@ static void test_invariants(void)
     }
 }
 
+/* wpoly_coeffs_at on chosen indices gives the entries of the full output; invalid lists are
+   refused. */
+static void test_coeffs_at(void)
+{
+    slong g = 6, n = 2, nidx, *idx, pick[6], k;
+    fmpq *all = engine(g, n, &nidx, &idx), *some = _fmpq_vec_init(3);
+    slong at[3] = { nidx - 1, nidx / 2, 3 }, bad[2] = { 1, 2 };
+    int st;
+
+    for (k = 0; k < 3; k++)
+    {
+        pick[2 * k] = idx[2 * at[k]];
+        pick[2 * k + 1] = idx[2 * at[k] + 1];
+    }
+    st = wpoly_coeffs_at(some, g, n, pick, 3, 2);
+    for (k = 0; k < 3; k++)
+        UNIT_CHECK(&rep, st == WPVOL_OK && fmpq_equal(some + k, all + at[k]),
+                   "wpoly_coeffs_at entry %ld (index %ld)", k, at[k]);
+    UNIT_CHECK(&rep, wpoly_coeffs_at(some, g, n, bad, 1, 1) == WPVOL_BADARG, "unsorted index");
+    bad[0] = 3 * g;
+    bad[1] = 0;
+    UNIT_CHECK(&rep, wpoly_coeffs_at(some, g, n, bad, 1, 1) == WPVOL_BADARG, "|a| > D refused");
+    _fmpq_vec_clear(all, nidx);
+    _fmpq_vec_clear(some, 3);
+    flint_free(idx);
+}
+
 /* Bad arguments, an absurd request refused by the estimate, the index counts. */
 static void test_errors(void)
 {
@@ -377,6 +404,7 @@ int main(void)
     test_reduction_all();
     test_reduction_random();
     test_mirzakhani();
+    test_coeffs_at();
     test_table_agreement(20);
     test_invariants();
     test_do_norbury_one(15);
