@@ -222,12 +222,13 @@ static void fastvol_poly_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const 
    W_a (caller clears nidx entries) or NULL after reporting an error. */
 static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx)
 {
-    double sec, bytes;
+    double sec, bytes, maxb = WPVOL_MAX_BYTES < FASTVOL_MAX_BYTES ? WPVOL_MAX_BYTES : FASTVOL_MAX_BYTES;
     wpoly_estimate_at(&sec, &bytes, g, n, idx, nidx);
-    if (sec > I->lim.max_seconds || bytes > FASTVOL_MAX_BYTES) {
-        diag_error(&where->loc, "V_{%ld,%ld}(L) by the volume engine needs about %.3g s and %.3g GiB "
-                   "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", (long)g, (long)n, sec,
-                   bytes / 1073741824.0, I->lim.max_seconds, FASTVOL_MAX_BYTES / 1073741824.0);
+    if (sec > I->lim.max_seconds || bytes > maxb) {
+        diag_error(&where->loc, "%s on Mbar_{%ld,%ld} by the volume engine needs about %.3g s and %.3g GiB "
+                   "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", nidx > 1 ? "the volume polynomial"
+                   : "this integral", (long)g, (long)n, sec, bytes / 1073741824.0, I->lim.max_seconds,
+                   maxb / 1073741824.0);
         return NULL;
     }
     fmpq *w = _fmpq_vec_init(nidx);
@@ -243,7 +244,8 @@ static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, co
     if (rc == WPVOL_CANCELLED || cancel_flag)
         eval_cancelled(where);
     else if (rc == WPVOL_LIMIT)
-        diag_error(&where->loc, "V_{%ld,%ld}(L) is beyond the limits of the volume engine", (long)g, (long)n);
+        diag_error(&where->loc, "this request is beyond the limits of the volume engine (%.3g s, %.3g GiB)",
+                   WPVOL_MAX_SECONDS, WPVOL_MAX_BYTES / 1073741824.0);
     else
         diag_error(&where->loc, "the volume engine failed (code %d)", rc);
     return NULL;

@@ -109,13 +109,15 @@ static double wpoly_estimate_comp(slong g, slong n, slong k)
 
 /* Relative cost of one prime for the multi-indices idx: the components wpoly_modp.c
    computes, replaying its reuse (a component is recomputed when the exponents of its points
-   change; with n >= 2 a one-point component once per exponent). */
-static double wpoly_estimate_work(slong g, slong n, const slong *idx, slong nidx)
+   change; with n >= 2 a one-point component once per exponent).  *singles receives the
+   number of one-point blocks kept (n >= 2). */
+static double wpoly_estimate_work(slong g, slong n, const slong *idx, slong nidx, slong *singles)
 {
     slong k, S, i, nm = WORD(1) << n, D = 3 * g - 3 + n, last[1 << WPOLY_MAX_POINTS];
     char *seen = calloc((size_t) (D + 1), 1);
     double w = wpoly_estimate_comp(g, n, 0), ck[WPOLY_MAX_POINTS + 1];
 
+    *singles = 0;
     if (seen == NULL)
         return 1.0e30;   /* refused: the request could not run anyway */
     for (k = 0; k <= n; k++)
@@ -138,7 +140,10 @@ static double wpoly_estimate_work(slong g, slong n, const slong *idx, slong nidx
             if (!ok || (n >= 2 && pc == 1 && seen[key]) || (!(n >= 2 && pc == 1) && last[S] == key))
                 continue;
             if (n >= 2 && pc == 1)
+            {
                 seen[key] = 1;
+                ++*singles;
+            }
             last[S] = key;
             w += ck[pc];
         }
@@ -177,6 +182,7 @@ void wpoly_estimate_at(double *seconds, double *bytes, slong g, slong n, const s
                        slong nidx)
 {
     double L, primes, T, blocks;
+    slong singles;
 
     *seconds = 0.0;
     *bytes = 0.0;
@@ -184,13 +190,13 @@ void wpoly_estimate_at(double *seconds, double *bytes, slong g, slong n, const s
         return;
     L = 3.0 * (double) g + (double) n - 3.0;
     primes = wpoly_need_bits(g, n) / 61.0 + 3.0;
-    *seconds = primes * wpoly_estimate_work(g, n, idx, nidx)
+    *seconds = primes * wpoly_estimate_work(g, n, idx, nidx, &singles)
                + 1.0e-9 * (double) nidx * primes * primes * 20.0;
     /* component blocks (A, B, C: 3h rows of L words per genus; transforms; f) for the masks
-       and, with n >= 2, one per exponent; residues and CRT values */
+       and the one-point blocks kept (n >= 2); residues and CRT values */
     for (T = 1.0; T < (3.0 * (double) g - 2.0) * (2.0 * L - 1.0);)
         T *= 2.0;
-    blocks = pow(2.0, (double) n) + (n >= 2 ? L : 0.0);
+    blocks = pow(2.0, (double) n) + (double) singles;
     *bytes = 8.0 * blocks * (4.5 * (double) g * (double) g * L + (double) g * T + 3.0 * (double) g * L)
              + 32.0 * (double) nidx * primes;
 }
