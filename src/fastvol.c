@@ -169,14 +169,34 @@ static int fastvol_declare(interp *I, const node *where, slong n, int *vars)
     return 1;
 }
 
-/* Adds c_a L^{2a} pi^{2(D-|a|)} for every permutation of the sorted a
-   (distinct exponent vectors only), c_a = W 2^{D-|a|} / prod (2^{a_i} a_i!). */
+/* Steps p[0..n) to the next permutation in lexicographic order (repeated
+   entries give each distinct arrangement once); returns 0 after the last. */
+static int fastvol_next_perm(slong *p, slong n)
+{
+    slong i = n - 2, j = n - 1, t;
+    while (i >= 0 && p[i] >= p[i + 1])
+        i--;
+    if (i < 0)
+        return 0;
+    while (p[j] <= p[i])
+        j--;
+    t = p[i], p[i] = p[j], p[j] = t;
+    for (slong l = i + 1, r = n - 1; l < r; l++, r--)
+        t = p[l], p[l] = p[r], p[r] = t;
+    return 1;
+}
+
+/* Adds c_a L^{2a} pi^{2(D-|a|)} for every arrangement of the sorted a,
+   c_a = W 2^{D-|a|} / prod (2^{a_i} a_i!), as the reduction route does. */
 static void fastvol_poly_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const slong *a, slong n, slong D,
                              const int *vars)
 {
     slong s = 0, perm[WPOLY_MAX_POINTS];
+    ulong exps[SCALAR_MAX_VARS];
     fmpq_t c;
     fmpz_t f;
+    if (fmpq_is_zero(W))
+        return;
     fmpq_init(c);
     fmpz_init(f);
     fmpq_set(c, W);
@@ -184,36 +204,17 @@ static void fastvol_poly_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const 
         s += a[i];
         fmpz_fac_ui(f, (ulong)a[i]);
         fmpq_div_fmpz(c, c, f);
-        perm[i] = a[n - 1 - i];   /* increasing: the first permutation */
+        perm[i] = a[n - 1 - i];   /* increasing: the first arrangement */
     }
     fmpq_mul_2exp(c, c, (ulong)(D - s));
     fmpq_div_2exp(c, c, (ulong)s);
-    ulong exps[SCALAR_MAX_VARS];
-    for (int more = !fmpq_is_zero(c); more;) {
+    do {
         memset(exps, 0, sizeof exps);
         for (slong i = 0; i < n; i++)
             exps[vars[i]] = 2 * (ulong)perm[i];
         exps[SCALAR_PI] = 2 * (ulong)(D - s);
         fmpq_mpoly_set_coeff_fmpq_ui(res, c, exps, I->ring.ctx);
-        /* next permutation in lexicographic order */
-        slong i = n - 2;
-        while (i >= 0 && perm[i] >= perm[i + 1])
-            i--;
-        more = i >= 0;
-        if (more) {
-            slong j = n - 1;
-            while (perm[j] <= perm[i])
-                j--;
-            slong t = perm[i];
-            perm[i] = perm[j];
-            perm[j] = t;
-            for (slong l = i + 1, r = n - 1; l < r; l++, r--) {
-                t = perm[l];
-                perm[l] = perm[r];
-                perm[r] = t;
-            }
-        }
-    }
+    } while (fastvol_next_perm(perm, n));
     fmpq_clear(c);
     fmpz_clear(f);
 }
