@@ -25,6 +25,7 @@
 #include <flint/fmpq.h>
 #include <flint/ulong_extras.h>
 
+#include "classes/classexpr.h"
 #include "correlators/pushforward.h"
 #include "correlators/wk.h"
 #include "volumes/wpoly.h"
@@ -370,6 +371,48 @@ static void test_coeffs_at(void)
     flint_free(idx);
 }
 
+/* The matcher that routes int[g,n] monomials: products of scalars, psi_i (i <= n), kappa_1,
+   their powers and at most one exp(c kappa_1); anything else is left to the reduction. */
+static void test_matcher(void)
+{
+    fmpq_mpoly_ctx_t ctx;
+    fmpq_mpoly_t three;
+    cx_monomial m;
+    cx *e;
+
+    fmpq_mpoly_ctx_init(ctx, 2, ORD_DEGLEX);
+    fmpq_mpoly_init(three, ctx);
+    fmpq_mpoly_init(m.factor, ctx);
+    fmpq_mpoly_init(m.c, ctx);
+    fmpq_mpoly_set_si(three, 3, ctx);
+    /* 3 * psi_1^2 * (kappa_1^4 * psi_2) * psi_1 */
+    e = cx_mul(cx_mul(cx_scalar(three, ctx), cx_pow(cx_psi(1, ctx, NULL), 2, NULL)),
+               cx_mul(cx_mul(cx_pow(cx_kappa(1, ctx, NULL), 4, NULL), cx_psi(2, ctx, NULL)),
+                      cx_psi(1, ctx, NULL)));
+    UNIT_CHECK(&rep, cx_match_psi_kappa1(e, 2, &m) && m.psi[0] == 3 && m.psi[1] == 1
+               && m.kappa1 == 4 && !m.is_exp && fmpq_mpoly_equal(m.factor, three, ctx),
+               "3 psi_1^3 psi_2 kappa_1^4 recognised");
+    UNIT_CHECK(&rep, !cx_match_psi_kappa1(e, 1, &m), "psi_2 on one point refused");
+    cx_release(e);
+    /* psi_1 * exp(3 kappa_1) * exp(kappa_1): two exponentials are not a monomial */
+    e = cx_mul(cx_psi(1, ctx, NULL), cx_exp(cx_mul(cx_scalar(three, ctx), cx_kappa(1, ctx, NULL)), NULL));
+    UNIT_CHECK(&rep, cx_match_psi_kappa1(e, 1, &m) && m.is_exp && fmpq_mpoly_equal(m.c, three, ctx)
+               && m.psi[0] == 1 && m.kappa1 == 0, "psi_1 exp(3 kappa_1) recognised");
+    e = cx_mul(e, cx_exp(cx_kappa(1, ctx, NULL), NULL));
+    UNIT_CHECK(&rep, !cx_match_psi_kappa1(e, 1, &m), "two exponentials refused");
+    cx_release(e);
+    e = cx_add(cx_psi(1, ctx, NULL), cx_kappa(1, ctx, NULL));
+    UNIT_CHECK(&rep, !cx_match_psi_kappa1(e, 1, &m), "a sum refused");
+    cx_release(e);
+    e = cx_mul(cx_psi(1, ctx, NULL), cx_kappa(2, ctx, NULL));
+    UNIT_CHECK(&rep, !cx_match_psi_kappa1(e, 1, &m), "kappa_2 refused");
+    cx_release(e);
+    fmpq_mpoly_clear(three, ctx);
+    fmpq_mpoly_clear(m.factor, ctx);
+    fmpq_mpoly_clear(m.c, ctx);
+    fmpq_mpoly_ctx_clear(ctx);
+}
+
 /* Bad arguments, an absurd request refused by the estimate, the index counts. */
 static void test_errors(void)
 {
@@ -406,6 +449,7 @@ int main(void)
     test_reduction_random();
     test_mirzakhani();
     test_coeffs_at();
+    test_matcher();
     test_table_agreement(30);
     test_invariants();
     test_do_norbury_one(15);
