@@ -673,8 +673,10 @@ value *integrate_volume(interp *I, const node *where, slong g, slong n)
         diag_error(&where->loc, "V_{%ld,%ld}(L) has about %.3g terms, above the limit of %ld (raise it with --max-terms N)",
                    (long)g, (long)n, fmpz_get_d(terms), (long)I->lim.max_class_terms);
     fmpz_clear(terms);
-    if (!small || n > SCALAR_MAX_VARS - 1 || !integrate_table_ok(I, where, g, n + D))
-        return NULL;
+    int handled = 0;
+    value *fast = small && n < SCALAR_MAX_VARS ? fastvol_try_polynomial(I, where, g, n, &handled) : NULL;
+    if (handled || !small || n > SCALAR_MAX_VARS - 1 || !integrate_table_ok(I, where, g, n + D))
+        return fast;
     int *vars = xmalloc((n + 1) * sizeof(int));
     value *r = NULL;
     if (volume_declare(I, where, n, vars)) {

@@ -73,6 +73,9 @@ void interp_add_search_dir(interp *I, const char *dir);
 value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled);
 int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n);
 void fastvol_clear(interp *I);
+/* wpvolume(g, n) by the polynomial engine when the reduction would be large
+   (or route_volumes is set); *handled as for fastvol_try. */
+value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled);
 
 /* The results store (results.c): lookup returns 1 and sets out on a hit. */
 int results_lookup(interp *I, const char *question, fmpq_mpoly_t out);

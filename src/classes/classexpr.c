@@ -148,3 +148,50 @@ int cx_match_kappa1_power(const cx *e, fmpq_mpoly_t c, slong *k)
     *k = p->index;
     return 1;
 }
+
+/* Multiplies one factor of a product into the match state m; returns 0 for a factor that is
+   not a scalar, psi_i (1 <= i <= n), kappa_1, a power of these, or one exp(c*kappa_1). */
+static int cx_match_factor(const cx *e, cx_monomial *m, slong n)
+{
+    if (e->kind == CX_MUL)
+        return cx_match_factor(e->a, m, n) && cx_match_factor(e->b, m, n);
+    if (e->kind == CX_SCALAR) {
+        fmpq_mpoly_mul(m->factor, m->factor, e->scalar, e->ctx);
+        return 1;
+    }
+    if (e->kind == CX_EXP) {
+        if (m->is_exp || !cx_match_scaled_kappa1(e->a, m->c))
+            return 0;
+        m->is_exp = 1;
+        return 1;
+    }
+    slong k = 1;
+    if (e->kind == CX_POW) {
+        k = e->index;
+        e = e->a;
+    }
+    if (k < 0)
+        return 0;
+    if (e->kind == CX_PSI && e->index >= 1 && e->index <= n) {
+        m->psi[e->index - 1] += k;
+        return 1;
+    }
+    if (e->kind == CX_KAPPA && e->index == 1) {
+        m->kappa1 += k;
+        return 1;
+    }
+    return 0;
+}
+
+int cx_match_psi_kappa1(const cx *e, slong n, cx_monomial *m)
+{
+    if (n < 1 || n > CX_MONOMIAL_MAX_PSI)
+        return 0;
+    fmpq_mpoly_one(m->factor, e->ctx);
+    fmpq_mpoly_one(m->c, e->ctx);
+    m->kappa1 = 0;
+    m->is_exp = 0;
+    for (slong i = 0; i < n; i++)
+        m->psi[i] = 0;
+    return cx_match_factor(e, m, n);
+}

@@ -39,6 +39,21 @@ int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c, fmpq_mpoly_t factor);
 /* Recognises c*kappa_1^k (c = 1 when absent); sets c and k. */
 int cx_match_kappa1_power(const cx *e, fmpq_mpoly_t c, slong *k);
 
+/* A product factor * psi_1^{psi[0]} ... psi_n^{psi[n-1]} * kappa_1^{kappa1} (* exp(c kappa_1)
+   if is_exp).  The caller initialises and clears factor and c in the ring of the scalars. */
+#define CX_MONOMIAL_MAX_PSI 16
+typedef struct {
+    fmpq_mpoly_t factor, c;
+    slong psi[CX_MONOMIAL_MAX_PSI];
+    slong kappa1;
+    int is_exp;
+} cx_monomial;
+
+/* Recognises such a product (any nesting of products and powers, scalars anywhere, at most
+   one exp) on n <= CX_MONOMIAL_MAX_PSI points; fills m.  Returns 0 (m unspecified) for any
+   other expression, e.g. a sum or psi_i with i > n. */
+int cx_match_psi_kappa1(const cx *e, slong n, cx_monomial *m);
+
 /* Largest psi index used, so that callers can check it against n early. */
 slong cx_max_psi(const cx *e);
 

@@ -27,7 +27,8 @@ typedef struct
     slong next, end;          /* next prime index to take, one past the last */
     const ulong *primes;      /* all primes of the run */
     ulong *res;               /* residues: res[i*nv + k] for prime i and value k */
-    slong G, N, nv;
+    const wpvol_job_t *job;
+    slong nv;
     int status;               /* first error met, WPVOL_OK otherwise */
 } wpvol_batch_t;
 
@@ -47,11 +48,17 @@ void wpvol_set_cancel(volatile sig_atomic_t *flag)
     wpvol_cancel_flag = flag;
 }
 
+/* See wpvol_internal.h. */
+int wpvol_cancelled(void)
+{
+    return wpvol_cancel_flag != NULL && *wpvol_cancel_flag;
+}
+
 /* Takes prime indices one at a time until the batch is exhausted or an error was recorded,
    with one workspace for all its primes (allocating per prime would cost page faults). */
 static void wpvol_batch_loop(wpvol_batch_t *b)
 {
-    wpvol_ws_t *ws = wpvol_ws_new(b->G, b->N);
+    void *ws = b->job->ws_new(b->job);
 
     if (ws == NULL)
         wpvol_batch_fail(b, WPVOL_NOMEM);
@@ -61,7 +68,7 @@ static void wpvol_batch_loop(wpvol_batch_t *b)
         int st;
         nmod_t mod;
 
-        if (wpvol_cancel_flag && *wpvol_cancel_flag)
+        if (wpvol_cancelled())
             wpvol_batch_fail(b, WPVOL_CANCELLED);
         pthread_mutex_lock(&b->lock);
         i = (b->status == WPVOL_OK && b->next < b->end) ? b->next++ : -1;
@@ -69,11 +76,11 @@ static void wpvol_batch_loop(wpvol_batch_t *b)
         if (i < 0)
             break;
         nmod_init(&mod, b->primes[i]);
-        st = wpvol_modp_run(ws, b->res + i * b->nv, mod, 1);
+        st = b->job->run(ws, b->res + i * b->nv, mod);
         if (st != WPVOL_OK)
             wpvol_batch_fail(b, st);
     }
-    wpvol_ws_free(ws);
+    b->job->ws_free(ws);
 }
 
 /* Entry point of the extra threads: the loop, then release of this thread's FLINT caches
@@ -88,8 +95,8 @@ static void *wpvol_batch_thread(void *arg)
 /* Computes the residues for primes[start..end) with up to `threads` threads (the calling
    thread works too).  A thread that cannot be created just leaves more work to the others.
    Returns WPVOL_OK or the first error of a worker. */
-static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong end, slong G,
-                           slong N, int threads)
+static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong end,
+                           const wpvol_job_t *job, int threads)
 {
     wpvol_batch_t b;
     pthread_t *tid;
@@ -99,9 +106,8 @@ static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong e
     b.end = end;
     b.primes = primes;
     b.res = res;
-    b.G = G;
-    b.N = N;
-    b.nv = (G + 1) * (N + 1);
+    b.job = job;
+    b.nv = job->nv;
     b.status = WPVOL_OK;
     if (pthread_mutex_init(&b.lock, NULL) != 0)
         return WPVOL_NOMEM;
@@ -143,17 +149,6 @@ static int wpvol_primes_extend(ulong **primes, slong *have, slong count, int pri
     return 0;
 }
 
-/* fac[d] = d! mod p for 0 <= d < len: the engine recovers int kappa_1^d = d! V_{g,n}, whose
-   denominator is much smaller than that of V_{g,n}. */
-static void wpvol_factorials_mod(ulong *fac, slong len, nmod_t mod)
-{
-    slong d;
-
-    fac[0] = 1;
-    for (d = 1; d < len; d++)
-        fac[d] = nmod_mul(fac[d - 1], (ulong) d, mod);
-}
-
 /* Per-value reconstruction state (owned by wpvol_table_ex). */
 typedef struct
 {
@@ -183,12 +178,12 @@ static int wpvol_reconstruct_db(fmpq_t q, const fmpz_t a, const fmpz_t M, slong 
     return ok;
 }
 
-/* Tries denominator bounds db, 5db/4, 3db/2, 2db with db from the size model of genus g (the
+/* Tries denominator bounds db, 5db/4, 3db/2, 2db with db from the job's size model (the
    scaled values have small denominators, so this needs the fewest primes), then the balanced
    bound.  Each attempt is cheap next to a prime.  Returns 1 and sets q on success. */
-static int wpvol_reconstruct(fmpq_t q, const fmpz_t a, const fmpz_t M, slong g)
+static int wpvol_reconstruct(fmpq_t q, const fmpz_t a, const fmpz_t M, slong db)
 {
-    slong bits = fmpz_bits(M), db = (slong) wpvol_estimate_den_bits(g), k;
+    slong bits = fmpz_bits(M), k;
 
     for (k = 4; k <= 8; k += (k < 6 ? 1 : 2))
     {
@@ -211,10 +206,11 @@ static ulong wpvol_fmpq_mod(const fmpq_t q, nmod_t mod)
     return nmod_mul(n, nmod_inv(d, mod), mod);
 }
 
-/* Run state of wpvol_table_ex (owned there; released by wpvol_run_clear). */
+/* Run state of wpvol_drive (owned there; released by wpvol_run_clear). */
 typedef struct
 {
-    slong G, N, nv;
+    const wpvol_job_t *job;
+    slong nv;
     wpvol_val_t *val;
     ulong *primes, *res;
     slong nprimes;             /* primes used so far (all folded into the residues) */
@@ -239,16 +235,16 @@ static void wpvol_run_clear(wpvol_drv_t *D)
     fmpz_clear(D->M);
 }
 
-/* Marks unstable entries as done (value 0) and initialises the others.  Returns 0 or -1. */
-static int wpvol_run_init(wpvol_drv_t *D, slong G, slong N)
+/* Marks the values the job knows to be 0 as done and initialises the others.
+   Returns 0 or -1. */
+static int wpvol_run_init(wpvol_drv_t *D, const wpvol_job_t *job)
 {
     slong k;
 
     memset(D, 0, sizeof(*D));
     fmpz_init_set_ui(D->M, 1);
-    D->G = G;
-    D->N = N;
-    D->nv = (G + 1) * (N + 1);
+    D->job = job;
+    D->nv = job->nv;
     D->val = malloc((size_t) D->nv * sizeof(wpvol_val_t));
     D->try_bits = calloc((size_t) D->nv, sizeof(slong));
     if (D->val == NULL || D->try_bits == NULL)
@@ -259,39 +255,35 @@ static int wpvol_run_init(wpvol_drv_t *D, slong G, slong N)
     }
     for (k = 0; k < D->nv; k++)
     {
-        slong g = k / (N + 1), n = k % (N + 1);
+        double need = job->need_bits(job, k);
         fmpz_init(D->val[k].a);
         fmpq_init(D->val[k].cand);
         D->val[k].has_cand = 0;
         D->val[k].confirmed = 0;
-        D->val[k].done = (2 * g - 2 + n <= 0);
+        D->val[k].done = need < 0.0;
         /* no attempt before the modulus reaches 7/8 of the modelled need */
-        D->try_bits[k] = (slong) (0.875 * wpvol_estimate_need_bits(g, n));
+        D->try_bits[k] = (slong) (0.875 * need);
     }
     return 0;
 }
 
 /* Folds the residues of prime i into every pending value: checks the candidate (if any)
-   against it, then extends the Chinese remainder a mod M by a mod p_i.  fac: scratch of
-   nfac = 3G+N+1 words for the factorials d! mod p_i. */
-static void wpvol_run_absorb(wpvol_drv_t *D, slong i, ulong *fac, slong nfac)
+   against it, then extends the Chinese remainder a mod M by a mod p_i. */
+static void wpvol_run_absorb(wpvol_drv_t *D, slong i)
 {
     nmod_t mod;
     ulong minv;
     slong k;
 
     nmod_init(&mod, D->primes[i]);
-    wpvol_factorials_mod(fac, nfac, mod);
     minv = nmod_inv(fmpz_fdiv_ui(D->M, mod.n), mod);
     for (k = 0; k < D->nv; k++)
     {
         wpvol_val_t *v = &D->val[k];
-        slong g = k / (D->N + 1), n = k % (D->N + 1);
-        ulong r, t;
+        ulong r = D->res[i * D->nv + k], t;
 
         if (v->done)
             continue;
-        r = nmod_mul(D->res[i * D->nv + k], fac[3 * g - 3 + n], mod);
         if (v->has_cand)
         {
             if (wpvol_fmpq_mod(v->cand, mod) == r)
@@ -329,7 +321,7 @@ static slong wpvol_run_reconstruct(wpvol_drv_t *D, slong *uncand)
             ++*uncand;
             continue;
         }
-        if (wpvol_reconstruct(v->cand, v->a, D->M, k / (D->N + 1)))
+        if (wpvol_reconstruct(v->cand, v->a, D->M, D->job->den_bits(D->job, k)))
         {
             v->has_cand = 1;
             v->confirmed = 0;
@@ -341,32 +333,20 @@ static slong wpvol_run_reconstruct(wpvol_drv_t *D, slong *uncand)
     return pending;
 }
 
-/* Writes out[k] = cand / d! for every value (0 for unstable ones). */
+/* Writes out[k] = the reconstructed value (0 for the values known to be 0). */
 static void wpvol_run_output(fmpq *out, const wpvol_drv_t *D)
 {
     slong k;
-    fmpz_t f;
 
-    fmpz_init(f);
     for (k = 0; k < D->nv; k++)
-    {
-        slong g = k / (D->N + 1), n = k % (D->N + 1);
-        if (2 * g - 2 + n <= 0)
-        {
-            fmpq_zero(out + k);
-            continue;
-        }
-        fmpz_fac_ui(f, (ulong) (3 * g - 3 + n));
-        fmpq_div_fmpz(out + k, D->val[k].cand, f);
-    }
-    fmpz_clear(f);
+        fmpq_set(out + k, D->val[k].cand);
 }
 
 /* Number of primes for the first batch: the modelled need of the largest entry (scaled to
    this prime size) plus one, at least min_primes and at least one per thread. */
-static slong wpvol_first_batch(slong G, slong N, int threads, int prime_bits, slong min_primes)
+static slong wpvol_first_batch(double bits, int threads, int prime_bits, slong min_primes)
 {
-    double bits = wpvol_estimate_bits(G, N), b = prime_bits >= 62 ? 61.0 : prime_bits - 2.0;
+    double b = prime_bits >= 62 ? 61.0 : prime_bits - 2.0;
     slong np = (slong) (bits / b) + 1;
 
     np = FLINT_MAX(np, min_primes);
@@ -380,9 +360,9 @@ static slong wpvol_first_batch(slong G, slong N, int threads, int prime_bits, sl
    Returns WPVOL_OK or an error code. */
 static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong first)
 {
-    slong target = first, nfac = 3 * D->G + D->N + 1;
-    ulong *fac = malloc((size_t) nfac * sizeof(ulong)), *r;
-    int status = fac == NULL ? WPVOL_NOMEM : WPVOL_OK;
+    slong target = first;
+    ulong *r;
+    int status = WPVOL_OK;
 
     while (status == WPVOL_OK)
     {
@@ -397,11 +377,11 @@ static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong fir
         if (status != WPVOL_OK)
             break;
         D->res = r;
-        status = wpvol_batch_run(D->res, D->primes, start, target, D->G, D->N, threads);
+        status = wpvol_batch_run(D->res, D->primes, start, target, D->job, threads);
         if (status != WPVOL_OK)
             break;
         for (i = start; i < target; i++)
-            wpvol_run_absorb(D, i, fac, nfac);
+            wpvol_run_absorb(D, i);
         pending = wpvol_run_reconstruct(D, &uncand);
         if (pending == 0)
             break;
@@ -410,17 +390,96 @@ static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong fir
         else
             target += FLINT_MAX((slong) threads, target / 32 + 1);
     }
-    free(fac);
     return status;
+}
+
+/* See wpvol_internal.h. */
+int wpvol_drive(fmpq *out, const wpvol_job_t *job, int threads, int prime_bits, slong min_primes,
+                slong *primes_used)
+{
+    wpvol_drv_t D;
+    int status;
+
+    if (primes_used != NULL)
+        *primes_used = 0;
+    if (wpvol_run_init(&D, job) != 0)
+        status = WPVOL_NOMEM;
+    else
+        status = wpvol_run_loop(&D, threads, prime_bits,
+                                wpvol_first_batch(job->first_bits, threads, prime_bits,
+                                                  min_primes));
+    if (status == WPVOL_OK)
+        wpvol_run_output(out, &D);
+    if (primes_used != NULL)
+        *primes_used = D.nprimes;
+    wpvol_run_clear(&D);
+    return status;
+}
+
+/* The table as a job of the driver: the values are int kappa_1^d = d! V_{g,n} (d = 3g-3+n),
+   whose denominators are much smaller than those of V_{g,n}. */
+typedef struct
+{
+    slong G, N;
+} wpvol_tab_t;
+
+static void *wpvol_tab_ws_new(const wpvol_job_t *job)
+{
+    const wpvol_tab_t *t = job->data;
+    return wpvol_ws_new(t->G, t->N);
+}
+
+static void wpvol_tab_ws_free(void *ws)
+{
+    wpvol_ws_free(ws);
+}
+
+/* Residues of d! V_{g,n} for one prime (V from wpvol_modp_run, then the factorial). */
+static int wpvol_tab_run(void *ws, ulong *res, nmod_t mod)
+{
+    const wpvol_ws_t *w = ws;
+    slong G, N, k;
+    int st;
+
+    if (ws == NULL)
+        return WPVOL_NOMEM;
+    st = wpvol_modp_run(ws, res, mod, 1);
+    G = wpvol_ws_genus(w);
+    N = wpvol_ws_points(w);
+    for (k = 0; st == WPVOL_OK && k < (G + 1) * (N + 1); k++)
+    {
+        slong g = k / (N + 1), n = k % (N + 1), d;
+        ulong f = 1;
+        for (d = 2; d <= 3 * g - 3 + n; d++)
+            f = nmod_mul(f, (ulong) d, mod);
+        res[k] = nmod_mul(res[k], f, mod);
+    }
+    return st;
+}
+
+/* Modelled modulus bits of value k, or -1 for the unstable (g, n) (value 0). */
+static double wpvol_tab_need(const wpvol_job_t *job, slong k)
+{
+    const wpvol_tab_t *t = job->data;
+    slong g = k / (t->N + 1), n = k % (t->N + 1);
+    return 2 * g - 2 + n <= 0 ? -1.0 : wpvol_estimate_need_bits(g, n);
+}
+
+static slong wpvol_tab_den(const wpvol_job_t *job, slong k)
+{
+    const wpvol_tab_t *t = job->data;
+    return (slong) wpvol_estimate_den_bits(k / (t->N + 1));
 }
 
 /* See wpvol.h. */
 int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slong min_primes,
                    slong *primes_used)
 {
-    wpvol_drv_t D;
+    wpvol_tab_t tab;
+    wpvol_job_t job;
     double sec, bytes;
     slong k;
+    fmpz_t f;
     int status;
 
     if (primes_used != NULL)
@@ -432,16 +491,27 @@ int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slo
     wpvol_estimate(&sec, &bytes, G, N);
     if (sec > WPVOL_MAX_SECONDS || bytes > WPVOL_MAX_BYTES)
         return WPVOL_LIMIT;
-    if (wpvol_run_init(&D, G, N) != 0)
-        status = WPVOL_NOMEM;
-    else
-        status = wpvol_run_loop(&D, threads, prime_bits,
-                                wpvol_first_batch(G, N, threads, prime_bits, min_primes));
-    if (status == WPVOL_OK)
-        wpvol_run_output(out, &D);
-    if (primes_used != NULL)
-        *primes_used = D.nprimes;
-    wpvol_run_clear(&D);
+    tab.G = G;
+    tab.N = N;
+    job.nv = (G + 1) * (N + 1);
+    job.ws_new = wpvol_tab_ws_new;
+    job.ws_free = wpvol_tab_ws_free;
+    job.run = wpvol_tab_run;
+    job.need_bits = wpvol_tab_need;
+    job.den_bits = wpvol_tab_den;
+    job.first_bits = wpvol_estimate_bits(G, N);
+    job.data = &tab;
+    status = wpvol_drive(out, &job, threads, prime_bits, min_primes, primes_used);
+    fmpz_init(f);
+    for (k = 0; status == WPVOL_OK && k < job.nv; k++)
+    {
+        slong g = k / (N + 1), n = k % (N + 1);
+        if (2 * g - 2 + n <= 0)
+            continue;
+        fmpz_fac_ui(f, (ulong) (3 * g - 3 + n));
+        fmpq_div_fmpz(out + k, out + k, f);
+    }
+    fmpz_clear(f);
     return status;
 }
 

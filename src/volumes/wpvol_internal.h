@@ -19,6 +19,7 @@
 #include <flint/nmod.h>
 #include <flint/nmod_vec.h>
 #include <flint/nmod_poly.h>
+#include <flint/fmpq.h>
 
 typedef struct
 {
@@ -176,6 +177,55 @@ int wpvol_modp_table(ulong *res, slong G, slong N, nmod_t mod);
 /* As wpvol_modp_table; allow_ntt = 0 forces FLINT's products even when p = 1 mod 2^k would
    allow cached transforms (the two paths must agree: used by the tests). */
 int wpvol_modp_table_ex(ulong *res, slong G, slong N, nmod_t mod, int allow_ntt);
+
+/* Genus bound G and point bound N of a workspace. */
+slong wpvol_ws_genus(const wpvol_ws_t *ws);
+slong wpvol_ws_points(const wpvol_ws_t *ws);
+
+/* --- wpvol.c: the multi-modular driver (shared by the volume tables and wpoly.c) ---------- */
+
+/* A family of nv rationals known modulo any large enough prime.  The driver owns nothing of
+   the job; ws_new makes one workspace per worker thread (NULL: exhausted memory), which run
+   reuses for each of its primes and ws_free releases (NULL allowed). */
+typedef struct wpvol_job_struct
+{
+    slong nv;
+    void *(*ws_new)(const struct wpvol_job_struct *job);
+    void (*ws_free)(void *ws);
+    /* res[0..nv) = the values modulo mod.n; returns WPVOL_OK or an error code */
+    int (*run)(void *ws, ulong *res, nmod_t mod);
+    /* modelled modulus bits before the first reconstruction of value k; < 0: the value is 0 */
+    double (*need_bits)(const struct wpvol_job_struct *job, slong k);
+    /* first denominator bound (bits) tried for value k */
+    slong (*den_bits)(const struct wpvol_job_struct *job, slong k);
+    double first_bits;   /* modulus bits of the first batch of primes */
+    const void *data;    /* the job's parameters (borrowed) */
+} wpvol_job_t;
+
+/* out[0..nv) = the values of job (out initialised by the caller, untouched on error): primes
+   as in wpvol_table_ex, residues combined by Chinese remaindering, rational reconstruction
+   confirmed by 2 further primes, `threads` worker threads, cancel flag polled between primes.
+   Returns WPVOL_OK, WPVOL_NOMEM, WPVOL_LIMIT, WPVOL_CANCELLED or the first error of run. */
+int wpvol_drive(fmpq *out, const wpvol_job_t *job, int threads, int prime_bits, slong min_primes,
+                slong *primes_used);
+
+/* Nonzero once the flag of wpvol_set_cancel is set (long per-prime runs poll it too). */
+int wpvol_cancelled(void);
+
+/* --- wpoly_modp.c: coefficients of V_{g,n}(L) modulo one prime (see wpoly.h) ------------ */
+
+typedef struct wpoly_ws_struct wpoly_ws_t;
+
+/* Workspace for (g, n) with `extra` orders of truncation beyond the bound, for the nidx
+   multi-indices idx (n entries each, sorted decreasingly; borrowed: must outlive ws), or NULL
+   on exhausted memory.  Owned by the caller: wpoly_ws_free (NULL allowed). */
+wpoly_ws_t *wpoly_ws_new(slong g, slong n, slong extra, const slong *idx, slong nidx);
+void wpoly_ws_free(wpoly_ws_t *ws);
+
+/* res[k] = (D-|a|)! W_a mod p for the k-th multi-index a of ws.  Returns WPVOL_OK,
+   WPVOL_BADARG (prime too small), WPVOL_NOMEM, WPVOL_INTERNAL or WPVOL_CANCELLED (res zero on
+   error). */
+int wpoly_modp_run(wpoly_ws_t *ws, ulong *res, nmod_t mod);
 
 /* --- wpvol_estimate.c -------------------------------------------------------------------- */
 

@@ -455,6 +455,17 @@ wpvol_ws_t *wpvol_ws_new(slong G, slong N)
     return ws;
 }
 
+/* See wpvol_internal.h. */
+slong wpvol_ws_genus(const wpvol_ws_t *ws)
+{
+    return ws->G;
+}
+
+slong wpvol_ws_points(const wpvol_ws_t *ws)
+{
+    return ws->N;
+}
+
 /* Per-prime run on a workspace (see wpvol_internal.h).  Returns WPVOL_OK, WPVOL_BADARG,
    WPVOL_NOMEM or WPVOL_INTERNAL (res zero on error). */
 int wpvol_modp_run(wpvol_ws_t *ws, ulong *res, nmod_t mod, int allow_ntt)
