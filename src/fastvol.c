@@ -29,8 +29,25 @@
    the cases the reduction refuses (its table estimate beyond --max-table). */
 #define FASTVOL_POLY_MIN_TERMS 10000.0
 
-/* Refuse tables whose predicted memory is beyond this (the machine has 24 GiB). */
-#define FASTVOL_MAX_BYTES (16.0 * 1073741824.0)
+/* Refuse requests whose predicted memory is beyond the engine's own limit
+   (8 GiB, a third of this machine's memory), before any work, with the estimate. */
+#define FASTVOL_MAX_BYTES WPVOL_MAX_BYTES
+
+/* Reports a failure of either volume engine in words (codes of wpvol.h). */
+static void fastvol_report(const node *where, int rc)
+{
+    if (rc == WPVOL_CANCELLED || cancel_flag)
+        eval_cancelled(where);
+    else if (rc == WPVOL_LIMIT)
+        diag_error(&where->loc, "this request is beyond the limits of the volume engine (%.3g s, %.3g GiB)",
+                   WPVOL_MAX_SECONDS, WPVOL_MAX_BYTES / 1073741824.0);
+    else if (rc == WPVOL_NOMEM)
+        diag_error(&where->loc, "the volume engine ran out of memory");
+    else if (rc == WPVOL_INTERNAL)
+        diag_error(&where->loc, "the volume engine failed a consistency check (please report this input)");
+    else
+        diag_error(&where->loc, "the volume engine rejected this request (code %d)", rc);
+}
 
 static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
                               int *handled);
@@ -60,10 +77,7 @@ static int fastvol_grow(interp *I, const node *where, slong g, slong n)
     progress_clear_note(sec / 2);
     if (rc != WPVOL_OK) {
         _fmpq_vec_clear(t, (G + 1) * (N + 1));
-        if (rc == WPVOL_CANCELLED || cancel_flag)
-            eval_cancelled(where);
-        else
-            diag_error(&where->loc, "the volume engine failed (code %d)", rc);
+        fastvol_report(where, rc);
         return 0;
     }
     if (I->wpv)
@@ -223,7 +237,7 @@ static void fastvol_poly_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const 
    W_a (caller clears nidx entries) or NULL after reporting an error. */
 static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx)
 {
-    double sec, bytes, maxb = WPVOL_MAX_BYTES < FASTVOL_MAX_BYTES ? WPVOL_MAX_BYTES : FASTVOL_MAX_BYTES;
+    double sec, bytes, maxb = FASTVOL_MAX_BYTES;
     wpoly_estimate_at(&sec, &bytes, g, n, idx, nidx);
     if (sec > I->lim.max_seconds || bytes > maxb) {
         diag_error(&where->loc, "%s on Mbar_{%ld,%ld} by the volume engine needs about %.3g s and %.3g GiB "
@@ -242,13 +256,7 @@ static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, co
     if (rc == WPVOL_OK)
         return w;
     _fmpq_vec_clear(w, nidx);
-    if (rc == WPVOL_CANCELLED || cancel_flag)
-        eval_cancelled(where);
-    else if (rc == WPVOL_LIMIT)
-        diag_error(&where->loc, "this request is beyond the limits of the volume engine (%.3g s, %.3g GiB)",
-                   WPVOL_MAX_SECONDS, WPVOL_MAX_BYTES / 1073741824.0);
-    else
-        diag_error(&where->loc, "the volume engine failed (code %d)", rc);
+    fastvol_report(where, rc);
     return NULL;
 }
 

@@ -15,8 +15,8 @@
  *    V_{2,1}(L) = (4pi^2+L^2)(12pi^2+L^2)(6960pi^4+384pi^2L^2+5L^4)/2211840, so V_{2,1}(0) = 29 pi^8/192.
  *  - P. Zograf's tables of Weil-Petersson volumes (and Mirzakhani's later papers):
  *    V_{3,0} = 176557 pi^12 / 1209600, V_{4,0} = 1959225867017 pi^18 / 493807104000.
- * The brief this module was written against suggested V_{0,5} = 5/4 "(check)": the correct value
- * in this normalisation is 5/2 (int_{Mbar_{0,5}} kappa_1^2 = 5, and 10 pi^4 / (2 pi^2)^2 = 5/2).
+ * Note on V_{0,5}: in this normalisation it is 5/2, not 5/4 (int_{Mbar_{0,5}} kappa_1^2 = 5, and
+ * 10 pi^4 / (2 pi^2)^2 = 5/2).
  *
  * Independent computations (sharing no code with the engine):
  *  - genus 0: P. Zograf, "The Weil-Petersson volume of the moduli space of punctured spheres",
