@@ -167,22 +167,6 @@ static double fastvol_poly_terms(slong g, slong n, const slong *idx, slong nidx)
     return t;
 }
 
-/* Declares L_1..L_n in the same order as the reduction route does, so that
-   both build the same polynomial. Returns 0 after reporting an error. */
-static int fastvol_declare(interp *I, const node *where, slong n, int *vars)
-{
-    for (slong i = 0; i < n; i++) {
-        char name[32];
-        snprintf(name, sizeof name, "L_%ld", (long)(i + 1));
-        vars[i] = scalar_ring_declare(&I->ring, name);
-        if (vars[i] < 0) {
-            diag_error(&where->loc, "not enough formal variables left for L_1..L_%ld", (long)n);
-            return 0;
-        }
-    }
-    return 1;
-}
-
 /* Steps p[0..n) to the next permutation in lexicographic order (repeated
    entries give each distinct arrangement once); returns 0 after the last. */
 static int fastvol_next_perm(slong *p, slong n)
@@ -295,7 +279,7 @@ value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, in
     int refused = wk_estimate_entries(g, n + D) > I->lim.max_table;
     if (I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS)) {
         *handled = 1;
-        fmpq *w = fastvol_declare(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
+        fmpq *w = integrate_declare_lengths(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
         if (w) {
             r = value_new_num(&I->ring);
             for (slong k = 0; k < nidx; k++)

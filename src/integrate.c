@@ -645,8 +645,10 @@ static int volume_visit(volume_walk *W, slong i, slong left)
     return WK_OK;
 }
 
-/* Declares L_1..L_n (reusing existing ones) and records their ring indices. */
-static int volume_declare(interp *I, const node *where, slong n, int *vars)
+/* Declares L_1..L_n (reusing existing ones) and records their ring indices
+   in vars[0..n); the order is the same for every route that builds V_{g,n}(L).
+   Returns 0 after reporting an error. */
+int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars)
 {
     for (slong i = 0; i < n; i++) {
         char name[32];
@@ -679,7 +681,7 @@ value *integrate_volume(interp *I, const node *where, slong g, slong n)
         return fast;
     int *vars = xmalloc((n + 1) * sizeof(int));
     value *r = NULL;
-    if (volume_declare(I, where, n, vars)) {
+    if (integrate_declare_lengths(I, where, n, vars)) {
         r = value_new_num(&I->ring);
         volume_walk W;
         W.I = I;

@@ -107,6 +107,9 @@ value *integrate_value(interp *I, const node *where, slong g, slong n, const val
 int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand);
 /* V_{g,n}(L_1..L_n) in Mirzakhani's normalisation, declaring L_1..L_n. */
 value *integrate_volume(interp *I, const node *where, slong g, slong n);
+/* Declares the formal variables L_1..L_n, their ring indices into vars[0..n);
+   returns 0 after reporting an error at where. */
+int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars);
 /* <tau_d>_g with the same limits and messages as integrals. */
 value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n);
 
