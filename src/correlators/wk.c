@@ -392,19 +392,6 @@ static int wk_check_args(const wk_table *T, slong g, const slong *d, slong n)
     return WK_OK;
 }
 
-/* Whether sum d_i = 3g-3+n (g, n already bounded, so 3g-3+n cannot overflow).
-   Stops summing once the target is exceeded, so huge d_i cannot overflow either. */
-static int wk_degree_matches(slong g, const slong *d, slong n)
-{
-    slong i, D = 3 * g - 3 + n, sum = 0;
-    for (i = 0; i < n; i++) {
-        if (d[i] > D - sum)
-            return 0;
-        sum += d[i];
-    }
-    return sum == D;
-}
-
 /* qsort comparator for descending slong order.
    Avoids subtraction so no overflow is possible. */
 static int wk_cmp_slong_desc(const void *x, const void *y)

@@ -74,6 +74,10 @@ int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n);
 /* The code wk_closed_form would return, without computing the value (cheap: O(n)). */
 int wk_closed_form_kind(slong g, const slong *d, slong n);
 
+/* Whether sum d_i = 3g-3+n (the dimension condition), for 0 <= g, n <= WORD_MAX / 8 and
+   d_i >= 0; huge d_i cannot overflow. */
+int wk_degree_matches(slong g, const slong *d, slong n);
+
 #ifdef __cplusplus
 }
 #endif

@@ -13,7 +13,7 @@
 
 /* Whether sum d_i = 3g-3+n, for 0 <= g, n <= WORD_MAX / 8 and d_i >= 0.
    Stops once the target is passed, so huge d_i cannot overflow. */
-static int wk_closed_degree_matches(slong g, const slong *d, slong n)
+int wk_degree_matches(slong g, const slong *d, slong n)
 {
     slong i, D = 3 * g - 3 + n, sum = 0;
     for (i = 0; i < n; i++) {
@@ -68,7 +68,7 @@ int wk_closed_form_kind(slong g, const slong *d, slong n)
             return WK_CLOSED_NONE;
     if (2 * g - 2 + n <= 0)
         return WK_CLOSED_NONE;
-    if (!wk_closed_degree_matches(g, d, n))
+    if (!wk_degree_matches(g, d, n))
         return WK_CLOSED_ZERO;
     if (3 * g - 3 + n > WK_CLOSED_MAX_DIM || (n != 1 && g != 0))
         return WK_CLOSED_NONE;
