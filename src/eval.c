@@ -75,15 +75,23 @@ static char *eval_slong_problem(const fmpq_t q, const char *what, slong lo)
         flint_free(t);
         return msg;
     }
-    if (fmpz_cmp_si(fmpq_numref(q), lo) < 0) {
+    /* a bound of -2^40 or less is no bound: the size check below names the limit */
+    if (lo > -(WORD(1) << 40) && fmpz_cmp_si(fmpq_numref(q), lo) < 0) {
         char *t = fmpz_get_str(NULL, 10, fmpq_numref(q));
         char *msg = xasprintf("%s must be an integer >= %ld, got %s", what, (long)lo, t);
         flint_free(t);
         return msg;
     }
-    if (!fmpz_fits_si(fmpq_numref(q)) || fmpz_cmp_si(fmpq_numref(q), WORD(1) << 40) > 0
-        || fmpz_cmp_si(fmpq_numref(q), -(WORD(1) << 40)) < 0)
-        return xasprintf("%s is too large (%ld bits)", what, (long)fmpz_bits(fmpq_numref(q)));
+    fmpz_t cap;
+    fmpz_init_set_ui(cap, UWORD(1) << 40);
+    int over = fmpz_cmpabs(fmpq_numref(q), cap) > 0;
+    fmpz_clear(cap);
+    if (over) {
+        int neg = fmpz_sgn(fmpq_numref(q)) < 0;
+        return xasprintf("%s is too %s (about %s10^%ld; nothing %s %s2^40 = %s1099511627776 is accepted here)",
+                         what, neg ? "small" : "large", neg ? "-" : "", (long)fmpz_sizeinbase(fmpq_numref(q), 10) - 1,
+                         neg ? "below" : "above", neg ? "-" : "", neg ? "-" : "");
+    }
     return NULL;
 }
 
