@@ -189,8 +189,9 @@ static value *eval_neg(interp *I, scope *s, const node *n)
     if (!a)
         return NULL;
     if (a->kind == V_STR || a->kind == V_LIST) {
+        const char *msg = a->kind == V_STR ? "cannot negate a string" : "cannot negate a list";
         value_release(a);
-        return eval_fail(n, a->kind == V_STR ? "cannot negate a string" : "cannot negate a list");
+        return eval_fail(n, msg);
     }
     value *r;
     if (a->kind == V_NUM) {
