@@ -39,8 +39,39 @@ int yylex(YYSTYPE *lvalp, YYLTYPE *llocp, yyscan_t scanner);
 
 void yyerror(YYLTYPE *loc, yyscan_t scanner, parse_state *ps, const char *msg);
 
-/* Deeply nested input is refused instead of exhausting the C stack later. */
+/* Deeply nested input is refused instead of exhausting the C stack later
+   (brackets are refused by the lexer first, at 256 levels). */
 #define YYMAXDEPTH 2000
+
+/* Parameters are parsed as arguments, so that `let f(1) = ...` can be told
+   apart from a syntax error; 1 when every one is a name, else reports. */
+static int parser_check_params(const node_list *params)
+{
+    for (int i = 0; i < params->len; i++) {
+        const node *p = params->items[i];
+        if (p->kind == N_NAME)
+            continue;
+        diag_error(&p->loc, "a parameter of a function must be a name (let f(x, y) = ...), got %s",
+                   p->kind == N_NUMBER ? "a number" : p->kind == N_STRING ? "a string" : "an expression");
+        return 0;
+    }
+    return 1;
+}
+
+/* a < b < c is refused rather than read as (a < b) < c: comparisons give 0
+   or 1, so the chained reading would silently mean something else. A
+   parenthesised left side ((a < b) < c) is wider than the comparison in it.
+   Returns the comparison node, or NULL (a and b freed) after reporting. */
+static node *parser_compare(srcloc at, srcloc left, srcloc op, int cmp, node *a, node *b)
+{
+    if (a->kind == N_COMPARE && a->loc.first_line == left.first_line && a->loc.first_column == left.first_column) {
+        diag_error(&op, "comparisons do not chain: write a < b and b < c instead of a < b < c");
+        ast_free(a);
+        ast_free(b);
+        return NULL;
+    }
+    return ast_compare(at, cmp, a, b);
+}
 }
 
 %union {
@@ -62,9 +93,9 @@ void yyerror(YYLTYPE *loc, yyscan_t scanner, parse_state *ps, const char *msg);
 %token LEXERROR "invalid token"
 %token END 0 "end of file"
 
-%type <n> stmt expr primary insertion genus power vardecl param
+%type <n> stmt expr primary insertion genus power vardecl
 %type <n> rule range
-%type <list> args arg_list params stmt_list block insertions vardecls expr_list rules ranges
+%type <list> args arg_list stmt_list block insertions vardecls expr_list rules ranges
 
 %destructor { free($$); } <text>
 %destructor { ast_free($$); } <n>
@@ -74,7 +105,8 @@ void yyerror(YYLTYPE *loc, yyscan_t scanner, parse_state *ps, const char *msg);
 %left OR
 %left AND
 %precedence NOT
-%nonassoc EQ NE '<' LE '>' GE
+%left EQ NE '<' LE '>' GE
+%precedence INTEGRAL
 %left '+' '-'
 %precedence SUMOP
 %left '*' '/'
@@ -92,7 +124,8 @@ program
 
 stmt
     : LET NAME '=' expr                      { $$ = ast_unary(S_LET, @$, $4); $$->text = $2; }
-    | LET NAME '(' params ')' '=' expr       { $$ = ast_with_list(S_DEF, @$, $2, $4); $$->a = $7; }
+    | LET NAME '(' args ')' '=' expr         { if (!parser_check_params($4)) { free($2); ast_list_free($4); ast_free($7); YYERROR; }
+                                               $$ = ast_with_list(S_DEF, @$, $2, $4); $$->a = $7; }
     | FOR NAME IN expr DOTDOT expr block     { $$ = ast_with_list(S_FOR, @$, $2, $7); $$->a = $4; $$->b = $6; }
     | PRINT expr_list                        { $$ = ast_with_list(S_PRINT, @$, NULL, $2); }
     | VAR vardecls                           { $$ = ast_with_list(S_VAR, @$, NULL, $2); }
@@ -101,6 +134,10 @@ stmt
     | IF expr block ELSE block               { $$ = ast_with_list(S_IF, @$, NULL, $3); $$->a = $2; $$->b = ast_with_list(S_IF, @5, NULL, $5); }
     | TABLE '[' ranges ']' expr              { $$ = ast_with_list(S_TABLE, @$, NULL, $3); $$->a = $5; }
     | LOAD STRING                            { $$ = ast_text(S_LOAD, @$, $2); }
+    | LET NAME '(' arg_list ',' ')'          { $$ = NULL; diag_error(&@6, "syntax error: unexpected ')', expected a parameter name");
+                                               free($2); ast_list_free($4); YYERROR; }
+    | OUTPUT                                 { $$ = NULL; diag_error(&@1, "output needs a format: output exact, decimal, latex, csv or json "
+                                                               "(decimal and latex may add a number of digits)"); YYERROR; }
     | OUTPUT NAME                            { $$ = ast_text(S_OUTPUT, @$, $2); }
     | OUTPUT NAME expr                       { $$ = ast_text(S_OUTPUT, @$, $2); $$->a = $3; }
     | expr                                   { $$ = ast_unary(S_EXPR, @$, $1); }
@@ -115,16 +152,6 @@ stmt_list
     : %empty                        { $$ = ast_list_new(); }
     | stmt_list NEWLINE             { $$ = $1; }
     | stmt_list stmt NEWLINE        { $$ = ast_list_append($1, $2); }
-    ;
-
-params
-    : %empty                        { $$ = ast_list_new(); }
-    | param                         { $$ = ast_list_append(ast_list_new(), $1); }
-    | params ',' param              { $$ = ast_list_append($1, $3); }
-    ;
-
-param
-    : NAME                          { $$ = ast_text(N_NAME, @$, $1); }
     ;
 
 vardecls
@@ -152,16 +179,16 @@ expr
     | expr '^' expr                 { $$ = ast_binop(@$, '^', $1, $3); }
     | expr '!'                      { $$ = ast_unary(N_FACTORIAL, @$, $1); $$->op = 1; }
     | expr DFACT                    { $$ = ast_unary(N_FACTORIAL, @$, $1); $$->op = 2; }
-    | expr EQ expr                  { $$ = ast_compare(@$, CMP_EQ, $1, $3); }
-    | expr NE expr                  { $$ = ast_compare(@$, CMP_NE, $1, $3); }
-    | expr '<' expr                 { $$ = ast_compare(@$, CMP_LT, $1, $3); }
-    | expr LE expr                  { $$ = ast_compare(@$, CMP_LE, $1, $3); }
-    | expr '>' expr                 { $$ = ast_compare(@$, CMP_GT, $1, $3); }
-    | expr GE expr                  { $$ = ast_compare(@$, CMP_GE, $1, $3); }
+    | expr EQ expr                  { if (!($$ = parser_compare(@$, @1, @2, CMP_EQ, $1, $3))) YYERROR; }
+    | expr NE expr                  { if (!($$ = parser_compare(@$, @1, @2, CMP_NE, $1, $3))) YYERROR; }
+    | expr '<' expr                 { if (!($$ = parser_compare(@$, @1, @2, CMP_LT, $1, $3))) YYERROR; }
+    | expr LE expr                  { if (!($$ = parser_compare(@$, @1, @2, CMP_LE, $1, $3))) YYERROR; }
+    | expr '>' expr                 { if (!($$ = parser_compare(@$, @1, @2, CMP_GT, $1, $3))) YYERROR; }
+    | expr GE expr                  { if (!($$ = parser_compare(@$, @1, @2, CMP_GE, $1, $3))) YYERROR; }
     | expr AND expr                 { $$ = ast_binop(@$, '&', $1, $3); $$->kind = N_LOGIC; }
     | expr OR expr                  { $$ = ast_binop(@$, '|', $1, $3); $$->kind = N_LOGIC; }
     | NOT expr                      { $$ = ast_unary(N_LOGIC, @$, $2); $$->op = '~'; }
-    | INTKW '[' expr ',' expr ']' expr %prec LOW   { $$ = ast_ternary(N_INTEGRAL, @$, $3, $5, $7); }
+    | INTKW '[' expr ',' expr ']' expr %prec INTEGRAL { $$ = ast_ternary(N_INTEGRAL, @$, $3, $5, $7); }
     | IF expr THEN expr ELSE expr %prec LOW        { $$ = ast_ternary(N_IF, @$, $2, $4, $6); }
     | SUM '[' NAME '=' expr DOTDOT expr ']' expr %prec SUMOP
                                     { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = '+'; }
@@ -241,6 +268,7 @@ power
 
 genus
     : NUMBER                        { $$ = ast_text(N_NUMBER, @$, $1); }
+    | '-' NUMBER                    { $$ = ast_unary(N_NEG, @$, ast_text(N_NUMBER, @2, $2)); }
     | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
     | '(' expr ')'                  { $$ = $2; }
     ;
@@ -311,7 +339,8 @@ void yyerror(YYLTYPE *loc, yyscan_t scanner, parse_state *ps, const char *msg)
     (void)scanner;
     (void)ps;
     if (strcmp(msg, "memory exhausted") == 0)
-        diag_error(loc, "expression nested too deeply (more than %d levels)", YYMAXDEPTH / 2);
+        diag_error(loc, "expression nested too deeply: more than %d operators, brackets and operands wait to "
+                        "be combined here (split the expression into steps with let)", YYMAXDEPTH);
     else
         diag_error(loc, "%s", msg);
 }

@@ -44,26 +44,63 @@ static value *builtin_exp(interp *I, const node *call, value **args)
         series_report(call, rc, "exp");
         return NULL;
     }
-    if (args[0]->kind == V_NUM && fmpq_mpoly_is_zero(args[0]->num, I->ring.ctx))
+    if (args[0]->kind != V_NUM) {
+        char *msg = xasprintf("exp() takes a class expression or a power series, got a %s", value_kind_name(args[0]));
+        builtin_fail(call->list->items[0], msg);
+        free(msg);
+        return NULL;
+    }
+    if (fmpq_mpoly_is_zero(args[0]->num, I->ring.ctx))
         return value_new_si(&I->ring, 1);
     return builtin_fail(call, "exp() of a nonzero number has no exact value (exp is meant for classes)");
+}
+
+/* What argument v is, for "expected an integer, got ...": the number
+   itself when it is short, else its kind. The caller frees it. */
+static char *builtin_describe(interp *I, const value *v)
+{
+    if (v->kind == V_NUM) {
+        char *t = value_get_str(v, &I->ring);
+        if (strlen(t) <= 30)
+            return t;
+        free(t);
+        return xstrdup(scalar_is_pi_only(v->num, &I->ring) ? "a long number" : "a polynomial");
+    }
+    return xasprintf("a %s", value_kind_name(v));
+}
+
+/* Why the integer q is outside [lo, hi]; an integer too large to show is
+   named by its size. The caller frees the message. */
+static char *builtin_range_problem(const fmpz_t q, slong lo, slong hi)
+{
+    if (fmpz_fits_si(q))
+        return xasprintf("expected an integer between %ld and %ld here", (long)lo, (long)hi);
+    return xasprintf("this integer (about %s10^%ld) is too %s here: expected an integer between %ld and %ld",
+                     fmpz_sgn(q) < 0 ? "-" : "", (long)fmpz_sizeinbase(q, 10) - 1,
+                     fmpz_sgn(q) > 0 ? "large" : "small", (long)lo, (long)hi);
 }
 
 /* Reads argument i as a slong within [lo, hi]. */
 int builtin_get_slong(interp *I, const node *call, value **args, int i, slong lo, slong hi, slong *out)
 {
     const node *at = call->list->items[i];
-    if (args[i]->kind != V_NUM || !scalar_get_slong(out, args[i]->num, &I->ring)) {
-        builtin_fail(at, "expected an integer here");
-        return 0;
+    fmpq_t q;
+    fmpq_init(q);
+    char *msg = NULL;
+    if (args[i]->kind != V_NUM || !scalar_get_fmpq(q, args[i]->num, &I->ring) || !fmpz_is_one(fmpq_denref(q))) {
+        char *what = builtin_describe(I, args[i]);
+        msg = xasprintf("expected an integer here, got %s", what);
+        free(what);
+    } else if (fmpz_cmp_si(fmpq_numref(q), lo) < 0 || fmpz_cmp_si(fmpq_numref(q), hi) > 0) {
+        msg = builtin_range_problem(fmpq_numref(q), lo, hi);
+    } else {
+        *out = fmpz_get_si(fmpq_numref(q));
     }
-    if (*out < lo || *out > hi) {
-        char *msg = xasprintf("expected an integer between %ld and %ld here", (long)lo, (long)hi);
+    fmpq_clear(q);
+    if (msg)
         builtin_fail(at, msg);
-        free(msg);
-        return 0;
-    }
-    return 1;
+    free(msg);
+    return msg == NULL;
 }
 
 static value *builtin_binomial(interp *I, const node *call, value **args)

@@ -75,16 +75,36 @@ static char *eval_slong_problem(const fmpq_t q, const char *what, slong lo)
         flint_free(t);
         return msg;
     }
-    if (fmpz_cmp_si(fmpq_numref(q), lo) < 0) {
+    /* a bound of -2^40 or less is no bound: the size check below names the limit */
+    if (lo > -(WORD(1) << 40) && fmpz_cmp_si(fmpq_numref(q), lo) < 0) {
         char *t = fmpz_get_str(NULL, 10, fmpq_numref(q));
         char *msg = xasprintf("%s must be an integer >= %ld, got %s", what, (long)lo, t);
         flint_free(t);
         return msg;
     }
-    if (!fmpz_fits_si(fmpq_numref(q)) || fmpz_cmp_si(fmpq_numref(q), WORD(1) << 40) > 0
-        || fmpz_cmp_si(fmpq_numref(q), -(WORD(1) << 40)) < 0)
-        return xasprintf("%s is too large (%ld bits)", what, (long)fmpz_bits(fmpq_numref(q)));
+    fmpz_t cap;
+    fmpz_init_set_ui(cap, UWORD(1) << 40);
+    int over = fmpz_cmpabs(fmpq_numref(q), cap) > 0;
+    fmpz_clear(cap);
+    if (over) {
+        int neg = fmpz_sgn(fmpq_numref(q)) < 0;
+        return xasprintf("%s is too %s (about %s10^%ld; nothing %s %s2^40 = %s1099511627776 is accepted here)",
+                         what, neg ? "small" : "large", neg ? "-" : "", (long)fmpz_sizeinbase(fmpq_numref(q), 10) - 1,
+                         neg ? "below" : "above", neg ? "-" : "", neg ? "-" : "");
+    }
     return NULL;
+}
+
+/* Why the number v (with pi or formal variables in it) is not an integer,
+   showing v when it is short. The caller frees the message. */
+static char *eval_not_rational(interp *I, const value *v, const char *what)
+{
+    char *t = value_get_str(v, &I->ring);
+    char *msg = strlen(t) <= 40 ? xasprintf("%s must be an integer, got %s", what, t)
+                                : xasprintf("%s must be an integer, got an expression in pi or formal variables",
+                                            what);
+    free(t);
+    return msg;
 }
 
 int eval_slong(interp *I, scope *s, const node *n, const char *what, slong lo, slong *out)
@@ -95,9 +115,10 @@ int eval_slong(interp *I, scope *s, const node *n, const char *what, slong lo, s
     fmpq_t q;
     fmpq_init(q);
     char *msg = NULL;
-    if (v->kind != V_NUM || !scalar_get_fmpq(q, v->num, &I->ring))
-        msg = xasprintf("%s must be an integer, got a %s", what,
-                        v->kind == V_NUM ? "polynomial" : value_kind_name(v));
+    if (v->kind == V_NUM && !scalar_get_fmpq(q, v->num, &I->ring))
+        msg = eval_not_rational(I, v, what);
+    else if (v->kind != V_NUM)
+        msg = xasprintf("%s must be an integer, got a %s", what, value_kind_name(v));
     else
         msg = eval_slong_problem(q, what, lo);
     int ok = msg == NULL;
@@ -168,8 +189,9 @@ static value *eval_neg(interp *I, scope *s, const node *n)
     if (!a)
         return NULL;
     if (a->kind == V_STR || a->kind == V_LIST) {
+        const char *msg = a->kind == V_STR ? "cannot negate a string" : "cannot negate a list";
         value_release(a);
-        return eval_fail(n, a->kind == V_STR ? "cannot negate a string" : "cannot negate a list");
+        return eval_fail(n, msg);
     }
     value *r;
     if (a->kind == V_NUM) {
@@ -188,6 +210,19 @@ static value *eval_neg(interp *I, scope *s, const node *n)
     return r;
 }
 
+/* log2 |x| (0 for x = 0), so that the size of x^e is e log2 |x| bits. */
+static double eval_log2_abs(const fmpz_t x)
+{
+    if (fmpz_is_zero(x))
+        return 0.0;
+    fmpz_t a;
+    fmpz_init(a);
+    fmpz_abs(a, x);
+    double r = fmpz_dlog(a) / M_LN2;
+    fmpz_clear(a);
+    return r;
+}
+
 /* Checks that base^e stays within memory before computing it. */
 static int eval_pow_size_ok(interp *I, const node *n, const value *base, slong e)
 {
@@ -195,7 +230,7 @@ static int eval_pow_size_ok(interp *I, const node *n, const value *base, slong e
     fmpq_t q;
     fmpq_init(q);
     if (scalar_get_fmpq(q, base->num, &I->ring))
-        bits = (double)(fmpz_bits(fmpq_numref(q)) + fmpz_bits(fmpq_denref(q)));
+        bits = eval_log2_abs(fmpq_numref(q)) + eval_log2_abs(fmpq_denref(q));
     else
         bits = 64.0 * fmpq_mpoly_length(base->num, I->ring.ctx);
     fmpq_clear(q);
@@ -519,8 +554,9 @@ static value *eval_integral(interp *I, scope *s, const node *n)
     return r;
 }
 
-/* Lists longer than this would not fit in memory anyway. */
-#define EVAL_MAX_LIST 100000000
+/* Memory of one item of a list, measured for small integers (the value, its
+   polynomial and the allocator's overhead): a lower bound for any item. */
+#define EVAL_LIST_ITEM_BYTES 320.0
 
 static value *eval_list(interp *I, scope *s, const node *n)
 {
@@ -533,14 +569,10 @@ static value *eval_list(interp *I, scope *s, const node *n)
     return v;
 }
 
-/* seq[i = a..b] body: the list of the values of body. */
-static value *eval_seq(interp *I, scope *s, const node *n, slong lo, slong hi)
+/* Sets the items of the list v to the values of body for i = lo..hi;
+   returns v, or NULL (v released) after an error. */
+static value *eval_seq_fill(interp *I, scope *s, const node *n, slong lo, slong hi, value *v)
 {
-    if (hi - lo + 1 > EVAL_MAX_LIST) {
-        diag_error(&n->loc, "a list of %ld items is too long (limit %d)", (long)(hi - lo + 1), EVAL_MAX_LIST);
-        return NULL;
-    }
-    value *v = value_new_list(hi >= lo ? hi - lo + 1 : 0, &I->ring);
     for (slong i = lo; i <= hi; i++) {
         if (eval_cancelled(n)) {
             value_release(v);
@@ -555,6 +587,34 @@ static value *eval_seq(interp *I, scope *s, const node *n, slong lo, slong hi)
             return NULL;
         }
     }
+    return v;
+}
+
+/* Refuses a list of len items before it is built; the lists that a seq
+   being built around it will hold count too (seq[i = 1..N] seq[j = 1..M] E
+   holds N M values). */
+static int eval_seq_size_ok(interp *I, const node *n, slong len)
+{
+    double total = I->list_outer * (double)len;
+    if (total <= I->lim.max_table)
+        return 1;
+    diag_error(&n->loc, "%s would hold %.3g values (at least %.2g GB of memory), above the limit of %.3g "
+               "(raise it with --max-table N)", I->list_outer > 1 ? "this list and the lists around it" : "this list",
+               total, total * EVAL_LIST_ITEM_BYTES / 1e9, I->lim.max_table);
+    return 0;
+}
+
+/* seq[i = a..b] body: the list of the values of body. */
+static value *eval_seq(interp *I, scope *s, const node *n, slong lo, slong hi)
+{
+    slong len = hi >= lo ? hi - lo + 1 : 0;
+    if (!eval_seq_size_ok(I, n, len))
+        return NULL;
+    double outer = I->list_outer;
+    value *v = value_new_list(len, &I->ring);
+    I->list_outer = outer * (double)(len > 0 ? len : 1);
+    v = eval_seq_fill(I, s, n, lo, hi, v);
+    I->list_outer = outer;
     return v;
 }
 

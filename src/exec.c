@@ -6,6 +6,7 @@
 #include "correlators/wk_kdv.h"
 #include "diag.h"
 #include "interp.h"
+#include "memory.h"
 #include "parse.h"
 #include "util.h"
 
@@ -24,6 +25,7 @@ void interp_init(interp *I)
     I->lim.max_dim = 2000;
     I->lim.max_depth = 2000;
     I->lim.max_seconds = 600;
+    I->list_outer = 1;
     I->out = stdout;
     I->style.fmt = OUT_EXACT;
     I->style.digits = 20;
@@ -198,7 +200,7 @@ static int exec_if(interp *I, scope *s, const node *n)
     return ok;
 }
 
-int exec_stmt(interp *I, scope *s, const node *n)
+static int exec_stmt_kind(interp *I, scope *s, const node *n)
 {
     value *v;
     switch (n->kind) {
@@ -241,6 +243,14 @@ int exec_stmt(interp *I, scope *s, const node *n)
     }
 }
 
+int exec_stmt(interp *I, scope *s, const node *n)
+{
+    const srcloc *outer = memory_set_statement(&n->loc);
+    int ok = exec_stmt_kind(I, s, n);
+    memory_set_statement(outer);
+    return ok;
+}
+
 /* Keeps the program and its source alive for the interpreter's lifetime,
    since user functions point into them. */
 static void interp_keep(interp *I, node_list *program, source *src)
@@ -275,10 +285,15 @@ static int exec_program(interp *I, const node_list *program)
     jmp_buf jb;
     jmp_buf *outer = exec_recover_point;
     volatile int i = 0, ok = 1;
+    const srcloc *volatile statement = memory_set_statement(NULL);
+    memory_set_statement(statement);
     exec_recover_point = &jb;
     if (setjmp(jb)) {
         diag_error(&program->items[i]->loc, "internal arithmetic error inside FLINT; the statement was stopped");
         exec_recover_point = outer;
+        memory_set_statement(statement);
+        I->list_outer = 1;
+        I->depth = 0;
         return 0;
     }
     for (; ok && i < program->len; i++)

@@ -57,7 +57,8 @@ static int table_ranges(interp *I, scope *s, const node *n, table_shape *T)
         cells *= (double)T->size[r];
     }
     if (cells > TABLE_MAX_CELLS) {
-        diag_error(&n->loc, "this table would have %.3g cells (limit %d)", cells, TABLE_MAX_CELLS);
+        diag_error(&n->loc, "this table would have %.3g cells, more than the %d a table may have "
+                            "(split it into smaller tables)", cells, TABLE_MAX_CELLS);
         return 0;
     }
     T->ncols = T->size[T->nranges - 1];

@@ -18,7 +18,7 @@
    has a command-line option to raise it. */
 typedef struct interp_limits {
     double max_terms;      /* correlator terms of one integral (--max-terms) */
-    double max_table;      /* memo entries of the correlator table (--max-table) */
+    double max_table;      /* memo entries of the correlator table, values of a list (--max-table) */
     slong max_class_terms; /* monomials of an expanded class expression */
     slong max_dim;         /* largest dimension 3g-3+n accepted */
     int max_depth;         /* nesting of user-function calls (--max-depth) */
@@ -33,6 +33,7 @@ typedef struct interp {
     keymap integrals;        /* psi-kappa integrals computed so far */
     interp_limits lim;
     int depth;               /* current user-function call depth */
+    double list_outer;       /* values that the seq lists being built hold per item of a new one (1 outside seq) */
     int explain_all;         /* print the reduction of every integral */
     out_style style;
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */

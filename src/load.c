@@ -88,6 +88,10 @@ static void load_push(char ***list, int *len, const char *path)
 
 int exec_load(interp *I, const node *n)
 {
+    if (n->text[0] == '\0') {
+        diag_error(&n->loc, "load needs a file name, got an empty string");
+        return 0;
+    }
     char *found = load_resolve(I, n);
     if (!found) {
         diag_error(&n->loc, "cannot find '%s' (looked beside this script, in --lib folders, PSIKAPPA_PATH "
@@ -101,9 +105,11 @@ int exec_load(interp *I, const node *n)
         load_report_cycle(I, n, cycle);
         ok = 0;
     } else if (load_index(I->loaded, I->nloaded, canon) < 0) {
-        source *src = source_read_file(found);
+        char *why;
+        source *src = source_read_script(found, 1, &why);
         if (!src) {
-            diag_error(&n->loc, "cannot read '%s': %s", found, strerror(errno));
+            diag_error(&n->loc, "cannot load '%s': %s", found, why);
+            free(why);
             ok = 0;
         } else {
             int depth = I->nloading;

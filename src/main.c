@@ -41,9 +41,11 @@ static void main_usage(FILE *out)
           "  --digits N         correct significant digits of decimal output (default 20)\n"
           "  --lib DIR          add DIR to the folders searched by load \"file.pk\"\n"
           "  --max-terms N      refuse integrals reducing to more than N correlator terms (default 2e7)\n"
-          "  --max-table N      refuse computations needing more than N memo entries (default 3e7)\n"
+          "  --max-table N      refuse computations needing more than N memo entries, and lists of\n"
+          "                     more than N values (default 3e7)\n"
           "  --max-depth N      limit nesting of user-function calls (default 2000)\n"
-          "  --max-memory GIB   cap the memory of the process at GIB gibibytes\n"
+          "  --max-memory GIB   cap the memory of numbers at GIB gibibytes (the process may use\n"
+          "                     a little more)\n"
           "  --max-seconds S    refuse requests predicted to run longer than S seconds (default 600)\n"
           "  --time-limit S     stop after S seconds (exit status 124)\n"
           "  -h, --help         show this help\n"
@@ -134,9 +136,11 @@ static int main_is_valued(const char *a)
 
 static int main_run_file(interp *I, const char *path)
 {
-    source *src = source_read_file(path);
+    char *why;
+    source *src = source_read_script(path, 0, &why);
     if (!src) {
-        fprintf(stderr, "psikappa: cannot read %s: %s\n", path, strerror(errno));
+        fprintf(stderr, "psikappa: cannot run %s: %s\n", path, why);
+        free(why);
         return EXIT_SCRIPT_ERROR;
     }
     return interp_run_source(I, src);

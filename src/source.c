@@ -3,6 +3,7 @@
 #include <errno.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #include "util.h"
 
@@ -45,30 +46,97 @@ void source_free(source *s)
     free(s);
 }
 
-source *source_read_file(const char *path)
+/* Why a script cannot be read from a file of this status (NULL when it can),
+   as a clause about "it"; regular_only also refuses pipes and sockets. The
+   caller frees it. */
+static char *source_check_kind(const struct stat *st, int regular_only)
 {
-    FILE *f = strcmp(path, "-") == 0 ? stdin : fopen(path, "rb");
-    if (!f)
+    if (S_ISDIR(st->st_mode))
+        return xstrdup("it is a folder, not a script file");
+    if (S_ISCHR(st->st_mode) || S_ISBLK(st->st_mode))
+        return xstrdup("it is a device, not a script file");
+    if (!S_ISREG(st->st_mode) && regular_only)
+        return xstrdup("it is not a regular file (a pipe or a socket)");
+    if (S_ISREG(st->st_mode) && (unsigned long long)st->st_size > SOURCE_MAX_BYTES)
+        return xasprintf("it has %llu bytes, more than the limit of %u bytes (%u MiB) for a script",
+                         (unsigned long long)st->st_size, SOURCE_MAX_BYTES, SOURCE_MAX_BYTES >> 20);
+    return NULL;
+}
+
+/* Opens path for reading after checking what it is (before opening, since
+   opening a pipe or some devices blocks); NULL with *why set otherwise.
+   *size is the length of a regular file, else 0. */
+static FILE *source_open(const char *path, int regular_only, size_t *size, char **why)
+{
+    struct stat st;
+    *size = 0;
+    if (stat(path, &st) != 0) {
+        *why = xstrdup(strerror(errno));
         return NULL;
-    size_t cap = 4096, len = 0;
+    }
+    if ((*why = source_check_kind(&st, regular_only)))
+        return NULL;
+    FILE *f = fopen(path, "rb");
+    if (!f)
+        *why = xstrdup(strerror(errno));
+    /* checked again on the open file: the name may now stand for another */
+    else if (fstat(fileno(f), &st) != 0 || (*why = source_check_kind(&st, regular_only))) {
+        if (!*why)
+            *why = xstrdup(strerror(errno));
+        fclose(f);
+        return NULL;
+    } else if (S_ISREG(st.st_mode))
+        *size = (size_t)st.st_size;
+    return f;
+}
+
+/* Reads f to its end, at most SOURCE_MAX_BYTES (pipes and files that grow
+   have no size beforehand). Returns the bytes (caller frees) and their count,
+   or NULL with *why set. */
+static char *source_slurp(FILE *f, size_t hint, size_t *len, char **why)
+{
+    size_t cap = hint + 1 > 4096 ? hint + 1 : 4096, got;
     char *buf = xmalloc(cap);
-    size_t got;
-    while ((got = fread(buf + len, 1, cap - len, f)) > 0) {
-        len += got;
-        if (len == cap) {
-            cap *= 2;
+    *len = 0;
+    while ((got = fread(buf + *len, 1, cap - *len, f)) > 0) {
+        *len += got;
+        if (*len > SOURCE_MAX_BYTES) {
+            *why = xasprintf("it has more than the limit of %u bytes (%u MiB) for a script", SOURCE_MAX_BYTES,
+                             SOURCE_MAX_BYTES >> 20);
+            break;
+        }
+        if (*len == cap) {
+            cap = cap * 2 > SOURCE_MAX_BYTES + 1 ? SOURCE_MAX_BYTES + 1 : cap * 2;
             buf = xrealloc(buf, cap);
         }
     }
-    int failed = ferror(f);
-    if (f != stdin)
-        fclose(f);
-    if (failed) {
+    if (!*why && ferror(f))
+        *why = xstrdup(strerror(errno ? errno : EIO));
+    if (*why) {
         free(buf);
-        errno = EIO;
         return NULL;
     }
-    source *s = source_new(strcmp(path, "-") == 0 ? "<stdin>" : path, buf, len);
+    return buf;
+}
+
+source *source_read_script(const char *path, int regular_only, char **why)
+{
+    int is_stdin = strcmp(path, "-") == 0;
+    size_t size = 0, len;
+    *why = NULL;
+    /* standard input may be a terminal or a pipe: only its length is capped */
+    FILE *f = is_stdin ? stdin : source_open(path, regular_only, &size, why);
+    if (!f)
+        return NULL;
+    char *buf = source_slurp(f, size, &len, why);
+    if (!is_stdin)
+        fclose(f);
+    if (!buf)
+        return NULL;
+    /* A UTF-8 byte-order mark, which some editors write first, is no part
+       of the script: skipping it keeps the columns of line 1 right. */
+    size_t skip = len >= 3 && memcmp(buf, "\xEF\xBB\xBF", 3) == 0 ? 3 : 0;
+    source *s = source_new(is_stdin ? "<stdin>" : path, buf + skip, len - skip);
     free(buf);
     return s;
 }

@@ -27,9 +27,14 @@ typedef struct srcloc {
 source *source_new(const char *name, const char *text, size_t len);
 void source_free(source *s);
 
-/* Reads a whole file (or stdin for "-") into a new source; NULL on failure
-   with errno set. The caller owns the result. */
-source *source_read_file(const char *path);
+/* Scripts longer than this are refused before they are read. */
+#define SOURCE_MAX_BYTES (16u << 20)
+
+/* Reads a whole script (or stdin for "-") into a new source, refusing
+   folders, devices, files over SOURCE_MAX_BYTES and, with regular_only,
+   pipes and sockets. The caller owns the result; on failure NULL, with *why
+   the reason (a clause such as "it is a folder, ...") that the caller frees. */
+source *source_read_script(const char *path, int regular_only, char **why);
 
 /* Points *start at line `line` (1-based) and returns its length without the
    newline; returns 0 with *start = "" when the line does not exist. */

@@ -55,6 +55,23 @@ static int spec_rule_check(spec_ctx *C, int i)
     return !r->c || eval_slong(C->I, C->s, r->c, "rule end", 0, &C->hi[i]);
 }
 
+/* Refuses a second rule for the same t_N (t_0 = x, ..., t_0 = 2x): which
+   one was meant cannot be guessed. Ranges may overlap: the last one wins. */
+static int spec_rule_unique(const spec_ctx *C, int i)
+{
+    const node *r = C->n->list->items[i];
+    for (int j = 0; !r->list && j < i; j++) {
+        const node *q = C->n->list->items[j];
+        if (!q->list && C->lo[j] == C->lo[i]) {
+            diag_error(&r->loc, "t_%ld is defined twice (first at line %d, column %d)", (long)C->lo[i], q->loc.first_line,
+                       q->loc.first_column);
+            diag_note(&q->loc, "t_%ld is first defined here", (long)C->lo[i]);
+            return 0;
+        }
+    }
+    return 1;
+}
+
 /* The rule defining t_k: a single override wins, else the last covering rule. */
 static int spec_rule_for(const spec_ctx *C, slong k)
 {
@@ -160,10 +177,16 @@ static int spec_ctx_setup(spec_ctx *C)
     C->var = var;
     if (!eval_slong(I, C->s, n->a, "genus", 0, &C->g) || !eval_slong(I, C->s, n->b, "order", 0, &C->order))
         return 0;
+    if (C->g > SPEC_MAX_GENUS || C->order > SPEC_MAX_ORDER) {
+        int genus = C->g > SPEC_MAX_GENUS;
+        diag_error(&(genus ? n->a : n->b)->loc, "%s %ld is too large for a specialisation (at most %d)",
+                   genus ? "genus" : "order", (long)(genus ? C->g : C->order), genus ? SPEC_MAX_GENUS : SPEC_MAX_ORDER);
+        return 0;
+    }
     C->lo = xcalloc(n->list->len, sizeof(slong));
     C->hi = xcalloc(n->list->len, sizeof(slong));
     for (int i = 0; i < n->list->len; i++)
-        if (!spec_rule_check(C, i))
+        if (!spec_rule_check(C, i) || !spec_rule_unique(C, i))
             return 0;
     return 1;
 }

@@ -342,13 +342,14 @@ void spec_plan_print(FILE *out, const spec_plan *P)
         fprintf(out, "(no plan)\n");
         return;
     }
-    fprintf(out, "plan for F_%ld to x^%ld: %.0f correlators, largest with %ld points\n",
-            (long) P->g, (long) P->order, P->terms, (long) P->max_points);
+    fprintf(out, "plan for F_%ld to x^%ld: %.0f correlator%s, largest with %ld point%s\n",
+            (long) P->g, (long) P->order, P->terms, P->terms == 1 ? "" : "s",
+            (long) P->max_points, P->max_points == 1 ? "" : "s");
     spec_plan_print_times(out, P);
     spec_plan_print_counts(out, "correlators by m_0", "m_0=", P->by_m0, P->m0max + 1);
     spec_plan_print_counts(out, "correlators by lowest x-order", "x^", P->by_xord, P->order + 1);
-    fprintf(out, "  memo estimate: at most %.3g correlator entries\n",
-            wk_estimate_entries(P->g, P->max_points));
+    double entries = wk_estimate_entries(P->g, P->max_points);
+    fprintf(out, "  memo estimate: at most %.3g correlator entr%s\n", entries, entries == 1 ? "y" : "ies");
 }
 
 /* Releases every array of the plan and the plan.

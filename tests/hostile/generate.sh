@@ -55,3 +55,14 @@ printf 'print 6 \300\257 2\n' > file_overlong_utf8.pk
 # Windows line endings; the error is on the third line.
 printf 'print 1\r\nlet x = 2\r\nprint x + y\r\n' > file_crlf.pk
 
+
+# A UTF-8 byte-order mark before the first statement; the error on line 1
+# must have the column it has without the mark.
+printf '\357\273\277print 1/0\n' > file_bom.pk
+
+# A NUL byte inside a string (it would cut the string short).
+printf 'print "ab\000cd"\n' > file_nul_in_string.pk
+
+# Windows line endings with an error at the end of a line: the caret must be
+# where the line ends, not one column later.
+printf 'print 1\r\nprint 2 +\r\n' > file_crlf_end_of_line.pk
