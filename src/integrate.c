@@ -49,9 +49,9 @@ static int integrate_table_ok_est(interp *I, const node *where, slong g, slong n
     if (est <= I->lim.max_table)
         return 1;
     diag_error(&where->loc,
-               "correlators of genus %ld with %ld points need about %.3g table entries, above the limit "
+               "correlators of genus %ld with %ld point%s need about %.3g table entries, above the limit "
                "of %.3g (raise it with --max-table N)",
-               (long)g, (long)n, est, I->lim.max_table);
+               (long)g, (long)n, n == 1 ? "" : "s", est, I->lim.max_table);
     return 0;
 }
 
