@@ -11,6 +11,7 @@
 #include <flint/flint.h>
 
 #include "diag.h"
+#include "util.h"
 
 #if defined(__has_include)
 #if __has_include(<valgrind/valgrind.h>)
@@ -56,8 +57,10 @@ static void memory_exhausted(size_t n)
     if (memory_cap > 0 && (double)memory_live + (double)n > (double)memory_cap)
         diag_error(memory_where, "out of memory: the computation needs more than the %.3g GiB allowed by --max-memory",
                    (double)memory_cap / 1073741824.0);
-    else
+    else if (n > 0)
         diag_error(memory_where, "out of memory (an allocation of %zu bytes failed)", n);
+    else
+        diag_error(memory_where, "out of memory");
     fflush(stdout);
     _Exit(1);
 }
@@ -125,6 +128,7 @@ void memory_install_hooks(void)
 {
     mp_set_memory_functions(memory_alloc, memory_gmp_realloc, memory_gmp_free);
     __flint_set_memory_functions(memory_alloc, memory_calloc, memory_realloc, memory_free);
+    util_set_out_of_memory_handler(memory_exhausted);   /* the front end's own allocations too */
 }
 
 int memory_set_limit(double bytes)

@@ -29,18 +29,34 @@ int util_stack_exhausted(void)
     return used > util_stack_budget;
 }
 
-void util_out_of_memory(void)
+static void (*util_oom_handler)(size_t n);
+
+void util_set_out_of_memory_handler(void (*handler)(size_t n))
 {
+    util_oom_handler = handler;
+}
+
+/* Reports a failed allocation of n bytes and exits. */
+static void util_fail_allocation(size_t n) __attribute__((noreturn));
+static void util_fail_allocation(size_t n)
+{
+    if (util_oom_handler)
+        util_oom_handler(n);
     fputs("psikappa: error: out of memory\n", stderr);
     fflush(stdout);
     _Exit(1);
+}
+
+void util_out_of_memory(void)
+{
+    util_fail_allocation(0);
 }
 
 void *xmalloc(size_t n)
 {
     void *p = malloc(n ? n : 1);
     if (!p)
-        util_out_of_memory();
+        util_fail_allocation(n);
     return p;
 }
 
@@ -48,7 +64,7 @@ void *xcalloc(size_t n, size_t size)
 {
     void *p = calloc(n ? n : 1, size ? size : 1);
     if (!p)
-        util_out_of_memory();
+        util_fail_allocation(n * size);
     return p;
 }
 
@@ -56,7 +72,7 @@ void *xrealloc(void *p, size_t n)
 {
     void *q = realloc(p, n ? n : 1);
     if (!q)
-        util_out_of_memory();
+        util_fail_allocation(n);
     return q;
 }
 

@@ -20,7 +20,13 @@ void util_stack_init(void *base);
    recursive code stops with an error instead of crashing. */
 int util_stack_exhausted(void);
 
-/* Called when memory runs out: prints a message and exits with status 1. */
+/* Called when memory runs out: hands over to the handler set below, or prints
+   a message without a location; exits with status 1 either way. */
 void util_out_of_memory(void) __attribute__((noreturn));
+
+/* Sets the function that reports a failed allocation of n bytes (n = 0: size
+   unknown) and ends the program; it must not return. The language installs
+   one that names the statement being run; NULL restores the plain message. */
+void util_set_out_of_memory_handler(void (*handler)(size_t n));
 
 #endif
