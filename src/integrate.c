@@ -414,8 +414,24 @@ static char *integrate_question(interp *I, slong g, slong n, const value *integr
     return q;
 }
 
+/* Whether the integrand's degree stays below the dimension of a stable Mbar_{g,n}, so that
+   the integral is 0 however large the space (psi indices beyond n are left to the expansion,
+   which reports them). */
+static int integrate_degree_too_low(slong g, slong n, const value *integrand)
+{
+    if (2 * g - 2 + n <= 0 || g > WORD_MAX / 8 || n > WORD_MAX / 8)
+        return 0;
+    if (integrand->kind == V_NUM)
+        return 3 * g - 3 + n > 0;
+    if (integrand->kind != V_CLASS || cx_max_psi(integrand->cls) > n)
+        return 0;
+    return cx_max_degree(integrand->cls) < 3 * g - 3 + n;
+}
+
 value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
+    if (integrate_degree_too_low(g, n, integrand))
+        return value_new_num(&I->ring);
     if (!integrate_space_ok(I, where, g, n))
         return NULL;
     if (I->verify || integrand->kind != V_CLASS)

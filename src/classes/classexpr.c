@@ -102,6 +102,48 @@ slong cx_max_psi(const cx *e)
     return m;
 }
 
+/* a + b and k * a, saturating at WORD_MAX (degrees are >= 0). */
+static slong cx_degree_add(slong a, slong b)
+{
+    return a > WORD_MAX - b ? WORD_MAX : a + b;
+}
+
+static slong cx_degree_mul(slong k, slong a)
+{
+    return a != 0 && k > WORD_MAX / a ? WORD_MAX : k * a;
+}
+
+/* Deeper expressions (long sums built in loops) get no bound rather than a deep C recursion. */
+#define CX_DEGREE_MAX_DEPTH 4000
+
+static slong cx_max_degree_at(const cx *e, int depth)
+{
+    if (depth > CX_DEGREE_MAX_DEPTH)
+        return WORD_MAX;
+    slong a = e->a ? cx_max_degree_at(e->a, depth + 1) : 0, b = e->b ? cx_max_degree_at(e->b, depth + 1) : 0;
+    switch (e->kind) {
+    case CX_PSI:
+        return 1;
+    case CX_KAPPA:
+        return e->index;
+    case CX_ADD:
+        return a > b ? a : b;
+    case CX_MUL:
+        return cx_degree_add(a, b);
+    case CX_POW:
+        return cx_degree_mul(e->index, a);
+    case CX_EXP:
+        return WORD_MAX;   /* also for degree 0 inside: exp() reports a constant part itself */
+    default:
+        return 0;
+    }
+}
+
+slong cx_max_degree(const cx *e)
+{
+    return cx_max_degree_at(e, 0);
+}
+
 /* Matches kappa_1 times a scalar (either order, or kappa_1 alone); sets c. */
 static int cx_match_scaled_kappa1(const cx *e, fmpq_mpoly_t c)
 {

@@ -57,4 +57,9 @@ int cx_match_psi_kappa1(const cx *e, slong n, cx_monomial *m);
 /* Largest psi index used, so that callers can check it against n early. */
 slong cx_max_psi(const cx *e);
 
+/* An upper bound on the degrees of the classes in e (psi_i has degree 1, kappa_j degree j),
+   WORD_MAX when unbounded (any exp): an integrand whose bound is
+   below the dimension 3g-3+n integrates to 0 without being expanded. */
+slong cx_max_degree(const cx *e);
+
 #endif
