@@ -661,8 +661,9 @@ static int volume_visit(volume_walk *W, slong i, slong left)
     return WK_OK;
 }
 
-/* Declares L_1..L_n (reusing existing ones) and records their ring indices
-   in vars[0..n); the order is the same for every route that builds V_{g,n}(L).
+/* Declares L_1..L_n (reusing existing ones) as formal variables, binds the names
+   that are still free in the global scope, and records their ring indices in
+   vars[0..n); the order is the same for every route that builds V_{g,n}(L).
    Returns 0 after reporting an error. */
 int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars)
 {
@@ -673,6 +674,11 @@ int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars)
         if (vars[i] < 0) {
             diag_error(&where->loc, "not enough formal variables left for L_1..L_%ld", (long)n);
             return 0;
+        }
+        if (!scope_lookup(I->globals, name)) {   /* so that the script can use L_i afterwards */
+            value *v = value_new_num(&I->ring);
+            scalar_set_gen(v->num, &I->ring, vars[i]);
+            scope_bind_value(I->globals, name, v);
         }
     }
     return 1;
