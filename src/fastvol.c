@@ -51,6 +51,8 @@ static void fastvol_report(const node *where, int rc)
 
 static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
                               int *handled);
+static value *fastvol_try_exp_linear(interp *I, const node *where, slong g, slong n, const value *integrand,
+                                     int *handled);
 
 static int fastvol_grow(interp *I, const node *where, slong g, slong n)
 {
@@ -146,6 +148,8 @@ value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *
     fmpq_mpoly_clear(f, I->ring.ctx);
     if (!is_exp && !is_pow)
         r = fastvol_try_psi(I, where, g, n, integrand, handled);
+    if (!is_exp && !is_pow && !*handled)
+        r = fastvol_try_exp_linear(I, where, g, n, integrand, handled);
     return r;
 }
 
@@ -184,37 +188,76 @@ static int fastvol_next_perm(slong *p, slong n)
     return 1;
 }
 
-/* Adds c_a L^{2a} pi^{2(D-|a|)} for every arrangement of the sorted a,
-   c_a = W 2^{D-|a|} / prod (2^{a_i} a_i!), as the reduction route does. */
-static void fastvol_poly_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const slong *a, slong n, slong D,
-                             const int *vars)
+/* The powers the sums below need: cpow[j] = c^j and bpow[i (D+1) + k] = b_i^k/k!
+   for j, k <= D (arrays of D+1 and n (D+1) entries, initialised here; the caller
+   clears them). */
+static void fastvol_exp_powers(interp *I, fmpq_mpoly_struct *cpow, fmpq_mpoly_struct *bpow, const fmpq_mpoly_t c,
+                               const fmpq_mpoly_struct *b, slong n, slong D)
+{
+    for (slong j = 0; j <= D; j++) {
+        fmpq_mpoly_init(cpow + j, I->ring.ctx);
+        if (j == 0)
+            fmpq_mpoly_one(cpow, I->ring.ctx);
+        else
+            fmpq_mpoly_mul(cpow + j, cpow + j - 1, c, I->ring.ctx);
+    }
+    for (slong i = 0; i < n; i++)
+        for (slong k = 0; k <= D; k++) {
+            fmpq_mpoly_struct *p = bpow + i * (D + 1) + k;
+            fmpq_mpoly_init(p, I->ring.ctx);
+            if (k == 0) {
+                fmpq_mpoly_one(p, I->ring.ctx);
+            } else {
+                fmpq_mpoly_mul(p, p - 1, b + i, I->ring.ctx);
+                fmpq_mpoly_scalar_div_si(p, p, k, I->ring.ctx);
+            }
+        }
+}
+
+/* res += W c^{D-|a|} sum over the arrangements p of the sorted a of prod_i b_i^{p_i}/p_i!:
+   the terms of int exp(c kappa_1 + sum_i b_i psi_i) with psi exponents a, V being
+   symmetric. cpow, bpow as made by fastvol_exp_powers (borrowed). */
+static void fastvol_exp_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const slong *a, slong n, slong D,
+                            const fmpq_mpoly_struct *cpow, const fmpq_mpoly_struct *bpow)
 {
     slong s = 0, perm[WPOLY_MAX_POINTS];
-    ulong exps[SCALAR_MAX_VARS];
-    fmpq_t c;
-    fmpz_t f;
     if (fmpq_is_zero(W))
         return;
-    fmpq_init(c);
-    fmpz_init(f);
-    fmpq_set(c, W);
     for (slong i = 0; i < n; i++) {
         s += a[i];
-        fmpz_fac_ui(f, (ulong)a[i]);
-        fmpq_div_fmpz(c, c, f);
         perm[i] = a[n - 1 - i];   /* increasing: the first arrangement */
     }
-    fmpq_mul_2exp(c, c, (ulong)(D - s));
-    fmpq_div_2exp(c, c, (ulong)s);
+    fmpq_mpoly_t t, sum;
+    fmpq_mpoly_init(t, I->ring.ctx);
+    fmpq_mpoly_init(sum, I->ring.ctx);
     do {
-        memset(exps, 0, sizeof exps);
-        for (slong i = 0; i < n; i++)
-            exps[vars[i]] = 2 * (ulong)perm[i];
-        exps[SCALAR_PI] = 2 * (ulong)(D - s);
-        fmpq_mpoly_set_coeff_fmpq_ui(res, c, exps, I->ring.ctx);
+        fmpq_mpoly_set(t, bpow + perm[0], I->ring.ctx);
+        for (slong i = 1; i < n; i++)
+            fmpq_mpoly_mul(t, t, bpow + i * (D + 1) + perm[i], I->ring.ctx);
+        fmpq_mpoly_add(sum, sum, t, I->ring.ctx);
     } while (fastvol_next_perm(perm, n));
-    fmpq_clear(c);
-    fmpz_clear(f);
+    fmpq_mpoly_mul(sum, sum, cpow + D - s, I->ring.ctx);
+    fmpq_mpoly_scalar_mul_fmpq(sum, sum, W, I->ring.ctx);
+    fmpq_mpoly_add(res, res, sum, I->ring.ctx);
+    fmpq_mpoly_clear(t, I->ring.ctx);
+    fmpq_mpoly_clear(sum, I->ring.ctx);
+}
+
+/* int[g,n] exp(c kappa_1 + sum_i b_i psi_i) from the coefficients w of the sorted multi-indices
+   idx (all nidx of them, from wpoly_indices). Returns a new value. */
+static value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
+                              const fmpq_mpoly_t c, const fmpq_mpoly_struct *b)
+{
+    fmpq_mpoly_struct *cpow = flint_malloc((size_t)(D + 1) * (size_t)(n + 1) * sizeof(fmpq_mpoly_struct));
+    fmpq_mpoly_struct *bpow = cpow + D + 1;
+    fastvol_exp_powers(I, cpow, bpow, c, b, n, D);
+    value *r = value_new_num(&I->ring);
+    for (slong k = 0; k < nidx; k++)
+        fastvol_exp_add(I, r->num, w + k, idx + k * n, n, D, cpow, bpow);
+    for (slong j = 0; j < (D + 1) * (n + 1); j++)
+        fmpq_mpoly_clear(cpow + j, I->ring.ctx);
+    flint_free(cpow);
+    return r;
 }
 
 /* Runs the polynomial engine on the sorted multi-indices idx; returns the
@@ -265,6 +308,40 @@ static value *fastvol_poly_verify(interp *I, const node *where, slong g, slong n
     return NULL;
 }
 
+/* Whether the polynomial engine should take all coefficients of a few-point volume on
+   Mbar_{g,n}, the reduction needing `terms` correlator terms: when forced, when the
+   reduction would be refused, or for one point once the engine is faster. */
+static int fastvol_poly_wanted(interp *I, slong g, slong n, double terms)
+{
+    int refused = wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table;
+    return I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS);
+}
+
+/* V_{g,n}(L) = int exp(2 pi^2 kappa_1 + sum_i L_i^2 psi_i / 2) from the coefficients w,
+   printed term by term. Returns a new value. */
+static value *fastvol_volume_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
+                                 const int *vars)
+{
+    fmpq_mpoly_t c;
+    fmpq_mpoly_struct b[WPOLY_MAX_POINTS];
+    fmpq_mpoly_init(c, I->ring.ctx);
+    scalar_set_gen(c, &I->ring, SCALAR_PI);
+    fmpq_mpoly_mul(c, c, c, I->ring.ctx);
+    fmpq_mpoly_scalar_mul_si(c, c, 2, I->ring.ctx);
+    for (slong i = 0; i < n; i++) {
+        fmpq_mpoly_init(b + i, I->ring.ctx);
+        scalar_set_gen(b + i, &I->ring, vars[i]);
+        fmpq_mpoly_mul(b + i, b + i, b + i, I->ring.ctx);
+        fmpq_mpoly_scalar_div_si(b + i, b + i, 2, I->ring.ctx);
+    }
+    value *r = fastvol_exp_sum(I, w, idx, nidx, n, D, c, b);
+    r->termwise = 1;
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_clear(b + i, I->ring.ctx);
+    fmpq_mpoly_clear(c, I->ring.ctx);
+    return r;
+}
+
 value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled)
 {
     *handled = 0;
@@ -276,15 +353,11 @@ value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, in
     double terms = fastvol_poly_terms(g, n, idx, nidx);
     value *r = NULL;
     int vars[WPOLY_MAX_POINTS];
-    int refused = wk_estimate_entries(g, n + D) > I->lim.max_table;
-    if (I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS)) {
+    if (fastvol_poly_wanted(I, g, n, terms)) {
         *handled = 1;
         fmpq *w = integrate_declare_lengths(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
         if (w) {
-            r = value_new_num(&I->ring);
-            for (slong k = 0; k < nidx; k++)
-                fastvol_poly_add(I, r->num, w + k, idx + k * n, n, D, vars);
-            r->termwise = 1;
+            r = fastvol_volume_sum(I, w, idx, nidx, n, D, vars);
             _fmpq_vec_clear(w, nidx);
             r = fastvol_poly_verify(I, where, g, n, terms, r);
         }
@@ -337,5 +410,42 @@ static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, co
     }
     fmpq_mpoly_clear(m.factor, I->ring.ctx);
     fmpq_mpoly_clear(m.c, I->ring.ctx);
+    return r;
+}
+
+/* int[g,n] f exp(c kappa_1 + sum_i b_i psi_i) with c != 0 and some b_i != 0 (the volume
+   polynomials written as integrals): every coefficient from the polynomial engine, when
+   fastvol_poly_wanted. Sets *handled when it takes the integral. */
+static value *fastvol_try_exp_linear(interp *I, const node *where, slong g, slong n, const value *integrand,
+                                     int *handled)
+{
+    if (fastvol_in_reference || g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return NULL;
+    fmpq_mpoly_t f, c;
+    fmpq_mpoly_struct b[WPOLY_MAX_POINTS];
+    fmpq_mpoly_init(f, I->ring.ctx);
+    fmpq_mpoly_init(c, I->ring.ctx);
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_init(b + i, I->ring.ctx);
+    int ok = cx_match_exp_linear(integrand->cls, n, f, c, b) && !fmpq_mpoly_is_zero(c, I->ring.ctx);
+    value *r = NULL;
+    slong nidx = ok ? wpoly_indices(NULL, g, n) : 0, D = 3 * g - 3 + n;
+    slong *idx = ok ? xmalloc((size_t)(nidx * n) * sizeof(slong)) : NULL;
+    if (ok)
+        wpoly_indices(idx, g, n);
+    if (ok && fastvol_poly_wanted(I, g, n, fastvol_poly_terms(g, n, idx, nidx))) {
+        *handled = 1;
+        fmpq *w = fastvol_poly_run(I, where, g, n, idx, nidx);
+        if (w) {
+            r = fastvol_exp_sum(I, w, idx, nidx, n, D, c, b);
+            fmpq_mpoly_mul(r->num, r->num, f, I->ring.ctx);
+            _fmpq_vec_clear(w, nidx);
+        }
+    }
+    free(idx);
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_clear(b + i, I->ring.ctx);
+    fmpq_mpoly_clear(c, I->ring.ctx);
+    fmpq_mpoly_clear(f, I->ring.ctx);
     return r;
 }

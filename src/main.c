@@ -37,6 +37,10 @@ static void main_usage(FILE *out)
           "                     by the pushforward formula and the Kaufmann-Manin-Zagier time shift,\n"
           "                     volumes by the volume engine and the pushforward reduction (a second\n"
           "                     route beyond --max-terms/--max-table is skipped; answers are not stored)\n"
+          "  --volume-engine    send every recognised volume integral (exp(c*kappa_1), kappa_1^D, psi\n"
+          "                     monomials times them, volume polynomials) to the polynomial-time engine,\n"
+          "                     also the small ones that otherwise use the reduction (with --verify: a\n"
+          "                     comparison of the two routes)\n"
           "  --format NAME      print values as exact (default), decimal, latex, csv or json\n"
           "  --digits N         correct significant digits of decimal output (default 20)\n"
           "  --lib DIR          add DIR to the folders searched by load \"file.pk\"\n"
@@ -168,6 +172,8 @@ static int main_options(interp *I, main_state *M, int argc, char **argv)
             I->explain_all = 1;
         } else if (strcmp(a, "--verify") == 0) {
             I->verify = 1;
+        } else if (strcmp(a, "--volume-engine") == 0) {
+            I->route_volumes = 1;
         } else if (strcmp(a, "--no-store") == 0) {
             I->store_off = 1;
         } else if (main_is_valued(a)) {

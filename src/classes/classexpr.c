@@ -113,12 +113,13 @@ static slong cx_degree_mul(slong k, slong a)
     return a != 0 && k > WORD_MAX / a ? WORD_MAX : k * a;
 }
 
-/* Deeper expressions (long sums built in loops) get no bound rather than a deep C recursion. */
-#define CX_DEGREE_MAX_DEPTH 4000
+/* Walks of the expression tree stop this deep (long sums built in loops): no degree bound, no
+   match, rather than a deep C recursion. */
+#define CX_WALK_MAX_DEPTH 4000
 
 static slong cx_max_degree_at(const cx *e, int depth)
 {
-    if (depth > CX_DEGREE_MAX_DEPTH)
+    if (depth > CX_WALK_MAX_DEPTH)
         return WORD_MAX;
     slong a = e->a ? cx_max_degree_at(e->a, depth + 1) : 0, b = e->b ? cx_max_degree_at(e->b, depth + 1) : 0;
     switch (e->kind) {
@@ -176,6 +177,57 @@ int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c, fmpq_mpoly_t factor)
 {
     const cx *x = cx_peel_scalars(e, factor);
     return x->kind == CX_EXP && cx_match_scaled_kappa1(x->a, c);
+}
+
+/* Multiplies the scalars of the product e into s and finds its one class factor (*cls, which
+   must be NULL on entry); 0 if e is not such a product. */
+static int cx_collect_term(const cx *e, fmpq_mpoly_t s, const cx **cls, int depth)
+{
+    if (depth > CX_WALK_MAX_DEPTH)
+        return 0;
+    if (e->kind == CX_MUL)
+        return cx_collect_term(e->a, s, cls, depth + 1) && cx_collect_term(e->b, s, cls, depth + 1);
+    if (e->kind == CX_SCALAR) {
+        fmpq_mpoly_mul(s, s, e->scalar, e->ctx);
+        return 1;
+    }
+    if ((e->kind != CX_PSI && e->kind != CX_KAPPA) || *cls)
+        return 0;
+    *cls = e;
+    return 1;
+}
+
+/* Adds the linear form e (a sum of scalar multiples of psi_i and kappa_1) into c and b. */
+static int cx_collect_linear(const cx *e, slong n, fmpq_mpoly_t c, fmpq_mpoly_struct *b, int depth)
+{
+    if (depth > CX_WALK_MAX_DEPTH)
+        return 0;
+    if (e->kind == CX_ADD)
+        return cx_collect_linear(e->a, n, c, b, depth + 1) && cx_collect_linear(e->b, n, c, b, depth + 1);
+    const cx *cls = NULL;
+    fmpq_mpoly_t s;
+    fmpq_mpoly_init(s, e->ctx);
+    fmpq_mpoly_one(s, e->ctx);
+    int ok = cx_collect_term(e, s, &cls, depth) && cls;
+    if (ok && cls->kind == CX_KAPPA && cls->index == 1)
+        fmpq_mpoly_add(c, c, s, e->ctx);
+    else if (ok && cls->kind == CX_PSI && cls->index >= 1 && cls->index <= n)
+        fmpq_mpoly_add(b + cls->index - 1, b + cls->index - 1, s, e->ctx);
+    else
+        ok = 0;
+    fmpq_mpoly_clear(s, e->ctx);
+    return ok;
+}
+
+int cx_match_exp_linear(const cx *e, slong n, fmpq_mpoly_t factor, fmpq_mpoly_t c, fmpq_mpoly_struct *b)
+{
+    const cx *x = cx_peel_scalars(e, factor);
+    if (x->kind != CX_EXP)
+        return 0;
+    fmpq_mpoly_zero(c, e->ctx);
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_zero(b + i, e->ctx);
+    return cx_collect_linear(x->a, n, c, b, 0);
 }
 
 int cx_match_kappa1_power(const cx *e, fmpq_mpoly_t c, slong *k)

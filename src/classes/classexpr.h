@@ -54,6 +54,12 @@ typedef struct {
    other expression, e.g. a sum or psi_i with i > n. */
 int cx_match_psi_kappa1(const cx *e, slong n, cx_monomial *m);
 
+/* Recognises factor * exp(c kappa_1 + b_1 psi_1 + ... + b_n psi_n), scalars anywhere in the
+   sum's terms, each term a scalar times one psi_i (1 <= i <= n) or kappa_1, no constant term.
+   factor, c and b[0..n) are initialised by the caller in the ring of the scalars; returns 0
+   (their values unspecified) for any other expression. */
+int cx_match_exp_linear(const cx *e, slong n, fmpq_mpoly_t factor, fmpq_mpoly_t c, fmpq_mpoly_struct *b);
+
 /* Largest psi index used, so that callers can check it against n early. */
 slong cx_max_psi(const cx *e);
 
