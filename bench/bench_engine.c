@@ -8,35 +8,11 @@
  * peak MiB, value (psi: the sum of all the correlators, as a double checksum; wp: the exact
  * rational, followed by the coefficient c in V_{G,0} = c pi^(6G-6) of the plain integral).
  */
-#define _POSIX_C_SOURCE 200809L
 #include <stdio.h>
-#include <stdlib.h>
 #include <string.h>
-#include <time.h>
-#include <sys/resource.h>
-#include <sys/types.h>
-#include <sys/wait.h>
-#include <unistd.h>
 #include <flint/fmpq.h>
 #include "correlators/pushforward.h"
-
-/* Seconds elapsed since t0 on the monotonic clock.
-   Monotonic, so wall-clock adjustments cannot distort timings. */
-static double bench_seconds_since(const struct timespec *t0)
-{
-    struct timespec t1;
-    clock_gettime(CLOCK_MONOTONIC, &t1);
-    return (double) (t1.tv_sec - t0->tv_sec) + 1e-9 * (double) (t1.tv_nsec - t0->tv_nsec);
-}
-
-/* Peak resident set size of this process in MiB.
-   Linux reports ru_maxrss in KiB. */
-static double bench_peak_mib(void)
-{
-    struct rusage ru;
-    getrusage(RUSAGE_SELF, &ru);
-    return (double) ru.ru_maxrss / 1024.0;
-}
+#include "bench_util.h"
 
 /* Accumulator for the psi sweep: table, running sum, count, first error. */
 typedef struct {
@@ -74,17 +50,17 @@ static void bench_psi_rec(bench_psi_acc *A, slong g, slong *d, slong n, slong i,
 static int bench_psi(slong g)
 {
     bench_psi_acc A;
-    struct timespec t0;
+    bench_timer t;
     slong n, d[64];
     double secs;
     A.T = wk_table_new();
     fmpq_init(A.sum);
     A.count = 0;
     A.status = WK_OK;
-    clock_gettime(CLOCK_MONOTONIC, &t0);
+    bench_timer_start(&t);
     for (n = 1; n <= 3 * g - 3; n++)
         bench_psi_rec(&A, g, d, n, 0, 3 * g - 3 - n, 3 * g - 3 - n);
-    secs = bench_seconds_since(&t0);
+    secs = bench_timer_wall(&t);
     printf("psi  %3ld  %8ld  %9ld  %9.3f  %8.1f  %.6e%s\n", (long) g, A.count,
            (long) wk_table_entries(A.T), secs, bench_peak_mib(), fmpq_get_d(A.sum),
            A.status ? "  (engine error)" : "");
@@ -99,77 +75,64 @@ static int bench_wp(slong g)
 {
     wk_table *T = wk_table_new();
     slong km[2] = {0, 3 * g - 3};
-    struct timespec t0;
+    bench_timer t;
     fmpq_t v;
-    fmpz_t f;
     int st;
     double secs;
     fmpq_init(v);
-    fmpz_init(f);
-    clock_gettime(CLOCK_MONOTONIC, &t0);
+    bench_timer_start(&t);
     st = pf_integral(v, T, g, NULL, 0, km, 1);
-    fmpz_fac_ui(f, (ulong) (3 * g - 3));
-    fmpq_div_fmpz(v, v, f);
-    secs = bench_seconds_since(&t0);
+    bench_div_factorial(v, (ulong) (3 * g - 3));
+    secs = bench_timer_wall(&t);
     printf("wp   %3ld  %8.0f  %9ld  %9.3f  %8.1f  ", (long) g, pf_estimate_terms(km, 1),
            (long) wk_table_entries(T), secs, bench_peak_mib());
     fmpq_print(v);
-    fmpz_one(f);
-    fmpz_mul_2exp(f, f, (ulong) (3 * g - 3));
-    fmpq_mul_fmpz(v, v, f);
+    fmpq_mul_2exp(v, v, (ulong) (3 * g - 3));
     printf("  V=");
     fmpq_print(v);
     printf("%s\n", st ? "  (engine error)" : "");
     fmpq_clear(v);
-    fmpz_clear(f);
     wk_table_free(T);
     return st;
 }
 
-/* Runs one case in a child process so that its peak memory is measured alone.
-   Falls back to running in-process if fork fails; returns nonzero on any failure. */
-static int bench_fork_case(int (*fn)(slong), slong g)
+/* One case of the sweep: the mode (psi or wp) and the genus. */
+typedef struct {
+    int psi;
+    slong g;
+} bench_case;
+
+/* Child body for bench_child_run_or_here: runs the case described by arg (a bench_case).
+   The row goes to stdout, nothing to out; returns the engine status. */
+static int bench_case_run(void *arg, FILE *out)
 {
-    int status = 0;
-    pid_t pid;
-    fflush(stdout);
-    pid = fork();
-    if (pid < 0)
-        return fn(g);
-    if (pid == 0) {
-        int st = fn(g);
-        fflush(stdout);
-        flint_cleanup();
-        _exit(st ? 1 : 0);
-    }
-    if (waitpid(pid, &status, 0) < 0 || !WIFEXITED(status))
-        return 1;
-    return WEXITSTATUS(status);
+    const bench_case *c = arg;
+    (void) out;
+    return c->psi ? bench_psi(c->g) : bench_wp(c->g);
 }
 
-/* Parses the genus argument.
-   Returns -1 when it is not an integer in [2, 30]. */
-static slong bench_parse_genus(const char *s)
+/* Every case, each in its own child process so that its peak memory is measured alone.
+   Returns nonzero if any case failed. */
+static int bench_run_all(void)
 {
-    char *end;
-    long g = strtol(s, &end, 10);
-    return (end == s || *end != '\0' || g < 2 || g > 30) ? -1 : (slong) g;
+    bench_case c;
+    int bad = 0;
+    for (c.psi = 1, c.g = 2; c.g <= 12; c.g++)
+        bad |= bench_child_run_or_here(bench_case_run, &c);
+    for (c.psi = 0, c.g = 2; c.g <= 10; c.g++)
+        bad |= bench_child_run_or_here(bench_case_run, &c);
+    return bad;
 }
 
 int main(int argc, char **argv)
 {
-    slong g;
+    slong g = -1;
     int bad = 0;
     printf("mode   g     count    entries    seconds  peak_MiB  value\n");
-    if (argc == 1) {
-        for (g = 2; g <= 12; g++)
-            bad |= bench_fork_case(bench_psi, g);
-        for (g = 2; g <= 10; g++)
-            bad |= bench_fork_case(bench_wp, g);
-        return bad;
-    }
-    g = argc == 3 ? bench_parse_genus(argv[2]) : -1;
-    if (g < 0 || (strcmp(argv[1], "psi") != 0 && strcmp(argv[1], "wp") != 0)) {
+    if (argc == 1)
+        return bench_run_all();
+    if (argc != 3 || !bench_arg_slong(&g, argv[2], 2, 30)
+        || (strcmp(argv[1], "psi") != 0 && strcmp(argv[1], "wp") != 0)) {
         fprintf(stderr, "usage: %s [psi|wp G]   (2 <= G <= 30)\n", argv[0]);
         return 2;
     }

@@ -9,36 +9,23 @@
  *
  * Usage: bench_series [G [N [seconds]]]   defaults G = 8, N = 20, 600 seconds per measurement.
  */
-#include <signal.h>
+#include <limits.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <sys/resource.h>
-#include <sys/wait.h>
-#include <time.h>
-#include <unistd.h>
 #include <flint/fmpq.h>
 #include "correlators/pushforward.h"
 #include "series/spec.h"
+#include "bench_util.h"
 
 #define NVARS 128
 
 typedef struct {
     int ok;                /* 1 when the child finished */
-    double seconds, cpu;   /* wall-clock and CPU (user + system) seconds */
+    bench_usage u;         /* wall-clock, CPU (user + system) seconds, peak MiB */
     double terms;
-    long maxrss_kb;
     char *values;          /* the V_{g,n}, one per line (owned) */
 } measurement;
-
-/* Monotonic wall-clock time in seconds.
-   CLOCK_MONOTONIC. */
-static double now(void)
-{
-    struct timespec ts;
-    clock_gettime(CLOCK_MONOTONIC, &ts);
-    return (double) ts.tv_sec + 1e-9 * (double) ts.tv_nsec;
-}
 
 /* Valuation of t_k at the WP point: 1 for t_0, -1 (zero) for t_1, 0 otherwise.
    data is unused. */
@@ -126,9 +113,8 @@ static int run_direct(FILE *out, slong g, slong N, double *terms)
 {
     slong n, d[64] = {0}, km[2];
     fmpq_t v;
-    fmpz_t f;
     int st = WK_OK;
-    fmpq_init(v), fmpz_init(f);
+    fmpq_init(v);
     *terms = 0;
     for (n = 0; n <= N && st == WK_OK; n++) {
         wk_table *T = wk_table_new();
@@ -136,88 +122,67 @@ static int run_direct(FILE *out, slong g, slong N, double *terms)
         km[0] = 0, km[1] = 3 * g - 3 + n;
         if (2 * g - 2 + n > 0) {
             st = pf_integral(v, T, g, d, n, km, 1);
-            fmpz_fac_ui(f, (ulong) km[1]);
-            fmpq_div_fmpz(v, v, f);
+            bench_div_factorial(v, (ulong) km[1]);
             *terms += pf_estimate_terms(km, 1);
         }
         fmpq_fprint(out, v);
         fputc('\n', out);
         wk_table_free(T);
     }
-    fmpq_clear(v), fmpz_clear(f);
+    fmpq_clear(v);
     return st;
 }
 
-/* Child body: runs one method, then writes "wall cpu maxrss terms\n" and the values to fd.
-   Exits the process; status 0 only when the method succeeded. */
-static void child_run(int fd, int method, slong g, slong N, unsigned limit)
+/* One measurement: the method (0 spec_plan, 1 pf_integral one by one), genus and order. */
+typedef struct {
+    int method;
+    slong g, N;
+} series_case;
+
+/* Child body: runs one method (arg, a series_case); on success writes the usage line, the
+   terms and the values to out.  CPU is the child's whole getrusage time.  Returns 0 on success. */
+static int child_run(void *arg, FILE *out)
 {
-    FILE *out = fdopen(fd, "w"), *vals = tmpfile();
-    struct rusage ru;
-    double t0 = now(), terms = 0, secs;
+    const series_case *c = arg;
+    FILE *vals = tmpfile();
+    bench_timer t;
+    bench_usage u;
+    double terms = 0;
     int st;
     char buf[4096];
     size_t len;
-    alarm(limit);
-    st = method == 0 ? run_spec(vals, g, N, &terms) : run_direct(vals, g, N, &terms);
-    secs = now() - t0;
-    getrusage(RUSAGE_SELF, &ru);
+    if (vals == NULL)
+        return 1;
+    bench_timer_start(&t);
+    st = c->method == 0 ? run_spec(vals, c->g, c->N, &terms) : run_direct(vals, c->g, c->N, &terms);
+    u.wall = bench_timer_wall(&t);
+    u.cpu = bench_cpu_used();
+    u.mib = bench_peak_mib();
     if (st == 0) {
-        fprintf(out, "%.6f %.6f %ld %.0f\n", secs, (double) ru.ru_utime.tv_sec
-                + 1e-6 * (double) ru.ru_utime.tv_usec + (double) ru.ru_stime.tv_sec
-                + 1e-6 * (double) ru.ru_stime.tv_usec, (long) ru.ru_maxrss, terms);
+        bench_usage_write(out, &u);
+        fprintf(out, "%.0f\n", terms);
         rewind(vals);
         while ((len = fread(buf, 1, sizeof buf, vals)) > 0)
             fwrite(buf, 1, len, out);
     }
     fclose(vals);
-    fclose(out);
-    flint_cleanup();
-    _exit(st == 0 ? 0 : 1);
+    return st;
 }
 
-/* Reads everything from fd into a malloc'ed string.
-   The caller frees the result. */
-static char *read_all(int fd)
-{
-    size_t cap = 4096, len = 0;
-    char *s = malloc(cap);
-    ssize_t r;
-    while ((r = read(fd, s + len, cap - len - 1)) > 0) {
-        len += (size_t) r;
-        if (cap - len < 2)
-            s = realloc(s, cap *= 2);
-    }
-    s[len] = '\0';
-    return s;
-}
-
-/* Runs one method in a child process and collects its measurement.
+/* Runs one method in a child process under the time limit and collects its measurement.
    ok = 0 when the child failed or was stopped by the alarm. */
 static measurement measure(int method, slong g, slong N, unsigned limit)
 {
-    measurement m = {0, 0, 0, 0, 0, NULL};
-    int fds[2], status;
-    pid_t pid;
-    char *text;
-    if (pipe(fds) != 0)
-        return m;
-    fflush(stdout);
-    pid = fork();
-    if (pid == 0) {
-        close(fds[0]);
-        child_run(fds[1], method, g, N, limit);
+    measurement m = {0, {0, 0, 0}, 0, NULL};
+    series_case c = {method, g, N};
+    bench_child_result ch = bench_child_run(child_run, &c, limit);
+    const char *rest = bench_child_ok(&ch) ? bench_usage_read(&m.u, ch.text) : NULL;
+    const char *nl = rest != NULL ? strchr(rest, '\n') : NULL;
+    if (nl != NULL && sscanf(rest, "%lf", &m.terms) == 1) {
+        m.values = strdup(nl + 1);
+        m.ok = m.values != NULL;
     }
-    close(fds[1]);
-    text = read_all(fds[0]);
-    close(fds[0]);
-    waitpid(pid, &status, 0);
-    if (pid > 0 && WIFEXITED(status) && WEXITSTATUS(status) == 0
-        && sscanf(text, "%lf %lf %ld %lf", &m.seconds, &m.cpu, &m.maxrss_kb, &m.terms) == 4) {
-        m.ok = 1;
-        m.values = strdup(strchr(text, '\n') + 1);
-    }
-    free(text);
+    bench_child_clear(&ch);
     return m;
 }
 
@@ -230,16 +195,24 @@ static void print_measurement(const measurement *m)
         printf("%18s %8s %8s | ", "(stopped)", "-", "-");
         return;
     }
-    snprintf(t, sizeof t, "%.2f (%.2f)", m->cpu, m->seconds);
-    printf("%18s %8.1f %8.0f | ", t, m->maxrss_kb / 1024.0, m->terms);
+    snprintf(t, sizeof t, "%.2f (%.2f)", m->u.cpu, m->u.wall);
+    printf("%18s %8.1f %8.0f | ", t, m->u.mib, m->terms);
 }
 
 /* Prints one line per genus with both methods side by side.
    Arguments: G, N, seconds per measurement. */
 int main(int argc, char **argv)
 {
-    slong G = argc > 1 ? atol(argv[1]) : 8, N = argc > 2 ? atol(argv[2]) : 20, g;
-    unsigned limit = argc > 3 ? (unsigned) atoi(argv[3]) : 600;
+    slong G = 8, N = 20, secs = 600, g;
+    unsigned limit;
+    if (argc > 4 || (argc > 1 && !bench_arg_slong(&G, argv[1], 0, WORD_MAX))
+        || (argc > 2 && !bench_arg_slong(&N, argv[2], 0, WORD_MAX))
+        || (argc > 3 && !bench_arg_slong(&secs, argv[3], 0, UINT_MAX))) {
+        fprintf(stderr, "usage: %s [G [N [seconds]]]   (defaults 8 20 600; 0 seconds: no limit)\n",
+                argv[0]);
+        return 2;
+    }
+    limit = (unsigned) secs;
     printf("WP free energies F_g to x^%ld: spec_plan (shared memo) vs pf_integral one by one "
            "(fresh memo per n); limit %u s per run\n", (long) N, limit);
     printf("times: CPU seconds (wall-clock in parentheses); ratio = direct CPU / spec CPU\n");
@@ -251,7 +224,8 @@ int main(int argc, char **argv)
         print_measurement(&a);
         print_measurement(&b);
         if (a.ok && b.ok)
-            printf("%6.2f %s\n", b.cpu / a.cpu, strcmp(a.values, b.values) ? "DIFFER" : "equal");
+            printf("%6.2f %s\n", bench_ratio(b.u.cpu, a.u.cpu),
+                   strcmp(a.values, b.values) ? "DIFFER" : "equal");
         else
             printf("%6s %s\n", "-", "-");
         free(a.values), free(b.values);

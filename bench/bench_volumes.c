@@ -18,15 +18,9 @@
  * wpvol_estimate (single-core seconds), and a checksum of the table (sum over all entries of
  * num mod p and den mod p for p = 2^61-1) so that runs can be compared.
  */
-#define _POSIX_C_SOURCE 200809L
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <time.h>
-#include <sys/resource.h>
-#include <sys/types.h>
-#include <sys/wait.h>
-#include <unistd.h>
 
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
@@ -34,85 +28,45 @@
 #include "volumes/wpvol.h"
 #include "correlators/wk.h"
 #include "correlators/pushforward.h"
+#include "bench_util.h"
 
-/* Seconds elapsed since t0 on the given clock.
-   Reads the clock once; t0 must come from the same clock. */
-static double bench_since(clockid_t clk, const struct timespec *t0)
+/* One table run: G, N and the number of threads. */
+typedef struct { slong G, N; int threads; } bench_case;
+
+/* Child body: one timed table (the wpvol_table call only); prints one row to stdout.
+   arg is a bench_case, out is unused; returns 0 on success. */
+static int bench_run(void *arg, FILE *out)
 {
-    struct timespec t1;
-
-    clock_gettime(clk, &t1);
-    return (double) (t1.tv_sec - t0->tv_sec) + 1e-9 * (double) (t1.tv_nsec - t0->tv_nsec);
-}
-
-/* Peak resident set size of this process in MiB.
-   Linux reports ru_maxrss in KiB. */
-static double bench_peak_mib(void)
-{
-    struct rusage ru;
-
-    getrusage(RUSAGE_SELF, &ru);
-    return (double) ru.ru_maxrss / 1024.0;
-}
-
-/* Checksum of a table: sum of numerators and denominators modulo 2^61 - 1.
-   Identical tables give identical checksums. */
-static unsigned long bench_checksum(const fmpq *out, slong nv)
-{
-    const ulong p = (UWORD(1) << 61) - 1;
-    ulong s = 0;
-    slong k;
-
-    for (k = 0; k < nv; k++)
-    {
-        s = (s + fmpz_fdiv_ui(fmpq_numref(out + k), p)) % p;
-        s = (s + fmpz_fdiv_ui(fmpq_denref(out + k), p)) % p;
-    }
-    return s;
-}
-
-/* One timed table; prints one line.
-   Returns 0 on success. */
-static int bench_run(slong G, slong N, int threads)
-{
-    slong nv = (G + 1) * (N + 1), primes = 0;
-    fmpq *out = _fmpq_vec_init(nv);
-    struct timespec w0, c0;
-    double wall, cpu, est_s, est_b;
+    const bench_case *c = arg;
+    slong nv = (c->G + 1) * (c->N + 1), primes = 0;
+    fmpq *out_v = _fmpq_vec_init(nv);
+    bench_timer t;
+    bench_usage u;
+    double est_s, est_b;
+    char lead[64];
     int st;
 
-    wpvol_estimate(&est_s, &est_b, G, N);
-    clock_gettime(CLOCK_MONOTONIC, &w0);
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &c0);
-    st = wpvol_table_ex(out, G, N, threads, 62, 1, &primes);   /* = wpvol_table's settings */
-    wall = bench_since(CLOCK_MONOTONIC, &w0);
-    cpu = bench_since(CLOCK_PROCESS_CPUTIME_ID, &c0);
-    printf("%4ld %4ld %2d %9.2f %9.2f %8.1f %6ld %9.1f %20lu%s\n", G, N, threads, wall, cpu,
-           bench_peak_mib(), primes, est_s, bench_checksum(out, nv),
-           st == WPVOL_OK ? "" : "  (error)");
-    fflush(stdout);
-    _fmpq_vec_clear(out, nv);
-    flint_cleanup_master();
+    (void) out;
+    wpvol_estimate(&est_s, &est_b, c->G, c->N);
+    bench_timer_start(&t);
+    /* wpvol_table's own settings, with the count of primes exposed */
+    st = wpvol_table_ex(out_v, c->G, c->N, c->threads, 62, 1, &primes);
+    u.wall = bench_timer_wall(&t);
+    u.cpu = bench_timer_cpu(&t);
+    u.mib = bench_peak_mib();
+    snprintf(lead, sizeof lead, "%4ld %4ld %2d", c->G, c->N, c->threads);
+    bench_print_row(lead, &u, primes, est_s, bench_checksum_fmpq(out_v, nv), st == WPVOL_OK);
+    _fmpq_vec_clear(out_v, nv);
     return st != WPVOL_OK;
 }
 
-/* Runs one case in a child process so that its peak memory is its own.
+/* Runs one table in a child process so that its peak memory is its own.
    Returns 0 on success. */
-static int bench_child(slong G, slong N, int threads)
+static int bench_table_child(slong G, slong N, int threads)
 {
-    pid_t pid;
-    int status = 0;
+    bench_case c = { G, N, threads };
 
-    fflush(stdout);   /* the child must not inherit (and print again) pending output */
-    pid = fork();
-
-    if (pid < 0)
-        return bench_run(G, N, threads);   /* no fork: run here (peak RSS then cumulative) */
-    if (pid == 0)
-        _exit(bench_run(G, N, threads));
-    if (waitpid(pid, &status, 0) < 0)
-        return 1;
-    return !(WIFEXITED(status) && WEXITSTATUS(status) == 0);
+    return bench_child_run_or_here(bench_run, &c);
 }
 
 /* Seconds one foundation run may take before its child is stopped (SIGALRM); larger genera of
@@ -125,7 +79,6 @@ static int cmp_foundation(fmpq_t v, slong g, slong n)
 {
     slong d[2] = { 0, 0 }, kmult[2] = { 0, 3 * g - 3 + n };
     wk_table *T = wk_table_new();
-    fmpz_t f;
     int st;
 
     if (T == NULL || n > 2)
@@ -136,10 +89,7 @@ static int cmp_foundation(fmpq_t v, slong g, slong n)
     }
     st = pf_integral(v, T, g, d, n, kmult, 1);
     wk_table_free(T);
-    fmpz_init(f);
-    fmpz_fac_ui(f, (ulong) (3 * g - 3 + n));
-    fmpq_div_fmpz(v, v, f);
-    fmpz_clear(f);
+    bench_div_factorial(v, (ulong) (3 * g - 3 + n));
     return st;
 }
 
@@ -156,94 +106,52 @@ static int cmp_fast(fmpq_t v, slong g, slong n)
     return st;
 }
 
-/* Child body: times one route (whole call, allocation included) and writes
-   "status wall cpu peakMiB value" to fd.  Never returns. */
-static void cmp_child(int fd, int foundation, slong g, slong n)
+/* One route of the comparison: foundation (1) or fast (0) for V_{g,n}. */
+typedef struct { int foundation; slong g, n; } cmp_case;
+
+/* Child body: times one route (whole call, allocation included) and writes its usage line and
+   the exact value to out.  arg is a cmp_case; returns the route's status (0 = success). */
+static int cmp_child(void *arg, FILE *out)
 {
-    struct timespec w0, c0;
-    double wall, cpu;
+    const cmp_case *c = arg;
+    bench_timer t;
+    bench_usage u;
     fmpq_t v;
     char *str;
-    FILE *f = fdopen(fd, "w");
     int st;
 
-    if (foundation)
-        alarm(CMP_BUDGET_S);
     fmpq_init(v);
-    clock_gettime(CLOCK_MONOTONIC, &w0);
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &c0);
-    st = foundation ? cmp_foundation(v, g, n) : cmp_fast(v, g, n);
-    wall = bench_since(CLOCK_MONOTONIC, &w0);
-    cpu = bench_since(CLOCK_PROCESS_CPUTIME_ID, &c0);
+    bench_timer_start(&t);
+    st = c->foundation ? cmp_foundation(v, c->g, c->n) : cmp_fast(v, c->g, c->n);
+    u.wall = bench_timer_wall(&t);
+    u.cpu = bench_timer_cpu(&t);
+    u.mib = bench_peak_mib();
     str = fmpq_get_str(NULL, 10, v);
-    if (f != NULL)
-    {
-        fprintf(f, "%d %.9f %.9f %.3f %s\n", st, wall, cpu, bench_peak_mib(), str);
-        fclose(f);
-    }
+    bench_usage_write(out, &u);
+    fprintf(out, "%s\n", str);
     flint_free(str);
     fmpq_clear(v);
-    flint_cleanup_master();
-    _exit(f == NULL || st != 0);
-}
-
-/* Reads fd to end of file into a new NUL-terminated string.
-   The caller frees the result; NULL if memory runs out. */
-static char *cmp_read_all(int fd)
-{
-    size_t cap = 4096, len = 0;
-    char *s = malloc(cap), *t;
-    ssize_t r;
-
-    while (s != NULL && (r = read(fd, s + len, cap - len - 1)) > 0)
-    {
-        len += (size_t) r;
-        if (cap - len < 2)
-        {
-            t = realloc(s, cap *= 2);
-            if (t == NULL)
-                free(s);
-            s = t;
-        }
-    }
-    if (s != NULL)
-        s[len] = '\0';
-    return s;
+    return st;
 }
 
 /* One route's measurement; value is malloc'ed text of the exact rational (NULL unless ok). */
-typedef struct { int ok; double wall, cpu, mib; char *value; } cmp_meas;
+typedef struct { int ok; bench_usage u; char *value; } cmp_meas;
 
-/* Runs one route in a child process and collects its measurement through a pipe.
-   m.ok = 0 when the child failed, was stopped by the alarm, or fork/pipe failed. */
+/* Runs one route in a child process (foundation under the CMP_BUDGET_S alarm) and collects its
+   measurement.  m.ok = 0 when the child failed, was stopped by the alarm, or fork/pipe failed. */
 static cmp_meas cmp_measure(int foundation, slong g, slong n)
 {
-    cmp_meas m = { 0, 0.0, 0.0, 0.0, NULL };
-    int fds[2], status = 0, st = -1, off = 0;
-    pid_t pid;
-    char *text;
+    cmp_meas m = { 0, { 0.0, 0.0, 0.0 }, NULL };
+    cmp_case c = { foundation, g, n };
+    bench_child_result ch = bench_child_run(cmp_child, &c, foundation ? CMP_BUDGET_S : 0);
+    const char *rest = bench_child_ok(&ch) ? bench_usage_read(&m.u, ch.text) : NULL;
 
-    if (pipe(fds) != 0)
-        return m;
-    fflush(stdout);
-    pid = fork();
-    if (pid == 0)
+    if (rest != NULL)
     {
-        close(fds[0]);
-        cmp_child(fds[1], foundation, g, n);
-    }
-    close(fds[1]);
-    text = pid > 0 ? cmp_read_all(fds[0]) : NULL;
-    close(fds[0]);
-    if (pid > 0 && waitpid(pid, &status, 0) == pid && WIFEXITED(status)
-        && WEXITSTATUS(status) == 0 && text != NULL
-        && sscanf(text, "%d %lf %lf %lf %n", &st, &m.wall, &m.cpu, &m.mib, &off) == 4 && st == 0)
-    {
-        text[strcspn(text, "\n")] = '\0';
-        m.value = strdup(text + off);
+        m.value = strndup(rest, strcspn(rest, "\n"));
         m.ok = m.value != NULL;
     }
-    free(text);
+    bench_child_clear(&ch);
     return m;
 }
 
@@ -255,8 +163,7 @@ typedef struct { slong g, n; double ratio; } cmp_best;
 static int cmp_row(const cmp_meas *a, const cmp_meas *b, slong g, slong n, int tried,
                    cmp_best *best)
 {
-    double rw = (b->ok && b->wall > 0.0) ? a->wall / b->wall : 0.0;
-    double rc = (b->ok && b->cpu > 0.0) ? a->cpu / b->cpu : 0.0;
+    double rw = bench_ratio(a->u.wall, b->u.wall), rc = bench_ratio(a->u.cpu, b->u.cpu);
 
     if (!b->ok)
     {
@@ -266,15 +173,15 @@ static int cmp_row(const cmp_meas *a, const cmp_meas *b, slong g, slong n, int t
     if (!a->ok)
     {
         printf("%3ld %2ld %10s %10s %9s %10.4f %10.4f %8.1f %8s %8s  ", g, n, "-", "-", "-",
-               b->wall, b->cpu, b->mib, "-", "-");
+               b->u.wall, b->u.cpu, b->u.mib, "-", "-");
         if (tried)
             printf("foundation not finished (limit %d s, or error)\n", CMP_BUDGET_S);
         else
             printf("foundation skipped (a smaller g did not finish)\n");
         return 0;
     }
-    printf("%3ld %2ld %10.4f %10.4f %9.1f %10.4f %10.4f %8.1f %8.1f %8.1f  %s\n", g, n, a->wall,
-           a->cpu, a->mib, b->wall, b->cpu, b->mib, rw, rc,
+    printf("%3ld %2ld %10.4f %10.4f %9.1f %10.4f %10.4f %8.1f %8.1f %8.1f  %s\n", g, n, a->u.wall,
+           a->u.cpu, a->u.mib, b->u.wall, b->u.cpu, b->u.mib, rw, rc,
            strcmp(a->value, b->value) == 0 ? "OK" : "MISMATCH");
     if (strcmp(a->value, b->value) != 0)
         return 1;
@@ -297,7 +204,7 @@ static int bench_compare(slong gmax)
     for (g = 4; g <= gmax; g++)
         for (n = 0; n <= 2; n += 2)
         {
-            cmp_meas a = { 0, 0.0, 0.0, 0.0, NULL }, b = cmp_measure(0, g, n);
+            cmp_meas a = { 0, { 0.0, 0.0, 0.0 }, NULL }, b = cmp_measure(0, g, n);
             int tried = !stopped[n];
 
             if (tried)
@@ -320,14 +227,16 @@ int main(int argc, char **argv)
     static const slong cases[3][2] = { { 50, 5 }, { 100, 5 }, { 3, 500 } };
     static const char *head =
         "   G    N th   wall(s)    cpu(s) peak(MiB) primes   est(s)             checksum\n";
+    slong G, N, threads;
     int c, t, bad = 0;
 
-    if (argc == 3 && strcmp(argv[1], "compare") == 0 && atol(argv[2]) >= 4)
-        return bench_compare(atol(argv[2]));
-    if (argc == 4)
+    if (argc == 3 && strcmp(argv[1], "compare") == 0 && bench_arg_slong(&G, argv[2], 4, WORD_MAX))
+        return bench_compare(G);
+    if (argc == 4 && bench_arg_slong(&G, argv[1], 0, WORD_MAX)
+        && bench_arg_slong(&N, argv[2], 0, WORD_MAX) && bench_arg_slong(&threads, argv[3], 1, 1024))
     {
         printf("%s", head);
-        return bench_child(atol(argv[1]), atol(argv[2]), atoi(argv[3]));
+        return bench_table_child(G, N, (int) threads);
     }
     if (argc != 1)
     {
@@ -338,7 +247,7 @@ int main(int argc, char **argv)
     fflush(stdout);
     for (c = 0; c < 3; c++)
         for (t = 1; t <= 2; t++)
-            bad |= bench_child(cases[c][0], cases[c][1], t);
+            bad |= bench_table_child(cases[c][0], cases[c][1], t);
     printf("\n");
     bad |= bench_compare(12);
     return bad;

@@ -13,15 +13,9 @@
  * Columns: g, n, threads, wall s, CPU s (all threads), peak MiB, primes, estimate (single-core
  * s), checksum of the coefficients (sum of num and den mod 2^61-1; equal results, equal sums).
  */
-#define _POSIX_C_SOURCE 200809L
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <time.h>
-#include <sys/resource.h>
-#include <sys/types.h>
-#include <sys/wait.h>
-#include <unistd.h>
 
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
@@ -29,38 +23,9 @@
 #include "volumes/wpoly.h"
 #include "correlators/wk.h"
 #include "correlators/pushforward.h"
+#include "bench_util.h"
 
 #define REF_BUDGET_S 300
-
-/* Seconds since t0 on clock clk. */
-static double bw_since(clockid_t clk, const struct timespec *t0)
-{
-    struct timespec t1;
-
-    clock_gettime(clk, &t1);
-    return (double) (t1.tv_sec - t0->tv_sec) + 1e-9 * (double) (t1.tv_nsec - t0->tv_nsec);
-}
-
-/* Peak RSS of this process in MiB (Linux: ru_maxrss in KiB). */
-static double bw_peak_mib(void)
-{
-    struct rusage ru;
-
-    getrusage(RUSAGE_SELF, &ru);
-    return (double) ru.ru_maxrss / 1024.0;
-}
-
-/* Sum of numerators and denominators modulo 2^61-1. */
-static unsigned long bw_checksum(const fmpq *v, slong nv)
-{
-    const ulong p = (UWORD(1) << 61) - 1;
-    ulong s = 0;
-    slong k;
-
-    for (k = 0; k < nv; k++)
-        s = (s + fmpz_fdiv_ui(fmpq_numref(v + k), p) + fmpz_fdiv_ui(fmpq_denref(v + k), p)) % p;
-    return s;
-}
 
 /* All W_a by the reduction, in the order of wpoly_indices.  Returns 0 on success. */
 static int bw_reference(fmpq *out, slong g, slong n)
@@ -68,10 +33,8 @@ static int bw_reference(fmpq *out, slong g, slong n)
     slong nv = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n, k, i;
     slong *idx = malloc((size_t) (nv * n) * sizeof(slong));
     wk_table *T = wk_table_new();
-    fmpz_t f;
     int st = (idx == NULL || T == NULL) ? 1 : 0;
 
-    fmpz_init(f);
     if (st == 0)
     {
         wk_table_set_limit(T, 30000000);   /* the language's default --max-table */
@@ -83,95 +46,81 @@ static int bw_reference(fmpq *out, slong g, slong n)
         for (i = 0; i < n; i++)
             kmult[1] -= idx[k * n + i];
         st = pf_integral(out + k, T, g, idx + k * n, n, kmult, kmult[1] > 0 ? 1 : 0);
-        fmpz_fac_ui(f, (ulong) kmult[1]);
-        fmpq_div_fmpz(out + k, out + k, f);
+        bench_div_factorial(out + k, (ulong) kmult[1]);
     }
-    fmpz_clear(f);
     wk_table_free(T);
     free(idx);
     return st;
 }
 
-/* One timed run (engine if threads >= 1, reduction if threads == 0); prints one line and
-   writes the CPU seconds to fd (if >= 0). */
-static int bw_run(slong g, slong n, int threads, int fd)
+/* One run: g, n and the route (threads >= 1: engine with that many threads, 0: reduction). */
+typedef struct { slong g, n; int threads; } bw_case;
+
+/* Child body: one timed run of the route in arg (a bw_case); prints one row to stdout and
+   writes its usage line to out (the CPU seconds feed the ratio).  Returns 0 on success. */
+static int bw_run(void *arg, FILE *out)
 {
-    slong nv = wpoly_indices(NULL, g, n), primes = 0;
-    fmpq *out = _fmpq_vec_init(nv);
-    struct timespec w0, c0;
-    double wall, cpu, est_s = 0.0, est_b = 0.0;
+    const bw_case *c = arg;
+    slong nv = wpoly_indices(NULL, c->g, c->n), primes = 0;
+    fmpq *v = _fmpq_vec_init(nv);
+    bench_timer t;
+    bench_usage u;
+    double est_s = 0.0, est_b = 0.0;
+    char lead[64];
     int st;
 
-    if (threads == 0)
-        alarm(REF_BUDGET_S);
-    else
-        wpoly_estimate(&est_s, &est_b, g, n);
-    clock_gettime(CLOCK_MONOTONIC, &w0);
-    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &c0);
-    st = threads == 0 ? bw_reference(out, g, n)
-                      : wpoly_coeffs_ex(out, g, n, threads, 62, 1, 0, &primes);
-    wall = bw_since(CLOCK_MONOTONIC, &w0);
-    cpu = bw_since(CLOCK_PROCESS_CPUTIME_ID, &c0);
-    printf("%4ld %2ld %-9s %9.2f %9.2f %8.1f %6ld %9.1f %20lu%s\n", g, n,
-           threads == 0 ? "reduction" : (threads == 1 ? "engine/1" : "engine/2"), wall, cpu,
-           bw_peak_mib(), primes, est_s, bw_checksum(out, nv), st == 0 ? "" : "  (error)");
-    fflush(stdout);
-    if (fd >= 0)
-    {
-        char buf[64];
-        int len = snprintf(buf, sizeof buf, "%.6f\n", cpu);
-        if (write(fd, buf, (size_t) len) != len)
-            st = 1;
-    }
-    _fmpq_vec_clear(out, nv);
-    flint_cleanup_master();
+    if (c->threads > 0)
+        wpoly_estimate(&est_s, &est_b, c->g, c->n);
+    bench_timer_start(&t);
+    st = c->threads == 0 ? bw_reference(v, c->g, c->n)
+                         : wpoly_coeffs_ex(v, c->g, c->n, c->threads, 62, 1, 0, &primes);
+    u.wall = bench_timer_wall(&t);
+    u.cpu = bench_timer_cpu(&t);
+    u.mib = bench_peak_mib();
+    snprintf(lead, sizeof lead, "%4ld %2ld %-9s", c->g, c->n,
+             c->threads == 0 ? "reduction" : (c->threads == 1 ? "engine/1" : "engine/2"));
+    bench_print_row(lead, &u, primes, est_s, bench_checksum_fmpq(v, nv), st == 0);
+    bench_usage_write(out, &u);
+    _fmpq_vec_clear(v, nv);
     return st != 0;
 }
 
-/* Runs bw_run in a child; *cpu (may be NULL) receives its CPU seconds.  Returns 0 if it
-   finished (within the budget) without error. */
+/* Runs bw_run in a child (the reduction under the REF_BUDGET_S alarm); *cpu (may be NULL)
+   receives its CPU seconds.  Returns 0 if it finished (within the budget) without error. */
 static int bw_child(slong g, slong n, int threads, double *cpu)
 {
-    pid_t pid;
-    int status = 0, fds[2];
-    char buf[64] = "";
-    ssize_t r;
+    bw_case c = { g, n, threads };
+    bench_child_result ch = bench_child_run(bw_run, &c, threads == 0 ? REF_BUDGET_S : 0);
+    bench_usage u = { 0.0, 0.0, 0.0 };
+    int ok = bench_child_ok(&ch);
 
-    if (pipe(fds) != 0)
-        return 1;
-    fflush(stdout);
-    pid = fork();
-    if (pid < 0)
-        return 1;
-    if (pid == 0)
-    {
-        close(fds[0]);
-        _exit(bw_run(g, n, threads, fds[1]));
-    }
-    close(fds[1]);
-    r = read(fds[0], buf, sizeof buf - 1);
-    close(fds[0]);
     if (cpu != NULL)
-        *cpu = r > 0 ? atof(buf) : 0.0;
-    if (waitpid(pid, &status, 0) < 0)
-        return 1;
-    if (WIFSIGNALED(status))
+        *cpu = bench_usage_read(&u, ch.text) != NULL ? u.cpu : 0.0;
+    if (ch.signaled)
         printf("%4ld %2ld %-9s stopped after %d s\n", g, n, threads == 0 ? "reduction" : "engine",
                REF_BUDGET_S);
-    return !(WIFEXITED(status) && WEXITSTATUS(status) == 0);
+    bench_child_clear(&ch);
+    return !ok;
 }
 
 int main(int argc, char **argv)
 {
     static const slong n1[] = { 5, 10, 15, 20, 25 }, n2[] = { 3, 6, 9, 12 }, n3[] = { 3, 5, 7 };
-    slong g, n;
-    int bad = 0;
+    slong g, n, threads;
+    int bad = 0, ref = argc == 4 && strcmp(argv[1], "ref") == 0;
     size_t i;
 
-    if (argc == 4 && strcmp(argv[1], "ref") == 0)
-        return bw_child(atol(argv[2]), atol(argv[3]), 0, NULL);
-    if (argc == 4)
-        return bw_child(atol(argv[1]), atol(argv[2]), atoi(argv[3]), NULL);
+    if (ref && bench_arg_slong(&g, argv[2], 0, WORD_MAX)
+        && bench_arg_slong(&n, argv[3], 0, WORD_MAX))
+        return bw_child(g, n, 0, NULL);
+    if (!ref && argc == 4 && bench_arg_slong(&g, argv[1], 0, WORD_MAX)
+        && bench_arg_slong(&n, argv[2], 0, WORD_MAX) && bench_arg_slong(&threads, argv[3], 1, 1024))
+        return bw_child(g, n, (int) threads, NULL);
+    if (argc != 1)
+    {
+        fprintf(stderr, "usage: %s [G N THREADS | ref G N]   (THREADS >= 1)\n", argv[0]);
+        return 2;
+    }
     printf("   g  n route          wall       CPU  peakMiB primes  estimate             checksum\n");
     for (i = 0; i < sizeof n1 / sizeof n1[0]; i++)
         bad |= bw_child(n1[i], 1, 2, NULL);
@@ -188,7 +137,7 @@ int main(int argc, char **argv)
             bad |= bw_child(g, n, 1, &ce);
             if (bw_child(g, n, 0, &cr) != 0)
                 break;
-            printf("%4ld %2ld ratio reduction/engine CPU = %.1f\n", g, n, ce > 0.0 ? cr / ce : 0.0);
+            printf("%4ld %2ld ratio reduction/engine CPU = %.1f\n", g, n, bench_ratio(cr, ce));
         }
     return bad;
 }
