@@ -296,16 +296,7 @@ static value *fastvol_poly_verify(interp *I, const node *where, slong g, slong n
     fastvol_in_reference = 1;
     value *slow = integrate_volume(I, where, g, n);
     fastvol_in_reference = 0;
-    if (!slow)
-        return fast;
-    int same = fmpq_mpoly_equal(slow->num, fast->num, I->ring.ctx);
-    value_release(slow);
-    if (same)
-        return fast;
-    diag_error(&where->loc, "verification failed: the volume engine and the pushforward reduction disagree "
-                            "(please report this input)");
-    value_release(fast);
-    return NULL;
+    return integrate_compare_routes(I, where, slow, fast);
 }
 
 /* Whether the polynomial engine should take all coefficients of a few-point volume on

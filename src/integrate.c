@@ -373,15 +373,8 @@ static value *integrate_by_reduction(interp *I, const node *where, slong g, slon
     return r;
 }
 
-/* With --verify, a result of the volume engine is recomputed by the reduction
-   (when that is within the limits) and any difference is reported. */
-static value *integrate_verify(interp *I, const node *where, slong g, slong n, const value *integrand, value *fast)
+value *integrate_compare_routes(interp *I, const node *where, value *slow, value *fast)
 {
-    slong D = 3 * g - 3 + n, kmult[2] = {0, D};
-    double terms = pf_estimate_terms(kmult, 1);
-    if (terms > I->lim.max_terms || integrate_table_estimate(g, n, n + D, terms) > I->lim.max_table)
-        return fast;   /* the reference route is out of reach: nothing to compare */
-    value *slow = integrate_by_reduction(I, where, g, n, integrand);
     if (!slow)
         return fast;
     int same = fmpq_mpoly_equal(slow->num, fast->num, I->ring.ctx);
@@ -392,6 +385,17 @@ static value *integrate_verify(interp *I, const node *where, slong g, slong n, c
                             "(please report this input)");
     value_release(fast);
     return NULL;
+}
+
+/* With --verify, a result of the volume engine is recomputed by the reduction
+   (when that is within the limits) and any difference is reported. */
+static value *integrate_verify(interp *I, const node *where, slong g, slong n, const value *integrand, value *fast)
+{
+    slong D = 3 * g - 3 + n, kmult[2] = {0, D};
+    double terms = pf_estimate_terms(kmult, 1);
+    if (terms > I->lim.max_terms || integrate_table_estimate(g, n, n + D, terms) > I->lim.max_table)
+        return fast;   /* the reference route is out of reach: nothing to compare */
+    return integrate_compare_routes(I, where, integrate_by_reduction(I, where, g, n, integrand), fast);
 }
 
 /* The volume engine when it recognises the integrand (checked by the reduction with --verify),
