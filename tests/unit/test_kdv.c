@@ -15,6 +15,7 @@
 #include "correlators/wk.h"
 #include "correlators/wk_kdv.h"
 #include "unit.h"
+#include "wk_published.h"
 
 static unit_report rep;
 
@@ -59,26 +60,15 @@ static void check_kdv_value(wk_kdv_table *K, slong g, const slong *d, slong n, s
     fmpq_clear(e);
 }
 
-/* Published small values by the KdV route alone, on a fresh table so no value comes from elsewhere.
-   Bases from Witten 1991; the genus-2 and genus-3 values are recalled from memory (values of this
-   kind are tabulated in Itzykson-Zuber 1992, "Combinatorics of the modular group II: the Kontsevich
-   integrals"; not checked against the paper here). */
+/* Published small values (wk_published.h: Witten 1991; genus 2 and 3 from memory) by the KdV
+   route alone, on a fresh table so no value comes from elsewhere. */
 static void test_published(void)
 {
     wk_kdv_table *K = wk_kdv_table_new();
-    slong a[3] = {0, 0, 0}, b[1] = {1}, c[2];
-    /* E. Witten, "Two-dimensional gravity and intersection theory on moduli space" (1991) */
-    check_kdv_value(K, 0, a, 3, 1, 1, "Witten 1991");
-    check_kdv_value(K, 1, b, 1, 1, 24, "Witten 1991");
-    /* from memory: genus 2 */
-    b[0] = 4; check_kdv_value(K, 2, b, 1, 1, 1152, "from memory");
-    c[0] = 2; c[1] = 3; check_kdv_value(K, 2, c, 2, 29, 5760, "from memory");
-    a[0] = a[1] = a[2] = 2; check_kdv_value(K, 2, a, 3, 7, 240, "from memory");
-    /* from memory: genus 3 */
-    b[0] = 7; check_kdv_value(K, 3, b, 1, 1, 82944, "from memory");
-    c[0] = 2; c[1] = 6; check_kdv_value(K, 3, c, 2, 77, 414720, "from memory");
-    c[0] = 3; c[1] = 5; check_kdv_value(K, 3, c, 2, 503, 1451520, "from memory");
-    c[0] = 4; c[1] = 4; check_kdv_value(K, 3, c, 2, 607, 1451520, "from memory");
+    for (slong i = 0; i < WK_PUBLISHED_COUNT; i++) {
+        const wk_published_value *w = wk_published_values + i;
+        check_kdv_value(K, w->g, w->d, w->n, w->num, w->den, w->source);
+    }
     wk_kdv_table_free(K);
 }
 

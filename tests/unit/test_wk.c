@@ -11,6 +11,7 @@
 #include <flint/ulong_extras.h>
 #include "correlators/wk.h"
 #include "unit.h"
+#include "wk_published.h"
 
 static unit_report rep;
 
@@ -81,23 +82,14 @@ static void check_value(wk_table *T, slong g, const slong *d, slong n, slong num
     fmpq_clear(e);
 }
 
-/* Published small values (genus 0..3).
-   Each line names its source; the genus-2/3 values are recalled from memory. */
+/* Published small values (genus 0..3) of wk_published.h, each with its source
+   (Witten 1991; genus 2 and 3 from memory). */
 static void test_published_small(wk_table *T)
 {
-    slong a[3] = {0, 0, 0}, b[1] = {1}, c[2];
-    /* Witten 1991, "Two-dimensional gravity and intersection theory on moduli space": bases. */
-    check_value(T, 0, a, 3, 1, 1, "Witten 1991");
-    check_value(T, 1, b, 1, 1, 24, "Witten 1991");
-    /* from memory: genus-2 values */
-    b[0] = 4; check_value(T, 2, b, 1, 1, 1152, "from memory");
-    c[0] = 2; c[1] = 3; check_value(T, 2, c, 2, 29, 5760, "from memory");
-    a[0] = a[1] = a[2] = 2; check_value(T, 2, a, 3, 7, 240, "from memory");
-    /* from memory: genus-3 values */
-    b[0] = 7; check_value(T, 3, b, 1, 1, 82944, "from memory");
-    c[0] = 2; c[1] = 6; check_value(T, 3, c, 2, 77, 414720, "from memory");
-    c[0] = 3; c[1] = 5; check_value(T, 3, c, 2, 503, 1451520, "from memory");
-    c[0] = 4; c[1] = 4; check_value(T, 3, c, 2, 607, 1451520, "from memory");
+    for (slong i = 0; i < WK_PUBLISHED_COUNT; i++) {
+        const wk_published_value *w = wk_published_values + i;
+        check_value(T, w->g, w->d, w->n, w->num, w->den, w->source);
+    }
 }
 
 /* <tau_{3g-2}>_g = 1/(24^g g!) for g = 1..15 (Witten 1991, op. cit.; Itzykson-Zuber 1992,
