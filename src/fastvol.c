@@ -6,6 +6,8 @@
    the polynomial engine (volumes/wpoly.h) when large. */
 #include <stdlib.h>
 #include <string.h>
+#include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 
 #include "correlators/pushforward.h"
 #include "cancel.h"
