@@ -41,6 +41,22 @@ static char *load_try(const char *dir, const char *name)
     return NULL;
 }
 
+/* The standard library installed beside this executable (PREFIX/bin/psikappa
+   -> PREFIX/share/psikappa/lib), so that an install into any prefix finds its
+   own copy first; NULL when the executable's path is unknown. Caller frees. */
+static char *load_exe_libdir(void)
+{
+    char exe[PATH_MAX];
+    ssize_t len = readlink("/proc/self/exe", exe, sizeof exe - 1);
+    if (len <= 0)
+        return NULL;
+    exe[len] = '\0';
+    char *bin = load_dirname(exe);
+    char *lib = xasprintf("%s/../share/psikappa/lib", bin);
+    free(bin);
+    return lib;
+}
+
 /* Finds name, first beside the loading script; NULL when nowhere. */
 static char *load_resolve(interp *I, const node *n)
 {
@@ -55,6 +71,11 @@ static char *load_resolve(interp *I, const node *n)
         for (char *d = strtok_r(copy, ":", &save); d && !path; d = strtok_r(NULL, ":", &save))
             path = load_try(d, n->text);
         free(copy);
+    }
+    char *installed = path ? NULL : load_exe_libdir();
+    if (installed) {
+        path = load_try(installed, n->text);
+        free(installed);
     }
     if (!path)
         path = load_try(PSIKAPPA_STDLIB_DIR, n->text);

@@ -442,8 +442,16 @@ static void test_errors(void)
     fmpq_clear(q);
 }
 
-int main(void)
+/* With the argument "threads", only the parts that run the engine on several
+   threads (for the ThreadSanitizer build, where the rest is too slow). */
+int main(int argc, char **argv)
 {
+    if (argc > 1 && strcmp(argv[1], "threads") == 0) {
+        test_errors();
+        test_invariants();
+        flint_cleanup_master();
+        return unit_finish("test_wpoly threads", &rep);
+    }
     test_errors();
     test_reduction_all();
     test_reduction_random();

@@ -53,10 +53,20 @@ static inline void unit_print_fmpq(const char *label, const fmpq_t x)
     fprintf(stderr, "\n");
 }
 
-/* Prints the summary line and returns the exit status (nonzero iff something failed). */
+/* Exit status of a test program that could not run on this machine (CTest's
+   SKIP_RETURN_CODE for every unit test): it is reported as skipped, not passed. */
+#define UNIT_SKIPPED 77
+
+/* Prints the summary line and returns the exit status: nonzero when a check
+   failed, and also when none was made, since a test that checks nothing is a
+   defect, not a pass. */
 static inline int unit_finish(const char *name, const unit_report *rep)
 {
     printf("%s: %ld passed, %ld failed\n", name, rep->passed, rep->failed);
+    if (rep->passed + rep->failed == 0) {
+        printf("%s: no check was made\n", name);
+        return 1;
+    }
     return rep->failed != 0;
 }
 
