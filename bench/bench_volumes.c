@@ -24,6 +24,7 @@
 
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 
 #include "volumes/wpvol.h"
 #include "correlators/wk.h"

@@ -19,6 +19,7 @@
 
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 
 #include "volumes/wpoly.h"
 #include "correlators/wk.h"

@@ -22,6 +22,8 @@
 #include <string.h>
 #include <fcntl.h>
 #include <unistd.h>
+#include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 
 #include "arb_compat.h"
 #include "interp.h"

@@ -35,6 +35,7 @@
 
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 #include <flint/fmpq_poly.h>
 #include <flint/ulong_extras.h>
 

@@ -23,6 +23,7 @@
 
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 #include <flint/ulong_extras.h>
 
 #include "classes/classexpr.h"
