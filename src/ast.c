@@ -105,14 +105,6 @@ void ast_free(node *n)
     }
 }
 
-srcloc srcloc_join(srcloc a, srcloc b)
-{
-    srcloc r = a;
-    r.last_line = b.last_line;
-    r.last_column = b.last_column;
-    return r;
-}
-
 static const char *ast_kind_name(node_kind k)
 {
     static const char *names[] = {

@@ -84,7 +84,5 @@ void ast_free(node *n);
 /* Writes a stable, one-line-per-node dump of the tree (for golden tests). */
 void ast_dump(FILE *out, const node *n, int depth);
 
-/* Joins two locations into the span from the start of a to the end of b. */
-srcloc srcloc_join(srcloc a, srcloc b);
 
 #endif

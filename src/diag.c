@@ -3,7 +3,6 @@
 #include <stdarg.h>
 
 static FILE *diag_stream;
-static int diag_errors;
 
 void diag_set_stream(FILE *f)
 {
@@ -32,7 +31,6 @@ void diag_error(const srcloc *loc, const char *fmt, ...)
     va_start(ap, fmt);
     diag_vprint("error", loc, fmt, ap);
     va_end(ap);
-    diag_errors++;
 }
 
 void diag_note(const srcloc *loc, const char *fmt, ...)
@@ -43,7 +41,3 @@ void diag_note(const srcloc *loc, const char *fmt, ...)
     va_end(ap);
 }
 
-int diag_count(void)
-{
-    return diag_errors;
-}

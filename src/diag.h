@@ -14,8 +14,6 @@ void diag_error(const srcloc *loc, const char *fmt, ...) __attribute__((format(p
 /* Prints a note that belongs to the previous error (e.g. where a call came from). */
 void diag_note(const srcloc *loc, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
 
-/* Number of errors printed so far. */
-int diag_count(void);
 
 /* Redirects diagnostics (tests and the interactive session use this). */
 void diag_set_stream(FILE *f);

@@ -75,9 +75,6 @@ slong spec_plan_max_k(const spec_plan *P);
 /* Number of multisets (= correlators) spec_plan_evaluate will evaluate. */
 double spec_plan_terms(const spec_plan *P);
 
-/* Largest number of points n = sum_k m_k of a planned multiset (0 if none); the correlator memo
-   needs at most wk_estimate_entries(g, n) entries. */
-slong spec_plan_max_points(const spec_plan *P);
 
 /* Human-readable summary: g, N, the needed t_k with their valuations, the number of multisets by
    m_0 and by lowest x-order, the largest correlator and the memo estimate. */

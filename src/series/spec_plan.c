@@ -302,13 +302,6 @@ double spec_plan_terms(const spec_plan *P)
     return P == NULL ? 0.0 : P->terms;
 }
 
-/* Largest number of points among the planned multisets.
-   0 for NULL. */
-slong spec_plan_max_points(const spec_plan *P)
-{
-    return P == NULL ? 0 : P->max_points;
-}
-
 /* Prints the needed times with their valuations.
    Part of spec_plan_print. */
 static void spec_plan_print_times(FILE *out, const spec_plan *P)

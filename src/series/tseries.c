@@ -91,16 +91,6 @@ void tseries_set(tseries *r, const tseries *a, const fmpq_mpoly_ctx_t ctx)
     r->order = a->order;
 }
 
-/* Exchanges a and b.
-   O(1). */
-void tseries_swap(tseries *a, tseries *b, const fmpq_mpoly_ctx_t ctx)
-{
-    slong t;
-    fmpq_mpoly_swap(a->p, b->p, ctx);
-    t = a->var, a->var = b->var, b->var = t;
-    t = a->order, a->order = b->order, b->order = t;
-}
-
 /* Lowers the order of s to order (never raises it) and drops higher terms.
    An invalid s is left unchanged. */
 void tseries_truncate(tseries *s, slong order, const fmpq_mpoly_ctx_t ctx)

@@ -71,8 +71,6 @@ void tseries_set_mpoly(tseries *s, const fmpq_mpoly_t p, const fmpq_mpoly_ctx_t 
    Aliasing allowed. */
 void tseries_set(tseries *r, const tseries *a, const fmpq_mpoly_ctx_t ctx);
 
-/* Exchanges the contents of a and b in O(1). */
-void tseries_swap(tseries *a, tseries *b, const fmpq_mpoly_ctx_t ctx);
 
 /* Lowers the order of s to min(s->order, order) and drops the terms above it.
    order < -1 is treated as -1. */
