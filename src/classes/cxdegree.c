@@ -64,6 +64,10 @@ static int cxdeg_exp(cxdeg_walk *W, unsigned char *r, const unsigned char *a)
     slong cap = W->cap;
     if (a[0])
         return 0;   /* exp of a class with a degree-0 part: the expansion reports it */
+    if (a[1]) {   /* a term of degree 1: its powers reach every degree */
+        memset(r, 1, (size_t)cap + 1);
+        return 1;
+    }
     memset(r, 0, (size_t)cap + 1);
     r[0] = 1;
     W->work += (double)(cap + 1) * (double)(cap + 1);
