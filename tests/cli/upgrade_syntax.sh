@@ -11,7 +11,8 @@
 # 43/2880 (docs/conventions.md); V_{1,1}(L) = (L^2 + 4 pi^2)/48 in the stack
 # normalisation (Mirzakhani 2007, halved; docs/conventions.md); the table as in
 # docs/language.md; int over Mbar_{1,2} of psi_1 kappa_1 = <tau_0 tau_1 tau_2>_1
-# = 1/12 by the string equation (a property check).
+# = 1/12 by the string equation (a property check); int over Mbar_{1,1} of
+# psi_1 + kappa_1 = 1/24 + 1/24 (Witten 1991; kappa_1 = psi_1 there).
 set -u
 exe=$1
 root=$(cd "$(dirname "$0")/../.." && pwd)
@@ -33,6 +34,8 @@ table[g = 1..2, n = 1..2] int[g, n] kappa_1^(3*g - 3 + n)
 F[1] with t_0 = x, t_k = 0 for k >= 1, order x^3
 wpvolume(1, 1)
 print "int[1,1] psi_1 =", int[1,1] psi_1
+print (int[1,1] psi_1 +
+    kappa_1)
 PK
 cat > "$tmp/want.pk" <<'PK'
 # int[2,0] in a comment
@@ -48,6 +51,8 @@ table_{g=1..2, n=1..2} int_{g,n} kappa_1^(3*g - 3 + n)
 F_1 with t_0 = x, t_k = 0 for k >= 1, order x^3
 V_{1,1}
 print "int[1,1] psi_1 =", int_{1,1} psi_1
+print (int_{1,1} (psi_1 +
+    kappa_1))
 PK
 cat > "$tmp/want.out" <<'OUT'
 43/2880
@@ -63,6 +68,7 @@ g\n       1        2
 O(x^4)
 L_1^2/48 + pi^2/12
 int[1,1] psi_1 = 1/24
+1/12
 OUT
 pass=0; fail=0
 check() { if [ "$1" = ok ]; then pass=$((pass + 1)); else fail=$((fail + 1)); echo "FAIL: $2"; fi; }
