@@ -101,6 +101,8 @@ static int exec_block(interp *I, scope *s, const node_list *body)
 static int exec_for(interp *I, scope *s, const node *n)
 {
     slong lo, hi;
+    if (names_check_reserved(&n->loc, n->text))
+        return 0;
     if (!eval_slong(I, s, n->a, "loop start", WORD_MIN / 2, &lo)
         || !eval_slong(I, s, n->b, "loop end", WORD_MIN / 2, &hi))
         return 0;
