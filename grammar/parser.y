@@ -22,6 +22,7 @@ int yylex(YYSTYPE *lvalp, YYLTYPE *llocp, yyscan_t scanner);
 #include <stdlib.h>
 #include <string.h>
 #include "diag.h"
+#include "parse_checks.h"
 #include "util.h"
 
 #define YYLLOC_DEFAULT(Cur, Rhs, N)                                   \
@@ -82,11 +83,13 @@ static node *parser_compare(srcloc at, srcloc left, srcloc op, int cmp, node *a,
 
 %token <text> NUMBER "number" STRING "string" NAME "name"
 %token <text> PSI_LIT "psi_N" KAPPA_LIT "kappa_N" TAU_LIT "tau_N"
+%token <text> SUBNAME "name_{"
 %token LET "'let'" FOR "'for'" IN "'in'" VAR "'var'" PRINT "'print'"
 %token EXPLAIN "'explain'" IF "'if'" THEN "'then'" ELSE "'else'"
-%token SEQ "'seq'" TABLE "'table'" LOAD "'load'" OUTPUT "'output'"
-%token SUM "'sum'" PROD "'prod'" FREE "'F'" WITH "'with'" ORDER "'order'"
-%token INTKW "'int'" PSI "'psi'" KAPPA "'kappa'" TAU "'tau'" PI "'pi'"
+%token LOAD "'load'" OUTPUT "'output'" WITH "'with'" ORDER "'order'" PI "'pi'"
+%token INT_SUB "'int_{'" SUM_SUB "'sum_{'" PROD_SUB "'prod_{'" SEQ_SUB "'seq_{'"
+%token TABLE_SUB "'table_{'" F_SUB "'F_{'" PSI_SUB "'psi_{'" KAPPA_SUB "'kappa_{'"
+%token TAU_SUB "'tau_{'" CORR_SUB "'>_{'" ASSIGN "':='"
 %token DOTDOT "'..'" CORR_CLOSE "'>_'" EQ "'=='" NE "'!='" LE "'<='" GE "'>='"
 %token DFACT "'!!'" AND "'and'" OR "'or'" NOT "'not'"
 %token NEWLINE "end of line"
@@ -106,9 +109,8 @@ static node *parser_compare(srcloc at, srcloc left, srcloc op, int cmp, node *a,
 %left AND
 %precedence NOT
 %left EQ NE '<' LE '>' GE
-%precedence INTEGRAL
 %left '+' '-'
-%precedence SUMOP
+%precedence INTEGRAL SUMOP
 %left '*' '/'
 %precedence NEG
 %right '^'
@@ -132,7 +134,8 @@ stmt
     | EXPLAIN expr                           { $$ = ast_unary(S_EXPLAIN, @$, $2); }
     | IF expr block                          { $$ = ast_with_list(S_IF, @$, NULL, $3); $$->a = $2; }
     | IF expr block ELSE block               { $$ = ast_with_list(S_IF, @$, NULL, $3); $$->a = $2; $$->b = ast_with_list(S_IF, @5, NULL, $5); }
-    | TABLE '[' ranges ']' expr              { $$ = ast_with_list(S_TABLE, @$, NULL, $3); $$->a = $5; }
+    | TABLE_SUB ranges '}' expr              { $$ = ast_with_list(S_TABLE, @$, NULL, $2); $$->a = $4; }
+    | NAME ASSIGN expr                       { $$ = ast_unary(S_ASSIGN, @$, $3); $$->text = $1; }
     | LOAD STRING                            { $$ = ast_text(S_LOAD, @$, $2); }
     | LET NAME '(' arg_list ',' ')'          { $$ = NULL; diag_error(&@6, "syntax error: unexpected ')', expected a parameter name");
                                                free($2); ast_list_free($4); YYERROR; }
@@ -161,7 +164,8 @@ vardecls
 
 vardecl
     : NAME                              { $$ = ast_text(N_VARDECL, @$, $1); }
-    | NAME '[' expr DOTDOT expr ']'     { $$ = ast_text(N_VARDECL, @$, $1); $$->a = $3; $$->b = $5; }
+    | SUBNAME expr DOTDOT expr '}'      { $$ = ast_text(N_VARDECL, @$, $1); $$->a = $2; $$->b = $4; }
+    | NAME '[' expr DOTDOT expr ']'     { parser_old_family(&@$, $1); free($1); ast_free($3); ast_free($5); $$ = NULL; YYERROR; }
     ;
 
 expr_list
@@ -172,8 +176,8 @@ expr_list
 expr
     : primary
     | '-' expr %prec NEG            { $$ = ast_unary(N_NEG, @$, $2); }
-    | expr '+' expr                 { $$ = ast_binop(@$, '+', $1, $3); }
-    | expr '-' expr                 { $$ = ast_binop(@$, '-', $1, $3); }
+    | expr '+' expr                 { if (!($$ = parser_sum(@$, @1, @2, @3, '+', $1, $3))) YYERROR; }
+    | expr '-' expr                 { if (!($$ = parser_sum(@$, @1, @2, @3, '-', $1, $3))) YYERROR; }
     | expr '*' expr                 { $$ = ast_binop(@$, '*', $1, $3); }
     | expr '/' expr                 { $$ = ast_binop(@$, '/', $1, $3); }
     | expr '^' expr                 { $$ = ast_binop(@$, '^', $1, $3); }
@@ -188,14 +192,15 @@ expr
     | expr AND expr                 { $$ = ast_binop(@$, '&', $1, $3); $$->kind = N_LOGIC; }
     | expr OR expr                  { $$ = ast_binop(@$, '|', $1, $3); $$->kind = N_LOGIC; }
     | NOT expr                      { $$ = ast_unary(N_LOGIC, @$, $2); $$->op = '~'; }
-    | INTKW '[' expr ',' expr ']' expr %prec INTEGRAL { $$ = ast_ternary(N_INTEGRAL, @$, $3, $5, $7); }
+    | INT_SUB expr ',' expr '}' expr %prec INTEGRAL
+                                    { if (!($$ = parser_integral(@$, $2, $4, $6))) YYERROR; }
     | IF expr THEN expr ELSE expr %prec LOW        { $$ = ast_ternary(N_IF, @$, $2, $4, $6); }
-    | SUM '[' NAME '=' expr DOTDOT expr ']' expr %prec SUMOP
-                                    { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = '+'; }
-    | SEQ '[' NAME '=' expr DOTDOT expr ']' expr %prec LOW
-                                    { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = 'L'; }
-    | PROD '[' NAME '=' expr DOTDOT expr ']' expr %prec SUMOP
-                                    { $$ = ast_ternary(N_SUM, @$, $5, $7, $9); $$->text = $3; $$->op = '*'; }
+    | SUM_SUB NAME '=' expr DOTDOT expr '}' expr %prec SUMOP
+                                    { $$ = ast_ternary(N_SUM, @$, $4, $6, $8); $$->text = $2; $$->op = '+'; }
+    | SEQ_SUB NAME '=' expr DOTDOT expr '}' expr %prec LOW
+                                    { $$ = ast_ternary(N_SUM, @$, $4, $6, $8); $$->text = $2; $$->op = 'L'; }
+    | PROD_SUB NAME '=' expr DOTDOT expr '}' expr %prec SUMOP
+                                    { $$ = ast_ternary(N_SUM, @$, $4, $6, $8); $$->text = $2; $$->op = '*'; }
     ;
 
 primary
@@ -205,15 +210,21 @@ primary
     | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
     | NAME '(' args ')'             { $$ = ast_with_list(N_CALL, @$, $1, $3); }
     | NAME '[' expr ']'             { $$ = ast_text(N_INDEXED, @$, $1); $$->a = $3; }
+    | SUBNAME arg_list '}'          { $$ = ast_with_list(N_SUBSCRIPT, @$, $1, $2); }
     | PSI_LIT                       { $$ = ast_unary(N_PSI, @$, ast_index_literal(@$, $1)); free($1); }
-    | PSI '[' expr ']'              { $$ = ast_unary(N_PSI, @$, $3); }
+    | PSI_SUB expr '}'              { $$ = ast_unary(N_PSI, @$, $2); }
     | KAPPA_LIT                     { $$ = ast_unary(N_KAPPA, @$, ast_index_literal(@$, $1)); free($1); }
-    | KAPPA '[' expr ']'            { $$ = ast_unary(N_KAPPA, @$, $3); }
+    | KAPPA_SUB expr '}'            { $$ = ast_unary(N_KAPPA, @$, $2); }
     | '<' insertions CORR_CLOSE genus   { $$ = ast_with_list(N_CORR, @$, NULL, $2); $$->a = $4; }
-    | '(' expr ')'                  { $$ = $2; }
+    | '<' insertions CORR_SUB expr '}'  { $$ = ast_with_list(N_CORR, @$, NULL, $2); $$->a = $4; }
+    | '(' expr ')'                  { $$ = $2; $$->paren = 1; }
     | '[' args ']'                  { $$ = ast_with_list(N_LIST, @$, NULL, $2); }
-    | FREE '[' expr ']' WITH rules ',' ORDER NAME '^' power
-                                    { $$ = ast_with_list(N_SPEC, @$, $9, $6); $$->a = $3; $$->b = $11; }
+    | F_SUB expr '}' WITH rules ',' ORDER NAME '^' power
+                                    { $$ = ast_with_list(N_SPEC, @$, $8, $5); $$->a = $2; $$->b = $10; }
+    | NAME WITH rules ',' ORDER NAME '^' power
+                                    { node *g = parser_free_energy_genus(@1, $1);
+                                      if (!g) { free($6); ast_list_free($3); ast_free($8); YYERROR; }
+                                      $$ = ast_with_list(N_SPEC, @$, $6, $3); $$->a = g; $$->b = $8; }
     ;
 
 ranges
@@ -256,21 +267,21 @@ insertions
 insertion
     : TAU_LIT                       { $$ = ast_unary(N_INSERT, @$, ast_index_literal(@$, $1)); free($1); }
     | TAU_LIT '^' power             { $$ = ast_unary(N_INSERT, @$, ast_index_literal(@1, $1)); $$->b = $3; free($1); }
-    | TAU '[' expr ']'              { $$ = ast_unary(N_INSERT, @$, $3); }
-    | TAU '[' expr ']' '^' power    { $$ = ast_unary(N_INSERT, @$, $3); $$->b = $6; }
+    | TAU_SUB expr '}'              { $$ = ast_unary(N_INSERT, @$, $2); }
+    | TAU_SUB expr '}' '^' power    { $$ = ast_unary(N_INSERT, @$, $2); $$->b = $5; }
     ;
 
 power
     : NUMBER                        { $$ = ast_text(N_NUMBER, @$, $1); }
     | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
-    | '(' expr ')'                  { $$ = $2; }
+    | '(' expr ')'                  { $$ = $2; $$->paren = 1; }
     ;
 
 genus
     : NUMBER                        { $$ = ast_text(N_NUMBER, @$, $1); }
     | '-' NUMBER                    { $$ = ast_unary(N_NEG, @$, ast_text(N_NUMBER, @2, $2)); }
     | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
-    | '(' expr ')'                  { $$ = $2; }
+    | '(' expr ')'                  { $$ = $2; $$->paren = 1; }
     ;
 
 %%

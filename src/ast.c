@@ -108,9 +108,9 @@ void ast_free(node *n)
 static const char *ast_kind_name(node_kind k)
 {
     static const char *names[] = {
-        "number", "string", "pi", "name", "indexed", "call", "psi", "kappa",
+        "number", "string", "pi", "name", "indexed", "subscript", "call", "psi", "kappa",
         "correlator", "insert", "neg", "binop", "compare", "factorial",
-        "integral", "if", "sum", "specialisation", "list", "logic", "range", "rule", "let", "def", "for", "print", "var", "vardecl",
+        "integral", "if", "sum", "specialisation", "list", "logic", "range", "rule", "let", "assign", "def", "for", "print", "var", "vardecl",
         "explain", "if", "table", "load", "output", "expr"};
     return names[k];
 }

@@ -13,7 +13,8 @@ typedef enum {
     N_STRING,   /* text: the unescaped string */
     N_PI,
     N_NAME,     /* text: the name */
-    N_INDEXED,  /* text[a]: a member of a family declared by var X[a..b] */
+    N_INDEXED,  /* text[a]: the a-th item of a list */
+    N_SUBSCRIPT,/* text_{list}: a member X_{i} of a family declared by var X_{a..b}, or V_{g,n} */
     N_CALL,     /* text(list) */
     N_PSI,      /* psi with index a */
     N_KAPPA,    /* kappa with index a */
@@ -23,24 +24,25 @@ typedef enum {
     N_BINOP,    /* a op b, op one of + - * / ^ */
     N_COMPARE,  /* a op b, op one of the CMP_ codes */
     N_FACTORIAL,/* a! */
-    N_INTEGRAL, /* int[a, b] c */
+    N_INTEGRAL, /* int_{a,b} c */
     N_IF,       /* if a then b else c */
-    N_SUM,      /* sum[text = a..b] c (op '+') or prod[text = a..b] c (op '*') */
-    N_SPEC,     /* F[a] with list of N_RULE, order text^b */
+    N_SUM,      /* sum_{text=a..b} c (op '+'), prod_{text=a..b} c (op '*'), seq_{text=a..b} c (op 'L') */
+    N_SPEC,     /* F_{a} with list of N_RULE, order text^b */
     N_LIST,     /* [list] */
     N_LOGIC,    /* a and b (op '&'), a or b ('|'), not a ('~') */
-    N_RANGE,    /* text = a..b (in table[...]) */
+    N_RANGE,    /* text = a..b (in table_{...}) */
     N_RULE,     /* text = a; with list = (N_NAME k): for k >= b, or for k in b..c */
     /* statements */
     S_LET,      /* let text = a */
+    S_ASSIGN,   /* text := a (an existing binding takes a new value) */
     S_DEF,      /* let text(list of N_NAME) = a */
     S_FOR,      /* for text in a..b { list } */
     S_PRINT,    /* print list */
     S_VAR,      /* var list of N_VARDECL */
-    N_VARDECL,  /* text, or text[a..b] */
+    N_VARDECL,  /* text, or text_{a..b} */
     S_EXPLAIN,  /* explain a */
     S_IF,       /* if a { list } [else b], b an S_IF holding the else block in its list */
-    S_TABLE,    /* table[list of N_RANGE] a */
+    S_TABLE,    /* table_{list of N_RANGE} a */
     S_LOAD,     /* load "text" */
     S_OUTPUT,   /* output text [a] */
     S_EXPR      /* a */
@@ -59,6 +61,7 @@ struct node {
     node_kind kind;
     srcloc loc;
     int op;           /* operator character or CMP_ code */
+    int paren;        /* written in parentheses (which the location leaves out) */
     char *text;       /* owned */
     node *a, *b, *c;  /* owned children, may be NULL */
     node_list *list;  /* owned, may be NULL */

@@ -1,5 +1,5 @@
-/* Builtin functions of the language: exp, binomial, factorial, numer,
-   denom, decimal. */
+/* Builtin functions of the language: exp, binomial, numer, denom, decimal,
+   real, dim. */
 #include <stdlib.h>
 #include <string.h>
 
@@ -189,12 +189,21 @@ static value *builtin_decimal(interp *I, const node *call, value **args)
     return value_new_str(out_decimal(args[0]->num, &I->ring, digits, 0), &I->ring);
 }
 
-static value *builtin_wpvolume(interp *I, const node *call, value **args)
+/* dim(g, n) = 3g-3+n, the dimension of Mbar_{g,n} (stable spaces only). */
+static value *builtin_dim(interp *I, const node *call, value **args)
 {
     slong g, n;
-    if (!builtin_get_slong(I, call, args, 0, 0, 1000000, &g) || !builtin_get_slong(I, call, args, 1, 0, 1000000, &n))
+    if (!builtin_get_slong(I, call, args, 0, 0, WORD(1) << 40, &g)
+        || !builtin_get_slong(I, call, args, 1, 0, WORD(1) << 40, &n))
         return NULL;
-    return integrate_volume(I, call, g, n);
+    if (2 * g - 2 + n <= 0) {
+        char *msg = xasprintf("Mbar_{%ld,%ld} is not a stable moduli space (needs 2g-2+n > 0), so it has no "
+                              "dimension here", (long)g, (long)n);
+        builtin_fail(call, msg);
+        free(msg);
+        return NULL;
+    }
+    return value_new_si(&I->ring, 3 * g - 3 + n);
 }
 
 const builtin builtins_core[] = {
@@ -204,7 +213,7 @@ const builtin builtins_core[] = {
     {"denom", 1, builtin_denom, "denom(q)"},
     {"decimal", 2, builtin_decimal, "decimal(x, digits)"},
     {"real", 2, builtin_real, "real(x, digits): x as a certified real with that many correct digits"},
-    {"wpvolume", 2, builtin_wpvolume, "wpvolume(g, n): V_{g,n}(L_1..L_n)"},
+    {"dim", 2, builtin_dim, "dim(g, n) = 3g-3+n, the dimension of Mbar_{g,n}"},
     {NULL, 0, NULL, NULL},
 };
 

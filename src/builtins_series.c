@@ -21,7 +21,7 @@ static int series_arg(interp *I, const node *call, value **args, int i)
     if (args[i]->kind == V_SERIES)
         return 1;
     (void)I;
-    builtin_fail_at(call, i, "expected a series here (make one with series(P, x, N) or F[g] with ...)");
+    builtin_fail_at(call, i, "expected a series here (make one with series(P, x, N) or F_{g} with ...)");
     return 0;
 }
 

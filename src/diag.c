@@ -33,6 +33,14 @@ void diag_error(const srcloc *loc, const char *fmt, ...)
     va_end(ap);
 }
 
+void diag_warning(const srcloc *loc, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    diag_vprint("warning", loc, fmt, ap);
+    va_end(ap);
+}
+
 void diag_note(const srcloc *loc, const char *fmt, ...)
 {
     va_list ap;

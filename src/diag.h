@@ -11,6 +11,9 @@
    and counts it. */
 void diag_error(const srcloc *loc, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
 
+/* Prints a warning at loc: the program goes on (not counted as an error). */
+void diag_warning(const srcloc *loc, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
+
 /* Prints a note that belongs to the previous error (e.g. where a call came from). */
 void diag_note(const srcloc *loc, const char *fmt, ...) __attribute__((format(printf, 2, 3)));
 

@@ -1,5 +1,5 @@
 /* Environments: chains of scopes binding names to values, user functions and
-   families of formal variables (var L[1..6]). */
+   families of formal variables (var L_{1..6}). */
 #ifndef PSIKAPPA_ENV_H
 #define PSIKAPPA_ENV_H
 

@@ -7,6 +7,7 @@
 #include "cancel.h"
 #include "diag.h"
 #include "interp.h"
+#include "oldsyntax.h"
 #include "real_ops.h"
 #include "series_ops.h"
 #include "util.h"
@@ -47,23 +48,6 @@ static value *eval_number(interp *I, const node *n)
     fmpq_mpoly_set_fmpq(v->num, q, I->ring.ctx);
     fmpq_clear(q);
     return v;
-}
-
-static value *eval_name(scope *s, const node *n)
-{
-    binding *b = scope_lookup(s, n->text);
-    if (b && b->kind == B_VALUE)
-        return value_ref(b->val);
-    char *msg;
-    if (!b)
-        msg = xasprintf("undefined name '%s' (formal variables are declared with 'var %s')", n->text, n->text);
-    else if (b->kind == B_FUNCTION)
-        msg = xasprintf("'%s' is a function: call it as %s(...)", n->text, n->text);
-    else
-        msg = xasprintf("'%s' is a family of variables: use %s[i] or %s_i", n->text, n->text, n->text);
-    eval_fail(n, msg);
-    free(msg);
-    return NULL;
 }
 
 /* Explains why q is not an acceptable integer >= lo; NULL when it is. */
@@ -130,47 +114,6 @@ int eval_slong(interp *I, scope *s, const node *n, const char *what, slong lo, s
     fmpq_clear(q);
     value_release(v);
     return ok;
-}
-
-/* xs[i] for a list: 1-based, like the mathematics it transcribes. */
-static value *eval_list_index(interp *I, scope *s, const node *n, const value *list)
-{
-    slong i;
-    if (!eval_slong(I, s, n->a, "list index", 1, &i))
-        return NULL;
-    if (i > list->len) {
-        diag_error(&n->a->loc, "index %ld is past the end of a list of length %ld", (long)i, (long)list->len);
-        return NULL;
-    }
-    return value_ref(list->items[i - 1]);
-}
-
-static value *eval_indexed(interp *I, scope *s, const node *n)
-{
-    binding *b = scope_lookup(s, n->text);
-    if (b && b->kind == B_VALUE && b->val->kind == V_LIST)
-        return eval_list_index(I, s, n, b->val);
-    if (!b || b->kind != B_FAMILY) {
-        char *msg = b && b->kind == B_FUNCTION
-                        ? xasprintf("'%s' is a function: call it as %s(...)", n->text, n->text)
-                        : xasprintf("'%s' is not a family of variables (declare one with 'var %s[1..k]')",
-                                    n->text, n->text);
-        eval_fail(n, msg);
-        free(msg);
-        return NULL;
-    }
-    slong i;
-    if (!eval_slong(I, s, n->a, "index", WORD_MIN / 2, &i))
-        return NULL;
-    if (i < b->lo || i > b->hi) {
-        diag_error(&n->a->loc, "index %ld is outside the declared range %s[%ld..%ld]", (long)i, n->text,
-                   (long)b->lo, (long)b->hi);
-        return NULL;
-    }
-    char *name = xasprintf("%s_%ld", n->text, (long)i);
-    binding *m = scope_lookup(s, name);
-    free(name);
-    return m && m->kind == B_VALUE ? value_ref(m->val) : eval_fail(n, "family member is no longer bound");
 }
 
 static value *eval_class_gen(interp *I, scope *s, const node *n)
@@ -377,7 +320,7 @@ static value *eval_binop(interp *I, scope *s, const node *n)
     if (b && (a->kind == V_STR || b->kind == V_STR))
         eval_fail(n, "arithmetic on strings is not defined");
     else if (b && (a->kind == V_LIST || b->kind == V_LIST))
-        eval_fail(n, "arithmetic on lists is not defined (build a new list with seq[i = a..b] E)");
+        eval_fail(n, "arithmetic on lists is not defined (build a new list with seq_{i=a..b} E)");
     else if (b && (a->kind == V_REAL || b->kind == V_REAL))
         r = real_arith(I, n, n->op, a, b);
     else if (b && (a->kind == V_SERIES || b->kind == V_SERIES))
@@ -548,7 +491,7 @@ static value *eval_integral(interp *I, scope *s, const node *n)
     if (!c)
         return NULL;
     value *r = c->kind == V_STR || c->kind == V_LIST || c->kind == V_SERIES
-                   ? eval_fail(n->c, "int[g, n] integrates a class expression or a number")
+                   ? eval_fail(n->c, "int_{g,n} integrates a class expression or a number")
                                 : integrate_value(I, n, g, npts, c);
     value_release(c);
     return r;
@@ -591,7 +534,7 @@ static value *eval_seq_fill(interp *I, scope *s, const node *n, slong lo, slong 
 }
 
 /* Refuses a list of len items before it is built; the lists that a seq
-   being built around it will hold count too (seq[i = 1..N] seq[j = 1..M] E
+   being built around it will hold count too (seq_{i=1..N} seq_{j=1..M} E
    holds N M values). */
 static int eval_seq_size_ok(interp *I, const node *n, slong len)
 {
@@ -604,7 +547,7 @@ static int eval_seq_size_ok(interp *I, const node *n, slong len)
     return 0;
 }
 
-/* seq[i = a..b] body: the list of the values of body. */
+/* seq_{i=a..b} body: the list of the values of body. */
 static value *eval_seq(interp *I, scope *s, const node *n, slong lo, slong hi)
 {
     slong len = hi >= lo ? hi - lo + 1 : 0;
@@ -618,7 +561,7 @@ static value *eval_seq(interp *I, scope *s, const node *n, slong lo, slong hi)
     return v;
 }
 
-/* sum[i = a..b] body and prod[i = a..b] body, each term in a fresh scope. */
+/* sum_{i=a..b} body and prod_{i=a..b} body, each term in a fresh scope. */
 static value *eval_sum(interp *I, scope *s, const node *n)
 {
     slong lo, hi;
@@ -699,6 +642,9 @@ static value *eval_call(interp *I, scope *s, const node *n)
     value *r;
     if (!b && builtin_call(I, s, n, &r))
         return r;
+    const char *renamed = b ? NULL : oldsyntax_renamed_function(n->text);
+    if (renamed)
+        return eval_fail(n, renamed);
     char *msg = b ? xasprintf("'%s' is not a function", n->text)
                   : xasprintf("undefined function '%s'", n->text);
     eval_fail(n, msg);
@@ -725,6 +671,8 @@ value *eval_expr(interp *I, scope *s, const node *n)
         return eval_name(s, n);
     case N_INDEXED:
         return eval_indexed(I, s, n);
+    case N_SUBSCRIPT:
+        return eval_subscript(I, s, n);
     case N_CALL:
         return eval_call(I, s, n);
     case N_PSI:

@@ -54,6 +54,7 @@ void interp_clear(interp *I)
     free(I->loaded);
     free(I->loading);
     free(I->loading_names);
+    free(I->warned);
     scalar_ring_clear(&I->ring);
 }
 
@@ -100,6 +101,8 @@ static int exec_block(interp *I, scope *s, const node_list *body)
 static int exec_for(interp *I, scope *s, const node *n)
 {
     slong lo, hi;
+    if (names_check_reserved(&n->loc, n->text))
+        return 0;
     if (!eval_slong(I, s, n->a, "loop start", WORD_MIN / 2, &lo)
         || !eval_slong(I, s, n->b, "loop end", WORD_MIN / 2, &hi))
         return 0;
@@ -118,6 +121,8 @@ static int exec_for(interp *I, scope *s, const node *n)
 
 static int exec_var_one(interp *I, scope *s, const node *d, const char *name)
 {
+    if (names_check_reserved(&d->loc, name))
+        return 0;
     int idx = scalar_ring_declare(&I->ring, name);
     if (idx < 0) {
         diag_error(&d->loc, "too many formal variables (at most %d)", SCALAR_MAX_VARS - 1);
@@ -133,6 +138,11 @@ static int exec_var_family(interp *I, scope *s, const node *d)
 {
     slong lo, hi;
     if (!eval_slong(I, s, d->a, "first index", 0, &lo) || !eval_slong(I, s, d->b, "last index", lo, &hi))
+        return 0;
+    char *stem = xasprintf("%s_", d->text);
+    int reserved = names_check_reserved(&d->loc, stem);
+    free(stem);
+    if (reserved)
         return 0;
     if (hi - lo + 1 > SCALAR_MAX_VARS - 1 - I->ring.nvars) {
         diag_error(&d->loc, "declaring %ld variables would pass the limit of %d formal variables",
@@ -165,7 +175,7 @@ static int exec_explain(interp *I, scope *s, const node *n)
     if (e->kind == N_SPEC)
         return specialise_explain(I, s, e);
     if (e->kind != N_INTEGRAL) {
-        diag_error(&e->loc, "explain takes an integral int[g, n] C or a specialisation F[g] with ...");
+        diag_error(&e->loc, "explain takes an integral int_{g,n} C or a specialisation F_{g} with ...");
         return 0;
     }
     slong g, npts;
@@ -200,16 +210,69 @@ static int exec_if(interp *I, scope *s, const node *n)
     return ok;
 }
 
+/* Whether name is bound in s itself (not in an enclosing scope). */
+static int exec_bound_here(const scope *s, const char *name)
+{
+    for (int i = 0; i < s->len; i++)
+        if (strcmp(s->items[i].name, name) == 0)
+            return 1;
+    return 0;
+}
+
+/* let inside a block (a loop or if body) may not hide a binding of an
+   enclosing block: the new binding would end with the block, silently
+   leaving the outer one as it was. Returns 1 when the name may be bound. */
+static int exec_let_ok(interp *I, scope *s, const node *n)
+{
+    if (names_check_reserved(&n->loc, n->text))
+        return 0;
+    if (s == I->globals || exec_bound_here(s, n->text) || !scope_lookup(s->parent, n->text))
+        return 1;
+    diag_error(&n->loc, "let %s here would make a new %s that ends with this block, leaving the outer %s as it "
+                        "was: write %s := ... to update the outer one, or choose another name",
+               n->text, n->text, n->text, n->text);
+    return 0;
+}
+
+/* name := expr: the nearest binding of name takes the new value. */
+static int exec_assign(interp *I, scope *s, const node *n)
+{
+    value *v = eval_expr(I, s, n->a);
+    if (!v)
+        return 0;
+    binding *b = scope_lookup(s, n->text);   /* looked up after evaluating: that may add bindings */
+    char *msg = NULL;
+    if (!b)
+        msg = xasprintf("there is no binding '%s' to update (:= changes an existing binding; make one with "
+                        "let %s = ...)", n->text, n->text);
+    else if (b->kind != B_VALUE)
+        msg = xasprintf("'%s' is a %s: := changes the value of a binding made by let", n->text,
+                        b->kind == B_FUNCTION ? "function" : "family of variables");
+    if (msg) {
+        diag_error(&n->loc, "%s", msg);
+        free(msg);
+        value_release(v);
+        return 0;
+    }
+    value_release(b->val);
+    b->val = v;
+    return 1;
+}
+
 static int exec_stmt_kind(interp *I, scope *s, const node *n)
 {
     value *v;
     switch (n->kind) {
     case S_LET:
-        if (!(v = eval_expr(I, s, n->a)))
+        if (!exec_let_ok(I, s, n) || !(v = eval_expr(I, s, n->a)))
             return 0;
         scope_bind_value(s, n->text, v);
         return 1;
+    case S_ASSIGN:
+        return exec_assign(I, s, n);
     case S_DEF:
+        if (names_check_reserved(&n->loc, n->text))
+            return 0;
         scope_bind_function(s, n->text, n);
         return 1;
     case S_FOR:

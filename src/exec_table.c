@@ -1,4 +1,4 @@
-/* The statements that shape output: table[...] E (a grid over index ranges)
+/* The statements that shape output: table_{...} E (a grid over index ranges)
    and output FORMAT [digits] (how values print from then on). */
 #include <stdlib.h>
 #include <string.h>

@@ -1,8 +1,8 @@
 /* Routing of recognisable Weil-Petersson integrals to the polynomial-time
-   volume engine (src/volumes): int[g,n] exp(c*kappa_1) and int[g,n] c*kappa_1^k.
+   volume engine (src/volumes): int_{g,n} exp(c*kappa_1) and int_{g,n} c*kappa_1^k.
    The engine fills a table of all V_{g',n'} with g' <= G, n' <= N at once,
-   so the table is kept for the session and only grown. wpvolume(g, n) with
-   few points, and int[g,n] psi^a kappa_1^k (or times exp(c*kappa_1)), go to
+   so the table is kept for the session and only grown. V_{g,n} with
+   few points, and int_{g,n} psi^a kappa_1^k (or times exp(c*kappa_1)), go to
    the polynomial engine (volumes/wpoly.h) when large. */
 #include <stdlib.h>
 #include <string.h>
@@ -23,7 +23,7 @@
    and it stays the reference route. */
 #define FASTVOL_MIN_TERMS 2000.0
 
-/* The same for wpvolume(g, 1) (correlator terms summed over the sorted
+/* The same for V_{g,1} (correlator terms summed over the sorted
    multi-indices): measured with bench_wpoly, V_{10,1} (18460 terms) takes
    0.10 s by the reduction and 0.12 s by the engine, V_{12,1} 0.69 s and 0.42 s.
    With n >= 2 the reduction shares its memo between many more coefficients
@@ -155,7 +155,7 @@ value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *
     return r;
 }
 
-/* Set while wpvolume recomputes a routed result by the reduction (--verify),
+/* Set while V_{g,n} recomputes a routed result by the reduction (--verify),
    so that the nested call takes the reference route. */
 static int fastvol_in_reference;
 
@@ -245,7 +245,7 @@ static void fastvol_exp_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const s
     fmpq_mpoly_clear(sum, I->ring.ctx);
 }
 
-/* int[g,n] exp(c kappa_1 + sum_i b_i psi_i) from the coefficients w of the sorted multi-indices
+/* int_{g,n} exp(c kappa_1 + sum_i b_i psi_i) from the coefficients w of the sorted multi-indices
    idx (all nidx of them, from wpoly_indices). Returns a new value. */
 static value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
                               const fmpq_mpoly_t c, const fmpq_mpoly_struct *b)
@@ -359,7 +359,7 @@ value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, in
     return r;
 }
 
-/* int[g,n] f psi^a kappa_1^k (times exp(c kappa_1)) with some psi: the
+/* int_{g,n} f psi^a kappa_1^k (times exp(c kappa_1)) with some psi: the
    coefficient of kappa_1^{D-|a|} times (D-|a|)! W_a from the polynomial
    engine, when the reduction of that monomial would be large (or
    route_volumes). Sets *handled when it takes the integral. */
@@ -406,7 +406,7 @@ static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, co
     return r;
 }
 
-/* int[g,n] f exp(c kappa_1 + sum_i b_i psi_i) with c != 0 and some b_i != 0 (the volume
+/* int_{g,n} f exp(c kappa_1 + sum_i b_i psi_i) with c != 0 and some b_i != 0 (the volume
    polynomials written as integrals): every coefficient from the polynomial engine, when
    fastvol_poly_wanted. Sets *handled when it takes the integral. */
 static value *fastvol_try_exp_linear(interp *I, const node *where, slong g, slong n, const value *integrand,

@@ -1,4 +1,4 @@
-/* The bridge from the language to the intersection engine: int[g,n] of a
+/* The bridge from the language to the intersection engine: int_{g,n} of a
    class expression, correlators, and the printed psi-only reduction. Sizes
    are estimated before any work starts, so absurd requests are refused. */
 #include <stdlib.h>
@@ -150,7 +150,7 @@ value *integrate_correlator(interp *I, const node *where, slong g, const slong *
 static int integrate_expand(cpoly *P, const node *where, const value *integrand)
 {
     if (integrand->kind != V_NUM && integrand->kind != V_CLASS) {
-        diag_error(&where->loc, "int[g, n] integrates a class expression or a number, not a %s",
+        diag_error(&where->loc, "int_{g,n} integrates a class expression or a number, not a %s",
                    value_kind_name(integrand));
         return 0;
     }
@@ -166,7 +166,7 @@ static int integrate_expand(cpoly *P, const node *where, const value *integrand)
                              "take the constant factor out");
     else if (rc == CPOLY_TOO_DEEP)
         diag_error(&where->loc, "this class expression is nested too deeply to expand (build it with fewer "
-                                "nested sums, e.g. sum[i = a..b] inside one integral)");
+                                "nested sums, e.g. sum_{i=a..b} inside one integral)");
     else if (rc == CPOLY_TOO_BIG)
         diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "
                              "(raise the limit with --max-terms N)",
@@ -324,7 +324,7 @@ static value *integrate_verify_reduction(interp *I, const node *where, const cpo
     s.run.done = 0;
     s.checked = 0;
     char what[64];
-    snprintf(what, sizeof what, "int[%ld,%ld]: second route", (long)P->g, (long)P->n);
+    snprintf(what, sizeof what, "int_{%ld,%ld}: second route", (long)P->g, (long)P->n);
     progress_start(&s.run.bar, what, (double)P->len);
     fmpq_mpoly_t second;
     fmpq_mpoly_init(second, I->ring.ctx);
@@ -357,7 +357,7 @@ static value *integrate_by_reduction(interp *I, const node *where, slong g, slon
         run.I = I;
         run.done = 0;
         char what[64];
-        snprintf(what, sizeof what, "int[%ld,%ld]: monomials", (long)g, (long)n);
+        snprintf(what, sizeof what, "int_{%ld,%ld}: monomials", (long)g, (long)n);
         progress_start(&run.bar, what, (double)P.len);
         int rc = cpoly_integrate(r->num, &P, integrate_compute_first, &run);
         progress_end(&run.bar);
@@ -413,28 +413,14 @@ static value *integrate_compute(interp *I, const node *where, slong g, slong n, 
 static char *integrate_question(interp *I, slong g, slong n, const value *integrand)
 {
     char *c = value_get_str(integrand, &I->ring);
-    char *q = xasprintf("int[%ld,%ld] %s", (long)g, (long)n, c);
+    char *q = xasprintf("int_{%ld,%ld} %s", (long)g, (long)n, c);
     free(c);
     return q;
 }
 
-/* Whether the integrand's degree stays below the dimension of a stable Mbar_{g,n}, so that
-   the integral is 0 however large the space (psi indices beyond n are left to the expansion,
-   which reports them). */
-static int integrate_degree_too_low(slong g, slong n, const value *integrand)
-{
-    if (2 * g - 2 + n <= 0 || g > WORD_MAX / 8 || n > WORD_MAX / 8)
-        return 0;
-    if (integrand->kind == V_NUM)
-        return 3 * g - 3 + n > 0;
-    if (integrand->kind != V_CLASS || cx_max_psi(integrand->cls) > n)
-        return 0;
-    return cx_max_degree(integrand->cls) < 3 * g - 3 + n;
-}
-
 value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
-    if (integrate_degree_too_low(g, n, integrand))
+    if (integrand_is_zero(I, where, g, n, integrand))
         return value_new_num(&I->ring);
     if (!integrate_space_ok(I, where, g, n))
         return NULL;
@@ -610,7 +596,7 @@ static int volume_coeff(fmpq_t c, interp *I, keymap *memo, slong g, slong n, con
         integrate_run run;
         run.I = I;
         run.done = 0;
-        progress_start(&run.bar, "wpvolume: coefficients", 0);
+        progress_start(&run.bar, "V_{g,n}: coefficients", 0);
         run.bar.enabled = 0;   /* one monomial at a time: the caller's loop is what takes long */
         rc = integrate_monomial(c, &run, g, key, n, kmult, D - m > 0 ? 1 : 0);
         fmpz_t f;

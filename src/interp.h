@@ -55,6 +55,8 @@ typedef struct interp {
     int nloading;
     char **loaded;           /* scripts already loaded, not loaded again */
     int nloaded;
+    const node **warned;     /* integrals that have warned about their integrand (once each) */
+    int nwarned;
 } interp;
 
 void interp_init(interp *I);
@@ -74,7 +76,7 @@ void interp_add_search_dir(interp *I, const char *dir);
 value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled);
 int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n);
 void fastvol_clear(interp *I);
-/* wpvolume(g, n) by the polynomial engine when the reduction would be large
+/* V_{g,n} by the polynomial engine when the reduction would be large
    (or route_volumes is set); *handled as for fastvol_try. */
 value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled);
 
@@ -84,7 +86,7 @@ void results_save(interp *I, const char *question, const fmpq_mpoly_t value, dou
 double results_clock(void);
 void results_close(interp *I);
 
-/* table[...] E and output FORMAT [digits] (exec_table.c). */
+/* table_{...} E and output FORMAT [digits] (exec_table.c). */
 int exec_table(interp *I, scope *s, const node *n);
 int exec_output(interp *I, scope *s, const node *n);
 
@@ -94,6 +96,14 @@ int exec_load(interp *I, const node *n);
 /* Reports a pending interrupt or timeout at n and returns 1; 0 when none. */
 int eval_cancelled(const node *n);
 
+/* Names, items of lists, subscripted names L_{i} and V_{g,n} (eval_names.c). */
+value *eval_name(scope *s, const node *n);
+value *eval_indexed(interp *I, scope *s, const node *n);
+value *eval_subscript(interp *I, scope *s, const node *n);
+/* Reports a name reserved for a class that is not available (unavailable.h)
+   at `at`; 1 when name is one. */
+int names_check_reserved(const srcloc *at, const char *name);
+
 /* Evaluation entry points shared by the statement executor and builtins. */
 value *eval_expr(interp *I, scope *s, const node *n);
 /* Evaluates n as an integer >= lo; reports an error naming `what` otherwise. */
@@ -102,9 +112,14 @@ int exec_stmt(interp *I, scope *s, const node *n);
 /* Evaluates n as a condition (a number; nonzero is true); 0 after an error. */
 int eval_truth(interp *I, scope *s, const node *n, int *truth);
 
-/* int[g,n] of a value (integrate.c). `where` locates errors. */
+/* Whether int_{g,n} of integrand is 0 because no term has degree 3g-3+n,
+   saying so once per integral `where` (integrand_check.c); it also warns once
+   about a formal variable added to a class, which contributes 0. */
+int integrand_is_zero(interp *I, const node *where, slong g, slong n, const value *integrand);
+
+/* int_{g,n} of a value (integrate.c). `where` locates errors. */
 value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand);
-/* Prints the psi-only reduction of int[g,n] integrand, then its value. */
+/* Prints the psi-only reduction of int_{g,n} integrand, then its value. */
 int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand);
 /* V_{g,n}(L_1..L_n) in Mirzakhani's normalisation, declaring L_1..L_n. */
 value *integrate_volume(interp *I, const node *where, slong g, slong n);
@@ -117,7 +132,7 @@ value *integrate_compare_routes(interp *I, const node *where, value *slow, value
 /* <tau_d>_g with the same limits and messages as integrals. */
 value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n);
 
-/* F[g] with ..., order x^N (specialise.c): the series, or its plan printed. */
+/* F_{g} with ..., order x^N (specialise.c): the series, or its plan printed. */
 value *specialise_value(interp *I, scope *s, const node *n);
 int specialise_explain(interp *I, scope *s, const node *n);
 

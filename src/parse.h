@@ -14,14 +14,16 @@ typedef struct parse_state {
     node_list *program;     /* top-level statements parsed so far (owned) */
     /* lexer */
     int line, column;       /* position of the next byte */
-    int depth;              /* open ( and [: newlines inside them are blanks */
+    size_t offset;          /* byte offset of the next byte in src->text */
+    int depth;              /* open (, [ and subscripts _{: newlines inside them are blanks */
     int last_was_newline;
     int eof_newline_sent;
     int hit_eof;            /* the lexer reached the end of the text */
     const char *lex_error;  /* message for a LEXERROR token */
-    char lex_error_buf[96];
+    char lex_error_buf[256];
     int nopen;              /* stack of open brackets, for "unclosed" notes */
     char open_char[PARSE_MAX_BRACKETS];
+    char open_counted[PARSE_MAX_BRACKETS]; /* 1 when the bracket counts in depth */
     srcloc open_loc[PARSE_MAX_BRACKETS];
 } parse_state;
 

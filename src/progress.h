@@ -3,7 +3,7 @@
 #define PSIKAPPA_PROGRESS_H
 
 typedef struct progress {
-    const char *what;   /* e.g. "int[12,0]: correlator terms" (not owned) */
+    const char *what;   /* e.g. "int_{12,0}: correlator terms" (not owned) */
     double total, start, last;
     int shown, enabled;
 } progress;

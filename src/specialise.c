@@ -1,4 +1,4 @@
-/* F[g] with t_k = ..., order x^N: the specialisation of the Witten-Kontsevich
+/* F_{g} with t_k = ..., order x^N: the specialisation of the Witten-Kontsevich
    free energy at times given by rules. The rules are evaluated lazily, only
    for the k the plan (src/series/spec.h) asks for. */
 #include <ctype.h>

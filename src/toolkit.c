@@ -30,7 +30,7 @@ static const value *toolkit_get_numlist(const node *call, value **args, int i, s
 {
     const value *v = args[i];
     if (v->kind != V_LIST)
-        return builtin_fail_at(call, i, "expected a list of numbers here, such as [1, 2, 3] or seq[n = 1..9] n^2");
+        return builtin_fail_at(call, i, "expected a list of numbers here, such as [1, 2, 3] or seq_{n=1..9} n^2");
     for (slong j = 0; j < v->len; j++)
         if (v->items[j]->kind != V_NUM) {
             char *msg = xasprintf("item %ld of this list is a %s, expected a number", (long)(j + 1),

@@ -16,8 +16,10 @@ def run_example(exe, body):
         with open(os.path.join(d, 'example.pk'), 'w') as f:
             f.write('\n'.join(body) + '\n')
         env = dict(os.environ, PSIKAPPA_STORE='off')
-        r = subprocess.run([exe, 'example.pk'], cwd=d, capture_output=True, text=True, env=env)
-        return (r.stdout + r.stderr).rstrip('\n').split('\n')
+        # one stream, as tests/docs/run-examples.sh reads it: a warning stays beside its value
+        r = subprocess.run([exe, 'example.pk'], cwd=d, stdout=subprocess.PIPE, stderr=subprocess.STDOUT,
+                           text=True, env=env)
+        return r.stdout.rstrip('\n').split('\n')
 
 
 def refresh(exe, lines):

@@ -537,7 +537,7 @@ static char *out_value_decimal(const value *v, const scalar_ring *R, const out_s
     case V_STR:
         return xstrdup(v->str);
     case V_CLASS:
-        *err = xstrdup("a class has no decimal value (integrate it first: int[g, n] C)");
+        *err = xstrdup("a class has no decimal value (integrate it first: int_{g,n} C)");
         return NULL;
     case V_SERIES:
         return out_series(v->ser, R, st, err);

@@ -8,10 +8,10 @@ trap 'rm -rf "$tmp"' EXIT
 export PSIKAPPA_STORE_ALL=1
 unset PSIKAPPA_STORE
 cat > "$tmp/q.pk" <<'PK'
-var s, L[1..2]
-int[2,1] kappa_1^2*kappa_2 + psi_1^4
-int[1,2] exp(s*kappa_1 + L_1^2*psi_1/2 + L_2^2*psi_2/2)
-int[3,0] exp(2*pi^2*kappa_1)
+var s, L_{1..2}
+int_{2,1} (kappa_1^2*kappa_2 + psi_1^4)
+int_{1,2} exp(s*kappa_1 + L_1^2*psi_1/2 + L_2^2*psi_2/2)
+int_{3,0} exp(2*pi^2*kappa_1)
 PK
 pass=0; fail=0
 check() { if [ "$1" = ok ]; then pass=$((pass + 1)); else fail=$((fail + 1)); echo "FAIL: $2"; fi; }

@@ -136,7 +136,7 @@ def interrupt_session(rep, exe, env):
     s = Session(exe, env)
     rep.check(s.expect(PROMPT) is not None, "third session starts", s)
     step(rep, s, "let n = 7", PROMPT, "a definition before the interrupt")
-    s.send("sum[i = 1..1000000000] i\r")
+    s.send("sum_{i=1..1000000000} i\r")
     time.sleep(1.0)
     s.send_control("\x03")
     rep.check(s.expect(r"interrupted.*" + PROMPT, timeout=5.0) is not None,
@@ -201,7 +201,7 @@ def main():
 
         # help
         step(rep, s, "help", r"correlator.*<tau_2 tau_3>_2.*decimal\(.*Ctrl-D.*" + PROMPT, "help")
-        step(rep, s, ":help", r"int\[2,0\] kappa_1\^3.*" + PROMPT, ":help")
+        step(rep, s, ":help", r"int_\{2,0\} kappa_1\^3.*" + PROMPT, ":help")
 
         # Ctrl-C at the prompt drops the typed text; inside a block it drops the block
         s.send("this is not valid")

@@ -151,11 +151,11 @@ static void test_versions(void)
         store_close(v2);
         return;
     }
-    store_put(v1, "int[2,0] kappa_1^3", "43/2880");
-    expect_miss(v2, "int[2,0] kappa_1^3", "other engine version");
-    store_put(v2, "int[2,0] kappa_1^3", "from v2");
-    expect_hit(v1, "int[2,0] kappa_1^3", "43/2880", "v1 keeps its answer");
-    expect_hit(v2, "int[2,0] kappa_1^3", "from v2", "v2 has its own");
+    store_put(v1, "int_{2,0} kappa_1^3", "43/2880");
+    expect_miss(v2, "int_{2,0} kappa_1^3", "other engine version");
+    store_put(v2, "int_{2,0} kappa_1^3", "from v2");
+    expect_hit(v1, "int_{2,0} kappa_1^3", "43/2880", "v1 keeps its answer");
+    expect_hit(v2, "int_{2,0} kappa_1^3", "from v2", "v2 has its own");
     store_close(v1);
     store_close(v2);
     char *a = NULL;
@@ -269,16 +269,16 @@ static void test_tampered_rows(void)
     free(err);
     if (!S)
         return;
-    store_put(S, "int[2,0] kappa_1^3", "43/2880");
+    store_put(S, "int_{2,0} kappa_1^3", "43/2880");
     store_put(S, "<tau_4>_2", "1/1152");
     store_put(S, "<tau_1>_1", "1/24");
-    UNIT_CHECK(&rep, sql(path, "UPDATE results SET answer = '43/2881' WHERE question = 'int[2,0] kappa_1^3'") == 0,
+    UNIT_CHECK(&rep, sql(path, "UPDATE results SET answer = '43/2881' WHERE question = 'int_{2,0} kappa_1^3'") == 0,
                "tamper answer");
     UNIT_CHECK(&rep, sql(path, "UPDATE results SET question = '<tau_4>_3' WHERE question = '<tau_4>_2'") == 0,
                "tamper question");
     UNIT_CHECK(&rep, sql(path, "UPDATE results SET checksum = 'x' WHERE question = '<tau_1>_1'") == 0,
                "tamper checksum type");
-    expect_miss(S, "int[2,0] kappa_1^3", "edited answer");
+    expect_miss(S, "int_{2,0} kappa_1^3", "edited answer");
     expect_miss(S, "<tau_4>_3", "edited question");
     expect_miss(S, "<tau_1>_1", "non-integer checksum");
     UNIT_CHECK(&rep, store_dropped(S) == 3, "three rows dropped, got %ld", store_dropped(S));

@@ -105,16 +105,16 @@ static void test_richardson_fitexp(void)
         char s[4096] = "", e[2048] = "";
         for (slong j = 0; j <= k; j++)
             tk_rand_q(c + j, j < k);
-        snprintf(s, sizeof s, "let xs = seq[n = %ld..%ld] 0", (long)n0, (long)(n0 + L - 1));
+        snprintf(s, sizeof s, "let xs = seq_{n=%ld..%ld} 0", (long)n0, (long)(n0 + L - 1));
         for (slong j = 0; j <= k; j++) {
             strcat(s, " + ");
             tk_put_q(s, sizeof s, c + j);
             snprintf(s + strlen(s), sizeof s - strlen(s), "/n^%ld", (long)j);
         }
-        snprintf(s + strlen(s), sizeof s - strlen(s), "\nlet R = richardson(xs, %ld, %ld)\nsum[i = 1..%ld] (R[i] - ", (long)k,
+        snprintf(s + strlen(s), sizeof s - strlen(s), "\nlet R = richardson(xs, %ld, %ld)\nsum_{i=1..%ld} (R[i] - ", (long)k,
                  (long)n0, (long)(L - k));
         tk_put_q(s, sizeof s, c);
-        snprintf(s + strlen(s), sizeof s - strlen(s), ")^2\nlet C = fitexp(xs, %ld, %ld)\nsum[j = 1..%ld] 0", (long)n0,
+        snprintf(s + strlen(s), sizeof s - strlen(s), ")^2\nlet C = fitexp(xs, %ld, %ld)\nsum_{j=1..%ld} 0", (long)n0,
                  (long)(k + 1), (long)(k + 1));
         for (slong j = 0; j <= k; j++) {
             snprintf(s + strlen(s), sizeof s - strlen(s), " + (C[%ld] - ", (long)(j + 1));
@@ -122,7 +122,7 @@ static void test_richardson_fitexp(void)
             strcat(s, ")^2");
         }
         /* order k-1 cannot remove B_k/n^k: the sum of squares is then positive */
-        snprintf(e, sizeof e, "\nlet S = richardson(xs, %ld, %ld)\nsum[i = 1..%ld] (S[i] - ", (long)(k - 1), (long)n0,
+        snprintf(e, sizeof e, "\nlet S = richardson(xs, %ld, %ld)\nsum_{i=1..%ld} (S[i] - ", (long)(k - 1), (long)n0,
                  (long)(L - k + 1));
         strcat(s, e);
         tk_put_q(s, sizeof s, c);
@@ -148,8 +148,8 @@ static void test_identities(void)
         }
         snprintf(s + strlen(s), sizeof s - strlen(s),
                  "]\nlet C = fitexp(xs, %ld, %ld)\nlet R = richardson(xs, %ld, %ld)\nC[1] - R[%ld]\n"
-                 "let d = diffs(xs)\nxs[1] + sum[i = 1..%ld] d[i] - xs[%ld]\n"
-                 "let q = ratios(xs)\nxs[1]*prod[i = 1..%ld] q[i] - xs[%ld]\n",
+                 "let d = diffs(xs)\nxs[1] + sum_{i=1..%ld} d[i] - xs[%ld]\n"
+                 "let q = ratios(xs)\nxs[1]*prod_{i=1..%ld} q[i] - xs[%ld]\n",
                  (long)n0, (long)K, (long)(K - 1), (long)n0, (long)(L - K + 1), (long)(L - 1), (long)L,
                  (long)(L - 1), (long)L);
         tk_expect(s, "0\n0\n0\n");
@@ -384,8 +384,8 @@ static void test_svgplot(void)
     }
     snprintf(path, sizeof path, "%s/plot.svg", dir);
     snprintf(code, sizeof code,
-             "let a = seq[n = 2..30] (n + 1)^n/n^n\n"
-             "svgplot(\"%s\", [a, richardson(a, 1, 2), seq[i = 1..5] pi^i], [\"inverse\", 2, [\"a <b> & 'c'\", \"R1\", "
+             "let a = seq_{n=2..30} (n + 1)^n/n^n\n"
+             "svgplot(\"%s\", [a, richardson(a, 1, 2), seq_{i=1..5} pi^i], [\"inverse\", 2, [\"a <b> & 'c'\", \"R1\", "
              "\"pi\"]])\n",
              path);
     int status;

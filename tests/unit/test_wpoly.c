@@ -372,7 +372,7 @@ static void test_coeffs_at(void)
     flint_free(idx);
 }
 
-/* The matcher that routes int[g,n] monomials: products of scalars, psi_i (i <= n), kappa_1,
+/* The matcher that routes int_{g,n} monomials: products of scalars, psi_i (i <= n), kappa_1,
    their powers and at most one exp(c kappa_1); anything else is left to the reduction. */
 static void test_matcher(void)
 {
