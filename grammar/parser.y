@@ -210,6 +210,7 @@ primary
     | KAPPA_LIT                     { $$ = ast_unary(N_KAPPA, @$, ast_index_literal(@$, $1)); free($1); }
     | KAPPA '[' expr ']'            { $$ = ast_unary(N_KAPPA, @$, $3); }
     | '<' insertions CORR_CLOSE genus   { $$ = ast_with_list(N_CORR, @$, NULL, $2); $$->a = $4; }
+    | '<' NAME '|' insertions CORR_CLOSE genus { $$ = ast_with_list(N_CORR, @$, $2, $4); $$->a = $6; }
     | '(' expr ')'                  { $$ = $2; }
     | '[' args ']'                  { $$ = ast_with_list(N_LIST, @$, NULL, $2); }
     | FREE '[' expr ']' WITH rules ',' ORDER NAME '^' power

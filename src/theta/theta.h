@@ -22,6 +22,7 @@
 #define PSIKAPPA_THETA_THETA_H
 
 #include <signal.h>
+#include <flint/fmpz.h>
 #include <flint/fmpq.h>
 #include "correlators/wk.h"
 
@@ -72,13 +73,20 @@ double theta_estimate_entries(slong g);
 int theta_kappa_pushforward(fmpq_t res, theta_table *T, slong g, const slong *d, slong n,
                             const slong *kmult, slong kmax, slong max_terms);
 
+/* Receives one term coeff * <Theta | tau_key[0..len-1]>_g of a pushforward expansion (key in no
+   particular order, borrowed for the call).  A nonzero return stops the enumeration with it. */
+typedef int (*theta_term_fn)(void *data, slong g, const slong *key, slong len, const fmpz_t coeff);
+
+/* The terms of theta_kappa_pushforward, handed to fn one set-partition group at a time (equal
+   correlators are not merged).  Nothing is called when the degrees do not match.  Status codes as
+   for theta_kappa_pushforward, or the first nonzero return of fn. */
+int theta_kappa_terms(slong g, const slong *d, slong n, const slong *kmult, slong kmax, slong max_terms,
+                      theta_term_fn fn, void *data);
+
 /* The same integral by the time shift t_k -> t_k - p_k(s) (k >= 1) with exp(-sum_j s_j z^j) =
    sum_k p_k(s) z^k: prod_j kmult[j]! times the coefficient of prod s_j^{kmult[j]}. */
 int theta_kappa_shift(fmpq_t res, theta_table *T, slong g, const slong *d, slong n,
                       const slong *kmult, slong kmax);
-
-/* Number of block choices theta_kappa_pushforward enumerates (a double; HUGE_VAL above 1e18). */
-double theta_kappa_estimate(const slong *kmult, slong kmax);
 
 /* res = int_{Mbar_{g,n}} Theta psi^d kappa_1^k / k!, k = g-1-sum d_i (zero if k < 0), by the time
    shift with s_1 only: the sum over partitions lambda of k of

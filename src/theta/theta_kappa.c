@@ -16,9 +16,11 @@
  * permutations as in the psi-only case,
  *     int Theta psi^d prod_j kappa_{b_j} = sum over set partitions P of (-1)^{m-|P|}
  *                                          <Theta | tau_d prod_{B in P} tau_{b_B}>_g .
- * With b = 0 this is the tau_0 equation, consistent with kappa_0 = 2g-2+n.  Set partitions are
- * enumerated by the block of one factor of the largest remaining index, the other members of the
- * block chosen by type with binomial counts (each choice stands for that many set partitions).
+ * With b = 0 this is the tau_0 equation, consistent with kappa_0 = 2g-2+n.  Equal kappa indices
+ * are grouped as in src/correlators/pushforward.c: a multiset partition (blocks beta, vectors of
+ * counts per kappa index, listed in non-increasing lexicographic order) stands for
+ * prod_j M_j! / (prod_blocks prod_j beta_j! * prod_{equal blocks} repetitions!) set partitions,
+ * all of sign (-1)^(m - #blocks), so kappa_1^m costs one term per partition of m.
  *
  * Time shift.  Summing the formula over exp(sum_j s_j kappa_j) by the exponential formula gives
  *     int Theta psi^d exp(sum_j s_j kappa_j) = <Theta | tau_d exp(-sum_{k>=1} p_k(s) tau_k)>_g ,
@@ -32,85 +34,100 @@
 #include "theta_internal.h"
 
 typedef struct {
-    theta_table *T;
-    slong g, kmax, klen, count, max_terms;
-    slong *key, *rem, *beta;   /* key: d then block sums; beta: kmax+1 entries per level */
-    fmpq_t acc;
+    theta_term_fn fn;
+    void *data;
+    slong g, t, m, klen, count, max_terms;
+    slong *idx, *M, *rem;      /* kappa index and multiplicity of each type, factors left */
+    slong *blk;                /* block of level l at blk + l*t */
+    slong *key;                /* d, then the block sums */
+    fmpz_t numer;              /* prod_j M_j! */
 } theta_pf;
 
-static int pf_recurse(theta_pf *P, slong level, const fmpz_t coeff);
+static int pf_recurse(theta_pf *P, slong level);
 
-/* Evaluates one block choice for the block holding a factor of index t0 (beta = the others).
-   Updates rem and key, recurses, and restores them. */
-static int pf_take_block(theta_pf *P, slong level, slong t0, const slong *beta, const fmpz_t coeff)
+/* Leaf: the multiset partition blk[0..nb-1] stands for prod M_j! / (prod_blocks prod_j beta_j!
+   prod_{equal blocks} rep!) set partitions, each with sign (-1)^(m - nb). */
+static int pf_leaf(theta_pf *P, slong nb)
 {
-    slong j, size = 0, sum = t0;
+    slong l, j, rep = 1;
     int st;
-    fmpz_t c, b;
-    fmpz_init(c);
-    fmpz_init(b);
-    fmpz_set(c, coeff);
-    for (j = 1; j <= P->kmax; j++) {
-        fmpz_bin_uiui(b, (ulong) (P->rem[j] - (j == t0)), (ulong) beta[j]);
-        fmpz_mul(c, c, b);
-        size += beta[j];
-        sum += j * beta[j];
-    }
-    if (size % 2)
-        fmpz_neg(c, c);
-    for (j = 1; j <= P->kmax; j++)
-        P->rem[j] -= beta[j] + (j == t0);
-    P->key[P->klen++] = sum;
-    st = pf_recurse(P, level + 1, c);
-    P->klen--;
-    for (j = 1; j <= P->kmax; j++)
-        P->rem[j] += beta[j] + (j == t0);
-    fmpz_clear(c);
-    fmpz_clear(b);
-    return st;
-}
-
-/* Leaf of the enumeration: acc += coeff * <Theta | tau_key>_g.
-   Counts leaves against max_terms (WK_LIMIT beyond it). */
-static int pf_leaf(theta_pf *P, const fmpz_t coeff)
-{
-    fmpq_t v;
-    int st;
+    fmpz_t c, den, f;
     if (P->max_terms > 0 && ++P->count > P->max_terms)
         return WK_LIMIT;
-    if (P->T->cancel && *P->T->cancel)
-        return WK_CANCELLED;
-    fmpq_init(v);
-    st = theta_correlator(v, P->T, P->g, P->key, P->klen);
-    fmpq_mul_fmpz(v, v, coeff);
-    fmpq_add(P->acc, P->acc, v);
-    fmpq_clear(v);
+    fmpz_init(c);
+    fmpz_init_set_ui(den, 1);
+    fmpz_init(f);
+    for (l = 0; l < nb; l++) {
+        for (j = 0; j < P->t; j++) {
+            fmpz_fac_ui(f, (ulong) P->blk[l * P->t + j]);
+            fmpz_mul(den, den, f);
+        }
+        rep = (l > 0 && memcmp(P->blk + l * P->t, P->blk + (l - 1) * P->t, (size_t) P->t * sizeof(slong)) == 0)
+                  ? rep + 1 : 1;
+        fmpz_mul_ui(den, den, (ulong) rep);       /* accumulates rep! over each run */
+    }
+    fmpz_divexact(c, P->numer, den);
+    if ((P->m - nb) % 2)
+        fmpz_neg(c, c);
+    st = P->fn(P->data, P->g, P->key, P->klen, c);
+    fmpz_clear(c);
+    fmpz_clear(den);
+    fmpz_clear(f);
     return st;
 }
 
-/* Places the factor of largest remaining index in a block with every possible choice of
-   companions (an odometer over types), or evaluates the leaf when nothing remains. */
-static int pf_recurse(theta_pf *P, slong level, const fmpz_t coeff)
+/* Whether block a (length t) is lexicographically <= block b. */
+static int pf_lex_le(const slong *a, const slong *b, slong t)
 {
-    slong t0 = P->kmax, j;
-    slong *beta = P->beta + level * (P->kmax + 1);
-    int st = WK_OK;
-    while (t0 >= 1 && P->rem[t0] == 0)
-        t0--;
-    if (t0 == 0)
-        return pf_leaf(P, coeff);
-    for (j = 0; j <= P->kmax; j++)
-        beta[j] = 0;
+    slong j;
+    for (j = 0; j < t; j++)
+        if (a[j] != b[j])
+            return a[j] < b[j];
+    return 1;
+}
+
+/* Uses the block at this level (already written): updates rem and key, recurses, restores. */
+static int pf_use_block(theta_pf *P, slong level)
+{
+    slong j, sum = 0, *b = P->blk + level * P->t;
+    int st;
+    for (j = 0; j < P->t; j++) {
+        P->rem[j] -= b[j];
+        sum += b[j] * P->idx[j];
+    }
+    P->key[P->klen++] = sum;
+    st = pf_recurse(P, level + 1);
+    P->klen--;
+    for (j = 0; j < P->t; j++)
+        P->rem[j] += b[j];
+    return st;
+}
+
+/* Chooses the block of this level among the nonzero vectors beta <= rem, lexicographically at most
+   the previous block, so that each multiset partition is met once. */
+static int pf_recurse(theta_pf *P, slong level)
+{
+    slong j, *b = P->blk + level * P->t;
+    int st = WK_OK, any = 0;
+    for (j = 0; j < P->t; j++)
+        any |= P->rem[j] > 0;
+    if (!any)
+        return pf_leaf(P, level);
+    for (j = 0; j < P->t; j++)
+        b[j] = 0;
     for (;;) {
-        st = pf_take_block(P, level, t0, beta, coeff);
-        for (j = 1; st == WK_OK && j <= P->kmax; j++) {
-            if (beta[j] < P->rem[j] - (j == t0)) {
-                beta[j]++;
+        for (j = 0; j < P->t; j++) {              /* odometer over 0 <= beta <= rem */
+            if (b[j] < P->rem[j]) {
+                b[j]++;
                 break;
             }
-            beta[j] = 0;
+            b[j] = 0;
         }
-        if (st != WK_OK || j > P->kmax)
+        if (j == P->t)
+            return st;
+        if (level == 0 || pf_lex_le(b, b - P->t, P->t))
+            st = pf_use_block(P, level);
+        if (st != WK_OK)
             return st;
     }
 }
@@ -154,44 +171,93 @@ int theta_kappa_check(slong *K, slong g, const slong *d, slong n, const slong *k
     return WK_OK;
 }
 
-/* Set-partition sum of the file comment (see theta.h).
-   The enumeration allocates one beta row per level (at most m levels). */
+/* Set-partition terms of the file comment grouped by multiset partition, handed to fn.
+   The enumeration holds one block per level (at most m levels) for the t kappa types. */
+int theta_kappa_terms(slong g, const slong *d, slong n, const slong *kmult, slong kmax, slong max_terms,
+                      theta_term_fn fn, void *data)
+{
+    theta_pf P;
+    slong K, j, t = 0;
+    int st = theta_kappa_check(&K, g, d, n, kmult, kmax);
+    if (st != WK_OK || K < 0 || fn == NULL)
+        return fn == NULL ? WK_BADARG : st;
+    memset(&P, 0, sizeof P);
+    P.fn = fn;
+    P.data = data;
+    P.g = g;
+    P.klen = n;
+    P.max_terms = max_terms;
+    for (j = 1; j <= kmax; j++)
+        if (kmult[j] > 0) {
+            t++;
+            P.m += kmult[j];
+        }
+    P.t = t;
+    P.idx = malloc((size_t) (3 * t + 1) * sizeof(slong));
+    P.blk = malloc((size_t) ((P.m + 1) * (t + 1)) * sizeof(slong));
+    P.key = malloc((size_t) (n + P.m + 1) * sizeof(slong));
+    fmpz_init_set_ui(P.numer, 1);
+    st = (P.idx == NULL || P.blk == NULL || P.key == NULL) ? WK_LIMIT : WK_OK;
+    if (st == WK_OK) {
+        fmpz_t f;
+        fmpz_init(f);
+        P.M = P.idx + t;
+        P.rem = P.M + t;
+        for (j = 1, t = 0; j <= kmax; j++)
+            if (kmult[j] > 0) {
+                P.idx[t] = j;
+                P.M[t] = P.rem[t] = kmult[j];
+                fmpz_fac_ui(f, (ulong) kmult[j]);
+                fmpz_mul(P.numer, P.numer, f);
+                t++;
+            }
+        fmpz_clear(f);
+        for (j = 0; j < n; j++)
+            P.key[j] = d[j];
+        st = pf_recurse(&P, 0);
+    }
+    fmpz_clear(P.numer);
+    free(P.idx);
+    free(P.blk);
+    free(P.key);
+    return st;
+}
+
+typedef struct {
+    theta_table *T;
+    fmpq_t acc;
+} theta_pf_sum;
+
+/* The evaluating term function of theta_kappa_pushforward: acc += coeff * <Theta | tau_key>_g. */
+static int pf_sum_term(void *data, slong g, const slong *key, slong len, const fmpz_t coeff)
+{
+    theta_pf_sum *S = data;
+    fmpq_t v;
+    int st;
+    if (S->T->cancel && *S->T->cancel)
+        return WK_CANCELLED;
+    fmpq_init(v);
+    st = theta_correlator(v, S->T, g, key, len);
+    fmpq_mul_fmpz(v, v, coeff);
+    fmpq_add(S->acc, S->acc, v);
+    fmpq_clear(v);
+    return st;
+}
+
+/* The set-partition sum evaluated with the table T (see theta.h). */
 int theta_kappa_pushforward(fmpq_t res, theta_table *T, slong g, const slong *d, slong n,
                             const slong *kmult, slong kmax, slong max_terms)
 {
-    theta_pf P;
-    slong K, m = 0, j;
-    int st = theta_kappa_check(&K, g, d, n, kmult, kmax);
-    fmpz_t one;
+    theta_pf_sum S;
+    int st;
     fmpq_zero(res);
-    if (st != WK_OK || K < 0)
-        return T == NULL ? WK_BADARG : st;
-    for (j = 1; j <= kmax; j++)
-        m += kmult[j];
-    P.T = T;
-    P.g = g;
-    P.kmax = kmax;
-    P.klen = n;
-    P.count = 0;
-    P.max_terms = max_terms;
-    P.key = malloc((size_t) (n + m + 1) * sizeof(slong));
-    P.rem = malloc((size_t) (kmax + 1) * sizeof(slong));
-    P.beta = malloc((size_t) ((m + 1) * (kmax + 1)) * sizeof(slong));
-    st = (P.key == NULL || P.rem == NULL || P.beta == NULL) ? WK_LIMIT : WK_OK;
-    for (j = 0; st == WK_OK && j < n; j++)
-        P.key[j] = d[j];
-    for (j = 0; st == WK_OK && j <= kmax; j++)
-        P.rem[j] = j == 0 ? 0 : kmult[j];
-    fmpq_init(P.acc);
-    fmpz_init_set_ui(one, 1);
+    if (T == NULL)
+        return WK_BADARG;
+    S.T = T;
+    fmpq_init(S.acc);
+    st = theta_kappa_terms(g, d, n, kmult, kmax, max_terms, pf_sum_term, &S);
     if (st == WK_OK)
-        st = pf_recurse(&P, 0, one);
-    if (st == WK_OK)
-        fmpq_set(res, P.acc);
-    fmpz_clear(one);
-    fmpq_clear(P.acc);
-    free(P.key);
-    free(P.rem);
-    free(P.beta);
+        fmpq_set(res, S.acc);
+    fmpq_clear(S.acc);
     return st;
 }
