@@ -22,9 +22,10 @@
 
 #define THETA_WALK_MAX_DEPTH 4000
 
-enum { TH_BAD = -1, TH_FREE = 0, TH_LINEAR = 1, TH_SQUARE = 2 };
+enum { TH_DEEP = -2, TH_BAD = -1, TH_FREE = 0, TH_LINEAR = 1, TH_SQUARE = 2 };
 
 static int theta_split(const cx *e, cx **rest, int depth);
+static const cx *theta_find(const cx *e);
 
 /* The class 1 in e's ring (new reference). */
 static cx *theta_one(const cx *e)
@@ -41,8 +42,8 @@ static cx *theta_one(const cx *e)
 static int theta_split_mul(const cx *e, cx **rest, int depth)
 {
     cx *ra = NULL, *rb = NULL;
-    int oa = theta_split(e->a, &ra, depth + 1), ob = oa == TH_BAD ? TH_BAD : theta_split(e->b, &rb, depth + 1);
-    int o = (oa == TH_BAD || ob == TH_BAD) ? TH_BAD : oa + ob >= TH_SQUARE ? TH_SQUARE : oa + ob;
+    int oa = theta_split(e->a, &ra, depth + 1), ob = oa < 0 ? oa : theta_split(e->b, &rb, depth + 1);
+    int o = oa < 0 ? oa : ob < 0 ? ob : oa + ob >= TH_SQUARE ? TH_SQUARE : oa + ob;
     if (o == TH_LINEAR)
         *rest = oa == TH_LINEAR ? cx_mul(ra, cx_ref(e->b)) : cx_mul(cx_ref(e->a), rb);
     else {
@@ -58,9 +59,9 @@ static int theta_split_mul(const cx *e, cx **rest, int depth)
 static int theta_split_add(const cx *e, cx **rest, int depth)
 {
     cx *ra = NULL, *rb = NULL;
-    int oa = theta_split(e->a, &ra, depth + 1), ob = oa == TH_BAD ? TH_BAD : theta_split(e->b, &rb, depth + 1);
-    int o = TH_BAD;
-    if (oa == ob && oa != TH_LINEAR)
+    int oa = theta_split(e->a, &ra, depth + 1), ob = oa < 0 ? oa : theta_split(e->b, &rb, depth + 1);
+    int o = oa < 0 ? oa : ob < 0 ? ob : TH_BAD;
+    if (oa >= 0 && oa == ob && oa != TH_LINEAR)
         o = oa;
     else if (oa == TH_LINEAR && ob == TH_LINEAR) {
         *rest = cx_add(ra, rb);
@@ -84,8 +85,10 @@ static int theta_split(const cx *e, cx **rest, int depth)
     cx *ra = NULL;
     int o;
     *rest = NULL;
+    if (theta_find(e) == NULL)
+        return TH_FREE;                 /* Theta-free subtrees are not walked (long sums) */
     if (depth > THETA_WALK_MAX_DEPTH)
-        return TH_BAD;
+        return TH_DEEP;
     switch (e->kind) {
     case CX_THETA:
         *rest = theta_one(e);
@@ -102,53 +105,88 @@ static int theta_split(const cx *e, cx **rest, int depth)
         }
         if (ra)
             cx_release(ra);
-        return o == TH_FREE ? TH_FREE : o == TH_BAD || e->index == 0 ? TH_BAD : TH_SQUARE;
+        return o < 0 ? o : o == TH_FREE ? TH_FREE : e->index == 0 ? TH_BAD : TH_SQUARE;
     case CX_EXP:
         o = theta_split(e->a, &ra, depth + 1);
         if (ra)
             cx_release(ra);
-        return o == TH_FREE ? TH_FREE : TH_BAD;
+        return o < 0 ? o : o == TH_FREE ? TH_FREE : TH_BAD;
     default:
         return TH_FREE;
     }
 }
 
-/* The first Theta node of e (for the location of messages), or NULL. */
-static const cx *theta_find(const cx *e, int depth)
+/* The first Theta node of e (also for the location of messages), or NULL.  Iterative, with a
+   heap stack, since sums built in loops make trees of any depth. */
+static const cx *theta_find(const cx *e)
 {
-    if (e == NULL || depth > THETA_WALK_MAX_DEPTH)
-        return NULL;
-    if (e->kind == CX_THETA)
-        return e;
-    const cx *a = theta_find(e->a, depth + 1);
-    return a ? a : theta_find(e->b, depth + 1);
+    slong len = 0, cap = 64;
+    const cx **st = xmalloc(cap * sizeof(const cx *)), *hit = NULL;
+    if (e)
+        st[len++] = e;
+    while (len > 0 && hit == NULL) {
+        const cx *x = st[--len];
+        if (x->kind == CX_THETA) {
+            hit = x;
+            break;
+        }
+        if (len + 2 > cap) {
+            cap *= 2;
+            st = xrealloc(st, cap * sizeof(const cx *));
+        }
+        if (x->b)
+            st[len++] = x->b;
+        if (x->a)
+            st[len++] = x->a;
+    }
+    free(st);
+    return hit;
 }
 
 int theta_in_value(const value *v)
 {
-    return v->kind == V_CLASS && theta_find(v->cls, 0) != NULL;
+    return v->kind == V_CLASS && theta_find(v->cls) != NULL;
 }
 
-/* Calls fn on each additive term of e: sums are split where their parts differ in Theta order.
-   Returns 0 as soon as fn does. */
+/* Calls fn on each additive term of e (the top-level sums are flattened iteratively, so long
+   sums built in loops are fine), with its Theta order and rest.  Returns 0 as soon as fn does. */
 typedef int (*theta_term_visit)(void *data, const cx *term, int order, cx *rest);
-static int theta_each_term(const cx *e, theta_term_visit fn, void *data, int depth)
+static int theta_each_term(const cx *e, theta_term_visit fn, void *data)
 {
-    cx *rest = NULL;
-    int o = theta_split(e, &rest, 0);
-    if (o == TH_BAD && e->kind == CX_ADD && depth < THETA_WALK_MAX_DEPTH)
-        return theta_each_term(e->a, fn, data, depth + 1) && theta_each_term(e->b, fn, data, depth + 1);
-    int ok = fn(data, e, o, rest);
-    if (rest)
-        cx_release(rest);
+    slong len = 0, cap = 64;
+    const cx **st = xmalloc(cap * sizeof(const cx *));
+    int ok = 1;
+    st[len++] = e;
+    while (ok && len > 0) {
+        const cx *x = st[--len];
+        if (x->kind == CX_ADD) {
+            if (len + 2 > cap) {
+                cap *= 2;
+                st = xrealloc(st, cap * sizeof(const cx *));
+            }
+            st[len++] = x->b;
+            st[len++] = x->a;
+            continue;
+        }
+        cx *rest = NULL;
+        int o = theta_split(x, &rest, 0);
+        ok = fn(data, x, o, rest);
+        if (rest)
+            cx_release(rest);
+    }
+    free(st);
     return ok;
 }
 
 /* Reports why a term cannot be integrated with Theta, at its Theta node. */
-static void theta_report_bad(const node *where, const cx *term)
+static void theta_report_bad(const node *where, const cx *term, int order)
 {
-    const cx *t = theta_find(term, 0);
+    const cx *t = theta_find(term);
     const node *at = t && t->origin ? t->origin : where;
+    if (order == TH_DEEP) {
+        diag_error(&at->loc, "this class expression is nested too deeply around Theta to be read");
+        return;
+    }
     diag_error(&at->loc, "Theta must be a factor of each term of the integrand (as in Theta*psi_1 + "
                          "Theta*kappa_1), not inside exp() nor added to classes without Theta");
 }
@@ -270,8 +308,8 @@ typedef struct {
 static int theta_whole_term(void *data, const cx *term, int order, cx *rest)
 {
     theta_whole *W = data;
-    if (order == TH_BAD) {
-        theta_report_bad(W->where, term);
+    if (order < 0) {
+        theta_report_bad(W->where, term, order);
         return 0;
     }
     if (order == TH_SQUARE)
@@ -300,7 +338,7 @@ value *theta_integrate_value(interp *I, const node *where, slong g, slong n, con
         return NULL;
     }
     theta_whole W = {I, where, g, n, value_new_num(&I->ring)};
-    if (!theta_each_term(integrand->cls, theta_whole_term, &W, 0)) {
+    if (!theta_each_term(integrand->cls, theta_whole_term, &W)) {
         value_release(W.res);
         return NULL;
     }
@@ -375,8 +413,8 @@ static int theta_explain_term(void *data, const cx *term, int order, cx *rest)
 {
     theta_explain_walk *E = data;
     interp *I = E->red.I;
-    if (order == TH_BAD) {
-        theta_report_bad(E->where, term);
+    if (order < 0) {
+        theta_report_bad(E->where, term, order);
         return 0;
     }
     if (order != TH_LINEAR || E->red.g == 0) {
@@ -474,7 +512,7 @@ int theta_explain(interp *I, const node *where, slong g, slong n, const value *i
     E.red.g = g;
     E.where = where;
     E.n = n;
-    int ok = theta_each_term(integrand->cls, theta_explain_term, &E, 0);
+    int ok = theta_each_term(integrand->cls, theta_explain_term, &E);
     if (ok)
         theta_explain_print(I, &E);
     for (slong i = 0; i < E.red.len; i++) {
