@@ -13,6 +13,7 @@
 
 #include "cancel.h"
 #include "classes/cpoly.h"
+#include "correlators/pushforward.h"
 #include "diag.h"
 #include "format/print.h"
 #include "source.h"
@@ -271,6 +272,30 @@ static int theta_rest_genus_ok(interp *I, const node *where, slong g)
     return 1;
 }
 
+/* Adds the multiset partitions of one monomial's kappa factors (its number of Theta correlator
+   terms, the count of src/correlators/pushforward.c) to the double at data. */
+static int theta_cost_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
+                           const fmpq_mpoly_t coeff)
+{
+    (void)psi;
+    (void)n;
+    (void)coeff;
+    *(double *)data += kmax > 0 ? pf_estimate_terms(kmult, kmax) : 1.0;
+    return 0;
+}
+
+/* Refuses, before any work, an integral whose reduction has more than --max-terms terms. */
+static int theta_cost_ok(interp *I, const node *where, const cpoly *P)
+{
+    double terms = 0.0;
+    cpoly_foreach_top(P, theta_cost_term, &terms);
+    if (terms <= I->lim.max_terms)
+        return 1;
+    diag_error(&where->loc, "this integral reduces to about %.3g Theta correlator terms, above the limit of %.3g "
+                            "(raise it with --max-terms N)", terms, I->lim.max_terms);
+    return 0;
+}
+
 /* acc += int_{Mbar_{g,n}} Theta * rest.  Zero in genus 0 and for the parts of rest whose degree
    is not g-1.  Returns 0 after reporting an error. */
 static int theta_integrate_rest(interp *I, const node *where, slong g, slong n, const cx *rest,
@@ -282,7 +307,7 @@ static int theta_integrate_rest(interp *I, const node *where, slong g, slong n, 
         return 0;
     cpoly P;
     cpoly_init_degree(&P, g, n, g - 1, I->lim.max_class_terms, I->ring.ctx);
-    int ok = theta_expand_rest(I, where, &P, rest);
+    int ok = theta_expand_rest(I, where, &P, rest) && theta_cost_ok(I, where, &P);
     if (ok) {
         theta_run R = {I, where, acc, g, WK_OK};
         cpoly_foreach_top(&P, theta_run_term, &R);
