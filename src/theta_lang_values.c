@@ -229,6 +229,16 @@ static int theta_volume_ok(interp *I, const node *where, slong g, slong n)
     return small && theta_genus_ok(I, where, g);
 }
 
+/* Reports a failed coefficient: a difference between the routes (--verify) or an engine status. */
+static void theta_volume_report(interp *I, const node *call, int rc)
+{
+    if (rc == THETA_INEXACT)
+        diag_error(&call->loc, "verification failed: two routes disagree on a coefficient of this super "
+                               "volume (please report this input)");
+    else
+        theta_lang_report(I, call, rc);
+}
+
 value *theta_builtin_supervolume(interp *I, const node *call, value **args)
 {
     slong g, n;
@@ -254,11 +264,7 @@ value *theta_builtin_supervolume(interp *I, const node *call, value **args)
         fmpq_init(W.c);
         int rc = g == 0 ? WK_OK : theta_vwalk_visit(&W, 0, g - 1);   /* Theta vanishes in genus 0 */
         if (rc != WK_OK) {
-            if (rc == THETA_INEXACT)
-                diag_error(&call->loc, "verification failed: two routes disagree on a coefficient of this super "
-                                       "volume (please report this input)");
-            else
-                theta_lang_report(I, call, rc);
+            theta_volume_report(I, call, rc);
             value_release(r);
             r = NULL;
         }

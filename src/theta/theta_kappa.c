@@ -171,13 +171,33 @@ int theta_kappa_check(slong *K, slong g, const slong *d, slong n, const slong *k
     return WK_OK;
 }
 
+/* Fills the types of P (kappa index, multiplicity, factors left) and prod_j M_j!; P->idx, M and
+   rem share one block of 3t slongs allocated by the caller. */
+static void pf_setup_types(theta_pf *P, const slong *kmult, slong kmax)
+{
+    slong j, t = 0;
+    fmpz_t f;
+    fmpz_init(f);
+    P->M = P->idx + P->t;
+    P->rem = P->M + P->t;
+    for (j = 1; j <= kmax; j++)
+        if (kmult[j] > 0) {
+            P->idx[t] = j;
+            P->M[t] = P->rem[t] = kmult[j];
+            fmpz_fac_ui(f, (ulong) kmult[j]);
+            fmpz_mul(P->numer, P->numer, f);
+            t++;
+        }
+    fmpz_clear(f);
+}
+
 /* Set-partition terms of the file comment grouped by multiset partition, handed to fn.
    The enumeration holds one block per level (at most m levels) for the t kappa types. */
 int theta_kappa_terms(slong g, const slong *d, slong n, const slong *kmult, slong kmax, slong max_terms,
                       theta_term_fn fn, void *data)
 {
     theta_pf P;
-    slong K, j, t = 0;
+    slong K, j;
     int st = theta_kappa_check(&K, g, d, n, kmult, kmax);
     if (st != WK_OK || K < 0 || fn == NULL)
         return fn == NULL ? WK_BADARG : st;
@@ -187,31 +207,17 @@ int theta_kappa_terms(slong g, const slong *d, slong n, const slong *kmult, slon
     P.g = g;
     P.klen = n;
     P.max_terms = max_terms;
-    for (j = 1; j <= kmax; j++)
-        if (kmult[j] > 0) {
-            t++;
-            P.m += kmult[j];
-        }
-    P.t = t;
-    P.idx = malloc((size_t) (3 * t + 1) * sizeof(slong));
-    P.blk = malloc((size_t) ((P.m + 1) * (t + 1)) * sizeof(slong));
+    for (j = 1; j <= kmax; j++) {
+        P.t += kmult[j] > 0;
+        P.m += kmult[j];
+    }
+    P.idx = malloc((size_t) (3 * P.t + 1) * sizeof(slong));
+    P.blk = malloc((size_t) ((P.m + 1) * (P.t + 1)) * sizeof(slong));
     P.key = malloc((size_t) (n + P.m + 1) * sizeof(slong));
     fmpz_init_set_ui(P.numer, 1);
     st = (P.idx == NULL || P.blk == NULL || P.key == NULL) ? WK_LIMIT : WK_OK;
     if (st == WK_OK) {
-        fmpz_t f;
-        fmpz_init(f);
-        P.M = P.idx + t;
-        P.rem = P.M + t;
-        for (j = 1, t = 0; j <= kmax; j++)
-            if (kmult[j] > 0) {
-                P.idx[t] = j;
-                P.M[t] = P.rem[t] = kmult[j];
-                fmpz_fac_ui(f, (ulong) kmult[j]);
-                fmpz_mul(P.numer, P.numer, f);
-                t++;
-            }
-        fmpz_clear(f);
+        pf_setup_types(&P, kmult, kmax);
         for (j = 0; j < n; j++)
             P.key[j] = d[j];
         st = pf_recurse(&P, 0);
