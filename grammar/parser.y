@@ -217,6 +217,8 @@ primary
     | KAPPA_SUB expr '}'            { $$ = ast_unary(N_KAPPA, @$, $2); }
     | '<' insertions CORR_CLOSE genus   { $$ = ast_with_list(N_CORR, @$, NULL, $2); $$->a = $4; }
     | '<' insertions CORR_SUB expr '}'  { $$ = ast_with_list(N_CORR, @$, NULL, $2); $$->a = $4; }
+    | '<' NAME '|' insertions CORR_CLOSE genus { $$ = ast_with_list(N_CORR, @$, $2, $4); $$->a = $6; }
+    | '<' NAME '|' insertions CORR_SUB expr '}' { $$ = ast_with_list(N_CORR, @$, $2, $4); $$->a = $6; }
     | '(' expr ')'                  { $$ = $2; $$->paren = 1; }
     | '[' args ']'                  { $$ = ast_with_list(N_LIST, @$, NULL, $2); }
     | F_SUB expr '}' WITH rules ',' ORDER NAME '^' power

@@ -5,6 +5,7 @@
 
 #include "builtins.h"
 #include "real_ops.h"
+#include "theta_lang.h"
 #include "diag.h"
 #include "series_ops.h"
 #include "util.h"
@@ -214,6 +215,7 @@ const builtin builtins_core[] = {
     {"decimal", 2, builtin_decimal, "decimal(x, digits)"},
     {"real", 2, builtin_real, "real(x, digits): x as a certified real with that many correct digits"},
     {"dim", 2, builtin_dim, "dim(g, n) = 3g-3+n, the dimension of Mbar_{g,n}"},
+    {"supervolume", 2, theta_builtin_supervolume, "supervolume(g, n): V^Theta_{g,n}(L_1..L_n)"},
     {NULL, 0, NULL, NULL},
 };
 

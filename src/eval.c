@@ -8,6 +8,7 @@
 #include "diag.h"
 #include "interp.h"
 #include "oldsyntax.h"
+#include "theta_lang.h"
 #include "real_ops.h"
 #include "series_ops.h"
 #include "util.h"
@@ -477,7 +478,7 @@ static value *eval_correlator(interp *I, scope *s, const node *n)
     value *r = NULL;
     slong len = eval_insertions(I, s, n, &d);
     if (len >= 0 && eval_slong(I, s, n->a, "genus", 0, &g))
-        r = integrate_correlator(I, n, g, d, len);
+        r = n->text ? theta_correlator_value(I, n, g, d, len) : integrate_correlator(I, n, g, d, len);
     free(d);
     return r;
 }
@@ -668,6 +669,8 @@ value *eval_expr(interp *I, scope *s, const node *n)
         return v;
     }
     case N_NAME:
+        if (theta_is_class_name(n->text) && !scope_lookup(s, n->text))
+            return theta_class_value(I, n);
         return eval_name(s, n);
     case N_INDEXED:
         return eval_indexed(I, s, n);

@@ -4,6 +4,7 @@
 
 #include "cancel.h"
 #include "correlators/wk_kdv.h"
+#include "theta_lang.h"
 #include "diag.h"
 #include "interp.h"
 #include "memory.h"
@@ -36,6 +37,7 @@ void interp_clear(interp *I)
     scope_free(I->globals);
     wk_table_free(I->wk);
     wk_kdv_table_free(I->wk_kdv);
+    theta_lang_clear(I);
     keymap_clear(&I->integrals);
     fastvol_clear(I);
     results_close(I);

@@ -14,6 +14,7 @@
 #include "format/print.h"
 #include "interp.h"
 #include "strbuf.h"
+#include "theta_lang.h"
 #include "util.h"
 
 /* Reports an unstable or oversized space; returns 1 when (g, n) is usable. */
@@ -420,6 +421,8 @@ static char *integrate_question(interp *I, slong g, slong n, const value *integr
 
 value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
+    if (theta_in_value(integrand))
+        return theta_integrate_value(I, where, g, n, integrand);
     if (integrand_is_zero(I, where, g, n, integrand))
         return value_new_num(&I->ring);
     if (!integrate_space_ok(I, where, g, n))
@@ -551,6 +554,8 @@ static void reduction_clear(reduction *R)
 
 int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
+    if (theta_in_value(integrand))
+        return theta_explain(I, where, g, n, integrand);
     if (!integrate_space_ok(I, where, g, n))
         return 0;
     cpoly P;

@@ -31,6 +31,7 @@ typedef struct interp {
     wk_table *wk;            /* Witten-Kontsevich numbers computed so far */
     struct wk_kdv_table *wk_kdv; /* the same by the KdV recursion (--verify), created on first use */
     keymap integrals;        /* psi-kappa integrals computed so far */
+    struct theta_table *theta_vir, *theta_kdv; /* Theta-psi numbers by two routes (theta_lang.c) */
     interp_limits lim;
     int depth;               /* current user-function call depth */
     double list_outer;       /* values that the seq lists being built hold per item of a new one (1 outside seq) */

@@ -15,7 +15,6 @@ static const unavailable_entry unavailable_table[] = {
     {"ch_", 1, "the Chern character ch_k of the Hodge bundle"},
     {"delta", 0, "the boundary divisor delta"},
     {"delta_", 1, "a boundary class delta_..."},
-    {"Theta", 0, "the class Theta_{g,n}"},
     {"Theta_", 1, "the class Theta_{g,n}"},
     {"DR_", 1, "the double ramification cycle DR_g(a)"},
 };

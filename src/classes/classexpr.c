@@ -36,6 +36,13 @@ cx *cx_kappa(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin)
     return e;
 }
 
+cx *cx_theta(const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_psi(0, ctx, origin);
+    e->kind = CX_THETA;
+    return e;
+}
+
 static cx *cx_binary(cx_kind kind, cx *a, cx *b)
 {
     cx *e = cx_node(kind, a->ctx);
@@ -135,6 +142,8 @@ static slong cx_max_degree_at(const cx *e, int depth)
         return cx_degree_mul(e->index, a);
     case CX_EXP:
         return WORD_MAX;   /* also for degree 0 inside: exp() reports a constant part itself */
+    case CX_THETA:
+        return WORD_MAX;   /* its degree 2g-2+n depends on the space */
     default:
         return 0;
     }

@@ -8,7 +8,7 @@
 
 #include <flint/fmpq_mpoly.h>
 
-typedef enum { CX_SCALAR, CX_PSI, CX_KAPPA, CX_ADD, CX_MUL, CX_POW, CX_EXP } cx_kind;
+typedef enum { CX_SCALAR, CX_PSI, CX_KAPPA, CX_ADD, CX_MUL, CX_POW, CX_EXP, CX_THETA } cx_kind;
 
 typedef struct cx {
     cx_kind kind;
@@ -25,6 +25,8 @@ typedef struct cx {
 cx *cx_scalar(const fmpq_mpoly_t c, const fmpq_mpoly_ctx_t ctx);
 cx *cx_psi(slong i, const fmpq_mpoly_ctx_t ctx, const void *origin);
 cx *cx_kappa(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin);
+/* Norbury's class Theta_{g,n} (degree 2g-2+n): only the Theta adaptor (theta_lang.c) integrates it. */
+cx *cx_theta(const fmpq_mpoly_ctx_t ctx, const void *origin);
 cx *cx_add(cx *a, cx *b);
 cx *cx_mul(cx *a, cx *b);
 cx *cx_pow(cx *a, slong k, const void *origin);

@@ -16,6 +16,13 @@ void cpoly_init(cpoly *P, slong g, slong n, slong max_terms, const fmpq_mpoly_ct
     P->ctx = ctx;
 }
 
+void cpoly_init_degree(cpoly *P, slong g, slong n, slong D, slong max_terms, const fmpq_mpoly_ctx_t ctx)
+{
+    cpoly_init(P, g, n, max_terms, ctx);
+    P->D = D;
+    P->nexp = n + (D > 0 ? D : 0);
+}
+
 static void cpoly_free_terms(cpoly *P)
 {
     for (slong i = 0; i < P->len; i++)
@@ -333,6 +340,9 @@ static int cpoly_expand_rec(cpoly *P, const cx *e, const cx **bad)
         return cpoly_expand_pow(P, e, bad);
     case CX_EXP:
         return cpoly_expand_exp(P, e, bad);
+    case CX_THETA:        /* Theta is split off before expansion (theta_lang.c) */
+        *bad = e;
+        return CPOLY_THETA;
     }
     return CPOLY_OK;
 }

@@ -26,13 +26,17 @@ typedef struct cpoly {
     const fmpq_mpoly_ctx_struct *ctx;
 } cpoly;
 
-enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG };
+enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG, CPOLY_THETA };
 
 /* A space needs D <= CPOLY_MAX_DIM so that exponents fit cpoly_exp. */
 #define CPOLY_MAX_DIM 60000
 
 void cpoly_init(cpoly *P, slong g, slong n, slong max_terms, const fmpq_mpoly_ctx_t ctx);
 void cpoly_clear(cpoly *P);
+
+/* As cpoly_init, but truncated at degree D instead of 3g-3+n (0 <= D <= 3g-3+n): the part of an
+   integrand multiplying a class of degree 3g-3+n-D. */
+void cpoly_init_degree(cpoly *P, slong g, slong n, slong D, slong max_terms, const fmpq_mpoly_ctx_t ctx);
 
 /* Expands e on Mbar_{g,n} into P (initialised by the caller with the same g, n).
    Returns CPOLY_OK, or an error code with *bad set to the node at fault

@@ -1,4 +1,5 @@
-/* wk_internal.h - memo layout shared by wk_memo.c and wk.c only (not part of the public API).
+/* wk_internal.h - memo layout shared by wk_memo.c, wk.c and the Theta tables of src/theta (not
+ * part of the public API).
  *
  * The memo maps a sorted (descending) multi-index d[0..n-1] to the integer
  *     X(d) = 2^(4g+n-2) * prod_i (2 d_i + 1)!! * <tau_d>_g ,

@@ -337,6 +337,9 @@ static void out_latex_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
     case CX_KAPPA:
         strbuf_printf(b, "\\kappa_{%ld}", (long)e->index);
         break;
+    case CX_THETA:
+        strbuf_puts(b, "\\Theta");
+        break;
     case CX_ADD:
         out_latex_put_sum(b, e, R);
         break;

@@ -51,6 +51,9 @@ static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
     case CX_KAPPA:
         strbuf_printf(b, "kappa_%ld", (long)e->index);
         break;
+    case CX_THETA:
+        strbuf_puts(b, "Theta");
+        break;
     case CX_ADD:
         print_operand(b, e->a, 1, R);
         strbuf_puts(b, " + ");
