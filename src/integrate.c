@@ -197,8 +197,8 @@ static int integrate_estimate_term(void *data, const slong *psi, slong n, const 
 {
     (void)coeff;
     integrate_estimate *e = data;
-    if (kmax == 0 && wk_closed_form_kind(e->g, psi, n) != WK_CLOSED_NONE)
-        return 0;   /* answered by a closed form, without the table */
+    if (kmax == 0 ? wk_closed_form_kind(e->g, psi, n) != WK_CLOSED_NONE : pf_all_closed(e->g, psi, n, kmult, kmax))
+        return 0;   /* answered by closed forms, without the table */
     e->table = 1;
     e->terms += pf_estimate_terms(kmult, kmax);
     slong pts = n;
