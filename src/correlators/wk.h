@@ -39,6 +39,9 @@ void wk_table_free(wk_table *T);
    A computation that would need more entries stops with WK_LIMIT; existing entries stay valid. */
 void wk_table_set_limit(wk_table *T, slong max_entries);
 
+/* The entry limit set by wk_table_set_limit (0 = unlimited); 0 for a NULL table. */
+slong wk_table_limit(const wk_table *T);
+
 /* Makes long computations poll *flag (e.g. set by a signal handler) and stop with
    WK_CANCELLED once it is nonzero; NULL turns polling off. The flag is not owned. */
 void wk_table_set_cancel(wk_table *T, volatile sig_atomic_t *flag);
