@@ -8,6 +8,7 @@
 #include "interp.h"
 #include "memory.h"
 #include "parse.h"
+#include "verify_account.h"
 #include "util.h"
 
 void interp_init(interp *I)
@@ -40,6 +41,7 @@ void interp_clear(interp *I)
     keymap_clear(&I->integrals);
     fastvol_clear(I);
     results_close(I);
+    verify_account_free(I);
     free(I->store_path);
     for (int i = 0; i < I->nprograms; i++) {
         ast_list_free(I->programs[i]);

@@ -59,6 +59,11 @@ int pf_expansion_evaluate(fmpq_t res, wk_table *T, const pf_expansion *E);
    when memory runs out; 1 when the degree does not match (the integral is 0). */
 int pf_all_closed(slong g, const slong *d, slong n, const slong *kmult, slong kmax);
 
+/* Predicted seconds to evaluate `terms` pushforward terms of kappa monomials in genus g with a
+   fresh table (pf_closed.c): an a-priori estimate, so that long reductions are refused before any
+   work.  HUGE_VAL for absurd inputs. */
+double pf_estimate_seconds(slong g, double terms);
+
 /* Convenience: expand (no term limit) then evaluate; zero when degrees do not match 3g-3+n.
    Status codes as for pf_expand and pf_expansion_evaluate; res is 0 on error. */
 int pf_integral(fmpq_t res, wk_table *T, slong g, const slong *d, slong n, const slong *kmult, slong kmax);
