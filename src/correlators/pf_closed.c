@@ -25,7 +25,7 @@ int pf_all_closed(slong g, const slong *d, slong n, const slong *kmult, slong km
 
 /* Seconds per pushforward term: 6e-5 s at genus <= 8, times 1.35 per genus above.  Fitted to
    bench_engine wp G (int kappa_1^{3G-3} with a fresh table; 2026, this machine): G = 8, 10, 12,
-   13, 14 took 0.037, 0.19, 1.4, 4.4 and about 12 s for 792, 3010, 10143, 17977 and 31185 terms,
+   13, 14 took 0.037, 0.19, 1.4, 4.4 and 10.4 s for 792, 3010, 10143, 17977 and 31185 terms,
    predicted 0.048, 0.33, 2.0, 4.8 and 11 s.  The cost per term grows with the genus because the
    correlators get more points and longer DVV sums; by this fit kappa_1^57 on Mbar_{20,0}
    (614154 terms) takes about 1300 s. */
