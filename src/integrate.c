@@ -308,7 +308,7 @@ static int integrate_compute_first(fmpq_t res, void *data, slong g, const slong 
 }
 
 /* Data of the second route of --verify: the progress of the first route's callback (its fallback)
-   and how many monomials went by a second route, or could not (the first reason kept). */
+   and how many monomials went by a second route or could not (their reasons go to the account). */
 typedef struct {
     integrate_run run;
     double checked, unchecked;
@@ -459,8 +459,8 @@ static value *integrate_verify(interp *I, const node *where, slong g, slong n, c
     verify_second_begin(I);
     value *slow = integrate_by_reduction(I, where, g, n, integrand, &refused);
     verify_second_end(I);
-    if (refused)
-        return verify_unchecked_value(I, where, fast, refused);
+    if (refused || !slow)
+        return verify_unchecked_value(I, where, fast, refused ? refused : VERIFY_WHY_REDUCTION_FAILED);
     return integrate_compare_routes(I, where, slow, fast);
 }
 

@@ -23,6 +23,7 @@ typedef enum { VERIFY_VALUE = 0, VERIFY_MONOMIAL = 1 } verify_unit;
 #define VERIFY_WHY_REDUCTION_TABLE "the reduction's table estimate is above --max-table"
 #define VERIFY_WHY_REDUCTION_TIME "the reduction's time estimate is above --max-seconds"
 #define VERIFY_WHY_REDUCTION_LIMIT "the reduction's table reached its limit"
+#define VERIFY_WHY_REDUCTION_FAILED "the reduction stopped with an error"
 #define VERIFY_WHY_MONOMIALS "some of its monomials could not be checked (see the monomials)"
 #define VERIFY_WHY_NO_ROUTE_VOLUME "no second route for V_{g,n}(L) by the reduction"
 #define VERIFY_WHY_NO_ROUTE_SERIES "no second route for specialisations of F"
