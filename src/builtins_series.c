@@ -1,8 +1,10 @@
 /* Builtins on series and polynomials: coeff, diff, integral, compose,
    revert, log, at, series, trunc. */
+#include <stdio.h>
 #include <stdlib.h>
 
 #include "builtins.h"
+#include "diag.h"
 #include "series_ops.h"
 #include "util.h"
 
@@ -180,6 +182,25 @@ static value *bs_at(interp *I, const node *call, value **args)
     return r;
 }
 
+/* A polynomial is exact: series(P, x, N) refuses to drop its terms beyond x^N, naming them (a series
+   can be shortened on purpose: series(series(P, x, D), x, N)).  Returns 0 after reporting. */
+static int bs_series_keeps_all(interp *I, const node *call, const value *p, slong var, slong order)
+{
+    if (p->kind != V_NUM)
+        return 1;
+    slong deg = fmpq_mpoly_degree_si(p->num, var, I->ring.ctx);
+    if (deg <= order)
+        return 1;
+    const char *x = I->ring.names[var];
+    char range[64];
+    snprintf(range, sizeof range, deg == order + 1 ? "%ld" : "%ld to %ld", (long)(order + 1), (long)deg);
+    diag_error(&call->list->items[0]->loc, "this polynomial has terms up to %s^%ld, and series(..., %s, %ld) would "
+               "drop those of degree %s in %s; give the order %ld, or shorten on purpose with "
+               "series(series(..., %s, %ld), %s, %ld)", x, (long)deg, x, (long)order, range, x, (long)deg, x,
+               (long)deg, x, (long)order);
+    return 0;
+}
+
 /* Largest order a series may be given: keeps memory bounded. */
 #define BS_MAX_ORDER 100000
 
@@ -192,6 +213,8 @@ static value *bs_series(interp *I, const node *call, value **args)
         return builtin_fail_at(call, 0, "the series is in another variable");
     if (args[0]->kind != V_NUM && args[0]->kind != V_SERIES)
         return builtin_fail_at(call, 0, "expected a number, polynomial or series");
+    if (!bs_series_keeps_all(I, call, args[0], var, order))
+        return NULL;
     value *r = value_new_series(var, order, &I->ring);
     if (!series_from_value(I, r->ser, args[0], call->list->items[0])) {
         value_release(r);

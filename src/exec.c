@@ -9,6 +9,7 @@
 #include "interp.h"
 #include "memory.h"
 #include "parse.h"
+#include "verify_account.h"
 #include "util.h"
 
 void interp_init(interp *I)
@@ -16,12 +17,13 @@ void interp_init(interp *I)
     memset(I, 0, sizeof(interp));
     scalar_ring_init(&I->ring);
     I->globals = scope_new(NULL);
-    I->wk = wk_table_new();
-    wk_table_set_cancel(I->wk, &cancel_flag);
-    wk_table_set_limit(I->wk, (slong)I->lim.max_table);
     keymap_init(&I->integrals);
     I->lim.max_terms = 2e7;
     I->lim.max_table = 3e7;
+    /* after the defaults, so that the table gets the default limit */
+    I->wk = wk_table_new();
+    wk_table_set_cancel(I->wk, &cancel_flag);
+    wk_table_set_limit(I->wk, (slong)I->lim.max_table);
     I->lim.max_class_terms = 2000000;
     I->lim.max_dim = 2000;
     I->lim.max_depth = 2000;
@@ -41,6 +43,7 @@ void interp_clear(interp *I)
     keymap_clear(&I->integrals);
     fastvol_clear(I);
     results_close(I);
+    verify_account_free(I);
     free(I->store_path);
     for (int i = 0; i < I->nprograms; i++) {
         ast_list_free(I->programs[i]);

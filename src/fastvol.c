@@ -18,6 +18,7 @@
 #include "volumes/wpvol.h"
 #include "volumes/wpoly.h"
 #include "correlators/wk.h"
+#include "verify_account.h"
 
 /* Below this many correlator terms the reduction is as fast as the engine,
    and it stays the reference route. */
@@ -293,10 +294,16 @@ static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, co
    the same. Returns fast, or NULL after reporting a disagreement. */
 static value *fastvol_poly_verify(interp *I, const node *where, slong g, slong n, double terms, value *fast)
 {
-    if (!I->verify || terms > I->lim.max_terms || wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table)
+    if (!I->verify)
         return fast;
+    if (terms > I->lim.max_terms)
+        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TERMS);
+    if (wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table)
+        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TABLE);
     fastvol_in_reference = 1;
+    verify_second_begin(I);
     value *slow = integrate_volume(I, where, g, n);
+    verify_second_end(I);
     fastvol_in_reference = 0;
     return integrate_compare_routes(I, where, slow, fast);
 }

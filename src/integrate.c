@@ -16,6 +16,7 @@
 #include "strbuf.h"
 #include "theta_lang.h"
 #include "util.h"
+#include "verify_account.h"
 
 /* Reports an unstable or oversized space; returns 1 when (g, n) is usable. */
 static int integrate_space_ok(interp *I, const node *where, slong g, slong n)
@@ -89,10 +90,12 @@ static wk_kdv_table *integrate_get_kdv_table(interp *I)
 }
 
 /* res = <tau_d>_g by the KdV recursion when its estimate is within --max-table.
-   Returns WK_OK, WK_LIMIT when out of reach (nothing to compare), or WK_CANCELLED. */
-static int integrate_compute_kdv(interp *I, fmpq_t res, slong g, const slong *d, slong n)
+   Returns WK_OK, WK_LIMIT when out of reach (nothing to compare; *why says why), or WK_CANCELLED. */
+static int integrate_compute_kdv(interp *I, fmpq_t res, slong g, const slong *d, slong n, const char **why)
 {
-    if (wk_kdv_estimate_entries(g, n) > I->lim.max_table || 2 * g - 2 + n > WK_KDV_MAX_EULER)
+    int deep = 2 * g - 2 + n > WK_KDV_MAX_EULER, big = !deep && wk_kdv_estimate_entries(g, n) > I->lim.max_table;
+    *why = deep ? VERIFY_WHY_KDV_DEPTH : big ? VERIFY_WHY_KDV_TABLE : VERIFY_WHY_KDV_LIMIT;
+    if (deep || big)
         return WK_LIMIT;
     wk_kdv_table *K = integrate_get_kdv_table(I);
     int rc = K ? wk_kdv_correlator(res, K, g, d, n) : WK_LIMIT;
@@ -106,8 +109,13 @@ static int integrate_verify_correlator(interp *I, const node *where, slong g, co
 {
     fmpq_t r;
     fmpq_init(r);
-    int rc = integrate_compute_kdv(I, r, g, d, n), ok = 1;
-    if (rc == WK_OK && !fmpq_equal(first, r)) {
+    const char *why;
+    int rc = integrate_compute_kdv(I, r, g, d, n, &why), ok = 1;
+    if (rc == WK_OK && fmpq_equal(first, r)) {
+        verify_checked(I, VERIFY_VALUE, 1);
+    } else if (rc == WK_LIMIT) {
+        ok = verify_unchecked(I, where, VERIFY_VALUE, 1, why);
+    } else if (rc == WK_OK) {
         diag_error(&where->loc, "verification failed: %s and the KdV recursion disagree on this correlator "
                                 "(please report this input)", route);
         ok = 0;
@@ -128,6 +136,8 @@ value *integrate_correlator(interp *I, const node *where, slong g, const slong *
     int closed = wk_closed_form_kind(g, d, n), ok = 0;
     if (closed == WK_CLOSED_ZERO) {
         ok = 1;
+        if (I->verify)
+            verify_no_check_needed(I);
     } else if (integrate_space_ok(I, where, g, n)) {
         if (closed == WK_CLOSED_VALUE) {
             wk_closed_form(r, g, d, n);
@@ -198,8 +208,8 @@ static int integrate_estimate_term(void *data, const slong *psi, slong n, const 
 {
     (void)coeff;
     integrate_estimate *e = data;
-    if (kmax == 0 && wk_closed_form_kind(e->g, psi, n) != WK_CLOSED_NONE)
-        return 0;   /* answered by a closed form, without the table */
+    if (kmax == 0 ? wk_closed_form_kind(e->g, psi, n) != WK_CLOSED_NONE : pf_all_closed(e->g, psi, n, kmult, kmax))
+        return 0;   /* answered by closed forms, without the table */
     e->table = 1;
     e->terms += pf_estimate_terms(kmult, kmax);
     slong pts = n;
@@ -210,22 +220,44 @@ static int integrate_estimate_term(void *data, const slong *psi, slong n, const 
     return 0;
 }
 
-/* Refuses, before any work, an integral whose reduction is too large. */
-static int integrate_cost_ok(interp *I, const node *where, const cpoly *P)
+/* Whether the reduction of P is within --max-terms, --max-table and --max-seconds: NULL if so,
+   else the reason (a VERIFY_WHY_* text), with the message for an error written to msg. */
+static const char *integrate_cost_refusal(interp *I, const cpoly *P, char *msg, size_t len)
 {
     integrate_estimate e = {I, P->g, 0.0, P->n, 0};
     cpoly_foreach_top(P, integrate_estimate_term, &e);
+    double entries = integrate_table_estimate(P->g, P->n, e.points, e.terms);
+    double secs = pf_estimate_seconds(P->g, e.terms);
     if (!e.table)
-        return 1;
+        return NULL;
     if (e.terms > I->lim.max_terms) {
-        diag_error(&where->loc,
-                   "this integral reduces to about %.3g correlator terms, above the limit of %.3g "
-                   "(raise it with --max-terms N)",
-                   e.terms, I->lim.max_terms);
-        return 0;
+        snprintf(msg, len, "this integral reduces to about %.3g correlator terms, above the limit of %.3g "
+                 "(raise it with --max-terms N)", e.terms, I->lim.max_terms);
+        return VERIFY_WHY_REDUCTION_TERMS;
     }
-    return integrate_table_ok_est(I, where, P->g, e.points,
-                                  integrate_table_estimate(P->g, P->n, e.points, e.terms));
+    if (entries > I->lim.max_table) {
+        snprintf(msg, len, "correlators of genus %ld with %ld point%s need about %.3g table entries, above the "
+                 "limit of %.3g (raise it with --max-table N)", (long)P->g, (long)e.points,
+                 e.points == 1 ? "" : "s", entries, I->lim.max_table);
+        return VERIFY_WHY_REDUCTION_TABLE;
+    }
+    if (secs > I->lim.max_seconds) {
+        snprintf(msg, len, "the reduction of this integral (%.3g correlator terms in genus %ld) needs about "
+                 "%.3g s, above the limit of %.3g s (raise it with --max-seconds S)", e.terms, (long)P->g,
+                 secs, I->lim.max_seconds);
+        return VERIFY_WHY_REDUCTION_TIME;
+    }
+    return NULL;
+}
+
+/* Refuses, before any work, an integral whose reduction is too large or too long. */
+static int integrate_cost_ok(interp *I, const node *where, const cpoly *P)
+{
+    char msg[320];
+    if (!integrate_cost_refusal(I, P, msg, sizeof msg))
+        return 1;
+    diag_error(&where->loc, "%s", msg);
+    return 0;
 }
 
 /* Memoised integral of one monomial; psi is sorted so that symmetric
@@ -277,19 +309,28 @@ static int integrate_compute_first(fmpq_t res, void *data, slong g, const slong 
 }
 
 /* Data of the second route of --verify: the progress of the first route's callback (its fallback)
-   and how many monomials really went by a second route. */
+   and how many monomials went by a second route or could not (their reasons go to the account). */
 typedef struct {
     integrate_run run;
-    double checked;
+    double checked, unchecked;
 } integrate_second;
 
-/* Whether the time shift for this kappa monomial is within --max-terms and --max-table.
-   Its correlators have at most n plus the kappa degree points. */
-static int integrate_check_shift_reach(interp *I, slong g, slong n, const slong *kmult, slong kmax)
+/* Whether the time shift for this kappa monomial is within --max-terms, --max-table and
+   --max-seconds, estimated as for the first route: NULL if so, else the reason.  Its correlators
+   have at most n plus the kappa degree points, and are the pushforward's (with other
+   coefficients), so none needs the table when all of those have closed forms. */
+static const char *integrate_shift_refusal(interp *I, slong g, const slong *psi, slong n, const slong *kmult,
+                                           slong kmax)
 {
     double work = ks_estimate_work(kmult, kmax);
     slong K = ks_kappa_degree(kmult, kmax);
-    return K >= 0 && work <= I->lim.max_terms && integrate_table_estimate(g, n, n + K, work) <= I->lim.max_table;
+    if (K < 0 || work > I->lim.max_terms)
+        return VERIFY_WHY_SHIFT_TERMS;
+    if (pf_all_closed(g, psi, n, kmult, kmax))
+        return NULL;
+    if (integrate_table_estimate(g, n, n + K, work) > I->lim.max_table)
+        return VERIFY_WHY_SHIFT_TABLE;
+    return pf_estimate_seconds(g, work) > I->lim.max_seconds ? VERIFY_WHY_SHIFT_TIME : NULL;
 }
 
 /* One monomial by its second route: the time shift when it holds kappa classes, the KdV recursion
@@ -302,17 +343,23 @@ static int integrate_compute_second(fmpq_t res, void *data, slong g, const slong
     if (cancel_flag)
         return INTEGRATE_CANCELLED;
     int rc = WK_LIMIT;
-    if (kmax > 0 && integrate_check_shift_reach(I, g, n, kmult, kmax))
+    const char *why = kmax > 0 ? integrate_shift_refusal(I, g, psi, n, kmult, kmax) : NULL;
+    if (kmax > 0 && !why) {
         rc = ks_integral(res, I->wk, g, psi, n, kmult, kmax, &cancel_flag);
-    else if (kmax == 0)
-        rc = integrate_compute_kdv(I, res, g, psi, n);
+        why = VERIFY_WHY_SHIFT_LIMIT;
+    } else if (kmax == 0) {
+        rc = integrate_compute_kdv(I, res, g, psi, n, &why);
+    }
     if (rc == WK_OK) {
         s->checked++;
+        verify_checked(I, VERIFY_MONOMIAL, 1);
         progress_update(&s->run.bar, ++s->run.done);
         return WK_OK;
     }
     if (rc == WK_CANCELLED || cancel_flag)
         return INTEGRATE_CANCELLED;
+    s->unchecked++;
+    verify_unchecked(I, NULL, VERIFY_MONOMIAL, 1, why);
     return integrate_compute_first(res, &s->run, g, psi, n, kmult, kmax);
 }
 
@@ -324,6 +371,7 @@ static value *integrate_verify_reduction(interp *I, const node *where, const cpo
     s.run.I = I;
     s.run.done = 0;
     s.checked = 0;
+    s.unchecked = 0;
     char what[64];
     snprintf(what, sizeof what, "int_{%ld,%ld}: second route", (long)P->g, (long)P->n);
     progress_start(&s.run.bar, what, (double)P->len);
@@ -341,18 +389,28 @@ static value *integrate_verify_reduction(interp *I, const node *where, const cpo
                                 "report this input)");
         value_release(r);
         r = NULL;
+    } else if (s.unchecked > 0) {
+        r = verify_unchecked_value(I, where, r, VERIFY_WHY_MONOMIALS);
+    } else {
+        verify_checked(I, VERIFY_VALUE, 1);
     }
     fmpq_mpoly_clear(second, I->ring.ctx);
     return r;
 }
 
-/* The reference route: expand the class, reduce each monomial to correlators. */
-static value *integrate_by_reduction(interp *I, const node *where, slong g, slong n, const value *integrand)
+/* The reference route: expand the class, reduce each monomial to correlators.  As the second route
+   of --verify (refused not NULL), a reduction beyond the limits is no error: *refused says why. */
+static value *integrate_by_reduction(interp *I, const node *where, slong g, slong n, const value *integrand,
+                                     const char **refused)
 {
     cpoly P;
     cpoly_init(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
     value *r = NULL;
-    if (integrate_expand(&P, where, integrand) && integrate_cost_ok(I, where, &P)) {
+    char msg[320];
+    int expanded = integrate_expand(&P, where, integrand);
+    if (expanded && refused)
+        *refused = integrate_cost_refusal(I, &P, msg, sizeof msg);
+    if (expanded && (refused ? !*refused : integrate_cost_ok(I, where, &P))) {
         r = value_new_num(&I->ring);
         integrate_run run;
         run.I = I;
@@ -362,12 +420,16 @@ static value *integrate_by_reduction(interp *I, const node *where, slong g, slon
         progress_start(&run.bar, what, (double)P.len);
         int rc = cpoly_integrate(r->num, &P, integrate_compute_first, &run);
         progress_end(&run.bar);
-        if (rc != WK_OK) {
+        if (rc == WK_LIMIT && refused && !cancel_flag) {
+            *refused = VERIFY_WHY_REDUCTION_LIMIT;   /* the estimate was too low: no error, unchecked */
+        } else if (rc != WK_OK) {
             integrate_report_engine(where, rc);
+        } else if (I->verify && !refused) {
+            r = integrate_verify_reduction(I, where, &P, r);
+        }
+        if (rc != WK_OK) {
             value_release(r);
             r = NULL;
-        } else if (I->verify) {
-            r = integrate_verify_reduction(I, where, &P, r);
         }
     }
     cpoly_clear(&P);
@@ -380,23 +442,27 @@ value *integrate_compare_routes(interp *I, const node *where, value *slow, value
         return fast;
     int same = fmpq_mpoly_equal(slow->num, fast->num, I->ring.ctx);
     value_release(slow);
-    if (same)
+    if (same) {
+        verify_checked(I, VERIFY_VALUE, 1);
         return fast;
+    }
     diag_error(&where->loc, "verification failed: the volume engine and the pushforward reduction disagree "
                             "(please report this input)");
     value_release(fast);
     return NULL;
 }
 
-/* With --verify, a result of the volume engine is recomputed by the reduction
-   (when that is within the limits) and any difference is reported. */
+/* With --verify, a result of the volume engine is recomputed by the reduction (when that is within
+   the same limits as when it is the first route) and any difference is reported. */
 static value *integrate_verify(interp *I, const node *where, slong g, slong n, const value *integrand, value *fast)
 {
-    slong D = 3 * g - 3 + n, kmult[2] = {0, D};
-    double terms = pf_estimate_terms(kmult, 1);
-    if (terms > I->lim.max_terms || integrate_table_estimate(g, n, n + D, terms) > I->lim.max_table)
-        return fast;   /* the reference route is out of reach: nothing to compare */
-    return integrate_compare_routes(I, where, integrate_by_reduction(I, where, g, n, integrand), fast);
+    const char *refused = NULL;
+    verify_second_begin(I);
+    value *slow = integrate_by_reduction(I, where, g, n, integrand, &refused);
+    verify_second_end(I);
+    if (refused || !slow)
+        return verify_unchecked_value(I, where, fast, refused ? refused : VERIFY_WHY_REDUCTION_FAILED);
+    return integrate_compare_routes(I, where, slow, fast);
 }
 
 /* The volume engine when it recognises the integrand (checked by the reduction with --verify),
@@ -407,7 +473,7 @@ static value *integrate_compute(interp *I, const node *where, slong g, slong n, 
     value *fast = fastvol_try(I, where, g, n, integrand, &handled);
     if (handled)
         return fast && I->verify ? integrate_verify(I, where, g, n, integrand, fast) : fast;
-    return integrate_by_reduction(I, where, g, n, integrand);
+    return integrate_by_reduction(I, where, g, n, integrand, NULL);
 }
 
 /* The exact question, as the store's key: the space and the class as printed. */
@@ -423,8 +489,11 @@ value *integrate_value(interp *I, const node *where, slong g, slong n, const val
 {
     if (theta_in_value(integrand))
         return theta_integrate_value(I, where, g, n, integrand);
-    if (integrand_is_zero(I, where, g, n, integrand))
+    if (integrand_is_zero(I, where, g, n, integrand)) {
+        if (I->verify)
+            verify_no_check_needed(I);
         return value_new_num(&I->ring);
+    }
     if (!integrate_space_ok(I, where, g, n))
         return NULL;
     if (I->verify || integrand->kind != V_CLASS)
@@ -722,6 +791,8 @@ value *integrate_volume(interp *I, const node *where, slong g, slong n)
             r = NULL;
         } else {
             r->termwise = 1;
+            if (I->verify)
+                r = verify_unchecked_value(I, where, r, VERIFY_WHY_NO_ROUTE_VOLUME);
         }
     }
     free(vars);

@@ -40,7 +40,9 @@ typedef struct interp {
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
     slong wpv_G, wpv_N;
     int route_volumes;       /* send every recognised volume integral to the volume engine */
-    int verify;              /* recompute by a second, independent route and compare (--verify) */
+    int verify;              /* recompute by a second, independent route and compare (--verify: 1;
+                                --verify=strict: 2, anything unchecked is an error) */
+    struct verify_account *vacct; /* what --verify checked (verify_account.c) */
     struct store *store;     /* results store, opened on first use (results.c) */
     char *store_path;        /* --store PATH (owned), NULL for the default */
     int store_off;           /* --no-store, or the store could not be opened */

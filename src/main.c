@@ -11,6 +11,7 @@
 #include "repl.h"
 #include "source.h"
 #include "util.h"
+#include "verify_account.h"
 
 #define PSIKAPPA_VERSION "0.1.0"
 
@@ -36,7 +37,10 @@ static void main_usage(FILE *out)
           "                     DVV recursion (or a closed form) and the KdV recursion, kappa integrals\n"
           "                     by the pushforward formula and the Kaufmann-Manin-Zagier time shift,\n"
           "                     volumes by the volume engine and the pushforward reduction (a second\n"
-          "                     route beyond --max-terms/--max-table is skipped; answers are not stored)\n"
+          "                     route beyond --max-terms/--max-table/--max-seconds is skipped; answers\n"
+          "                     are not stored); at the end, on stderr, how many values and monomials\n"
+          "                     were checked and why the others were not\n"
+          "  --verify=strict    the same, and a value that could not be checked is an error\n"
           "  --volume-engine    send every recognised volume integral (exp(c*kappa_1), kappa_1^D, psi\n"
           "                     monomials times them, volume polynomials) to the polynomial-time engine,\n"
           "                     also the small ones that otherwise use the reduction (with --verify: a\n"
@@ -172,6 +176,8 @@ static int main_options(interp *I, main_state *M, int argc, char **argv)
             I->explain_all = 1;
         } else if (strcmp(a, "--verify") == 0) {
             I->verify = 1;
+        } else if (strcmp(a, "--verify=strict") == 0) {
+            I->verify = 2;
         } else if (strcmp(a, "--volume-engine") == 0) {
             I->route_volumes = 1;
         } else if (strcmp(a, "--no-store") == 0) {
@@ -233,6 +239,7 @@ int main(int argc, char **argv)
             status = cancel_exit_status();
     }
     fflush(stdout);
+    verify_print(&I, stderr);
     interp_clear(&I);
     flint_cleanup();
     return status;

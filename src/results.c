@@ -8,12 +8,11 @@
 #include <time.h>
 
 #include "diag.h"
+#include "engine_version.h"
 #include "interp.h"
 #include "store.h"
 #include "util.h"
 
-/* Bumped whenever a change could alter an answer, so old answers are never reused. */
-#define RESULTS_ENGINE_VERSION "psikappa-engine-1"
 
 /* Answers computed faster than this are not worth a database write. */
 #define RESULTS_MIN_SECONDS 0.05

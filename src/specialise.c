@@ -7,6 +7,7 @@
 
 #include "diag.h"
 #include "interp.h"
+#include "verify_account.h"
 #include "series/spec.h"
 #include "series_ops.h"
 #include "util.h"
@@ -243,6 +244,8 @@ value *specialise_value(interp *I, scope *s, const node *n)
                 diag_error(&n->loc, "the correlator engine stopped (code %d; raise --max-table?)", rc);
                 value_release(r);
                 r = NULL;
+            } else if (I->verify) {
+                r = verify_unchecked_value(I, n, r, VERIFY_WHY_NO_ROUTE_SERIES);
             }
         }
     }

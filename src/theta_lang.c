@@ -19,6 +19,7 @@
 #include "source.h"
 #include "strbuf.h"
 #include "theta_lang.h"
+#include "verify_account.h"
 #include "util.h"
 
 #define THETA_WALK_MAX_DEPTH 4000
@@ -224,6 +225,8 @@ typedef struct {
     fmpq_mpoly_struct *acc;      /* the integral so far */
     slong g;
     int rc;
+    double checked, unchecked;   /* --verify: monomials compared by the time shift, or not */
+    const char *why;             /* why the last unchecked one was not */
 } theta_run;
 
 /* One monomial c * psi^d kappa^kmult of R: acc += c * int Theta psi^d kappa^kmult by the
@@ -242,13 +245,21 @@ static int theta_run_term(void *data, const slong *psi, slong n, const slong *km
     slong deg = 0;
     for (slong j = 1; j <= kmax; j++)
         deg += j * kmult[j];
-    if (rc == WK_OK && I->verify && deg <= THETA_LANG_SHIFT_MAX) {   /* beyond: out of the shift's reach */
+    if (rc == WK_OK && I->verify && deg > THETA_LANG_SHIFT_MAX) {
+        R->unchecked++;
+        R->why = "the Theta time shift runs up to kappa degree 40";
+    } else if (rc == WK_OK && I->verify) {
         theta_table *K = theta_lang_table(I, THETA_ROUTE_KDV);
         int r2 = K ? theta_kappa_shift(w, K, R->g, psi, n, kmult, kmax) : WK_LIMIT;
         if (r2 == WK_OK && !fmpq_equal(v, w))
             rc = THETA_INEXACT;
-        else if (r2 != WK_OK && r2 != WK_LIMIT)
-            rc = r2;                 /* out of the shift's reach: nothing to compare */
+        else if (r2 == WK_OK)
+            R->checked++;
+        else if (r2 == WK_LIMIT) {
+            R->unchecked++;
+            R->why = "the Theta time shift's table reached its limit";
+        } else
+            rc = r2;
     }
     if (rc == WK_OK) {
         fmpq_mpoly_t t;
@@ -306,7 +317,7 @@ static int theta_cost_ok(interp *I, const node *where, const cpoly *P)
 /* acc += int_{Mbar_{g,n}} Theta * rest.  Zero in genus 0 and for the parts of rest whose degree
    is not g-1.  Returns 0 after reporting an error. */
 static int theta_integrate_rest(interp *I, const node *where, slong g, slong n, const cx *rest,
-                                fmpq_mpoly_struct *acc)
+                                fmpq_mpoly_struct *acc, double *unchecked)
 {
     if (g == 0)
         return 1;
@@ -316,9 +327,16 @@ static int theta_integrate_rest(interp *I, const node *where, slong g, slong n, 
     cpoly_init_degree(&P, g, n, g - 1, I->lim.max_class_terms, I->ring.ctx);
     int ok = theta_expand_rest(I, where, &P, rest) && theta_cost_ok(I, where, &P);
     if (ok) {
-        theta_run R = {I, where, acc, g, WK_OK};
+        theta_run R = {I, where, acc, g, WK_OK, 0, 0, NULL};
         cpoly_foreach_top(&P, theta_run_term, &R);
         ok = R.rc == WK_OK;
+        if (ok && I->verify) {
+            verify_checked(I, VERIFY_MONOMIAL, R.checked);
+            if (R.unchecked > 0) {
+                *unchecked += R.unchecked;
+                ok = verify_unchecked(I, where, VERIFY_MONOMIAL, R.unchecked, R.why);
+            }
+        }
         if (R.rc == THETA_INEXACT)
             diag_error(&where->loc, "verification failed: the Theta pushforward and the time shift disagree "
                                     "(please report this input)");
@@ -334,6 +352,7 @@ typedef struct {
     const node *where;
     slong g, n;
     value *res;
+    double unchecked;        /* --verify: monomials the time shift could not check */
 } theta_whole;
 
 /* One additive term of the integrand (theta_each_term): by its Theta order. */
@@ -347,7 +366,7 @@ static int theta_whole_term(void *data, const cx *term, int order, cx *rest)
     if (order == TH_SQUARE)
         return 1;                                /* Theta^2 = 0 by degree */
     if (order == TH_LINEAR)
-        return theta_integrate_rest(W->I, W->where, W->g, W->n, rest, W->res->num);
+        return theta_integrate_rest(W->I, W->where, W->g, W->n, rest, W->res->num, &W->unchecked);
     value *t = value_new_class(cx_ref((cx *)term), &W->I->ring);
     value *r = integrate_value(W->I, W->where, W->g, W->n, t);
     value_release(t);
@@ -369,11 +388,16 @@ value *theta_integrate_value(interp *I, const node *where, slong g, slong n, con
                    (long)(3 * g - 3 + n), (long)I->lim.max_dim);
         return NULL;
     }
-    theta_whole W = {I, where, g, n, value_new_num(&I->ring)};
+    theta_whole W = {I, where, g, n, value_new_num(&I->ring), 0};
     if (!theta_each_term(integrand->cls, theta_whole_term, &W)) {
         value_release(W.res);
         return NULL;
     }
+    if (!I->verify)
+        return W.res;
+    if (W.unchecked > 0)
+        return verify_unchecked_value(I, where, W.res, VERIFY_WHY_MONOMIALS);
+    verify_checked(I, VERIFY_VALUE, 1);
     return W.res;
 }
 

@@ -7,6 +7,7 @@
 #include "cancel.h"
 #include "diag.h"
 #include "theta_lang.h"
+#include "verify_account.h"
 #include "util.h"
 
 int theta_is_class_name(const char *name)
@@ -78,10 +79,14 @@ static int theta_verify_number(interp *I, const node *where, slong g, const slon
     fmpq_t r;
     fmpq_init(r);
     int rc = K ? theta_correlator(r, K, g, d, n) : WK_LIMIT, ok = 1;
-    if (rc != WK_OK) {
+    if (rc == WK_LIMIT) {
+        ok = verify_unchecked(I, where, VERIFY_VALUE, 1, "the Theta KdV route's table reached its limit");
+    } else if (rc != WK_OK) {
         theta_lang_report(I, where, rc);
         ok = 0;
-    } else if (!fmpq_equal(r, first)) {
+    } else if (fmpq_equal(r, first)) {
+        verify_checked(I, VERIFY_VALUE, 1);
+    } else {
         diag_error(&where->loc, "verification failed: the Virasoro and KdV routes disagree on this Theta "
                                 "number (please report this input)");
         ok = 0;
@@ -165,6 +170,8 @@ static int theta_vwalk_coeff(theta_vwalk *W)
         fmpq_div_fmpz(p, p, f);
         if (rc == WK_OK && !fmpq_equal(p, W->c))
             rc = THETA_INEXACT;
+        else if (rc == WK_OK)
+            verify_checked(W->I, VERIFY_MONOMIAL, 1);
         fmpq_clear(p);
         fmpz_clear(f);
     }
@@ -267,6 +274,8 @@ value *theta_builtin_supervolume(interp *I, const node *call, value **args)
             theta_volume_report(I, call, rc);
             value_release(r);
             r = NULL;
+        } else if (I->verify && g > 0) {
+            verify_checked(I, VERIFY_VALUE, 1);   /* every coefficient was compared, or rc says why not */
         }
         fmpq_clear(W.c);
         keymap_clear(&W.memo);

@@ -100,7 +100,7 @@ static int ks_walk_add_leaf(ks_walk *W, const fmpq_mpoly_t P)
     for (k = 1; k <= W->K; k++)
         for (c = 0; c < W->e[k]; c++)
             W->key[len++] = k + 1;
-    st = wk_table_correlator(W->corr, W->T, W->g, W->key, len);
+    st = wk_correlator(W->corr, W->T, W->g, W->key, len);   /* closed forms first */
     if (st == WK_UNSTABLE)
         return WK_OK;                                   /* cannot happen with n + len >= n stable */
     fmpq_addmul(W->res, W->coeff, W->corr);
@@ -226,7 +226,7 @@ int ks_integral(fmpq_t res, wk_table *T, slong g, const slong *d, slong n, const
     if (sum + K != 3 * g - 3 + n)
         return WK_OK;
     if (K == 0)
-        return wk_table_correlator(res, T, g, d, n);
+        return wk_correlator(res, T, g, d, n);
     memset(&W, 0, sizeof W);
     W.T = T;
     W.cancel = cancel;

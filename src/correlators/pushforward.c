@@ -429,8 +429,8 @@ double pf_estimate_terms(const slong *kmult, slong kmax)
     return res;
 }
 
-/* res = sum coeff * <tau_d>_g over the terms of E.
-   Stops at the first engine error and then returns it with res = 0. */
+/* res = sum coeff * <tau_d>_g over the terms of E, each by a closed form when one applies
+   (wk_correlator), else from T.  Stops at the first engine error and then returns it with res = 0. */
 int pf_expansion_evaluate(fmpq_t res, wk_table *T, const pf_expansion *E)
 {
     slong i;
@@ -441,7 +441,7 @@ int pf_expansion_evaluate(fmpq_t res, wk_table *T, const pf_expansion *E)
         return WK_BADARG;
     fmpq_init(c);
     for (i = 0; st == WK_OK && i < E->len; i++) {
-        st = wk_table_correlator(c, T, E->g, E->terms[i].d, E->terms[i].n);
+        st = wk_correlator(c, T, E->g, E->terms[i].d, E->terms[i].n);
         fmpq_mul_fmpz(c, c, E->terms[i].coeff);
         fmpq_add(res, res, c);
     }

@@ -45,9 +45,24 @@ int pf_expand(pf_expansion *E, slong g, const slong *d, slong n, const slong *km
    input.  Exact when counting costs at most 1e8 steps, else HUGE_VAL (then the count exceeds 5000). */
 double pf_estimate_terms(const slong *kmult, slong kmax);
 
-/* res = sum of coeff * <tau_d>_g over the terms of E, evaluated with the memo T.
+/* res = sum of coeff * <tau_d>_g over the terms of E: each by a closed form when one applies
+   (wk_closed_form: string, dilaton, one and two points, genus 0), else with the memo T.
    Returns the first error of wk_table_correlator (res is then 0), or WK_BADARG for NULL arguments. */
 int pf_expansion_evaluate(fmpq_t res, wk_table *T, const pf_expansion *E);
+
+/* Most terms pf_all_closed expands to look at them one by one. */
+#define PF_CLOSED_MAX_TERMS 256
+
+/* Whether every correlator of the expansion of int prod psi_i^{d_i} prod_j kappa_j^{kmult[j]}
+   has a closed form (wk_closed_form_kind), so that the integral needs no table (pf_closed.c).
+   0 when the expansion has more than PF_CLOSED_MAX_TERMS multiset partitions, on bad input or
+   when memory runs out; 1 when the degree does not match (the integral is 0). */
+int pf_all_closed(slong g, const slong *d, slong n, const slong *kmult, slong kmax);
+
+/* Predicted seconds to evaluate `terms` pushforward terms of kappa monomials in genus g with a
+   fresh table (pf_closed.c): an a-priori estimate, so that long reductions are refused before any
+   work.  HUGE_VAL for absurd inputs. */
+double pf_estimate_seconds(slong g, double terms);
 
 /* Convenience: expand (no term limit) then evaluate; zero when degrees do not match 3g-3+n.
    Status codes as for pf_expand and pf_expansion_evaluate; res is 0 on error. */

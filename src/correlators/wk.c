@@ -75,6 +75,11 @@ void wk_table_set_limit(wk_table *T, slong max_entries)
         T->limit = max_entries > 0 ? max_entries : 0;
 }
 
+slong wk_table_limit(const wk_table *T)
+{
+    return T == NULL ? 0 : T->limit;
+}
+
 /* Number of memoised correlators.
    Returns 0 for NULL so callers can report sizes unconditionally. */
 void wk_table_set_cancel(wk_table *T, volatile sig_atomic_t *flag)

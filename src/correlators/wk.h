@@ -39,6 +39,9 @@ void wk_table_free(wk_table *T);
    A computation that would need more entries stops with WK_LIMIT; existing entries stay valid. */
 void wk_table_set_limit(wk_table *T, slong max_entries);
 
+/* The entry limit set by wk_table_set_limit (0 = unlimited); 0 for a NULL table. */
+slong wk_table_limit(const wk_table *T);
+
 /* Makes long computations poll *flag (e.g. set by a signal handler) and stop with
    WK_CANCELLED once it is nonzero; NULL turns polling off. The flag is not owned. */
 void wk_table_set_cancel(wk_table *T, volatile sig_atomic_t *flag);
@@ -66,13 +69,32 @@ enum { WK_CLOSED_NONE = 0, WK_CLOSED_ZERO = 1, WK_CLOSED_VALUE = 2 };
 
 /* res = <tau_{d[0]} ... tau_{d[n-1]}>_g without any table, when a closed form applies
    (wk_closed.c): WK_CLOSED_ZERO if sum d_i != 3g-3+n; WK_CLOSED_VALUE for n = 1
-   (1/(24^g g!)) and for g = 0 ((n-3)!/prod d_i!) up to WK_CLOSED_MAX_DIM; otherwise, and for
+   (1/(24^g g!)), for g = 0 ((n-3)!/prod d_i!) up to WK_CLOSED_MAX_DIM, for n = 2 up to genus
+   WK_TWO_POINT_MAX_G (wk_two_point), and for every correlator that the string and dilaton
+   equations reduce to those within WK_REDUCE_MAX_STEPS steps (wk_reduce.c); otherwise, and for
    invalid or unstable input (left to wk_table_correlator to report), WK_CLOSED_NONE.  res is 0
    unless WK_CLOSED_VALUE. */
 int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n);
 
-/* The code wk_closed_form would return, without computing the value (cheap: O(n)). */
+/* The code wk_closed_form would return, without computing the value (cheap: at most
+   WK_REDUCE_MAX_STEPS steps of the string and dilaton equations, O(n) each). */
 int wk_closed_form_kind(slong g, const slong *d, slong n);
+
+/* Largest genus of the two-point closed form (cost about g^2/6 steps on numbers of O(g log g)
+   bits; bench_closed measured 0.9 s CPU at g = 3000 for the longest sum, k = 3g/2). */
+#define WK_TWO_POINT_MAX_G 3000
+
+/* Steps of the string and dilaton equations wk_closed_form tries before giving up (each removes
+   one point; the string equation branches into one term per other nonzero index). */
+#define WK_REDUCE_MAX_STEPS 4096
+
+/* res = <tau_k tau_{3g-1-k}>_g by the closed form of wk_twopoint.c (no table).  Returns 1, or 0
+   (res = 0) when g < 1, g > WK_TWO_POINT_MAX_G or k is outside 0..3g-1. */
+int wk_two_point(fmpq_t res, slong g, slong k);
+
+/* res = <tau_d>_g by a closed form when one applies (wk_closed_form), else from the table T.
+   Status codes as for wk_table_correlator. */
+int wk_correlator(fmpq_t res, wk_table *T, slong g, const slong *d, slong n);
 
 /* Whether sum d_i = 3g-3+n (the dimension condition), for 0 <= g, n <= WORD_MAX / 8 and
    d_i >= 0; huge d_i cannot overflow. */

@@ -1,4 +1,5 @@
-/* wk_closed.c - correlators that need no table: degree mismatch, one point, genus zero.
+/* wk_closed.c - correlators that need no table: degree mismatch, one point, two points
+ * (wk_twopoint.c), genus zero, and whatever the string and dilaton equations reduce to those.
  *
  * One point: <tau_{3g-2}>_g = 1/(24^g g!) (E. Witten, "Two-dimensional gravity and intersection
  * theory on moduli space", 1991, from memory).  It also follows from the KdV step of wk_kdv.c with
@@ -8,6 +9,8 @@
  * equation: sum d_i = n-3 < n, so some d_i = 0, and removing it gives
  * sum_j (n-4)! d_j / prod d_i! = (n-4)! (n-3) / prod d_i!, with <tau_0^3>_0 = 1.
  */
+#include <stdlib.h>
+#include <string.h>
 #include <flint/fmpz.h>
 #include "wk.h"
 
@@ -56,11 +59,107 @@ static void wk_closed_set_genus0(fmpq_t res, const slong *d, slong n)
     fmpz_clear(f);
 }
 
-/* Which closed form applies; see wk.h for the codes.
-   Validation mirrors wk_table_correlator, so invalid input is left to it. */
-int wk_closed_form_kind(slong g, const slong *d, slong n)
+/* Whether a formula applies to <tau_d>_g directly (degree already matching, input valid):
+   one point, genus zero, or two points within WK_TWO_POINT_MAX_G. */
+static int wk_closed_is_base(slong g, slong n)
 {
-    slong i;
+    if (3 * g - 3 + n > WK_CLOSED_MAX_DIM)
+        return 0;
+    return n == 1 || g == 0 || (n == 2 && g <= WK_TWO_POINT_MAX_G);
+}
+
+/* res = the base formula (wk_closed_is_base holds).  Returns the steps it is charged: the
+   two-point form costs about g^2/6 big-integer steps, one step per 8192 of them. */
+static slong wk_closed_base(fmpq_t res, slong g, const slong *d, slong n)
+{
+    if (n == 1 && res)
+        wk_closed_set_one_point(res, g);
+    else if (g == 0 && res)
+        wk_closed_set_genus0(res, d, n);
+    else if (res)
+        wk_two_point(res, g, d[0]);
+    return n == 2 && g > 0 ? 1 + g * g / 8192 : 1;
+}
+
+static int wk_closed_walk(fmpq_t res, slong g, slong *d, slong n, slong *steps);
+
+/* The dilaton equation on the tau_1 at d[n-1]: <tau_1 tau_S>_g = (2g-2+|S|) <tau_S>_g.
+   Returns what the walk on tau_S returns. */
+static int wk_closed_dilaton(fmpq_t res, slong g, slong *d, slong n, slong *steps)
+{
+    int ok = wk_closed_walk(res, g, d, n - 1, steps);
+    if (ok && res)
+        fmpq_mul_si(res, res, 2 * g - 3 + n);
+    return ok;
+}
+
+/* The string equation on the tau_0 at d[n-1]: <tau_0 tau_S>_g = sum_j <tau_{d_j - 1} tau_{S-j}>_g
+   over the j with d_j > 0; d is restored before returning.  Returns 0 when some term has no
+   closed form within the step budget. */
+static int wk_closed_string(fmpq_t res, slong g, slong *d, slong n, slong *steps)
+{
+    fmpq_t t;
+    int ok = 1;
+    fmpq_init(t);
+    if (res)
+        fmpq_zero(res);
+    for (slong j = 0; ok && j < n - 1; j++) {
+        if (d[j] == 0 || (j > 0 && d[j] == d[j - 1]))
+            continue;            /* equal indices give equal terms: one walk, times the multiplicity */
+        slong mult = 1;
+        while (j + mult < n - 1 && d[j + mult] == d[j])
+            mult++;
+        d[j + mult - 1]--;       /* lowering the last copy keeps d sorted */
+        ok = wk_closed_walk(res ? t : NULL, g, d, n - 1, steps);
+        d[j + mult - 1]++;
+        if (ok && res) {
+            fmpq_mul_si(t, t, mult);
+            fmpq_add(res, res, t);
+        }
+    }
+    fmpq_clear(t);
+    return ok;
+}
+
+/* res (when not NULL) = <tau_d>_g, d sorted descending (a scratch copy the walk may reorder but
+   restores), by the string and dilaton equations down to the base formulas.  Returns 1 when that
+   worked within WK_REDUCE_MAX_STEPS steps counted in *steps, else 0. */
+static int wk_closed_walk(fmpq_t res, slong g, slong *d, slong n, slong *steps)
+{
+    if (++*steps > WK_REDUCE_MAX_STEPS)
+        return 0;
+    if (wk_closed_is_base(g, n)) {
+        *steps += wk_closed_base(res, g, d, n) - 1;
+        return *steps <= WK_REDUCE_MAX_STEPS;
+    }
+    if (d[n - 1] > 1)
+        return 0;                /* no tau_0 or tau_1: the string and dilaton equations do not apply */
+    if (d[n - 1] == 0)
+        return wk_closed_string(res, g, d, n, steps);
+    return wk_closed_dilaton(res, g, d, n, steps);
+}
+
+/* Sorts d descending into a new array for the walk (caller frees); NULL when memory runs out. */
+static slong *wk_closed_sorted(const slong *d, slong n)
+{
+    slong *s = malloc((size_t) (n > 0 ? n : 1) * sizeof(slong));
+    if (s == NULL)
+        return NULL;
+    memcpy(s, d, (size_t) n * sizeof(slong));
+    for (slong i = 1; i < n; i++)
+        for (slong j = i; j > 0 && s[j - 1] < s[j]; j--) {
+            slong t = s[j];
+            s[j] = s[j - 1];
+            s[j - 1] = t;
+        }
+    return s;
+}
+
+/* Validation, the degree check, then the walk (computing the value when res is not NULL).
+   The code as for wk_closed_form. */
+static int wk_closed_run(fmpq_t res, slong g, const slong *d, slong n)
+{
+    slong i, steps = 0;
     if (g < 0 || n < 0 || (n > 0 && d == NULL) || g > WORD_MAX / 8 || n > WORD_MAX / 8)
         return WK_CLOSED_NONE;
     for (i = 0; i < n; i++)
@@ -70,22 +169,32 @@ int wk_closed_form_kind(slong g, const slong *d, slong n)
         return WK_CLOSED_NONE;
     if (!wk_degree_matches(g, d, n))
         return WK_CLOSED_ZERO;
-    if (3 * g - 3 + n > WK_CLOSED_MAX_DIM || (n != 1 && g != 0))
+    if (3 * g - 3 + n > WK_CLOSED_MAX_DIM)
         return WK_CLOSED_NONE;
-    return WK_CLOSED_VALUE;
+    slong *s = wk_closed_sorted(d, n);
+    int ok = s != NULL && wk_closed_walk(res, g, s, n, &steps);
+    free(s);
+    return ok ? WK_CLOSED_VALUE : WK_CLOSED_NONE;
+}
+
+int wk_closed_form_kind(slong g, const slong *d, slong n)
+{
+    return wk_closed_run(NULL, g, d, n);
 }
 
 /* res = the closed form when one applies (see wk.h).
    res is zero unless the code is WK_CLOSED_VALUE. */
 int wk_closed_form(fmpq_t res, slong g, const slong *d, slong n)
 {
-    int kind = wk_closed_form_kind(g, d, n);
-    fmpq_zero(res);
+    int kind = wk_closed_run(res, g, d, n);
     if (kind != WK_CLOSED_VALUE)
-        return kind;
-    if (n == 1)
-        wk_closed_set_one_point(res, g);
-    else
-        wk_closed_set_genus0(res, d, n);
-    return WK_CLOSED_VALUE;
+        fmpq_zero(res);
+    return kind;
+}
+
+int wk_correlator(fmpq_t res, wk_table *T, slong g, const slong *d, slong n)
+{
+    if (wk_closed_form(res, g, d, n) != WK_CLOSED_NONE)
+        return WK_OK;
+    return wk_table_correlator(res, T, g, d, n);
 }
