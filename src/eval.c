@@ -6,6 +6,7 @@
 
 #include "cancel.h"
 #include "diag.h"
+#include "hodge_lang.h"
 #include "interp.h"
 #include "real_ops.h"
 #include "series_ops.h"
@@ -49,11 +50,14 @@ static value *eval_number(interp *I, const node *n)
     return v;
 }
 
-static value *eval_name(scope *s, const node *n)
+static value *eval_name(interp *I, scope *s, const node *n)
 {
     binding *b = scope_lookup(s, n->text);
+    value *hodge;
     if (b && b->kind == B_VALUE)
         return value_ref(b->val);
+    if (!b && hodge_lang_name(I, n, &hodge))
+        return hodge;
     char *msg;
     if (!b)
         msg = xasprintf("undefined name '%s' (formal variables are declared with 'var %s')", n->text, n->text);
@@ -722,7 +726,7 @@ value *eval_expr(interp *I, scope *s, const node *n)
         return v;
     }
     case N_NAME:
-        return eval_name(s, n);
+        return eval_name(I, s, n);
     case N_INDEXED:
         return eval_indexed(I, s, n);
     case N_CALL:

@@ -5,6 +5,7 @@
 #include "cancel.h"
 #include "correlators/wk_kdv.h"
 #include "diag.h"
+#include "hodge_lang.h"
 #include "interp.h"
 #include "memory.h"
 #include "parse.h"
@@ -36,6 +37,7 @@ void interp_clear(interp *I)
     scope_free(I->globals);
     wk_table_free(I->wk);
     wk_kdv_table_free(I->wk_kdv);
+    hodge_lang_clear(I);
     keymap_clear(&I->integrals);
     fastvol_clear(I);
     results_close(I);

@@ -30,6 +30,7 @@ typedef struct interp {
     scope *globals;
     wk_table *wk;            /* Witten-Kontsevich numbers computed so far */
     struct wk_kdv_table *wk_kdv; /* the same by the KdV recursion (--verify), created on first use */
+    struct hodge_ctx *hodge; /* Hodge integrals computed so far (hodge_lang.c), created on first use */
     keymap integrals;        /* psi-kappa integrals computed so far */
     interp_limits lim;
     int depth;               /* current user-function call depth */

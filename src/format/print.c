@@ -51,6 +51,12 @@ static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
     case CX_KAPPA:
         strbuf_printf(b, "kappa_%ld", (long)e->index);
         break;
+    case CX_LAMBDA:
+        strbuf_printf(b, "lambda_%ld", (long)e->index);
+        break;
+    case CX_CH:
+        strbuf_printf(b, "ch_%ld", (long)e->index);
+        break;
     case CX_ADD:
         print_operand(b, e->a, 1, R);
         strbuf_puts(b, " + ");

@@ -82,8 +82,10 @@ int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const sl
                           const slong *kmult, slong kmax, const slong *lmult, slong lmax,
                           const slong *cmult, slong cmax, int expand_all);
 
-/* Rough number of memo states a route needs for an integral of total ch (or lambda) degree cdeg
-   on Mbar_{g,n}: HUGE_VAL when beyond 1e18.  Used to refuse absurd requests before work starts. */
+/* A generous estimate of the memo states the operator route needs for an integral of total ch
+   (or lambda) degree cdeg on Mbar_{g,n} (hodge_lambda.c): (g+1) p(3g-3+n) times the largest
+   number of sub-multisets of odd ch indices of sum cdeg; HUGE_VAL beyond 1e18.  Used to refuse
+   absurd requests before work starts. */
 double hodge_estimate_states(slong g, slong n, slong cdeg);
 
 #ifdef __cplusplus

@@ -149,19 +149,53 @@ int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const sl
     return st;
 }
 
-/* A deliberately generous bound: the recursion visits states (g', psi multiset, ch multiset)
-   with g' <= g, at most n + 2 cdeg points and psi degree at most 3g-3+n; their number is at most
-   (g+1) times the partitions of numbers <= D into at most N parts times 2^cdeg. */
+/* Number of partitions of m (as a double; m <= 4000). */
+static double hodge_partitions(slong m)
+{
+    double *p = calloc((size_t) m + 1, sizeof(double)), r;
+    if (p == NULL)
+        return HUGE_VAL;
+    p[0] = 1;
+    for (slong k = 1; k <= m; k++)
+        for (slong s = k; s <= m; s++)
+            p[s] += p[s - k];
+    r = p[m];
+    free(p);
+    return r;
+}
+
+/* Largest number of sub-multisets, prod (m_k + 1), of a multiset of odd parts of sum <= c. */
+static double hodge_submultisets(slong c)
+{
+    double *best = malloc(((size_t) c + 1) * sizeof(double)), r;
+    if (best == NULL)
+        return HUGE_VAL;
+    for (slong s = 0; s <= c; s++)
+        best[s] = 1;
+    for (slong k = c - (c % 2 == 0); k >= 1; k -= 2)       /* odd parts, largest first */
+        for (slong s = c; s >= k; s--)
+            for (slong m = 1; m * k <= s; m++)
+                if ((m + 1) * best[s - m * k] > best[s])
+                    best[s] = (m + 1) * best[s - m * k];
+    r = best[c];
+    free(best);
+    return r;
+}
+
+/* Memo states of the operator route (hodge_fp.c) are (g', psi multiset, ch sub-multiset);
+   the string and dilaton equations leave psi exponents >= 2, whose multisets of sum <= D are
+   at most p(D).  Measured against the route: 61810 states for lambda_12 lambda_11 psi_1^11 on
+   Mbar_{12,1}, where this gives 1.1e7 (the bound is generous, not tight). */
 double hodge_estimate_states(slong g, slong n, slong cdeg)
 {
-    double D = 3.0 * g - 3 + n, N = n + 2.0 * cdeg, p;
+    slong D = 3 * g - 3 + n;
+    double p;
     if (g < 0 || n < 0 || cdeg < 0)
         return 0;
     if (D < 1)
         return 1;
-    /* Hardy-Ramanujan bound for partitions of D, times D for the smaller numbers */
-    p = D * exp(M_PI * sqrt(2.0 * D / 3.0)) / (4.0 * D * sqrt(3.0));
-    p = p * (g + 1.0) * pow(2.0, (double) (cdeg < 60 ? cdeg : 60));
-    (void) N;
+    if (D > 4000 || cdeg > 4000)
+        return HUGE_VAL;
+    p = (g + 1.0) * hodge_partitions(D) * hodge_submultisets(cdeg);
     return p > 1e18 ? HUGE_VAL : p;
 }
