@@ -282,7 +282,84 @@ static slong gr_key(slong *key, const gr_mono *S)
     return len;
 }
 
-/* Memoised value of a normalised integrand that still has ch factors, in genus >= 1. */
+/* Removing a point with psi exponent e in {0, 1} (string and dilaton equations with kappa and
+   ch factors): on Mbar_{g,n+1}, kappa_b = pi^* kappa_b + psi_{n+1}^b and psi_{n+1} kills the
+   difference psi_i - pi^* psi_i, so for the kappa factors K and pulled-back X
+     int psi_{n+1}^e psi^d K X = [e = 0] sum_i int psi^{d - e_i} K X + [e = 1] (2g-2+n) int psi^d K X
+                                 + sum_{S nonempty in K} int psi^d kappa_{b_S + e - 1} (K - S) X,
+   b_S the sum of the indices in S, kappa_0 = 2g-2+n on Mbar_{g,n}.  Sub-multisets S are counted
+   with their binomial multiplicities.  M is S without its last point, room for kappa up to kx. */
+static int gr_drop_kappa(fmpq_t acc, hodge_ctx *H, gr_mono *M, const slong *km, slong kmax, slong b,
+                         slong bs, slong e, const fmpz_t w)
+{
+    fmpz_t w2, c;
+    int st = WK_OK;
+    if (b > kmax) {
+        slong idx = bs + e - 1;
+        if (bs == 0)
+            return WK_OK;
+        if (idx == 0) {
+            fmpz_init_set_si(w2, 2 * M->g - 2 + M->n);
+            fmpz_mul(w2, w2, w);
+            st = gr_accumulate(acc, H, M, w2);
+            fmpz_clear(w2);
+            return st;
+        }
+        M->km[idx]++;
+        st = gr_accumulate(acc, H, M, w);
+        M->km[idx]--;
+        return st;
+    }
+    fmpz_init(w2);
+    fmpz_init(c);
+    for (slong s = 0; s <= km[b] && st == WK_OK; s++) {
+        fmpz_bin_uiui(c, (ulong) km[b], (ulong) s);
+        fmpz_mul(w2, w, c);
+        M->km[b] = km[b] - s;
+        st = gr_drop_kappa(acc, H, M, km, kmax, b + 1, bs + s * b, e, w2);
+    }
+    M->km[b] = km[b];
+    fmpz_clear(w2);
+    fmpz_clear(c);
+    return st;
+}
+
+/* res = int S on Mbar_{g,n} with d sorted and d[n-1] in {0, 1}, Mbar_{g,n-1} stable: the point
+   n is removed by the formula above. */
+static int gr_string_dilaton(fmpq_t res, hodge_ctx *H, const gr_mono *S)
+{
+    slong e = S->d[S->n - 1], kx = S->kmax + 1;
+    gr_mono M;
+    fmpz_t w;
+    int st = WK_OK;
+    for (slong j = 1; j <= S->kmax; j++)
+        kx += j * S->km[j];
+    if (!gr_alloc(&M, S->g, S->n - 1, kx, S->cmax))
+        return WK_LIMIT;
+    memcpy(M.d, S->d, (size_t) (S->n - 1) * sizeof(slong));
+    memcpy(M.km, S->km, (size_t) (S->kmax + 1) * sizeof(slong));
+    memcpy(M.cm, S->cm, (size_t) (S->cmax + 1) * sizeof(slong));
+    fmpz_init_set_si(w, e == 1 ? 2 * S->g - 3 + S->n : 1);
+    fmpq_zero(res);
+    if (e == 1)
+        st = gr_accumulate(res, H, &M, w);
+    for (slong i = 0; e == 0 && i < M.n && st == WK_OK; i++) {
+        if (M.d[i] == 0)
+            continue;
+        M.d[i]--;
+        st = gr_accumulate(res, H, &M, w);
+        M.d[i]++;
+    }
+    fmpz_one(w);
+    if (st == WK_OK)
+        st = gr_drop_kappa(res, H, &M, S->km, S->kmax, 1, 0, e, w);
+    fmpz_clear(w);
+    gr_free(&M);
+    return st;
+}
+
+/* Memoised value of a normalised integrand: the pushforward reduction without ch factors (the
+   same psi-kappa integrals recur on many boundary strata), else one step of Mumford's formula. */
 static int gr_memo(fmpq_t res, hodge_ctx *H, const gr_mono *S)
 {
     slong *key = malloc((size_t) (S->n + S->kmax + S->cmax + 3) * sizeof(slong));
@@ -300,7 +377,7 @@ static int gr_memo(fmpq_t res, hodge_ctx *H, const gr_mono *S)
     }
     st = hodge_poll(H);
     if (st == WK_OK)
-        st = gr_step(res, H, S);
+        st = S->cmax == 0 ? pf_integral(res, H->T, S->g, S->d, S->n, S->km, S->kmax) : gr_step(res, H, S);
     if (st == WK_OK)
         keymap_set(&H->memo[HODGE_ROUTE_GRR], key, len, res);
     free(key);
@@ -326,9 +403,9 @@ static int gr_eval(fmpq_t res, hodge_ctx *H, const gr_mono *M)
         deg += j * S.cm[j];
     if (2 * S.g - 2 + S.n <= 0 || deg != 3 * S.g - 3 + S.n)
         return WK_OK;
-    if (S.cmax == 0)
-        return pf_integral(res, H->T, S.g, S.d, S.n, S.km, S.kmax);
-    if (S.g == 0)
+    if (S.cmax == 0 && S.kmax == 0)
+        return wk_table_correlator(res, H->T, S.g, S.d, S.n);
+    if (S.g == 0 && S.cmax > 0)
         return WK_OK;                   /* E = 0 in genus 0 */
     for (slong j = 2; j <= S.cmax; j += 2)
         if (S.cm[j] > 0)
@@ -339,7 +416,10 @@ static int gr_eval(fmpq_t res, hodge_ctx *H, const gr_mono *M)
     memcpy(S.km, M->km, (size_t) (S.kmax + 1) * sizeof(slong));
     memcpy(S.cm, M->cm, (size_t) (S.cmax + 1) * sizeof(slong));
     hodge_sort_desc(S.d, S.n);
-    st = gr_memo(res, H, &S);
+    if (S.n > 0 && S.d[S.n - 1] <= 1 && 2 * S.g - 3 + S.n > 0)
+        st = gr_string_dilaton(res, H, &S);
+    else
+        st = gr_memo(res, H, &S);
     gr_free(&S);
     if (st != WK_OK)
         fmpq_zero(res);
