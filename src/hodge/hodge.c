@@ -73,11 +73,11 @@ void hodge_coef(fmpq_t c, hodge_ctx *H, slong l)
     fmpq_set(c, H->bcoef + l);
 }
 
-int hodge_poll(const hodge_ctx *H)
+int hodge_poll(const hodge_ctx *H, int route)
 {
     if (H->cancel != NULL && *H->cancel)
         return WK_CANCELLED;
-    if (H->limit > 0 && H->memo[0].len + H->memo[1].len > H->limit)
+    if (H->limit > 0 && H->memo[route].len > H->limit)
         return WK_LIMIT;
     return WK_OK;
 }

@@ -53,8 +53,8 @@ void hodge_free(hodge_ctx *H);
    The flag is not owned. */
 void hodge_set_cancel(hodge_ctx *H, volatile sig_atomic_t *flag);
 
-/* Stops a computation with WK_LIMIT once the memo tables hold more than max_entries states in
-   total (0 = unlimited). */
+/* Stops a computation with WK_LIMIT once the memo table of its route holds more than max_entries
+   states (0 = unlimited). */
 void hodge_set_limit(hodge_ctx *H, slong max_entries);
 
 /* Number of memoised states of the route (for benchmarks and estimates). */

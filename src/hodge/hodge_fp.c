@@ -290,7 +290,7 @@ static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, sl
         free(key);
         return WK_OK;
     }
-    st = hodge_poll(H);
+    st = hodge_poll(H, HODGE_ROUTE_FP);
     if (st == WK_OK)
         st = fp_step(res, H, g, d, n, cm, cmax);
     if (st == WK_OK)
@@ -401,7 +401,7 @@ static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, 
     }
     memcpy(km1, km, (size_t) (kmax + 1) * sizeof(slong));
     km1[kmax]--;
-    st = hodge_poll(H);
+    st = hodge_poll(H, HODGE_ROUTE_FP);
     if (st == WK_OK)
         st = fp_kappa_pull(res, H, g, buf, n, kmax + 1, km1, kmax, cm, cmax);
     if (st == WK_OK)

@@ -375,7 +375,7 @@ static int gr_memo(fmpq_t res, hodge_ctx *H, const gr_mono *S)
         free(key);
         return WK_OK;
     }
-    st = hodge_poll(H);
+    st = hodge_poll(H, HODGE_ROUTE_GRR);
     if (st == WK_OK)
         st = S->cmax == 0 ? pf_integral(res, H->T, S->g, S->d, S->n, S->km, S->kmax) : gr_step(res, H, S);
     if (st == WK_OK)

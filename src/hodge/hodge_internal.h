@@ -14,7 +14,7 @@ struct hodge_ctx {
     wk_table *T;                       /* psi correlators, borrowed */
     keymap memo[2];                    /* one per route, keyed by normalised states */
     volatile sig_atomic_t *cancel;     /* polled on each memo miss, not owned */
-    slong limit;                       /* total states allowed, 0 = unlimited */
+    slong limit;                       /* states allowed per route, 0 = unlimited */
     fmpq *bcoef;                       /* bcoef[l] = B_{2l}/(2l)!, l = 0..nbcoef-1 */
     slong nbcoef;
 };
@@ -23,8 +23,8 @@ struct hodge_ctx {
    l >= 1 and at most HODGE_MAX_INDEX. */
 void hodge_coef(fmpq_t c, hodge_ctx *H, slong l);
 
-/* WK_CANCELLED if the cancel flag is set, WK_LIMIT if the memo tables exceed the limit, else WK_OK. */
-int hodge_poll(const hodge_ctx *H);
+/* WK_CANCELLED if the cancel flag is set, WK_LIMIT if the route's memo exceeds the limit, else WK_OK. */
+int hodge_poll(const hodge_ctx *H, int route);
 
 /* Sorts d[0..n-1] in descending order (insertion sort: n is small). */
 void hodge_sort_desc(slong *d, slong n);

@@ -9,6 +9,7 @@
  *    c(E) c(E^dual) = 1) and to the direct ch_m integral for odd m, on random integrands; the
  *    lambda_j with j > g expanded into ch classes integrate to 0.
  */
+#include <signal.h>
 #include <string.h>
 #include <flint/arith.h>
 #include <flint/fmpz.h>
@@ -431,6 +432,23 @@ static void test_errors(hodge_ctx *H)
         UNIT_CHECK(&rep, hodge_integral_lambda(v, H, r, 1, d, 3, NULL, 0, lm, 3, NULL, 0, 0) == WK_OK
                    && fmpq_is_zero(v), "lambda_3 in genus 1");
     }
+    /* the memo limit and the cancel flag stop a computation, per route */
+    wk_table *T = wk_table_new();
+    hodge_ctx *L = hodge_new(T);
+    volatile sig_atomic_t flag = 1;
+    slong lm6[7] = {0, 0, 0, 0, 0, 1, 1}, a[1] = {5};
+    hodge_set_limit(L, 10);
+    for (int r = 0; r < 2; r++) {
+        UNIT_CHECK(&rep, hodge_integral_lambda(v, L, r, 6, a, 1, NULL, 0, lm6, 6, NULL, 0, 0) == WK_LIMIT
+                   && fmpq_is_zero(v), "memo limit, route %d", r);
+        UNIT_CHECK(&rep, hodge_entries(L, r) <= 11, "memo limit holds, route %d", r);
+    }
+    hodge_set_limit(L, 0);
+    hodge_set_cancel(L, &flag);
+    UNIT_CHECK(&rep, hodge_integral_lambda(v, L, 1, 6, a, 1, NULL, 0, lm6, 6, NULL, 0, 0) == WK_CANCELLED,
+               "cancel flag");
+    hodge_free(L);
+    wk_table_free(T);
     UNIT_CHECK(&rep, hodge_integral(v, H, 2, 1, d, 1, NULL, 0, cm, 1) == WK_BADARG, "no route 2");
     UNIT_CHECK(&rep, hodge_integral(v, NULL, 0, 1, d, 1, NULL, 0, cm, 1) == WK_BADARG, "no context");
     fmpq_clear(v);
