@@ -167,9 +167,14 @@ static int hodge_lang_prepare(interp *I, const node *where, cpoly *P, const valu
     cpoly_foreach_top_hodge(P, hodge_lang_estimate_term, &R);
     if (R.estimate <= I->lim.max_table)
         return 1;
-    diag_error(&where->loc, "this Hodge integral on Mbar_{%ld,%ld} needs about %.3g memo states, above the "
-                            "limit of %.3g (raise it with --max-table N)",
-               (long)P->g, (long)P->n, R.estimate, I->lim.max_table);
+    char amount[48];
+    if (R.estimate > 1e18)
+        snprintf(amount, sizeof amount, "more than 1e18");
+    else
+        snprintf(amount, sizeof amount, "about %.3g", R.estimate);
+    diag_error(&where->loc, "this Hodge integral on Mbar_{%ld,%ld} needs %s memo states, above the limit of "
+                            "%.3g (raise it with --max-table N)",
+               (long)P->g, (long)P->n, amount, I->lim.max_table);
     return 0;
 }
 
