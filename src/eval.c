@@ -152,8 +152,11 @@ static value *eval_list_index(interp *I, scope *s, const node *n, const value *l
 static value *eval_indexed(interp *I, scope *s, const node *n)
 {
     binding *b = scope_lookup(s, n->text);
+    value *hodge;
     if (b && b->kind == B_VALUE && b->val->kind == V_LIST)
         return eval_list_index(I, s, n, b->val);
+    if (!b && hodge_lang_indexed(I, s, n, &hodge))
+        return hodge;
     if (!b || b->kind != B_FAMILY) {
         char *msg = b && b->kind == B_FUNCTION
                         ? xasprintf("'%s' is a function: call it as %s(...)", n->text, n->text)

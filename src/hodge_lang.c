@@ -28,6 +28,24 @@ int hodge_lang_name(interp *I, const node *n, value **out)
     return 1;
 }
 
+int hodge_lang_indexed(interp *I, scope *s, const node *n, value **out)
+{
+    int is_lambda = strcmp(n->text, "lambda") == 0;
+    slong j;
+    if (!is_lambda && strcmp(n->text, "ch") != 0)
+        return 0;
+    *out = NULL;
+    if (!eval_slong(I, s, n->a, is_lambda ? "lambda index" : "ch index", 0, &j))
+        return 1;
+    if (j > HODGE_MAX_INDEX) {
+        diag_error(&n->a->loc, "%s index %ld: Hodge class indices go up to %d", n->text, (long)j, HODGE_MAX_INDEX);
+        return 1;
+    }
+    cx *c = is_lambda ? cx_lambda(j, I->ring.ctx, n) : cx_ch(j, I->ring.ctx, n);
+    *out = value_new_class(c, &I->ring);
+    return 1;
+}
+
 int hodge_lang_applies(const value *integrand)
 {
     return integrand->kind == V_CLASS && cx_has_hodge(integrand->cls);

@@ -9,6 +9,10 @@
    error at n) and returns 1; returns 0 for any other name. */
 int hodge_lang_name(interp *I, const node *n, value **out);
 
+/* When n is lambda[e] or ch[e] (computed index e >= 0), sets *out to the class (NULL after an
+   error, e.g. a negative index) and returns 1; returns 0 for any other name. */
+int hodge_lang_indexed(interp *I, scope *s, const node *n, value **out);
+
 /* Whether the integrand holds a Hodge class, so that int[g, n] goes to hodge_lang_integrate. */
 int hodge_lang_applies(const value *integrand);
 
