@@ -14,6 +14,7 @@
 #include <flint/arith.h>
 #include <flint/fmpz.h>
 #include <flint/fmpq_poly.h>
+#include <flint/fmpq_vec.h>
 #include <flint/fmpq_mpoly.h>
 #include <flint/ulong_extras.h>
 #include "hodge/hodge.h"
