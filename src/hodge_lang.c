@@ -122,6 +122,8 @@ static int hodge_lang_estimate_term(void *data, const slong *psi, slong n, const
     hodge_run *R = data;
     slong kdeg = 0;
     (void)psi, (void)coeff;
+    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0)
+        return 0;               /* E = 0 in genus 0: no work */
     for (slong j = 1; j <= kmax; j++)
         kdeg += kmult[j];
     double e = hodge_estimate_states(R->g, n + kdeg, hodge_lang_degree(lmult, lmax, cmult, cmax));
@@ -141,6 +143,11 @@ static int hodge_lang_term(void *data, const slong *psi, slong n, const slong *k
     fmpq_mpoly_t t;
     fmpq_init(v);
     fmpq_init(w);
+    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0) {
+        fmpq_clear(v);          /* E = 0 in genus 0 */
+        fmpq_clear(w);
+        return WK_OK;
+    }
     int st = hodge_integral_lambda(v, R->H, HODGE_ROUTE_FP, R->g, psi, n, kmult, kmax, lmult, lmax, cmult,
                                    cmax, 0);
     if (st == WK_OK && R->I->verify) {
