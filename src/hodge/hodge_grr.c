@@ -390,24 +390,30 @@ static int gr_memo(fmpq_t res, hodge_ctx *H, const gr_mono *S)
     return st;
 }
 
+/* Degree of the integrand: psi exponents plus the weighted kappa and ch multiplicities. */
+static slong gr_degree(const gr_mono *S)
+{
+    slong deg = 0;
+    for (slong i = 0; i < S->n; i++)
+        deg += S->d[i];
+    for (slong j = 1; j <= S->kmax; j++)
+        deg += j * S->km[j];
+    for (slong j = 1; j <= S->cmax; j++)
+        deg += j * S->cm[j];
+    return deg;
+}
+
 /* res = int over Mbar_{g,n} of the integrand M (zero for unstable spaces and wrong degrees). */
 static int gr_eval(fmpq_t res, hodge_ctx *H, const gr_mono *M)
 {
     gr_mono S = *M;
-    slong deg = 0;
     int st;
     fmpq_zero(res);
     while (S.kmax > 0 && S.km[S.kmax] == 0)
         S.kmax--;
     while (S.cmax > 0 && S.cm[S.cmax] == 0)
         S.cmax--;
-    for (slong i = 0; i < S.n; i++)
-        deg += S.d[i];
-    for (slong j = 1; j <= S.kmax; j++)
-        deg += j * S.km[j];
-    for (slong j = 1; j <= S.cmax; j++)
-        deg += j * S.cm[j];
-    if (2 * S.g - 2 + S.n <= 0 || deg != 3 * S.g - 3 + S.n)
+    if (2 * S.g - 2 + S.n <= 0 || gr_degree(&S) != 3 * S.g - 3 + S.n)
         return WK_OK;
     if (S.cmax == 0 && S.kmax == 0)
         return wk_table_correlator(res, H->T, S.g, S.d, S.n);
