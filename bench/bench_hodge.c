@@ -3,7 +3,8 @@
  * g = 1..G, by the Faber-Pandharipande operator (FP) and by Mumford's formula with the pushforward
  * reduction (GRR); one child process per genus and route, each with fresh tables.
  *
- * Usage:  bench_hodge [G [BUDGET_S]]   (defaults 12 and 120 seconds per child)
+ * Usage:  bench_hodge [G [BUDGET_S [GMIN]]]   (defaults 12, 120 seconds per child, 1): genera
+ *         GMIN..G
  * Columns: g, integrals, route, wall s, CPU s, peak MiB, memo states, checksum of the values
  * (equal results, equal sums), then the CPU ratio GRR/FP.  A route stopped by the budget is not
  * run for larger genera.
@@ -93,15 +94,16 @@ static int bh_child(slong g, int route, unsigned budget, double *cpu)
 
 int main(int argc, char **argv)
 {
-    slong G = 12, budget = 120;
+    slong G = 12, budget = 120, gmin = 1;
     int live[2] = {1, 1};
-    if (argc > 3 || (argc > 1 && !bench_arg_slong(&G, argv[1], 1, 40))
-        || (argc > 2 && !bench_arg_slong(&budget, argv[2], 1, 86400))) {
-        fprintf(stderr, "usage: %s [G [BUDGET_S]]   (1 <= G <= 40)\n", argv[0]);
+    if (argc > 4 || (argc > 1 && !bench_arg_slong(&G, argv[1], 1, 40))
+        || (argc > 2 && !bench_arg_slong(&budget, argv[2], 1, 86400))
+        || (argc > 3 && !bench_arg_slong(&gmin, argv[3], 1, G))) {
+        fprintf(stderr, "usage: %s [G [BUDGET_S [GMIN]]]   (1 <= GMIN <= G <= 40)\n", argv[0]);
         return 2;
     }
     printf("  g count route     wall       CPU  peakMiB    states             checksum\n");
-    for (slong g = 1; g <= G && (live[0] || live[1]); g++) {
+    for (slong g = gmin; g <= G && (live[0] || live[1]); g++) {
         double cpu[2] = {0.0, 0.0};
         for (int r = HODGE_ROUTE_FP; r >= HODGE_ROUTE_GRR; r--)
             if (live[r] && bh_child(g, r, (unsigned) budget, cpu + r) != 0)
