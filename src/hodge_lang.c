@@ -18,12 +18,14 @@ int hodge_lang_name(interp *I, const node *n, value **out)
     if (skip == 0 || t[skip] == '\0' || strspn(t + skip, "0123456789") != strlen(t + skip))
         return 0;
     *out = NULL;
+    while (t[skip] == '0' && t[skip + 1] != '\0')   /* leading zeros: lambda_01 is lambda_1 */
+        skip++;
     if (strlen(t + skip) > 6 || atol(t + skip) > HODGE_MAX_INDEX) {
         diag_error(&n->loc, "%s: Hodge class indices go up to %d", t, HODGE_MAX_INDEX);
         return 1;
     }
     slong j = atol(t + skip);
-    cx *c = skip == 7 ? cx_lambda(j, I->ring.ctx, n) : cx_ch(j, I->ring.ctx, n);
+    cx *c = t[0] == 'l' ? cx_lambda(j, I->ring.ctx, n) : cx_ch(j, I->ring.ctx, n);
     *out = value_new_class(c, &I->ring);
     return 1;
 }
