@@ -10,7 +10,10 @@
  * generating a transitive subgroup of S_d} (connected covers of P^1 weighted by 1/|Aut|).
  * Without transitivity, Frobenius' character formula gives (sum over partitions l of d)
  *     H^._{mu,r} = sum_l dim(l) chi_l(mu) f(l)^r / (d! z_mu),   f(l) = sum of the contents of l,
- * with chi_l(mu) by the Murnaghan-Nakayama rule.  Connected numbers follow from the exponential
+ * with chi_l(mu) by the Murnaghan-Nakayama rule (F. D. Murnaghan, Amer. J. Math. 59 (1937);
+ * T. Nakayama, Jap. J. Math. 17 (1941); the counting formula goes back to G. Frobenius, "Ueber
+ * Gruppencharaktere", Sitzungsber. Preuss. Akad. Wiss. (1896); both from memory, and the count is
+ * confirmed by brute force below).  Connected numbers follow from the exponential
  * formula with labelled parts of mu (h = |Aut mu| H): the component holding the first part.
  * The character side is checked against a brute-force count of transposition tuples for d <= 4.
  */
