@@ -6,6 +6,7 @@
 
 #include "cancel.h"
 #include "diag.h"
+#include "hodge_lang.h"
 #include "interp.h"
 #include "oldsyntax.h"
 #include "theta_lang.h"
@@ -671,7 +672,7 @@ value *eval_expr(interp *I, scope *s, const node *n)
     case N_NAME:
         if (theta_is_class_name(n->text) && !scope_lookup(s, n->text))
             return theta_class_value(I, n);
-        return eval_name(s, n);
+        return eval_name(I, s, n);
     case N_INDEXED:
         return eval_indexed(I, s, n);
     case N_SUBSCRIPT:

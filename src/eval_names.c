@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include "diag.h"
+#include "hodge_lang.h"
 #include "interp.h"
 #include "unavailable.h"
 #include "util.h"
@@ -31,11 +32,14 @@ int names_check_reserved(const srcloc *at, const char *name)
     return 1;
 }
 
-value *eval_name(scope *s, const node *n)
+value *eval_name(interp *I, scope *s, const node *n)
 {
     binding *b = scope_lookup(s, n->text);
+    value *hodge;
     if (b && b->kind == B_VALUE)
         return value_ref(b->val);
+    if (!b && hodge_lang_name(I, n, &hodge))
+        return hodge;
     if (!b && names_check_reserved(&n->loc, n->text))
         return NULL;
     if (!b)
@@ -120,6 +124,9 @@ value *eval_subscript(interp *I, scope *s, const node *n)
         return names_family_member(I, s, n, b);
     if (strcmp(n->text, "V") == 0)
         return names_volume(I, s, n);
+    value *hodge;
+    if (!b && hodge_lang_subscript(I, s, n, &hodge))
+        return hodge;
     char *stem = xasprintf("%s_", n->text);
     int reserved = names_check_reserved(&n->loc, stem);
     free(stem);

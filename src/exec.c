@@ -6,6 +6,7 @@
 #include "correlators/wk_kdv.h"
 #include "theta_lang.h"
 #include "diag.h"
+#include "hodge_lang.h"
 #include "interp.h"
 #include "memory.h"
 #include "parse.h"
@@ -40,6 +41,7 @@ void interp_clear(interp *I)
     wk_table_free(I->wk);
     wk_kdv_table_free(I->wk_kdv);
     theta_lang_clear(I);
+    hodge_lang_clear(I);
     keymap_clear(&I->integrals);
     fastvol_clear(I);
     results_close(I);

@@ -10,6 +10,7 @@
 #include "correlators/wk_kdv.h"
 #include "cancel.h"
 #include "diag.h"
+#include "hodge_lang.h"
 #include "progress.h"
 #include "format/print.h"
 #include "interp.h"
@@ -470,6 +471,8 @@ static value *integrate_verify(interp *I, const node *where, slong g, slong n, c
 static value *integrate_compute(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
     int handled;
+    if (hodge_lang_applies(integrand))
+        return hodge_lang_integrate(I, where, g, n, integrand);
     value *fast = fastvol_try(I, where, g, n, integrand, &handled);
     if (handled)
         return fast && I->verify ? integrate_verify(I, where, g, n, integrand, fast) : fast;
@@ -627,6 +630,8 @@ int integrate_explain(interp *I, const node *where, slong g, slong n, const valu
         return theta_explain(I, where, g, n, integrand);
     if (!integrate_space_ok(I, where, g, n))
         return 0;
+    if (hodge_lang_applies(integrand))
+        return hodge_lang_explain(I, where, g, n, integrand);
     cpoly P;
     cpoly_init(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
     int ok = integrate_expand(&P, where, integrand) && integrate_cost_ok(I, where, &P);

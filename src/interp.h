@@ -30,6 +30,7 @@ typedef struct interp {
     scope *globals;
     wk_table *wk;            /* Witten-Kontsevich numbers computed so far */
     struct wk_kdv_table *wk_kdv; /* the same by the KdV recursion (--verify), created on first use */
+    struct hodge_ctx *hodge; /* Hodge integrals computed so far (hodge_lang.c), created on first use */
     keymap integrals;        /* psi-kappa integrals computed so far */
     struct theta_table *theta_vir, *theta_kdv; /* Theta-psi numbers by two routes (theta_lang.c) */
     interp_limits lim;
@@ -100,7 +101,7 @@ int exec_load(interp *I, const node *n);
 int eval_cancelled(const node *n);
 
 /* Names, items of lists, subscripted names L_{i} and V_{g,n} (eval_names.c). */
-value *eval_name(scope *s, const node *n);
+value *eval_name(interp *I, scope *s, const node *n);
 value *eval_indexed(interp *I, scope *s, const node *n);
 value *eval_subscript(interp *I, scope *s, const node *n);
 /* Reports a name reserved for a class that is not available (unavailable.h)

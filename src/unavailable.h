@@ -1,9 +1,8 @@
-/* Names that the field uses for classes psikappa does not provide yet
-   (Hodge classes lambda_k and ch_k, boundary classes delta..., Theta, ...).
-   They are reserved: reading one reports that the class is not available,
-   and none can be declared or bound, so that no script integrates a formal
-   variable in their place. A class family that becomes available is taken
-   out of the table in unavailable.c. */
+/* Names that the field uses for classes: those psikappa does not provide yet
+   (boundary classes delta..., DR cycles, ...), whose reading reports that the
+   class is not available, and those it provides (the Hodge classes lambda_k
+   and ch_k), which the class hooks read first. None can be declared or bound,
+   so that no script integrates a formal variable in a class's place. */
 #ifndef PSIKAPPA_UNAVAILABLE_H
 #define PSIKAPPA_UNAVAILABLE_H
 

@@ -43,6 +43,20 @@ cx *cx_theta(const fmpq_mpoly_ctx_t ctx, const void *origin)
     return e;
 }
 
+cx *cx_lambda(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_psi(j, ctx, origin);
+    e->kind = CX_LAMBDA;
+    return e;
+}
+
+cx *cx_ch(slong k, const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_psi(k, ctx, origin);
+    e->kind = CX_CH;
+    return e;
+}
+
 static cx *cx_binary(cx_kind kind, cx *a, cx *b)
 {
     cx *e = cx_node(kind, a->ctx);
@@ -109,6 +123,15 @@ slong cx_max_psi(const cx *e)
     return m;
 }
 
+int cx_has_hodge(const cx *e)
+{
+    for (; e; e = e->a) {
+        if (e->kind == CX_LAMBDA || e->kind == CX_CH || cx_has_hodge(e->b))
+            return 1;
+    }
+    return 0;
+}
+
 /* a + b and k * a, saturating at WORD_MAX (degrees are >= 0). */
 static slong cx_degree_add(slong a, slong b)
 {
@@ -133,6 +156,8 @@ static slong cx_max_degree_at(const cx *e, int depth)
     case CX_PSI:
         return 1;
     case CX_KAPPA:
+    case CX_LAMBDA:
+    case CX_CH:
         return e->index;
     case CX_ADD:
         return a > b ? a : b;

@@ -8,7 +8,9 @@
 
 #include <flint/fmpq_mpoly.h>
 
-typedef enum { CX_SCALAR, CX_PSI, CX_KAPPA, CX_ADD, CX_MUL, CX_POW, CX_EXP, CX_THETA } cx_kind;
+/* CX_LAMBDA and CX_CH are the Chern classes lambda_j = c_j(E) and the Chern character components
+   ch_k(E) of the Hodge bundle E (index >= 0; docs/conventions.md, "The Hodge bundle"). */
+typedef enum { CX_SCALAR, CX_PSI, CX_KAPPA, CX_ADD, CX_MUL, CX_POW, CX_EXP, CX_LAMBDA, CX_CH, CX_THETA } cx_kind;
 
 typedef struct cx {
     cx_kind kind;
@@ -27,6 +29,8 @@ cx *cx_psi(slong i, const fmpq_mpoly_ctx_t ctx, const void *origin);
 cx *cx_kappa(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin);
 /* Norbury's class Theta_{g,n} (degree 2g-2+n): only the Theta adaptor (theta_lang.c) integrates it. */
 cx *cx_theta(const fmpq_mpoly_ctx_t ctx, const void *origin);
+cx *cx_lambda(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin);
+cx *cx_ch(slong k, const fmpq_mpoly_ctx_t ctx, const void *origin);
 cx *cx_add(cx *a, cx *b);
 cx *cx_mul(cx *a, cx *b);
 cx *cx_pow(cx *a, slong k, const void *origin);
@@ -61,6 +65,9 @@ int cx_match_psi_kappa1(const cx *e, slong n, cx_monomial *m);
    factor, c and b[0..n) are initialised by the caller in the ring of the scalars; returns 0
    (their values unspecified) for any other expression. */
 int cx_match_exp_linear(const cx *e, slong n, fmpq_mpoly_t factor, fmpq_mpoly_t c, fmpq_mpoly_struct *b);
+
+/* Whether e contains a Hodge class (lambda_j or ch_k): such integrands go to src/hodge/. */
+int cx_has_hodge(const cx *e);
 
 /* Largest psi index used, so that callers can check it against n early. */
 slong cx_max_psi(const cx *e);

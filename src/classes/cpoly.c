@@ -23,6 +23,23 @@ void cpoly_init_degree(cpoly *P, slong g, slong n, slong D, slong max_terms, con
     P->nexp = n + (D > 0 ? D : 0);
 }
 
+void cpoly_init_hodge(cpoly *P, slong g, slong n, slong max_terms, const fmpq_mpoly_ctx_t ctx)
+{
+    cpoly_init(P, g, n, max_terms, ctx);
+    P->hodge = 1;
+    P->nexp += g + (P->D > 0 ? P->D : 0);
+}
+
+/* An empty polynomial on the same space, with the same truncation degree and
+   the same slots as Q (the Hodge slots, or a degree set by cpoly_init_degree). */
+static void cpoly_init_like(cpoly *P, const cpoly *Q)
+{
+    cpoly_init(P, Q->g, Q->n, Q->max_terms, Q->ctx);
+    P->D = Q->D;
+    P->nexp = Q->nexp;
+    P->hodge = Q->hodge;
+}
+
 static void cpoly_free_terms(cpoly *P)
 {
     for (slong i = 0; i < P->len; i++)
@@ -221,7 +238,7 @@ static int cpoly_expand_rec(cpoly *P, const cx *e, const cx **bad);
 static int cpoly_expand_pow(cpoly *P, const cx *e, const cx **bad)
 {
     cpoly A, T;
-    cpoly_init(&A, P->g, P->n, P->max_terms, P->ctx);
+    cpoly_init_like(&A, P);
     int rc = cpoly_expand_rec(&A, e->a, bad);
     fmpq_mpoly_t one;
     fmpq_mpoly_init(one, P->ctx);
@@ -233,12 +250,12 @@ static int cpoly_expand_pow(cpoly *P, const cx *e, const cx **bad)
     ulong k = nilpotent && e->index > P->D + 1 ? (ulong)P->D + 1 : (ulong)e->index;
     /* square and multiply: O(log k) truncated products even for huge k */
     for (int bit = FLINT_BITS - 1; bit >= 0 && rc == CPOLY_OK; bit--) {
-        cpoly_init(&T, P->g, P->n, P->max_terms, P->ctx);
+        cpoly_init_like(&T, P);
         rc = cpoly_mul(&T, P, P);
         cpoly_swap(P, &T);
         cpoly_clear(&T);
         if (rc == CPOLY_OK && ((k >> bit) & 1)) {
-            cpoly_init(&T, P->g, P->n, P->max_terms, P->ctx);
+            cpoly_init_like(&T, P);
             rc = cpoly_mul(&T, P, &A);
             cpoly_swap(P, &T);
             cpoly_clear(&T);
@@ -254,7 +271,7 @@ static int cpoly_expand_pow(cpoly *P, const cx *e, const cx **bad)
 static int cpoly_expand_exp(cpoly *P, const cx *e, const cx **bad)
 {
     cpoly A, term, T;
-    cpoly_init(&A, P->g, P->n, P->max_terms, P->ctx);
+    cpoly_init_like(&A, P);
     int rc = cpoly_expand_rec(&A, e->a, bad);
     if (rc == CPOLY_OK && cpoly_has_constant(&A)) {
         *bad = e;
@@ -263,15 +280,15 @@ static int cpoly_expand_exp(cpoly *P, const cx *e, const cx **bad)
     fmpq_mpoly_t one;
     fmpq_mpoly_init(one, P->ctx);
     fmpq_mpoly_one(one, P->ctx);
-    cpoly_init(&term, P->g, P->n, P->max_terms, P->ctx);
+    cpoly_init_like(&term, P);
     if (rc == CPOLY_OK)
         rc = cpoly_set_scalar(&term, one);
     for (slong k = 1; rc == CPOLY_OK && term.len > 0; k++) {
-        cpoly_init(&T, P->g, P->n, P->max_terms, P->ctx);
+        cpoly_init_like(&T, P);
         rc = cpoly_add(&T, P, &term);
         cpoly_swap(P, &T);
         cpoly_clear(&T);
-        cpoly_init(&T, P->g, P->n, P->max_terms, P->ctx);
+        cpoly_init_like(&T, P);
         if (rc == CPOLY_OK)
             rc = cpoly_mul(&T, &term, &A);
         cpoly_scale_ui(&T, (ulong)k);
@@ -289,8 +306,8 @@ static int cpoly_expand_exp(cpoly *P, const cx *e, const cx **bad)
 static int cpoly_expand_binary(cpoly *P, const cx *e, const cx **bad)
 {
     cpoly A, B;
-    cpoly_init(&A, P->g, P->n, P->max_terms, P->ctx);
-    cpoly_init(&B, P->g, P->n, P->max_terms, P->ctx);
+    cpoly_init_like(&A, P);
+    cpoly_init_like(&B, P);
     int rc = cpoly_expand_rec(&A, e->a, bad);
     if (rc == CPOLY_OK)
         rc = cpoly_expand_rec(&B, e->b, bad);
@@ -312,6 +329,29 @@ static int cpoly_expand_kappa(cpoly *P, const cx *e)
     fmpq_mpoly_init(c, P->ctx);
     fmpq_mpoly_set_si(c, 2 * P->g - 2 + P->n, P->ctx);
     int rc = cpoly_set_scalar(P, c);
+    fmpq_mpoly_clear(c, P->ctx);
+    return rc;
+}
+
+/* lambda_0 = 1, lambda_j = 0 above the rank g, ch_0 = g, ch_{2k} = 0 (Mumford); the rest are
+   generators in the Hodge slots (none above the dimension). */
+static int cpoly_expand_hodge(cpoly *P, const cx *e, const cx **bad)
+{
+    slong j = e->index, D = P->D > 0 ? P->D : 0;
+    fmpq_mpoly_t c;
+    int rc;
+    if (!P->hodge) {
+        *bad = e;
+        return CPOLY_HODGE;
+    }
+    if (j > 0) {
+        if (j > D || (e->kind == CX_LAMBDA && j > P->g) || (e->kind == CX_CH && j % 2 == 0))
+            return CPOLY_OK;
+        return cpoly_set_gen(P, P->n + D + (e->kind == CX_LAMBDA ? 0 : P->g) + j - 1, j);
+    }
+    fmpq_mpoly_init(c, P->ctx);
+    fmpq_mpoly_set_si(c, e->kind == CX_LAMBDA ? 1 : P->g, P->ctx);
+    rc = cpoly_set_scalar(P, c);
     fmpq_mpoly_clear(c, P->ctx);
     return rc;
 }
@@ -343,6 +383,9 @@ static int cpoly_expand_rec(cpoly *P, const cx *e, const cx **bad)
     case CX_THETA:        /* Theta is split off before expansion (theta_lang.c) */
         *bad = e;
         return CPOLY_THETA;
+    case CX_LAMBDA:
+    case CX_CH:
+        return cpoly_expand_hodge(P, e, bad);
     }
     return CPOLY_OK;
 }
@@ -382,6 +425,42 @@ int cpoly_foreach_top(const cpoly *P, cpoly_term_fn f, void *data)
     }
     free(psi);
     free(kmult);
+    return rc;
+}
+
+/* Unpacks the Hodge slots of term i into lmult[0..g] and cmult[0..D]; sets their maxima. */
+static void cpoly_unpack_hodge(const cpoly *P, slong i, slong *lmult, slong *lmax, slong *cmult, slong *cmax)
+{
+    const cpoly_exp *e = cpoly_term_exps(P, i) + P->n + P->D;
+    *lmax = *cmax = 0;
+    lmult[0] = cmult[0] = 0;
+    for (slong j = 1; j <= P->g; j++)
+        if ((lmult[j] = e[j - 1]) != 0)
+            *lmax = j;
+    for (slong k = 1; k <= P->D; k++)
+        if ((cmult[k] = e[P->g + k - 1]) != 0)
+            *cmax = k;
+}
+
+int cpoly_foreach_top_hodge(const cpoly *P, cpoly_hodge_term_fn f, void *data)
+{
+    slong *psi = xmalloc((P->n + 1) * sizeof(slong));
+    slong *kmult = xmalloc((P->D + 2) * sizeof(slong));
+    slong *lmult = xmalloc((P->g + 2) * sizeof(slong));
+    slong *cmult = xmalloc((P->D + 2) * sizeof(slong));
+    int rc = 0;
+    for (slong i = 0; i < P->len && rc == 0 && P->hodge; i++) {
+        slong lmax, cmax;
+        if (P->deg[i] != P->D || fmpq_mpoly_is_zero(P->coeffs + i, P->ctx))
+            continue;
+        slong kmax = cpoly_unpack(P, i, psi, kmult);
+        cpoly_unpack_hodge(P, i, lmult, &lmax, cmult, &cmax);
+        rc = f(data, psi, P->n, kmult, kmax, lmult, lmax, cmult, cmax, P->coeffs + i);
+    }
+    free(psi);
+    free(kmult);
+    free(lmult);
+    free(cmult);
     return rc;
 }
 

@@ -1,7 +1,11 @@
 /* Class polynomials on Mbar_{g,n}: finite sums of monomials
    prod psi_i^{a_i} prod kappa_j^{m_j} with coefficients in the scalar ring,
    truncated above the dimension D = 3g-3+n (psi_i has degree 1, kappa_j
-   degree j). Terms are found through a hash of their exponent vectors. */
+   degree j). Terms are found through a hash of their exponent vectors.
+   A polynomial made with cpoly_init_hodge also holds the Hodge classes
+   lambda_1..lambda_g and ch_1..ch_D (degrees j and k); lambda_0 = 1,
+   ch_0 = g, lambda_j = 0 for j > g (E has rank g) and ch_{2k} = 0 for k >= 1
+   (Mumford) are applied while expanding. */
 #ifndef PSIKAPPA_CPOLY_H
 #define PSIKAPPA_CPOLY_H
 
@@ -15,7 +19,9 @@ typedef uint16_t cpoly_exp;
 
 typedef struct cpoly {
     slong g, n, D;          /* the space and its dimension */
-    slong nexp;             /* exponents per term: psi_1..psi_n, kappa_1..kappa_D */
+    slong nexp;             /* exponents per term: psi_1..psi_n, kappa_1..kappa_D
+                               [, lambda_1..lambda_g, ch_1..ch_D when hodge] */
+    int hodge;              /* whether the Hodge slots exist */
     slong len, alloc;
     cpoly_exp *exps;        /* len * nexp */
     slong *deg;             /* weighted degree of each term */
@@ -26,12 +32,15 @@ typedef struct cpoly {
     const fmpq_mpoly_ctx_struct *ctx;
 } cpoly;
 
-enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG, CPOLY_THETA };
+enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG, CPOLY_THETA, CPOLY_HODGE };
 
 /* A space needs D <= CPOLY_MAX_DIM so that exponents fit cpoly_exp. */
 #define CPOLY_MAX_DIM 60000
 
 void cpoly_init(cpoly *P, slong g, slong n, slong max_terms, const fmpq_mpoly_ctx_t ctx);
+/* As cpoly_init, with the Hodge slots (a polynomial made by cpoly_init meets lambda_j or ch_k
+   with CPOLY_HODGE). */
+void cpoly_init_hodge(cpoly *P, slong g, slong n, slong max_terms, const fmpq_mpoly_ctx_t ctx);
 void cpoly_clear(cpoly *P);
 
 /* As cpoly_init, but truncated at degree D instead of 3g-3+n (0 <= D <= 3g-3+n): the part of an
@@ -56,5 +65,12 @@ int cpoly_integrate(fmpq_mpoly_t res, const cpoly *P, cpoly_integral_fn f, void 
 typedef int (*cpoly_term_fn)(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                              const fmpq_mpoly_t coeff);
 int cpoly_foreach_top(const cpoly *P, cpoly_term_fn f, void *data);
+
+/* The same for a polynomial with Hodge slots: also lambda multiplicities lmult[1..lmax] and ch
+   multiplicities cmult[1..cmax] (index 0 of each is 0). */
+typedef int (*cpoly_hodge_term_fn)(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
+                                   const slong *lmult, slong lmax, const slong *cmult, slong cmax,
+                                   const fmpq_mpoly_t coeff);
+int cpoly_foreach_top_hodge(const cpoly *P, cpoly_hodge_term_fn f, void *data);
 
 #endif

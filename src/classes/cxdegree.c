@@ -100,10 +100,11 @@ static int cxdeg_children(cxdeg_walk *W, const cx *e, unsigned char **a, unsigne
 static int cxdeg_at(cxdeg_walk *W, const cx *e, unsigned char *r, int depth)
 {
     slong cap = W->cap;
-    if (depth > CXDEG_MAX_DEPTH)
-        return 0;
-    if (e->kind == CX_SCALAR || e->kind == CX_PSI || e->kind == CX_KAPPA) {
-        slong d = e->kind == CX_PSI ? 1 : e->kind == CX_KAPPA ? e->index : 0;
+    if (depth > CXDEG_MAX_DEPTH || e->kind == CX_THETA)
+        return 0;   /* Theta's degree 2g-2+n depends on the space: unknown here */
+    if (e->kind == CX_SCALAR || e->kind == CX_PSI || e->kind == CX_KAPPA || e->kind == CX_LAMBDA
+        || e->kind == CX_CH) {
+        slong d = e->kind == CX_PSI ? 1 : e->kind == CX_SCALAR ? 0 : e->index;
         if (e->kind != CX_SCALAR || !fmpq_mpoly_is_zero(e->scalar, e->ctx))
             r[d < cap ? d : cap] = 1;
         return 1;

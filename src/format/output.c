@@ -340,6 +340,12 @@ static void out_latex_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
     case CX_THETA:
         strbuf_puts(b, "\\Theta");
         break;
+    case CX_LAMBDA:
+        strbuf_printf(b, "\\lambda_{%ld}", (long)e->index);
+        break;
+    case CX_CH:
+        strbuf_printf(b, "\\mathrm{ch}_{%ld}", (long)e->index);
+        break;
     case CX_ADD:
         out_latex_put_sum(b, e, R);
         break;

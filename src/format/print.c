@@ -54,6 +54,12 @@ static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
     case CX_THETA:
         strbuf_puts(b, "Theta");
         break;
+    case CX_LAMBDA:
+        strbuf_printf(b, "lambda_%ld", (long)e->index);
+        break;
+    case CX_CH:
+        strbuf_printf(b, "ch_%ld", (long)e->index);
+        break;
     case CX_ADD:
         print_operand(b, e->a, 1, R);
         strbuf_puts(b, " + ");

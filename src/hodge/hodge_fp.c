@@ -1,0 +1,419 @@
+/* hodge_fp.c - Hodge integrals by the operator of Faber-Pandharipande (second route).
+ *
+ * C. Faber, R. Pandharipande, "Hodge integrals and Gromov-Witten theory", Invent. Math. 139
+ * (2000) 173-199, section 2: with F(t, s) = sum_g hbar^{2g-2} sum_n 1/n! sum_d
+ * <tau_{d_1}..tau_{d_n} exp(sum_l s_{2l-1} ch_{2l-1})>_g t_{d_1}..t_{d_n} and Z = exp F,
+ *     Z(t, s) = exp(sum_{l>=1} B_{2l}/(2l)! s_{2l-1} D_l) Z(t, 0),
+ *     D_l = d/dt_{2l} - sum_{i>=0} t_i d/dt_{i+2l-1} + hbar^2/2 sum_{i=0}^{2l-2} (-1)^i d^2/dt_i dt_{2l-2-i}.
+ * The D_l commute and do not depend on s, so d Z/d s_{2l-1} = B_{2l}/(2l)! D_l Z, i.e. for F
+ *     dF/ds_{2l-1} = B_{2l}/(2l)! [ F_{t_{2l}} - sum_i t_i F_{t_{i+2l-1}}
+ *                    + hbar^2/2 sum_i (-1)^i (F_{t_i t_{2l-2-i}} + F_{t_i} F_{t_{2l-2-i}}) ].
+ * Taking the coefficient of t_{d_1}..t_{d_n} s^m/m! gives, for a correlator with the multiset
+ * C + {ch_{2l-1}} of ch factors, with c_l = B_{2l}/(2l)!,
+ *     <tau_d | C + ch_{2l-1}>_g = c_l [ <tau_{2l} tau_d | C>_g - sum_i <tau_{d + (2l-1) e_i} | C>_g
+ *        + 1/2 sum_a (-1)^a <tau_a tau_{2l-2-a} tau_d | C>_{g-1}
+ *        + 1/2 sum_a (-1)^a sum <tau_a tau_{d_I} | C_1>_{g_1} <tau_{2l-2-a} tau_{d_J} | C_2>_{g_2} ],
+ * the last sum over ordered splittings g_1 + g_2 = g, I + J = {1..n}, and distributions of the
+ * (labelled) factors of C, unstable correlators counted as zero.  The string and dilaton
+ * equations hold with ch factors (E is pulled back along the forgetful map), which removes
+ * psi exponents 0 and 1 first.  Kappa classes are traded for points first:
+ *     int_{g,n} X kappa_a prod_b kappa_b = int_{g,n+1} X psi_{n+1}^{a+1} prod_b (kappa_b - psi_{n+1}^b)
+ * (Arbarello-Cornalba kappa, pi^* kappa_b = kappa_b - psi_{n+1}^b).  No code is shared with
+ * hodge_grr.c.
+ */
+#include <stdlib.h>
+#include <string.h>
+#include <flint/fmpz.h>
+#include "hodge_internal.h"
+
+static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
+
+/* acc += w * (g, e, cm) where w = num/den; returns the status of the correlator. */
+static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
+                     const slong *cm, slong cmax)
+{
+    fmpq_t v;
+    int st;
+    fmpq_init(v);
+    st = fp_corr(v, H, g, e, n, cm, cmax);
+    if (st == WK_OK && !fmpq_is_zero(v)) {
+        fmpz_mul_si(fmpq_numref(v), fmpq_numref(v), num);
+        fmpz_mul_si(fmpq_denref(v), fmpq_denref(v), den);
+        fmpq_canonicalise(v);
+        fmpq_add(acc, acc, v);
+    }
+    fmpq_clear(v);
+    return st;
+}
+
+/* The string equation (d[n-1] = 0) or the dilaton equation (d[n-1] = 1) on sorted d, when
+   Mbar_{g,n-1} is stable.  Equal exponents are grouped: each distinct value counts once per leg. */
+static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, const slong *cm, slong cmax)
+{
+    int st = WK_OK;
+    fmpq_zero(res);
+    if (d[n - 1] == 1)
+        return fp_addmul(res, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
+    for (slong j = 0; j < n - 1 && st == WK_OK; j++) {
+        slong c = 1;
+        if (d[j] == 0 || (j > 0 && d[j] == d[j - 1]))
+            continue;
+        while (j + c < n - 1 && d[j + c] == d[j])
+            c++;
+        d[j]--;
+        st = fp_addmul(res, H, c, 1, g, d, n - 1, cm, cmax);
+        d[j]++;
+    }
+    return st;
+}
+
+/* Advances the mixed-radix counter x (digit i runs over 0..lim[i]); 0 once it wraps to zero. */
+static int fp_next(slong *x, const slong *lim, slong r)
+{
+    for (slong i = 0; i < r; i++) {
+        if (x[i] < lim[i]) {
+            x[i]++;
+            return 1;
+        }
+        x[i] = 0;
+    }
+    return 0;
+}
+
+/* Scratch of one splitting enumeration: distinct leg values and their counts, the counters. */
+typedef struct {
+    slong r, *val, *cnt, *x;       /* legs */
+    slong *cy, *y;                 /* ch multiplicities 1..cmax and the part going to side 1 */
+    slong *e1, *e2, *c1, *c2;
+} fp_split_buf;
+
+/* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
+   of legs and ch factors giving the current counters. */
+static void fp_split_weight(fmpz_t w, const fp_split_buf *B, slong cmax, slong a)
+{
+    fmpz_t b;
+    fmpz_init(b);
+    fmpz_set_si(w, a % 2 ? -1 : 1);
+    for (slong i = 0; i < B->r; i++) {
+        fmpz_bin_uiui(b, (ulong) B->cnt[i], (ulong) B->x[i]);
+        fmpz_mul(w, w, b);
+    }
+    for (slong k = 1; k <= cmax; k++) {
+        fmpz_bin_uiui(b, (ulong) B->cy[k], (ulong) B->y[k]);
+        fmpz_mul(w, w, b);
+    }
+    fmpz_clear(b);
+}
+
+/* acc += weight * <e1 | c1>_{g1} <e2 | c2>_{g2} (the second factor only if the first is nonzero). */
+static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
+                         slong n1, slong n2, slong cmax, slong a)
+{
+    fmpq_t v1, v2;
+    fmpz_t w;
+    int st;
+    fmpq_init(v1);
+    fmpq_init(v2);
+    fmpz_init(w);
+    st = fp_corr(v1, H, g1, B->e1, n1, B->c1, cmax);
+    if (st == WK_OK && !fmpq_is_zero(v1))
+        st = fp_corr(v2, H, g2, B->e2, n2, B->c2, cmax);
+    if (st == WK_OK && !fmpq_is_zero(v2)) {
+        fp_split_weight(w, B, cmax, a);
+        fmpq_mul(v1, v1, v2);
+        fmpq_mul_fmpz(v1, v1, w);
+        fmpq_add(acc, acc, v1);
+    }
+    fmpq_clear(v1);
+    fmpq_clear(v2);
+    fmpz_clear(w);
+    return st;
+}
+
+/* acc += sign * weight * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
+   current counters; a fixed by the dimension of side 1. */
+static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l)
+{
+    slong n1 = 1, deg1 = 0, ych = 0, ytot = 0, k1 = 0, k2 = 0, a;
+    for (slong i = 0; i < B->r; i++)
+        n1 += B->x[i], deg1 += B->x[i] * B->val[i];
+    for (slong k = 1; k <= cmax; k++)
+        ych += B->y[k], ytot += B->cy[k], deg1 += k * B->y[k];
+    if ((g1 == 0 && ych > 0) || (g - g1 == 0 && ych < ytot) || 2 * g1 - 2 + n1 <= 0
+        || 2 * (g - g1) - 2 + (n - n1 + 2) <= 0)
+        return WK_OK;
+    a = 3 * g1 - 3 + n1 - deg1;
+    if (a < 0 || a > 2 * l - 2)
+        return WK_OK;
+    for (slong i = 0; i < B->r; i++)
+        for (slong j = 0; j < B->cnt[i]; j++)
+            if (j < B->x[i])
+                B->e1[k1++] = B->val[i];
+            else
+                B->e2[k2++] = B->val[i];
+    B->e1[k1++] = a;
+    B->e2[k2++] = 2 * l - 2 - a;
+    for (slong k = 1; k <= cmax; k++)
+        B->c1[k] = B->y[k], B->c2[k] = B->cy[k] - B->y[k];
+    return fp_split_eval(acc, H, B, g1, g - g1, k1, k2, cmax, a);
+}
+
+/* Allocates the scratch of a splitting of sorted d[0..n-1] and cm[1..cmax] (one block).
+   Returns 0 if memory is exhausted. */
+static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong *cm, slong cmax)
+{
+    slong *p = calloc((size_t) (3 * n + 2 * (n + 2) + 4 * (cmax + 1)) + 1, sizeof(slong));
+    if (p == NULL)
+        return 0;
+    B->val = p, B->cnt = p + n, B->x = p + 2 * n;
+    B->e1 = p + 3 * n, B->e2 = B->e1 + n + 2;
+    B->cy = B->e2 + n + 2, B->y = B->cy + cmax + 1, B->c1 = B->y + cmax + 1, B->c2 = B->c1 + cmax + 1;
+    B->r = 0;
+    for (slong i = 0; i < n; i++) {
+        if (i == 0 || d[i] != d[i - 1])
+            B->val[B->r++] = d[i];
+        B->cnt[B->r - 1]++;
+    }
+    for (slong k = 1; k <= cmax; k++)
+        B->cy[k] = cm[k];
+    return 1;
+}
+
+/* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2). */
+static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm, slong cmax, slong l)
+{
+    fp_split_buf B;
+    int st = WK_OK;
+    if (!fp_split_alloc(&B, d, n, cm, cmax))
+        return WK_LIMIT;
+    for (slong g1 = 0; g1 <= g && st == WK_OK; g1++) {
+        memset(B.x, 0, (size_t) B.r * sizeof(slong));
+        memset(B.y, 0, (size_t) (cmax + 1) * sizeof(slong));
+        do {
+            do
+                st = fp_split_term(acc, H, &B, g1, g, n, cmax, l);
+            while (st == WK_OK && fp_next(B.y + 1, B.cy + 1, cmax));
+        } while (st == WK_OK && fp_next(B.x, B.cnt, B.r));
+    }
+    free(B.val);
+    return st;
+}
+
+/* acc += sum_{a=0}^{2l-2} (-1)^a/2 <tau_a tau_{2l-2-a} tau_d | C>_{g-1} (irreducible boundary),
+   pairing a with 2l-2-a, which give the same correlator with the same sign. */
+static int fp_irreducible(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
+                          const slong *cm, slong cmax, slong l)
+{
+    int st = WK_OK;
+    memcpy(e, d, (size_t) n * sizeof(slong));
+    for (slong a = 0; a <= l - 1 && st == WK_OK; a++) {
+        slong sign = a % 2 ? -1 : 1;
+        e[n] = a, e[n + 1] = 2 * l - 2 - a;
+        st = fp_addmul(acc, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
+    }
+    return st;
+}
+
+/* res = <tau_d | C + ch_{2l-1}>_g by the coefficient form of the operator (file comment);
+   d sorted, cm holds C + ch_{2l-1} and is restored before returning. */
+static int fp_step(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, slong *cm, slong cmax)
+{
+    slong k = cmax, l = (k + 1) / 2;
+    slong *e = malloc((size_t) (n + 2) * sizeof(slong));
+    fmpq_t acc, half;
+    int st = WK_OK;
+    if (e == NULL)
+        return WK_LIMIT;
+    fmpq_init(acc);
+    fmpq_init(half);
+    cm[k]--;
+    memcpy(e, d, (size_t) n * sizeof(slong));
+    e[n] = 2 * l;
+    st = fp_addmul(acc, H, 1, 1, g, e, n + 1, cm, cmax);
+    for (slong i = 0; i < n && st == WK_OK; i++) {
+        e[i] += k;
+        st = fp_addmul(acc, H, -1, 1, g, e, n, cm, cmax);
+        e[i] -= k;
+    }
+    if (st == WK_OK)
+        st = fp_irreducible(acc, H, g, d, n, e, cm, cmax, l);
+    if (st == WK_OK)
+        st = fp_split(half, H, g, d, n, cm, cmax, l);
+    cm[k]++;
+    fmpq_div_2exp(half, half, 1);
+    fmpq_add(acc, acc, half);
+    hodge_coef(half, H, l);
+    fmpq_mul(res, acc, half);
+    fmpq_clear(acc);
+    fmpq_clear(half);
+    free(e);
+    return st;
+}
+
+/* Key of a kappa-free state: g, n, sorted d, cm[1..cmax] (cmax trimmed).  key has room for
+   n + cmax + 2 entries; returns its length. */
+static slong fp_key(slong *key, slong g, const slong *d, slong n, const slong *cm, slong cmax)
+{
+    key[0] = g, key[1] = n;
+    memcpy(key + 2, d, (size_t) n * sizeof(slong));
+    memcpy(key + 2 + n, cm + 1, (size_t) cmax * sizeof(slong));
+    return n + cmax + 2;
+}
+
+/* Degree of a state: sum of d plus the ch (or kappa) degrees sum_k k m[k]. */
+static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
+{
+    slong s = 0;
+    for (slong i = 0; i < n; i++)
+        s += d[i];
+    for (slong k = 1; k <= mmax; k++)
+        s += k * m[k];
+    return s;
+}
+
+/* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator. */
+static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
+{
+    slong *key;
+    const fmpq *hit;
+    slong klen;
+    int st;
+    if (n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0)
+        return fp_string_dilaton(res, H, g, d, n, cm, cmax);
+    key = malloc((size_t) (n + cmax + 2) * sizeof(slong));
+    if (key == NULL)
+        return WK_LIMIT;
+    klen = fp_key(key, g, d, n, cm, cmax);
+    hit = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
+    if (hit != NULL) {
+        fmpq_set(res, hit);
+        free(key);
+        return WK_OK;
+    }
+    st = hodge_poll(H, HODGE_ROUTE_FP);
+    if (st == WK_OK)
+        st = fp_step(res, H, g, d, n, cm, cmax);
+    if (st == WK_OK)
+        keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
+    free(key);
+    return st;
+}
+
+/* res = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees. */
+static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
+{
+    slong *buf;
+    int st;
+    fmpq_zero(res);
+    while (cmax > 0 && cmin[cmax] == 0)
+        cmax--;
+    if (2 * g - 2 + n <= 0 || fp_degree(din, n, cmin, cmax) != 3 * g - 3 + n)
+        return WK_OK;
+    if (cmax == 0)
+        return wk_table_correlator(res, H->T, g, din, n);
+    if (g == 0)
+        return WK_OK;                   /* E = 0 in genus 0 */
+    for (slong k = 2; k <= cmax; k += 2)
+        if (cmin[k] > 0)
+            return WK_OK;               /* ch_{2k} = 0 (Mumford) */
+    buf = malloc((size_t) (n + cmax + 1) * sizeof(slong));
+    if (buf == NULL)
+        return WK_LIMIT;
+    memcpy(buf, din, (size_t) n * sizeof(slong));
+    memcpy(buf + n, cmin, (size_t) (cmax + 1) * sizeof(slong));
+    hodge_sort_desc(buf, n);
+    st = fp_corr_memo(res, H, g, buf, n, buf + n, cmax);
+    free(buf);
+    if (st != WK_OK)
+        fmpq_zero(res);
+    return st;
+}
+
+static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, const slong *km, slong kmax,
+                    const slong *cm, slong cmax);
+
+/* res += sum over j_b <= km[b] of prod binom(km[b], j_b) (-1)^{j_b} times the state with one
+   more point of exponent e0 + sum b j_b and kappa multiplicities km[b] - j_b: the expansion of
+   prod_b (kappa_b - psi_{n+1}^b)^{km[b]}.  e has room for n + 1 entries and starts with d. */
+static int fp_kappa_pull(fmpq_t res, hodge_ctx *H, slong g, slong *e, slong n, slong e0, const slong *km,
+                         slong kmax, const slong *cm, slong cmax)
+{
+    slong *j = calloc((size_t) (2 * kmax + 2), sizeof(slong)), *rest;
+    int st = WK_OK;
+    fmpq_t v;
+    if (j == NULL)
+        return WK_LIMIT;
+    rest = j + kmax + 1;
+    fmpq_init(v);
+    do {
+        slong ex = e0, sj = 0;
+        fmpz_t w, b;
+        fmpz_init_set_ui(w, 1);
+        fmpz_init(b);
+        for (slong t = 1; t <= kmax; t++) {
+            ex += t * j[t], sj += j[t], rest[t] = km[t] - j[t];
+            fmpz_bin_uiui(b, (ulong) km[t], (ulong) j[t]);
+            fmpz_mul(w, w, b);
+        }
+        e[n] = ex;
+        st = fp_kappa(v, H, g, e, n + 1, rest, kmax, cm, cmax);
+        fmpq_mul_fmpz(v, v, w);
+        (sj % 2 ? fmpq_sub : fmpq_add)(res, res, v);
+        fmpz_clear(w);
+        fmpz_clear(b);
+    } while (st == WK_OK && fp_next(j + 1, km + 1, kmax));
+    fmpq_clear(v);
+    free(j);
+    return st;
+}
+
+/* res = int prod psi^d prod kappa^km prod ch^cm on Mbar_{g,n}: removes the largest kappa index a
+   by int_{g,n} X kappa_a = int_{g,n+1} pi^*X psi_{n+1}^{a+1} (file comment); memoised. */
+static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, const slong *km, slong kmax,
+                    const slong *cm, slong cmax)
+{
+    slong *buf, klen;
+    const fmpq *hit;
+    int st;
+    fmpq_zero(res);
+    while (kmax > 0 && km[kmax] == 0)
+        kmax--;
+    while (cmax > 0 && cm[cmax] == 0)
+        cmax--;
+    if (kmax == 0)
+        return fp_corr(res, H, g, d, n, cm, cmax);
+    if (fp_degree(d, n, km, kmax) + fp_degree(d, 0, cm, cmax) != 3 * g - 3 + n)
+        return WK_OK;
+    buf = malloc((size_t) (2 * n + 2 * kmax + cmax + 8) * sizeof(slong));
+    if (buf == NULL)
+        return WK_LIMIT;
+    slong *key = buf + n + 1, *km1 = key + n + kmax + cmax + 4;
+    memcpy(buf, d, (size_t) n * sizeof(slong));
+    hodge_sort_desc(buf, n);
+    key[0] = -1, key[1] = kmax;
+    memcpy(key + 2, km + 1, (size_t) kmax * sizeof(slong));
+    klen = 2 + kmax + fp_key(key + 2 + kmax, g, buf, n, cm, cmax);
+    hit = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
+    if (hit != NULL) {
+        fmpq_set(res, hit);
+        free(buf);
+        return WK_OK;
+    }
+    memcpy(km1, km, (size_t) (kmax + 1) * sizeof(slong));
+    km1[kmax]--;
+    st = hodge_poll(H, HODGE_ROUTE_FP);
+    if (st == WK_OK)
+        st = fp_kappa_pull(res, H, g, buf, n, kmax + 1, km1, kmax, cm, cmax);
+    if (st == WK_OK)
+        keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
+    else
+        fmpq_zero(res);
+    free(buf);
+    return st;
+}
+
+int hodge_fp_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n,
+                      const slong *km, slong kmax, const slong *cm, slong cmax)
+{
+    return fp_kappa(res, H, g, d, n, km, kmax, cm, cmax);
+}
