@@ -78,9 +78,19 @@ void fastvol_clear(interp *I);
    (or route_volumes is set); *handled as for fastvol_try. */
 value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled);
 
-/* The results store (results.c): lookup returns 1 and sets out on a hit. */
-int results_lookup(interp *I, const char *question, fmpq_mpoly_t out);
-void results_save(interp *I, const char *question, const fmpq_mpoly_t value, double seconds);
+/* The results store (results.c). A question is identified by the hash of its
+   complete canonical form (results_key.h); label is a short text for people
+   reading the file (owned). results_question_integral returns 0 when the store
+   is off or no key can be formed: the answer is then neither looked up nor
+   stored. lookup returns 1 and sets out on a hit. */
+typedef struct results_question {
+    char key[65];
+    char *label;
+} results_question;
+int results_question_integral(interp *I, slong g, slong n, const cx *e, results_question *q);
+void results_question_clear(results_question *q);
+int results_lookup(interp *I, const results_question *q, fmpq_mpoly_t out);
+void results_save(interp *I, const results_question *q, const fmpq_mpoly_t value, double seconds);
 double results_clock(void);
 void results_close(interp *I);
 
