@@ -2,8 +2,35 @@
 
 #include <string.h>
 #include <sys/time.h>
+#include <unistd.h>
 
 volatile sig_atomic_t cancel_flag;
+volatile sig_atomic_t cancel_writing;
+static volatile sig_atomic_t cancel_pending_signal;
+
+/* Leaves at once (async-signal-safe): nothing half-written can be pending,
+   since output is only ever written as whole records. */
+static void cancel_terminate(int sig)
+{
+    static const char msg[] = "psikappa: terminated by a signal; the computation was stopped\n";
+    ssize_t w = write(STDERR_FILENO, msg, sizeof msg - 1);
+    (void)w;
+    _exit(128 + sig);
+}
+
+static void cancel_on_terminate(int sig)
+{
+    if (cancel_writing)
+        cancel_pending_signal = sig;
+    else
+        cancel_terminate(sig);
+}
+
+void cancel_after_write(void)
+{
+    if (cancel_pending_signal)
+        cancel_terminate(cancel_pending_signal);
+}
 
 static void cancel_on_signal(int sig)
 {
@@ -17,6 +44,11 @@ void cancel_install(double seconds)
     sa.sa_handler = cancel_on_signal;
     sigemptyset(&sa.sa_mask);
     sigaction(SIGINT, &sa, NULL);
+    sa.sa_handler = cancel_on_terminate;
+    sigaction(SIGTERM, &sa, NULL);
+    sigaction(SIGHUP, &sa, NULL);
+    signal(SIGXFSZ, SIG_IGN);
+    sa.sa_handler = cancel_on_signal;
     if (seconds <= 0)
         return;
     sigaction(SIGALRM, &sa, NULL);

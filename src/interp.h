@@ -11,6 +11,7 @@
 #include "format/output.h"
 #include "keymap.h"
 #include "scalar.h"
+#include "sink.h"
 #include "source.h"
 #include "value.h"
 
@@ -44,7 +45,8 @@ typedef struct interp {
     char *store_path;        /* --store PATH (owned), NULL for the default */
     int store_off;           /* --no-store, or the store could not be opened */
     int store_always;        /* store every answer, however cheap (tests) */         /* how values print (output statement, --format, --digits) */
-    FILE *out;
+    FILE *out;               /* the record being printed (sink_stream(&sink)) */
+    sink sink;               /* standard output, written a whole record at a time */
     node_list **programs;    /* kept alive: function bodies point into them */
     source **sources;
     int nprograms;
