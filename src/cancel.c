@@ -49,7 +49,8 @@ void cancel_install(double seconds)
     sigaction(SIGHUP, &sa, NULL);
     signal(SIGXFSZ, SIG_IGN);
     sa.sa_handler = cancel_on_signal;
-    if (seconds <= 0)
+    /* beyond about three years (setitimer's range varies) there is no limit */
+    if (!(seconds > 0) || seconds > 1e8)
         return;
     sigaction(SIGALRM, &sa, NULL);
     struct itimerval t;

@@ -1,7 +1,9 @@
 #include "sink.h"
 
 #include <errno.h>
+#include <fcntl.h>
 #include <stdlib.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include "cancel.h"
@@ -42,11 +44,35 @@ static void sink_rewind(sink *k)
     }
 }
 
+/* Where a record starts in a regular file, -1 for anything else (a pipe or
+   terminal cannot take back what it was given). */
+static off_t sink_record_start(int fd)
+{
+    struct stat sb;
+    if (fstat(fd, &sb) != 0 || !S_ISREG(sb.st_mode))
+        return -1;
+    return lseek(fd, 0, SEEK_CUR);
+}
+
+/* After a failed write into a regular file, cuts off the part of the record
+   that did get in (a full disk or a file-size limit stops a write half-way),
+   unless something else has written to the file since. */
+static void sink_take_back(int fd, off_t start, size_t done)
+{
+    struct stat sb;
+    if (start < 0 || done == 0 || fstat(fd, &sb) != 0 || sb.st_size != start + (off_t)done)
+        return;
+    if (ftruncate(fd, start) == 0)
+        lseek(fd, start, SEEK_SET);
+}
+
 /* Writes len bytes to fd, resuming after interrupts and short writes.
    Terminating signals wait until the last byte is out. Returns 0 or errno. */
 static int sink_write_all(int fd, const char *p, size_t len)
 {
     int err = 0;
+    size_t done = 0;
+    off_t start = sink_record_start(fd);
     cancel_writing = 1;
     while (len > 0) {
         ssize_t w = write(fd, p, len);
@@ -58,7 +84,10 @@ static int sink_write_all(int fd, const char *p, size_t len)
         }
         p += w;
         len -= (size_t)w;
+        done += (size_t)w;
     }
+    if (err)
+        sink_take_back(fd, start, done);
     cancel_writing = 0;
     cancel_after_write();
     return err;
