@@ -7,34 +7,41 @@
 volatile sig_atomic_t cancel_flag;
 volatile sig_atomic_t cancel_writing;
 static volatile sig_atomic_t cancel_pending_signal;
+static const char *volatile cancel_pending_message;
 
 /* Leaves at once (async-signal-safe): nothing half-written can be pending,
    since output is only ever written as whole records. */
-static void cancel_terminate(int sig)
+static void cancel_terminate(int sig, const char *msg)
 {
-    static const char msg[] = "psikappa: terminated by a signal; the computation was stopped\n";
-    ssize_t w = write(STDERR_FILENO, msg, sizeof msg - 1);
+    ssize_t w = write(STDERR_FILENO, msg, strlen(msg));
     (void)w;
     _exit(128 + sig);
 }
 
-static void cancel_on_terminate(int sig)
+void cancel_end_program(int sig, const char *msg)
 {
-    if (cancel_writing)
+    if (cancel_writing) {
+        cancel_pending_message = msg;
         cancel_pending_signal = sig;
-    else
-        cancel_terminate(sig);
-}
-
-void cancel_after_write(void)
-{
-    if (cancel_pending_signal)
-        cancel_terminate(cancel_pending_signal);
+    } else {
+        cancel_terminate(sig, msg);
+    }
 }
 
 static void cancel_on_signal(int sig)
 {
     cancel_flag = sig == SIGALRM ? CANCEL_TIMEOUT : CANCEL_INTERRUPT;
+}
+
+static void cancel_on_terminate(int sig)
+{
+    cancel_end_program(sig, "psikappa: terminated by a signal; the computation was stopped\n");
+}
+
+void cancel_after_write(void)
+{
+    if (cancel_pending_signal)
+        cancel_terminate(cancel_pending_signal, cancel_pending_message);
 }
 
 void cancel_install(double seconds)

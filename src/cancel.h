@@ -23,6 +23,10 @@ void cancel_install(double seconds);
    only records itself, and cancel_after_write acts on it. */
 extern volatile sig_atomic_t cancel_writing;
 
+/* From a signal handler: writes msg to stderr and ends the program with
+   status 128 + sig, or, while a record is being written, once it is out. */
+void cancel_end_program(int sig, const char *msg);
+
 /* Ends the program now if a terminating signal arrived during a write. */
 void cancel_after_write(void);
 
