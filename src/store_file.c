@@ -23,7 +23,7 @@
 #define STORE_FULL_CHECK_BYTES (4L << 20)
 
 /* What the first bytes of an existing file say it is. */
-enum { HDR_EMPTY, HDR_OURS, HDR_FIRST_FORMAT, HDR_FOREIGN, HDR_UNKNOWN, HDR_SHORT, HDR_FAILED };
+enum { HDR_OURS, HDR_FIRST_FORMAT, HDR_FOREIGN, HDR_UNKNOWN, HDR_SHORT, HDR_FAILED };
 
 static const char *const store_sides[] = {"-wal", "-journal", "-shm"};
 
@@ -70,21 +70,6 @@ static int store_file_check_kind(const char *path, struct stat *id, char **why)
         *why = xasprintf("refused: it is %s, not a results store file", store_file_type(id->st_mode));
         return -1;
     }
-    return 1;
-}
-
-/* Creates the missing file (empty, private). Returns 1 when created, 0 when
-   something else created it first, -1 with *why on failure. */
-static int store_file_create(const char *path, char **why)
-{
-    int fd = open(path, O_WRONLY | O_CREAT | O_EXCL | O_NOFOLLOW | O_CLOEXEC, 0600);
-    if (fd < 0) {
-        if (errno == EEXIST)
-            return 0;
-        *why = xasprintf("cannot create it: %s", strerror(errno));
-        return -1;
-    }
-    close(fd);
     return 1;
 }
 
@@ -195,8 +180,12 @@ static int store_file_classify(const char *path, sqlite3_int64 *size, char **why
         *why = xasprintf("cannot read it: %s", sqlite3_errstr(rc));
         return HDR_FAILED;
     }
-    if (*size == 0)
-        return HDR_EMPTY;
+    if (*size == 0) {
+        /* a store is never empty: it is made elsewhere and renamed into place */
+        *why = xstrdup("refused: it is an empty file psikappa did not make; it was left untouched (remove it "
+                       "to have a store made there)");
+        return HDR_UNKNOWN;
+    }
     if (*size < 100 || memcmp(hdr, "SQLite format 3", 16) != 0) {
         *why = xstrdup("refused: it is not a psikappa results store (not an SQLite database); it was left "
                        "untouched (remove it or choose another file)");
@@ -236,6 +225,25 @@ static long long store_file_int(sqlite3 *db, const char *sql)
         v = sqlite3_column_int64(st, 0);
     sqlite3_finalize(st);
     return v;
+}
+
+/* Puts the finished file tmp at path unless something is there already (a
+   hard link cannot replace; where the file system has none, a rename after a
+   check). Returns 1, 0 when path exists, -1 with *why. */
+static int store_file_link(const char *tmp, const char *path, char **why)
+{
+    if (link(tmp, path) == 0)
+        return 1;
+    if (errno == EEXIST)
+        return 0;
+    struct stat sb;
+    if (errno != EPERM && errno != ENOTSUP && errno != EXDEV)
+        return *why = xasprintf("cannot create it: %s", strerror(errno)), -1;
+    if (lstat(path, &sb) == 0)
+        return 0;
+    if (rename(tmp, path) != 0)
+        return *why = xasprintf("cannot create it: %s", strerror(errno)), -1;
+    return 1;
 }
 
 /* Writes identity and tables (dropping those of an older format) in one
@@ -352,8 +360,8 @@ static int store_file_open_checked(const char *path, int kind, sqlite3_int64 siz
     } else {
         /* several psikappa runs may share the file; wait for a writer a little */
         sqlite3_busy_timeout(*db, 5000);
-        if (kind == HDR_EMPTY || kind == HDR_FIRST_FORMAT) {
-            rc = store_file_make_tables(*db, kind == HDR_EMPTY, why);
+        if (kind == HDR_FIRST_FORMAT) {
+            rc = store_file_make_tables(*db, 0, why);
             state = rc == SQLITE_OK ? SF_OK : rc == SQLITE_MISMATCH ? SF_REFUSED
                     : store_file_is_damage(rc) ? SF_DAMAGED : SF_FAILED;
         } else if (size <= STORE_FULL_CHECK_BYTES) {
@@ -377,6 +385,41 @@ static int store_file_open_checked(const char *path, int kind, sqlite3_int64 siz
         *db = NULL;
     }
     return state;
+}
+
+/* Makes a new store under a temporary name beside path and links it into
+   place, so that the path never holds a half-made store (an empty file at the
+   path is then never ours). Returns 1 when made, 0 when another run made one
+   first, -1 with *why on failure. */
+static int store_file_create(const char *path, char **why)
+{
+    char *tmp = NULL;
+    int fd = -1;
+    for (int n = 0; n < 100 && fd < 0; n++) {
+        free(tmp);
+        tmp = xasprintf("%s.new-%ld-%d", path, (long)getpid(), n);
+        fd = open(tmp, O_WRONLY | O_CREAT | O_EXCL | O_NOFOLLOW | O_CLOEXEC, 0600);
+        if (fd < 0 && errno != EEXIST)
+            break;
+    }
+    if (fd < 0) {
+        *why = xasprintf("cannot create it: %s", strerror(errno));
+        free(tmp);
+        return -1;
+    }
+    close(fd);
+    sqlite3 *db = NULL;
+    int rc = sqlite3_open_v2(tmp, &db, SQLITE_OPEN_READWRITE, NULL);
+    rc = rc == SQLITE_OK ? store_file_make_tables(db, 1, why) : rc;
+    if (rc != SQLITE_OK && !*why)
+        *why = xstrdup(sqlite3_errstr(rc));
+    rc = sqlite3_close(db) == SQLITE_OK ? rc : SQLITE_ERROR;
+    int made = rc == SQLITE_OK ? store_file_link(tmp, path, why) : -1;
+    if (made < 0 && !*why)
+        *why = xasprintf("cannot create it: %s", sqlite3_errstr(rc));
+    unlink(tmp);
+    free(tmp);
+    return made;
 }
 
 int store_file_open(const char *path, sqlite3 **db, struct stat *id, char **why)

@@ -68,10 +68,9 @@ for p in $(seq 0 $pages); do
     cp "$base" "$tmp/cut.sqlite"
     truncate -s $cut "$tmp/cut.sqlite"
     run "$tmp/cut.sqlite" q any "truncated to $cut bytes"
-    if [ $cut -eq 0 ]; then
-      [ ! -s "$tmp/err" ] && check ok || check no "an empty file is a new store, nothing to report"
-    elif [ $cut -lt 100 ]; then
+    if [ $cut -lt 100 ]; then   # no header left: not recognisable as a store, refused and left alone
       grep -q "refused" "$tmp/err" && check ok || check no "truncated to $cut bytes: not refused"
+      [ "$(stat -c %s "$tmp/cut.sqlite")" = $cut ] && check ok || check no "truncated to $cut bytes: file changed"
     else
       grep -q "damaged" "$tmp/err" && check ok || { check no "truncated to $cut bytes: damage not reported"; cat "$tmp/err"; }
       [ "$(stat -c %s "$tmp/cut.sqlite.damaged-1")" = $cut ] && check ok || check no "truncated copy ($cut) not kept"

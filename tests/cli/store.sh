@@ -72,6 +72,8 @@ refused() {  # path, word expected in the message, what
     [ -e "$1$side" ] && check no "$3: $1$side was created" || check ok
   done
 }
+: > "$tmp/empty.sqlite"
+refused "$tmp/empty.sqlite" "empty file" "an empty file"
 head -c 8192 /dev/urandom > "$tmp/garbage.sqlite"
 refused "$tmp/garbage.sqlite" "not an SQLite database" "garbage"
 python3 -c 'import sqlite3,sys; c=sqlite3.connect(sys.argv[1]); c.execute("create table accounts(id, balance)"); c.execute("insert into accounts values(1, 2.5)"); c.commit()' "$tmp/other.sqlite"
