@@ -34,6 +34,13 @@ st=$(cat "$tmp/st")
 [ "$st" -ne 0 ] && grep -q "cannot write the output: File too large" "$tmp/err" && check ok || { check no "file-size limit: status $st"; cat "$tmp/err"; }
 [ "$(tail -c 1 "$tmp/limited" | od -An -c | tr -d ' ')" = '\n' ] && check ok || check no "file-size limit left a half line"
 
+# a picture that cannot be written whole is not left half-written (nor its temporary file)
+( ulimit -f 1; "$exe" -e "svgplot(\"$tmp/p.svg\", seq[n = 1..300] n^2, \"index\")" > /dev/null 2> "$tmp/err"; echo $? > "$tmp/st" )
+[ "$(cat "$tmp/st")" = 1 ] && grep -q "error while writing" "$tmp/err" && check ok || { check no "svgplot over a size limit"; cat "$tmp/err"; }
+ls "$tmp"/p.svg* > /dev/null 2>&1 && check no "svgplot left a partial file" || check ok
+"$exe" -e "svgplot(\"$tmp/p.svg\", seq[n = 1..300] n^2, \"index\")" > /dev/null && tail -1 "$tmp/p.svg" | grep -q '</svg>' \
+  && check ok || check no "svgplot does not write a whole picture"
+
 # an error in the middle of a print statement leaves nothing of that statement
 "$exe" -e 'print 7' -e 'print 1, 2, 1/0' > "$tmp/out" 2> "$tmp/err"
 [ $? -eq 1 ] && [ "$(cat "$tmp/out")" = 7 ] && check ok || { check no "error mid print left:"; od -c "$tmp/out"; }
