@@ -50,12 +50,26 @@ static store *results_open(interp *I)
     return I->store;
 }
 
+/* Whether the class, written out as a tree, has at most `budget` nodes (a
+   small expression can stand for a huge tree when parts are shared). */
+static int results_tree_small(const cx *e, slong *budget)
+{
+    for (; e; e = e->kind == CX_SCALAR ? NULL : e->a) {
+        if (--*budget < 0)
+            return 0;
+        if (e->kind != CX_SCALAR && e->b && !results_tree_small(e->b, budget))
+            return 0;
+    }
+    return 1;
+}
+
 int results_question_integral(interp *I, slong g, slong n, const cx *e, results_question *q)
 {
     memset(q, 0, sizeof *q);
     if (I->store_off || !results_key_integral(&I->ring, g, n, e, q->key))
         return 0;
-    if (results_key_last_nodes() <= RESULTS_LABEL_NODES) {
+    slong budget = RESULTS_LABEL_NODES;
+    if (results_tree_small(e, &budget)) {
         char *c = print_class(e, &I->ring);
         q->label = xasprintf("int[%ld,%ld] %.*s", (long)g, (long)n, RESULTS_LABEL_CHARS, c);
         free(c);
