@@ -8,8 +8,30 @@
 
 #include "cancel.h"
 
+/* A closed standard descriptor would be reused by the next file opened (a
+   picture, a script), and records meant for the output would land in it:
+   /dev/null holds its place. Returns 0 when fd was closed. */
+static int sink_guard_fd(int fd)
+{
+    if (fcntl(fd, F_GETFD) != -1 || errno != EBADF)
+        return 1;
+    int null = open("/dev/null", O_RDWR);
+    if (null >= 0 && null != fd) {
+        dup2(null, fd);
+        close(null);
+    }
+    return 0;
+}
+
 int sink_init(sink *k, int fd)
 {
+    if (fd == STDOUT_FILENO) {
+        sink_guard_fd(STDIN_FILENO);
+        sink_guard_fd(STDERR_FILENO);
+        /* writing to a closed output is an error, reported at the first record */
+        if (!sink_guard_fd(fd))
+            fd = -1;
+    }
     k->fd = fd;
     k->buf = NULL;
     k->len = 0;

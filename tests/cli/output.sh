@@ -24,6 +24,11 @@ fullcase --version
 fullcase --help
 fullcase -e 'table[g = 1..3, n = 1..2] g + n'
 fullcase -e 'explain int[1,1] kappa_1'
+# standard output closed: reported, and a picture written meanwhile does not receive the output
+"$exe" -e "svgplot(\"$tmp/c.svg\", [1, 2, 3], \"index\")" -e 'print 12345' >&- 2> "$tmp/err"
+st=$?
+[ $st -ne 0 ] && grep -q "cannot write the output: Bad file descriptor" "$tmp/err" && check ok || { check no "closed stdout: status $st"; cat "$tmp/err"; }
+grep -q 12345 "$tmp/c.svg" && check no "output went into another file" || check ok
 # stdout closed at the reader's end, SIGPIPE ignored: EPIPE is reported
 ( trap '' PIPE; "$exe" -e 'for i in 1..200000 { print i }' 2> "$tmp/err"; echo $? > "$tmp/st" ) | head -c 10 > /dev/null
 st=$(cat "$tmp/st")
