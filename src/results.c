@@ -15,8 +15,13 @@
 #include "store.h"
 #include "util.h"
 
-/* Bumped whenever a change could alter an answer, so old answers are never reused. */
-#define RESULTS_ENGINE_VERSION "psikappa-engine-1"
+/* Bumped whenever a change could alter an answer, so old answers are never
+   reused; the program's version is part of it too, so that no release reads
+   the answers of another. */
+#ifndef PSIKAPPA_PROGRAM_VERSION
+#define PSIKAPPA_PROGRAM_VERSION "unknown"
+#endif
+#define RESULTS_ENGINE_VERSION "psikappa-engine-1/" PSIKAPPA_PROGRAM_VERSION
 
 /* Answers computed faster than this are not worth a database write. */
 #define RESULTS_MIN_SECONDS 0.05
