@@ -61,6 +61,11 @@ static int store_file_check_kind(const char *path, struct stat *id, char **why)
             return -1;
     }
     if (stat(path, id) != 0) {
+        struct stat link;
+        if (errno == ENOENT && lstat(path, &link) == 0) {
+            *why = xstrdup("refused: it is a symbolic link to nothing");
+            return -1;
+        }
         if (errno == ENOENT)
             return 0;
         *why = xasprintf("cannot examine it: %s", strerror(errno));

@@ -85,6 +85,9 @@ python3 -c 'import sqlite3,sys; c=sqlite3.connect(sys.argv[1]); c.execute("pragm
 refused "$tmp/newer.sqlite" "newer" "a newer format"
 mkfifo "$tmp/fifo"
 refused "$tmp/fifo" "pipe" "a named pipe"
+ln -s "$tmp/nowhere/x.sqlite" "$tmp/dangling"
+refused "$tmp/dangling" "symbolic link to nothing" "a dangling symbolic link"
+[ -e "$tmp/nowhere" ] && check no "a dangling link's target folder was created" || check ok
 mkdir "$tmp/folder"
 refused "$tmp/folder" "folder" "a folder"
 # a device: nothing may appear in /dev (only checked when /dev/null-journal is not there already)
