@@ -2,12 +2,46 @@
 
 #include <string.h>
 #include <sys/time.h>
+#include <unistd.h>
 
 volatile sig_atomic_t cancel_flag;
+volatile sig_atomic_t cancel_writing;
+static volatile sig_atomic_t cancel_pending_signal;
+static const char *volatile cancel_pending_message;
+
+/* Leaves at once (async-signal-safe): nothing half-written can be pending,
+   since output is only ever written as whole records. */
+static void cancel_terminate(int sig, const char *msg)
+{
+    ssize_t w = write(STDERR_FILENO, msg, strlen(msg));
+    (void)w;
+    _exit(128 + sig);
+}
+
+void cancel_end_program(int sig, const char *msg)
+{
+    if (cancel_writing) {
+        cancel_pending_message = msg;
+        cancel_pending_signal = sig;
+    } else {
+        cancel_terminate(sig, msg);
+    }
+}
 
 static void cancel_on_signal(int sig)
 {
     cancel_flag = sig == SIGALRM ? CANCEL_TIMEOUT : CANCEL_INTERRUPT;
+}
+
+static void cancel_on_terminate(int sig)
+{
+    cancel_end_program(sig, "psikappa: terminated by a signal; the computation was stopped\n");
+}
+
+void cancel_after_write(void)
+{
+    if (cancel_pending_signal)
+        cancel_terminate(cancel_pending_signal, cancel_pending_message);
 }
 
 void cancel_install(double seconds)
@@ -17,7 +51,13 @@ void cancel_install(double seconds)
     sa.sa_handler = cancel_on_signal;
     sigemptyset(&sa.sa_mask);
     sigaction(SIGINT, &sa, NULL);
-    if (seconds <= 0)
+    sa.sa_handler = cancel_on_terminate;
+    sigaction(SIGTERM, &sa, NULL);
+    sigaction(SIGHUP, &sa, NULL);
+    signal(SIGXFSZ, SIG_IGN);
+    sa.sa_handler = cancel_on_signal;
+    /* beyond about three years (setitimer's range varies) there is no limit */
+    if (!(seconds > 0) || seconds > 1e8)
         return;
     sigaction(SIGALRM, &sa, NULL);
     struct itimerval t;

@@ -11,8 +11,24 @@ enum { CANCEL_NONE = 0, CANCEL_INTERRUPT = 1, CANCEL_TIMEOUT = 2 };
 /* Nonzero (one of the CANCEL_ codes) once a stop was requested. */
 extern volatile sig_atomic_t cancel_flag;
 
-/* Installs the SIGINT handler, and a timer of `seconds` (0: none). */
+/* Installs the handlers: SIGINT stops the computation (the statement fails
+   with a message); SIGTERM and SIGHUP end the program at once with status
+   128 + the signal's number, except during a write of output, which is
+   finished first (sink.h), so that no half line is left; SIGXFSZ is ignored
+   so that a file-size limit makes writes fail (and be reported) instead of
+   killing the program. Also a timer of `seconds` (0: none). */
 void cancel_install(double seconds);
+
+/* Set by sink.c while a record is being written: a terminating signal then
+   only records itself, and cancel_after_write acts on it. */
+extern volatile sig_atomic_t cancel_writing;
+
+/* From a signal handler: writes msg to stderr and ends the program with
+   status 128 + sig, or, while a record is being written, once it is out. */
+void cancel_end_program(int sig, const char *msg);
+
+/* Ends the program now if a terminating signal arrived during a write. */
+void cancel_after_write(void);
 
 /* Clears a pending request (the interactive session does this after each input). */
 void cancel_reset(void);

@@ -1,6 +1,7 @@
 /* Statements and programs: let, functions, loops, print, var, explain. */
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include "cancel.h"
 #include "correlators/wk_kdv.h"
@@ -30,7 +31,8 @@ void interp_init(interp *I)
     I->lim.max_depth = 2000;
     I->lim.max_seconds = 600;
     I->list_outer = 1;
-    I->out = stdout;
+    sink_init(&I->sink, STDOUT_FILENO);
+    I->out = sink_stream(&I->sink) ? sink_stream(&I->sink) : stdout;
     I->style.fmt = OUT_EXACT;
     I->style.digits = 20;
 }
@@ -47,6 +49,7 @@ void interp_clear(interp *I)
     results_close(I);
     verify_account_free(I);
     free(I->store_path);
+    sink_clear(&I->sink);
     for (int i = 0; i < I->nprograms; i++) {
         ast_list_free(I->programs[i]);
         source_free(I->sources[i]);
@@ -313,12 +316,30 @@ static int exec_stmt_kind(interp *I, scope *s, const node *n)
     }
 }
 
+/* Writes the statement's output whole, or drops it when the statement failed
+   half-way. Returns 0 after reporting a failed write. */
+static int exec_commit(interp *I, int ok)
+{
+    if (!ok) {
+        sink_discard(&I->sink);
+        return 0;
+    }
+    int had_error = I->sink.err != 0;
+    if (sink_commit(&I->sink))
+        return 1;
+    if (!had_error)
+        diag_error(NULL, "cannot write the output: %s", strerror(I->sink.err));
+    return 0;
+}
+
 int exec_stmt(interp *I, scope *s, const node *n)
 {
+    if (I->sink.err)
+        return 0;   /* the output is gone: nothing more is worth computing */
     const srcloc *outer = memory_set_statement(&n->loc);
     int ok = exec_stmt_kind(I, s, n);
     memory_set_statement(outer);
-    return ok;
+    return exec_commit(I, ok);
 }
 
 /* Keeps the program and its source alive for the interpreter's lifetime,
@@ -387,7 +408,7 @@ int interp_run_source(interp *I, source *src)
         fclose(mem);
     interp_keep(I, program, src);
     int ok = exec_program(I, program);
-    fflush(I->out);
+    sink_discard(&I->sink);   /* what is left belongs to a statement that failed */
     if (ok && syntax_failed && held)
         fputs(held, stderr);
     free(held);

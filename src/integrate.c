@@ -479,15 +479,6 @@ static value *integrate_compute(interp *I, const node *where, slong g, slong n, 
     return integrate_by_reduction(I, where, g, n, integrand, NULL);
 }
 
-/* The exact question, as the store's key: the space and the class as printed. */
-static char *integrate_question(interp *I, slong g, slong n, const value *integrand)
-{
-    char *c = value_get_str(integrand, &I->ring);
-    char *q = xasprintf("int_{%ld,%ld} %s", (long)g, (long)n, c);
-    free(c);
-    return q;
-}
-
 value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
     if (theta_in_value(integrand))
@@ -501,16 +492,18 @@ value *integrate_value(interp *I, const node *where, slong g, slong n, const val
         return NULL;
     if (I->verify || integrand->kind != V_CLASS)
         return integrate_compute(I, where, g, n, integrand);
-    char *q = integrate_question(I, g, n, integrand);
+    results_question q;
+    if (!results_question_integral(I, g, n, integrand->cls, &q))
+        return integrate_compute(I, where, g, n, integrand);
     value *r = value_new_num(&I->ring);
-    if (!results_lookup(I, q, r->num)) {
+    if (!results_lookup(I, &q, r->num)) {
         value_release(r);
         double t0 = results_clock();
         r = integrate_compute(I, where, g, n, integrand);
         if (r)
-            results_save(I, q, r->num, results_clock() - t0);
+            results_save(I, &q, r->num, results_clock() - t0);
     }
-    free(q);
+    results_question_clear(&q);
     return r;
 }
 

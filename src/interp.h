@@ -11,6 +11,7 @@
 #include "format/output.h"
 #include "keymap.h"
 #include "scalar.h"
+#include "sink.h"
 #include "source.h"
 #include "value.h"
 
@@ -48,7 +49,8 @@ typedef struct interp {
     char *store_path;        /* --store PATH (owned), NULL for the default */
     int store_off;           /* --no-store, or the store could not be opened */
     int store_always;        /* store every answer, however cheap (tests) */         /* how values print (output statement, --format, --digits) */
-    FILE *out;
+    FILE *out;               /* the record being printed (sink_stream(&sink)) */
+    sink sink;               /* standard output, written a whole record at a time */
     node_list **programs;    /* kept alive: function bodies point into them */
     source **sources;
     int nprograms;
@@ -84,9 +86,19 @@ void fastvol_clear(interp *I);
    (or route_volumes is set); *handled as for fastvol_try. */
 value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled);
 
-/* The results store (results.c): lookup returns 1 and sets out on a hit. */
-int results_lookup(interp *I, const char *question, fmpq_mpoly_t out);
-void results_save(interp *I, const char *question, const fmpq_mpoly_t value, double seconds);
+/* The results store (results.c). A question is identified by the hash of its
+   complete canonical form (results_key.h); label is a short text for people
+   reading the file (owned). results_question_integral returns 0 when the store
+   is off or no key can be formed: the answer is then neither looked up nor
+   stored. lookup returns 1 and sets out on a hit. */
+typedef struct results_question {
+    char key[65];
+    char *label;
+} results_question;
+int results_question_integral(interp *I, slong g, slong n, const cx *e, results_question *q);
+void results_question_clear(results_question *q);
+int results_lookup(interp *I, const results_question *q, fmpq_mpoly_t out);
+void results_save(interp *I, const results_question *q, const fmpq_mpoly_t value, double seconds);
 double results_clock(void);
 void results_close(interp *I);
 

@@ -167,10 +167,10 @@ static int main_options(interp *I, main_state *M, int argc, char **argv)
     for (int i = 1; i < argc; i++) {
         const char *a = argv[i];
         if (strcmp(a, "-h") == 0 || strcmp(a, "--help") == 0) {
-            main_usage(stdout);
+            main_usage(I->out);
             M->ran = 1;
         } else if (strcmp(a, "--version") == 0) {
-            printf("psikappa %s\n", PSIKAPPA_VERSION);
+            fprintf(I->out, "psikappa %s\n", PSIKAPPA_VERSION);
             M->ran = 1;
         } else if (strcmp(a, "--explain") == 0) {
             I->explain_all = 1;
@@ -238,7 +238,12 @@ int main(int argc, char **argv)
         if (status != 0 && cancel_flag)
             status = cancel_exit_status();
     }
-    fflush(stdout);
+    if (!sink_finish(&I.sink)) {
+        if (I.sink.err && status == 0)
+            fprintf(stderr, "psikappa: error: cannot write the output: %s\n", strerror(I.sink.err));
+        if (status == 0)
+            status = EXIT_SCRIPT_ERROR;
+    }
     verify_print(&I, stderr);
     interp_clear(&I);
     flint_cleanup();

@@ -47,10 +47,8 @@ static void repl_on_sigint(int sig)
 {
     (void)sig;
     if (repl_busy && cancel_flag == CANCEL_INTERRUPT) {
-        static const char msg[] = "\npsikappa: interrupted again; leaving\n";
-        ssize_t ignored = write(STDERR_FILENO, msg, sizeof msg - 1);
-        (void)ignored;
-        _exit(130);
+        cancel_end_program(SIGINT, "\npsikappa: interrupted again; leaving\n");   /* status 130 */
+        return;
     }
     if (repl_busy)
         cancel_flag = CANCEL_INTERRUPT;

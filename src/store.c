@@ -1,60 +1,36 @@
 #include "store.h"
 
 #include <errno.h>
-#include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
-#include <unistd.h>
 
 #include <sqlite3.h>
 
+#include "sha256.h"
+#include "store_file.h"
 #include "util.h"
-
-/* Bumped whenever the tables change; a file with another value is rebuilt. */
-#define STORE_SCHEMA "psikappa-results-1"
-
-/* PRAGMA quick_check reads every page (measured: about 12 ms per MiB), a
-   cost a calculator started many times a minute should not pay on a large
-   store. Above this size damage is found when a page is read (SQLITE_CORRUPT,
-   a miss) and by the row checksums. */
-#define STORE_FULL_CHECK_BYTES (4L << 20)
 
 struct store {
     sqlite3 *db;
-    char *version;                  /* engine version, owned */
+    char *path, *version;           /* owned */
+    struct stat id;                 /* the file opened (device, inode) */
     sqlite3_stmt *get, *put, *del;  /* prepared once, owned */
     long dropped;                   /* rows deleted for a bad checksum */
+    char *note;                     /* pending message, owned */
+    int write_failed_told;          /* a failed write was reported already */
+    int recoveries;                 /* damaged files replaced during this run */
 };
 
-/* Result of checking an opened file. */
-enum { STORE_OK, STORE_CORRUPT, STORE_FAILED };
-
-/* FNV-1a 64 over the three fields, each NUL-terminated.
-   Cheap and dependency-free; meant to catch damage, not forgery. */
-unsigned long long store_checksum(const char *version, const char *question, const char *answer)
+void store_checksum(const char *version, const char *key, const char *answer, char hex[65])
 {
-    uint64_t h = 14695981039346656037ULL;
-    const char *parts[3] = {version, question, answer};
-    for (int i = 0; i < 3; i++) {
-        const unsigned char *p = (const unsigned char *)(parts[i] ? parts[i] : "");
-        do {
-            h ^= *p;
-            h *= 1099511628211ULL;
-        } while (*p++);
-    }
-    return (unsigned long long)h;
-}
-
-/* The checksum as SQLite's signed 64-bit integer, bit for bit.
-   memcpy because converting an out-of-range unsigned value is not portable. */
-static sqlite3_int64 store_checksum_db(const char *version, const char *question, const char *answer)
-{
-    uint64_t u = store_checksum(version, question, answer);
-    sqlite3_int64 s;
-    memcpy(&s, &u, sizeof s);
-    return s;
+    sha256_ctx h;
+    sha256_init(&h);
+    sha256_update_field(&h, version ? version : "");
+    sha256_update_field(&h, key ? key : "");
+    sha256_update_field(&h, answer ? answer : "");
+    sha256_final_hex(&h, hex);
 }
 
 /* The XDG cache location, else ~/.cache (see store.h).
@@ -91,190 +67,91 @@ static int store_make_parents(const char *path)
     return ok;
 }
 
-/* Runs SQL without results. Returns the SQLite result code. */
-static int store_exec(sqlite3 *db, const char *sql)
+/* Appends a sentence to the pending note. */
+static void store_add_note(store *S, char *text)
 {
-    return sqlite3_exec(db, sql, NULL, NULL, NULL);
+    if (S->note) {
+        char *both = xasprintf("%s; %s", S->note, text);
+        free(S->note);
+        free(text);
+        text = both;
+    }
+    S->note = text;
 }
 
-/* Maps an SQLite error to "damaged file" or "other failure". */
-static int store_classify(int rc)
+/* Opens the file, and when it is damaged moves it aside and starts a new one
+   (at most twice). Returns the database or NULL; *note gets what to report. */
+static sqlite3 *store_open_db(const char *path, struct stat *id, char **note)
 {
-    rc &= 0xff;
-    return rc == SQLITE_NOTADB || rc == SQLITE_CORRUPT || rc == SQLITE_FORMAT ? STORE_CORRUPT : STORE_FAILED;
-}
-
-/* One line out of SQLite's integrity report, which may list dozens of
-   follow-on problems after a "*** in database main ***" heading. */
-static char *store_first_problem(const char *report)
-{
-    const char *s = report ? report : "no answer";
-    if (strncmp(s, "***", 3) == 0 && strchr(s, '\n'))
-        s = strchr(s, '\n') + 1;
-    size_t n = strcspn(s, "\n");
-    return xasprintf("integrity check: %.*s", (int)n, s);
-}
-
-/* PRAGMA quick_check: reads every page, so damage inside is found too.
-   Returns STORE_OK, or another state with *why describing the problem. */
-static int store_quick_check(sqlite3 *db, char **why)
-{
-    sqlite3_stmt *st = NULL;
-    int rc = sqlite3_prepare_v2(db, "PRAGMA quick_check(1)", -1, &st, NULL);
-    if (rc == SQLITE_OK)
-        rc = sqlite3_step(st);
-    int state = STORE_OK;
-    if (rc == SQLITE_ROW) {
-        const char *r = (const char *)sqlite3_column_text(st, 0);
-        if (!r || strcmp(r, "ok") != 0) {
-            state = STORE_CORRUPT;
-            *why = store_first_problem(r);
+    sqlite3 *db = NULL;
+    for (int round = 0; round < 3; round++) {
+        char *why = NULL;
+        int state = store_file_open(path, &db, id, &why);
+        if (state == SF_OK) {
+            free(why);
+            return db;
         }
-    } else {
-        state = store_classify(rc);
-        *why = xstrdup(sqlite3_errmsg(db));
+        char *aside = state == SF_DAMAGED ? store_file_move_aside(path, id, &why) : NULL;
+        char *msg = state == SF_REFUSED && strncmp(why, "refused: ", 9) == 0
+                        ? xasprintf("refused results store %s: %s", path, why + 9)
+                    : state != SF_DAMAGED ? xasprintf("cannot use results store %s: %s", path, why)
+                    : aside ? xasprintf("results store %s was damaged (%s); kept as %s and started afresh", path,
+                                        why, aside)
+                            : xasprintf("results store %s is damaged and was not used: %s", path, why);
+        free(why);
+        char *joined = *note ? xasprintf("%s; %s", *note, msg) : msg;
+        if (joined != msg)
+            free(msg);
+        free(*note);
+        *note = joined;
+        if (!aside)
+            return NULL;
+        free(aside);
     }
-    sqlite3_finalize(st);
-    return state;
-}
-
-/* Creates the tables in a file that has none; a no-op otherwise.
-   BEGIN IMMEDIATE so that two first runs do not both create them. */
-static int store_create_schema(sqlite3 *db, char **why)
-{
-    const char *sql = "BEGIN IMMEDIATE;"
-                      "CREATE TABLE IF NOT EXISTS meta(key TEXT PRIMARY KEY, value TEXT NOT NULL);"
-                      "INSERT OR IGNORE INTO meta(key, value) VALUES('schema', '" STORE_SCHEMA "');"
-                      "CREATE TABLE IF NOT EXISTS results(engine TEXT NOT NULL, question TEXT NOT NULL,"
-                      " answer TEXT NOT NULL, checksum INTEGER NOT NULL, PRIMARY KEY(engine, question));"
-                      "COMMIT;";
-    sqlite3_stmt *st = NULL;
-    int rc = sqlite3_prepare_v2(db, "SELECT count(*) FROM sqlite_master", -1, &st, NULL);
-    if (rc == SQLITE_OK)
-        rc = sqlite3_step(st);
-    int fresh = rc == SQLITE_ROW && sqlite3_column_int64(st, 0) == 0;
-    sqlite3_finalize(st);
-    if (rc != SQLITE_ROW) {
-        *why = xstrdup(sqlite3_errmsg(db));
-        return store_classify(rc);
-    }
-    if (fresh && (rc = store_exec(db, sql)) != SQLITE_OK) {
-        *why = xstrdup(sqlite3_errmsg(db));
-        store_exec(db, "ROLLBACK");
-        return store_classify(rc);
-    }
-    return STORE_OK;
-}
-
-/* Confirms the file holds our tables, not another program's database.
-   Returns STORE_OK or STORE_CORRUPT with *why. */
-static int store_check_schema(sqlite3 *db, char **why)
-{
-    sqlite3_stmt *st = NULL;
-    int ok = sqlite3_prepare_v2(db, "SELECT value FROM meta WHERE key = 'schema'", -1, &st, NULL) == SQLITE_OK
-             && sqlite3_step(st) == SQLITE_ROW && sqlite3_column_text(st, 0)
-             && strcmp((const char *)sqlite3_column_text(st, 0), STORE_SCHEMA) == 0;
-    sqlite3_finalize(st);
-    st = NULL;
-    ok = ok && sqlite3_prepare_v2(db, "SELECT engine, question, answer, checksum FROM results LIMIT 0", -1, &st,
-                                  NULL) == SQLITE_OK;
-    sqlite3_finalize(st);
-    if (!ok)
-        *why = xstrdup("not a psikappa results store (unknown schema)");
-    return ok ? STORE_OK : STORE_CORRUPT;
-}
-
-/* Opens path and checks it. Returns a state; *db is open (or NULL) either
-   way, and *why explains any state other than STORE_OK. */
-static int store_try_open(const char *path, sqlite3 **db, char **why)
-{
-    int rc = sqlite3_open_v2(path, db, SQLITE_OPEN_READWRITE | SQLITE_OPEN_CREATE, NULL);
-    if (rc != SQLITE_OK) {
-        *why = xstrdup(*db ? sqlite3_errmsg(*db) : sqlite3_errstr(rc));
-        return STORE_FAILED;
-    }
-    /* several psikappa runs may share the file; wait for a writer a little */
-    sqlite3_busy_timeout(*db, 5000);
-    struct stat sb;
-    int small = stat(path, &sb) != 0 || sb.st_size <= STORE_FULL_CHECK_BYTES;
-    int state = small ? store_quick_check(*db, why) : STORE_OK;
-    if (state == STORE_OK)
-        state = store_create_schema(*db, why);
-    if (state == STORE_OK)
-        state = store_check_schema(*db, why);
-    /* WAL with synchronous=NORMAL: a commit costs no fsync (the rollback
-       journal's fsync per answer made 20000 answers take minutes), and the
-       file stays consistent after a crash; only the newest answers may be
-       lost, which a cache can afford. Left as is where WAL is unsupported. */
-    if (state == STORE_OK) {
-        store_exec(*db, "PRAGMA journal_mode=WAL");
-        store_exec(*db, "PRAGMA synchronous=NORMAL");
-    }
-    return state;
-}
-
-/* Moves a damaged file to path.corrupt (kept for inspection, never deleted)
-   and drops its journals, which belong to the old file. Returns 1 on success. */
-static int store_move_aside(const char *path, char **aside)
-{
-    struct stat sb;
-    if (stat(path, &sb) != 0 || !S_ISREG(sb.st_mode))
-        return 0;
-    *aside = xasprintf("%s.corrupt", path);
-    if (rename(path, *aside) != 0)
-        return 0;
-    const char *suffix[] = {"-journal", "-wal", "-shm"};
-    for (int i = 0; i < 3; i++) {
-        char *j = xasprintf("%s%s", path, suffix[i]);
-        unlink(j);
-        free(j);
-    }
-    return 1;
+    return NULL;
 }
 
 /* Prepares the three statements used by get and put. Returns 1 on success. */
 static int store_prepare(store *S)
 {
-    return sqlite3_prepare_v2(S->db, "SELECT answer, checksum FROM results WHERE engine = ?1 AND question = ?2", -1,
+    return sqlite3_prepare_v2(S->db, "SELECT answer, checksum FROM results WHERE engine = ?1 AND key = ?2", -1,
                               &S->get, NULL) == SQLITE_OK
            && sqlite3_prepare_v2(S->db,
-                                 "INSERT OR REPLACE INTO results(engine, question, answer, checksum)"
-                                 " VALUES(?1, ?2, ?3, ?4)",
+                                 "INSERT OR REPLACE INTO results(engine, key, label, answer, checksum)"
+                                 " VALUES(?1, ?2, ?3, ?4, ?5)",
                                  -1, &S->put, NULL) == SQLITE_OK
-           && sqlite3_prepare_v2(S->db, "DELETE FROM results WHERE engine = ?1 AND question = ?2", -1, &S->del,
+           && sqlite3_prepare_v2(S->db, "DELETE FROM results WHERE engine = ?1 AND key = ?2", -1, &S->del,
                                  NULL) == SQLITE_OK;
 }
 
-/* Opens, and on damage moves the file aside and starts afresh once.
-   Returns the open database or NULL; *err carries the report. */
-static sqlite3 *store_open_db(const char *path, char **err)
+/* Finalises the statements and closes the database (keeping S). */
+static void store_shut(store *S, int damaged)
 {
-    sqlite3 *db = NULL;
-    char *why = NULL, *aside = NULL;
-    int state = store_try_open(path, &db, &why);
-    if (state == STORE_CORRUPT) {
-        sqlite3_close(db);
-        db = NULL;
-        if (store_move_aside(path, &aside)) {
-            *err = xasprintf("results store %s was corrupt (%s); moved to %s and rebuilt", path, why, aside);
-            free(why);
-            why = NULL;
-            state = store_try_open(path, &db, &why);
-        }
-    }
-    if (state != STORE_OK) {
-        free(*err);
-        *err = xasprintf("cannot use results store %s: %s", path, why ? why : "damaged and cannot be moved aside");
-        sqlite3_close(db);
-        db = NULL;
-    }
-    free(why);
-    free(aside);
-    return db;
+    sqlite3_finalize(S->get);
+    sqlite3_finalize(S->put);
+    sqlite3_finalize(S->del);
+    S->get = S->put = S->del = NULL;
+    if (damaged)
+        store_file_close_damaged(S->db);
+    else
+        sqlite3_close(S->db);
+    S->db = NULL;
 }
 
-/* Makes the folders, opens or rebuilds the file, prepares the statements.
-   Returns the handle (caller closes it) or NULL with *err (caller frees). */
+/* Opens S->path into S. Returns 1, or 0 with the reason in S->note. */
+static int store_attach(store *S)
+{
+    char *note = NULL;
+    S->db = store_open_db(S->path, &S->id, &note);
+    if (note)
+        store_add_note(S, note);
+    if (S->db && !store_prepare(S)) {
+        store_add_note(S, xasprintf("cannot use results store %s: %s", S->path, sqlite3_errmsg(S->db)));
+        store_shut(S, 0);
+    }
+    return S->db != NULL;
+}
+
 store *store_open(const char *path, const char *engine_version, char **err)
 {
     *err = NULL;
@@ -286,54 +163,77 @@ store *store_open(const char *path, const char *engine_version, char **err)
         *err = xasprintf("cannot create the folder of results store %s: %s", path, strerror(errno));
         return NULL;
     }
-    sqlite3 *db = store_open_db(path, err);
-    if (!db)
-        return NULL;
     store *S = xcalloc(1, sizeof(store));
-    S->db = db;
+    S->path = xstrdup(path);
     S->version = xstrdup(engine_version);
-    if (!store_prepare(S)) {
-        free(*err);
-        *err = xasprintf("cannot use results store %s: %s", path, sqlite3_errmsg(db));
+    int ok = store_attach(S);
+    *err = store_take_note(S);
+    if (!ok) {
         store_close(S);
         return NULL;
     }
     return S;
 }
 
-/* Binds the (engine, question) key to parameters 1 and 2 of st.
-   SQLITE_STATIC: the strings outlive the statement's use. */
-static void store_bind_key(store *S, sqlite3_stmt *st, const char *question)
+/* Damage found while reading or writing: the file is moved aside and a new
+   one started (once per run; a second time the store is left off). */
+static void store_recover(store *S, int rc)
 {
-    sqlite3_bind_text(st, 1, S->version, -1, SQLITE_STATIC);
-    sqlite3_bind_text(st, 2, question, -1, SQLITE_STATIC);
+    char *why = xstrdup(sqlite3_errstr(rc));
+    store_shut(S, 1);
+    char *aside = S->recoveries++ == 0 ? store_file_move_aside(S->path, &S->id, &why) : NULL;
+    if (aside) {
+        store_add_note(S, xasprintf("results store %s was damaged (%s); kept as %s and started afresh", S->path,
+                                    why, aside));
+        store_attach(S);
+    } else {
+        store_add_note(S, xasprintf("results store %s is damaged (%s); not used for the rest of this run", S->path,
+                                    why));
+    }
+    free(aside);
+    free(why);
 }
 
-/* Deletes the row of question after its checksum failed. */
-static void store_drop(store *S, const char *question)
+/* Binds the (engine, key) pair to parameters 1 and 2 of st.
+   SQLITE_STATIC: the strings outlive the statement's use. */
+static void store_bind_key(store *S, sqlite3_stmt *st, const char *key)
 {
-    store_bind_key(S, S->del, question);
-    if (sqlite3_step(S->del) == SQLITE_DONE)
-        S->dropped++;
+    sqlite3_bind_text(st, 1, S->version, -1, SQLITE_STATIC);
+    sqlite3_bind_text(st, 2, key, -1, SQLITE_STATIC);
+}
+
+/* Deletes the row of key after its checksum failed, and says so once. */
+static void store_drop(store *S, const char *key)
+{
+    store_bind_key(S, S->del, key);
+    if (sqlite3_step(S->del) == SQLITE_DONE && S->dropped++ == 0)
+        store_add_note(S, xasprintf("results store %s held a damaged answer; it was dropped and is computed "
+                                    "again", S->path));
     sqlite3_reset(S->del);
     sqlite3_clear_bindings(S->del);
 }
 
-/* Looks the question up under this engine version, checking the row.
-   Returns 1 with a new *answer, or 0 (miss, damaged row, database error). */
-int store_get(store *S, const char *question, char **answer)
+/* Checks a fetched row: the answer and the checksum over version, key, answer. */
+static int store_row_ok(store *S, const char *key, const char *answer, sqlite3_stmt *st)
+{
+    const char *sum = (const char *)sqlite3_column_text(st, 1);
+    if (!answer || !sum || sqlite3_column_type(st, 1) != SQLITE_TEXT)
+        return 0;
+    char want[65];
+    store_checksum(S->version, key, answer, want);
+    return strcmp(sum, want) == 0;
+}
+
+int store_get(store *S, const char *key, char **answer)
 {
     *answer = NULL;
-    if (!S || !question)
+    if (!S || !S->db || !key)
         return 0;
-    store_bind_key(S, S->get, question);
-    int found = 0, bad = 0;
-    if (sqlite3_step(S->get) == SQLITE_ROW) {
+    store_bind_key(S, S->get, key);
+    int rc = sqlite3_step(S->get), found = 0, bad = 0;
+    if (rc == SQLITE_ROW) {
         const char *a = (const char *)sqlite3_column_text(S->get, 0);
-        sqlite3_int64 sum = sqlite3_column_int64(S->get, 1);
-        /* a NULL or non-integer field can only come from outside edits */
-        if (a && sqlite3_column_type(S->get, 1) == SQLITE_INTEGER
-            && sum == store_checksum_db(S->version, question, a)) {
+        if (store_row_ok(S, key, a, S->get)) {
             *answer = xstrdup(a);
             found = 1;
         } else {
@@ -343,42 +243,60 @@ int store_get(store *S, const char *question, char **answer)
     sqlite3_reset(S->get);
     sqlite3_clear_bindings(S->get);
     if (bad)
-        store_drop(S, question);
+        store_drop(S, key);
+    else if (rc != SQLITE_ROW && store_file_is_damage(rc))
+        store_recover(S, rc);
     return found;
 }
 
-/* Writes (or replaces) the row with its checksum.
-   Returns 1 when written; failures are not fatal to a cache. */
-int store_put(store *S, const char *question, const char *answer)
+int store_put(store *S, const char *key, const char *label, const char *answer)
 {
-    if (!S || !question || !answer)
+    if (!S || !S->db || !key || !answer)
         return 0;
-    store_bind_key(S, S->put, question);
-    sqlite3_bind_text(S->put, 3, answer, -1, SQLITE_STATIC);
-    sqlite3_bind_int64(S->put, 4, store_checksum_db(S->version, question, answer));
-    int ok = sqlite3_step(S->put) == SQLITE_DONE;
+    char sum[65];
+    store_checksum(S->version, key, answer, sum);
+    store_bind_key(S, S->put, key);
+    sqlite3_bind_text(S->put, 3, label ? label : "", -1, SQLITE_STATIC);
+    sqlite3_bind_text(S->put, 4, answer, -1, SQLITE_STATIC);
+    sqlite3_bind_text(S->put, 5, sum, -1, SQLITE_STATIC);
+    int rc = sqlite3_step(S->put);
+    char *why = rc == SQLITE_DONE ? NULL : xstrdup(sqlite3_errmsg(S->db));
     sqlite3_reset(S->put);
     sqlite3_clear_bindings(S->put);
-    return ok;
+    if (rc != SQLITE_DONE && store_file_is_damage(rc)) {
+        store_recover(S, rc);
+    } else if (rc != SQLITE_DONE && !S->write_failed_told) {
+        S->write_failed_told = 1;
+        store_add_note(S, xasprintf("results store %s cannot keep new answers (%s); they are computed but not "
+                                    "stored",
+                                    S->path, why));
+    }
+    free(why);
+    return rc == SQLITE_DONE;
 }
 
-/* Rows dropped for a bad checksum since opening.
-   0 for a NULL store. */
+char *store_take_note(store *S)
+{
+    if (!S)
+        return NULL;
+    char *n = S->note;
+    S->note = NULL;
+    return n;
+}
+
 long store_dropped(const store *S)
 {
     return S ? S->dropped : 0;
 }
 
-/* Finalises the statements and closes the file.
-   S may be NULL; it is freed. */
 void store_close(store *S)
 {
     if (!S)
         return;
-    sqlite3_finalize(S->get);
-    sqlite3_finalize(S->put);
-    sqlite3_finalize(S->del);
-    sqlite3_close(S->db);
+    if (S->db)
+        store_shut(S, 0);
+    free(S->path);
     free(S->version);
+    free(S->note);
     free(S);
 }

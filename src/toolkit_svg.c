@@ -6,6 +6,8 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
+#include <unistd.h>
 
 #include "arb_compat.h"
 #include "builtins.h"
@@ -296,10 +298,11 @@ static void svg_write_series(FILE *f, const svg_plot *P, slong i)
     fprintf(f, "</text>\n");
 }
 
-/* Writes the whole picture to path. Returns NULL or a new error message. */
-static char *svg_write(const svg_plot *P, const char *path)
+/* Writes the picture into the file tmp (errors name path, what the user asked
+   for). Returns NULL or a new error message. */
+static char *svg_write_file(const svg_plot *P, const char *tmp, const char *path)
 {
-    FILE *f = fopen(path, "w");
+    FILE *f = fopen(tmp, "w");
     if (!f)
         return xasprintf("cannot write '%s': %s", path, strerror(errno));
     fprintf(f, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n");
@@ -310,10 +313,28 @@ static char *svg_write(const svg_plot *P, const char *path)
     for (slong i = 0; i < P->ns; i++)
         svg_write_series(f, P, i);
     fprintf(f, "</svg>\n");
-    int bad = ferror(f);
-    if (fclose(f) != 0 || bad)
-        return xasprintf("error while writing '%s'", path);
-    return NULL;
+    int bad = ferror(f) ? (errno ? errno : EIO) : 0;
+    if (fclose(f) != 0 && !bad)
+        bad = errno;
+    return bad ? xasprintf("error while writing '%s': %s", path, strerror(bad)) : NULL;
+}
+
+/* Writes the whole picture to path, through a temporary file renamed into
+   place, so that a failed write leaves no half picture (a device or pipe is
+   written in place). Returns NULL or a new error message. */
+static char *svg_write(const svg_plot *P, const char *path)
+{
+    struct stat sb;
+    if (stat(path, &sb) == 0 && !S_ISREG(sb.st_mode))
+        return svg_write_file(P, path, path);
+    char *tmp = xasprintf("%s.tmp-%ld", path, (long)getpid());
+    char *err = svg_write_file(P, tmp, path);
+    if (!err && rename(tmp, path) != 0)
+        err = xasprintf("cannot write '%s': %s", path, strerror(errno));
+    if (err)
+        unlink(tmp);
+    free(tmp);
+    return err;
 }
 
 /* svgplot(path, series, options): see the top of the file; returns the path. */

@@ -3,7 +3,8 @@
    Build and run with tests/fuzz/run.sh (clang -fsanitize=fuzzer,address,undefined).
    Each input gets a fresh interpreter with small limits, so that a single
    input finishes in well under a second unless something is wrong; the
-   interpreter's output goes to /dev/null. Sanitizer reports, crashes, leaks
+   interpreter's output goes to /dev/null (through
+   the writer of whole records, as in the program). Sanitizer reports, crashes, leaks
    and inputs that exceed libFuzzer's -timeout are findings.
 
    Side effects are kept away from the machine: under run.sh the harness works
@@ -97,7 +98,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
     I.lim.max_seconds = 0.01;  /* the volume engines refuse what they predict to take longer
                                   (instrumented code runs some 50 times slower than -O2) */
     I.store_off = 1;
-    I.out = fuzz_null;
+    I.sink.fd = fileno(fuzz_null);   /* output goes through the record writer, into /dev/null */
     /* interp_run_source routes diagnostics itself while parsing and then
        back to stderr, so this only covers what happens before; run.sh closes
        the target's stderr (-close_fd_mask) for the rest. */

@@ -1,9 +1,13 @@
 #!/usr/bin/env bash
-# Builds the libFuzzer harness tests/fuzz/fuzz_script.c with clang
-# (-fsanitize=fuzzer,address,undefined) from the same sources as the
-# psikappa_lang library, then fuzzes the interpreter for SECONDS (default 60).
+# Builds a libFuzzer harness with clang (-fsanitize=fuzzer,address,undefined)
+# from the same sources as the psikappa_lang library, then fuzzes for SECONDS
+# (default 60). TARGET (default script) chooses the harness:
+#   script  tests/fuzz/fuzz_script.c: the input is a script run by the interpreter
+#   store   tests/fuzz/fuzz_store.c: the input is a store file and a list of
+#           reads and writes of keys and answers
+#   cli     tests/fuzz/fuzz_cli.c: the input is the command line (one argument a line)
 #
-#   tests/fuzz/run.sh [SECONDS] [extra libFuzzer options...]
+#   tests/fuzz/run.sh [TARGET] [SECONDS] [extra libFuzzer options...]
 #
 # Environment:
 #   PSIKAPPA_FUZZ_DIR   work folder (default build/fuzz): the binary, the
@@ -21,9 +25,12 @@
 set -euo pipefail
 root=$(cd "$(dirname "$0")/../.." && pwd)
 src=${PSIKAPPA_SRC_ROOT:-$root}   # sources to build (e.g. a snapshot); seeds come from $root
+target=script
+case ${1:-} in script|store|cli) target=$1; shift ;; esac
 seconds=${1:-60}
 [ $# -gt 0 ] && shift
 work=${PSIKAPPA_FUZZ_DIR:-$root/build/fuzz}
+[ "$target" = script ] || work=$work-$target
 jobs=${PSIKAPPA_FUZZ_JOBS:-1}
 case $seconds in ''|*[!0-9]*) echo "usage: $0 [SECONDS] [libFuzzer options...]" >&2; exit 2;; esac
 
@@ -74,9 +81,16 @@ rm -f "$work"/obj/*.o
 } | xargs -P "$(nproc 2>/dev/null || echo 2)" -I{} sh -c \
     'o="$1/obj/$(echo "$2" | tr / _ ).o"; clang $3 -fsanitize=fuzzer-no-link -w -c "$2" -o "$o"' \
     _ "$work" {} "$cflags"
-clang $cflags -fsanitize=fuzzer -Wall -Wextra -c "$root/tests/fuzz/fuzz_script.c" -o "$work/fuzz_script.o"
-clang -fsanitize=fuzzer,address,undefined "$work/fuzz_script.o" "$work"/obj/*.o $libs -o "$work/fuzz_script"
-echo "built $work/fuzz_script"
+harness=fuzz_$target
+extra=()
+if [ "$target" = cli ]; then   # main.c itself, its main renamed for the harness to call
+  clang $cflags -fsanitize=fuzzer-no-link -w -Dmain=psikappa_main -c "$src/src/main.c" -o "$work/main.o"
+  extra=("$work/main.o")
+fi
+clang $cflags -fsanitize=fuzzer -Wall -Wextra -c "$root/tests/fuzz/$harness.c" -o "$work/$harness.o"
+clang -fsanitize=fuzzer,address,undefined "$work/$harness.o" ${extra[@]+"${extra[@]}"} "$work"/obj/*.o $libs \
+  -o "$work/$harness"
+echo "built $work/$harness"
 
 # --- run
 # Seeds: the .pk scripts of tests/golden, samples and tests/hostile, read in
@@ -87,6 +101,7 @@ skip=$(sed 's/#.*//' "$root/tests/fuzz/skip-seeds.txt")
 rm -rf "$work/seeds"
 mkdir -p "$work/seeds"
 for d in tests/golden samples tests/hostile; do
+  [ "$target" = script ] || break   # the other harnesses get seeds of their own below
   for f in "$root/$d"/*.pk; do
     [ -f "$f" ] || continue
     base=$(basename "$f")
@@ -97,6 +112,25 @@ for d in tests/golden samples tests/hostile; do
     ln -s "$f" "$work/seeds/$(basename "$d")-$base"
   done
 done
+if [ "$target" = cli ]; then
+  # command lines: the option lists of the golden tests with a short -e, and every option alone
+  i=0
+  for f in "$root"/tests/golden/*.args "$root"/tests/hostile/*.args; do
+    [ -f "$f" ] || continue
+    i=$((i + 1))
+    { tr ' ' '\n' < "$f"; printf -- '-e\nint_{1,1} psi_1'; } > "$work/seeds/args-$i"
+  done
+  for o in --explain --verify --volume-engine --no-store --help --version "--format\njson" "--digits\n5" \
+           "--store\nx.sqlite" "--lib\n." "--time-limit\n1" "--max-terms\n10" "--max-table\n10"; do
+    i=$((i + 1))
+    printf -- "$o\n-e\n<tau_4>_2" > "$work/seeds/opt-$i"
+  done
+elif [ "$target" = store ]; then
+  printf '\0\0\0\0\0\5hello\1\2\1\3' > "$work/seeds/fresh"
+  printf '\1\0\0\0\3\3' > "$work/seeds/healthy"
+  printf '\2\020\0\100%064d\3\2\3' 0 > "$work/seeds/damaged"
+  printf '\3\0\0\20SQLite format 3\0\3' > "$work/seeds/foreign"
+fi
 # The harness works in a scratch folder (files a script names land there).
 scratch=$(mktemp -d "${TMPDIR:-/tmp}/psikappa-fuzz-XXXXXX")
 trap 'rm -rf "$gen" "$scratch"' EXIT
@@ -107,12 +141,12 @@ parallel=()
 status=0
 ASAN_OPTIONS=${ASAN_OPTIONS:-detect_leaks=1:allocator_may_return_null=0} \
 UBSAN_OPTIONS=${UBSAN_OPTIONS:-print_stacktrace=1:halt_on_error=1} \
-  "$work/fuzz_script" -max_total_time="$seconds" -max_len=4096 -timeout=10 -rss_limit_mb=2048 \
+  "$work/$harness" -max_total_time="$seconds" -max_len=4096 -timeout=10 -rss_limit_mb=2048 \
     -close_fd_mask=3 -print_final_stats=1 -dict="$root/tests/fuzz/psikappa.dict" -artifact_prefix="$work/artifacts/" \
     ${parallel[@]+"${parallel[@]}"} "$@" "$work/corpus" "$work/seeds" < /dev/null || status=$?
 if [ "$status" -ne 0 ]; then
   echo "fuzzing found a problem (status $status); reproducers:" >&2
   ls -1 "$work"/artifacts/ >&2 || true
-  echo "replay one with: $work/fuzz_script $work/artifacts/FILE" >&2
+  echo "replay one with: $work/$harness $work/artifacts/FILE" >&2
 fi
 exit "$status"
