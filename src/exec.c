@@ -245,6 +245,10 @@ static int exec_stmt_kind(interp *I, scope *s, const node *n)
 
 int exec_stmt(interp *I, scope *s, const node *n)
 {
+    if (util_stack_exhausted()) {   /* blocks in functions in loads ... nested very deeply */
+        diag_error(&n->loc, "statements nested too deeply for the stack (deep recursion through a block)");
+        return 0;
+    }
     const srcloc *outer = memory_set_statement(&n->loc);
     int ok = exec_stmt_kind(I, s, n);
     memory_set_statement(outer);

@@ -69,6 +69,9 @@ static void integrate_report_engine(const node *where, int rc)
         eval_cancelled(where);
     else if (rc == WK_LIMIT)
         diag_error(&where->loc, "the correlator table reached its size limit (raise it with --max-table N)");
+    else if (rc == WK_TOO_DEEP)
+        diag_error(&where->loc, "evaluation nested too deeply for the stack to compute this here "
+                                "(call it from less deeply nested code)");
     else
         diag_error(&where->loc, "the intersection engine rejected this request (code %d)", rc);
 }

@@ -8,6 +8,7 @@
 #include "cancel.h"
 #include "interp.h"
 #include "memory.h"
+#include "options.h"
 #include "repl.h"
 #include "source.h"
 #include "util.h"
@@ -60,65 +61,56 @@ static void main_usage(FILE *out)
           out);
 }
 
-static int main_number(const char *opt, const char *arg, double *out)
-{
-    char *end;
-    errno = 0;
-    double v = arg ? strtod(arg, &end) : 0;
-    if (!arg || errno || *end || !(v > 0)) {
-        fprintf(stderr, "psikappa: %s needs a positive number\n", opt);
-        return 0;
-    }
-    *out = v;
-    return 1;
-}
-
 typedef struct {
     double time_limit;
     int ran;       /* a script, -e, --help or --version was given */
 } main_state;
 
-/* Applies an option taking a value; returns 0 on a bad value. */
-static int main_valued_option(interp *I, main_state *M, const char *opt, const char *arg)
+/* Applies --format, --store or --lib; returns 0 after refusing a bad value. */
+static int main_text_option(interp *I, const char *opt, const char *arg)
 {
-    double v;
     if (strcmp(opt, "--format") == 0) {
         if (arg && out_format_parse(&I->style.fmt, arg))
             return 1;
-        fprintf(stderr, "psikappa: --format takes exact, decimal, latex, csv or json\n");
+        options_refuse(stderr, opt, "one of exact, decimal, latex, csv, json", arg);
+        return 0;
+    }
+    if (!arg || !*arg || arg[0] == '-') {   /* "--lib -e CODE": the folder is missing */
+        options_refuse(stderr, opt, strcmp(opt, "--store") == 0 ? "a file name" : "a folder", arg);
         return 0;
     }
     if (strcmp(opt, "--store") == 0) {
-        if (!arg) {
-            fputs("psikappa: --store needs a file\n", stderr);
-            return 0;
-        }
         free(I->store_path);
         I->store_path = xstrdup(arg);
         I->store_always = getenv("PSIKAPPA_STORE_ALL") != NULL;
-        return 1;
+    } else {
+        interp_add_search_dir(I, arg);
     }
-    if (strcmp(opt, "--lib") == 0) {
-        if (!arg)
-            fputs("psikappa: --lib needs a folder\n", stderr);
-        else
-            interp_add_search_dir(I, arg);
-        return arg != NULL;
-    }
-    if (!main_number(opt, arg, &v))
+    return 1;
+}
+
+/* Applies an option taking a value; returns 0 after refusing a bad value
+   (out of range values are refused with the range, never capped). */
+static int main_valued_option(interp *I, main_state *M, const char *opt, const char *arg)
+{
+    const option_range *r = options_find_range(opt);
+    double v;
+    if (!r)
+        return main_text_option(I, opt, arg);
+    if (!options_parse_number(r, arg, &v, stderr))
         return 0;
     if (strcmp(opt, "--max-terms") == 0) {
         I->lim.max_terms = v;
-        I->lim.max_class_terms = v > 1e15 ? (slong)1e15 : (slong)v;
+        I->lim.max_class_terms = (slong)v;
     } else if (strcmp(opt, "--max-table") == 0) {
         I->lim.max_table = v;
-        wk_table_set_limit(I->wk, v > 1e15 ? (slong)1e15 : (slong)v);
+        wk_table_set_limit(I->wk, (slong)v);
     } else if (strcmp(opt, "--max-depth") == 0) {
-        I->lim.max_depth = v > 1e6 ? 1000000 : (int)v;
+        I->lim.max_depth = (int)v;
     } else if (strcmp(opt, "--max-seconds") == 0) {
         I->lim.max_seconds = v;
     } else if (strcmp(opt, "--digits") == 0) {
-        I->style.digits = v > OUT_MAX_DIGITS ? OUT_MAX_DIGITS : (slong)v;
+        I->style.digits = (slong)v;
     } else if (strcmp(opt, "--max-memory") == 0) {
         if (!memory_set_limit(v * 1073741824.0))
             fputs("psikappa: warning: could not set the memory cap\n", stderr);
@@ -182,7 +174,7 @@ static int main_options(interp *I, main_state *M, int argc, char **argv)
             i++;
         } else if (strcmp(a, "-e") == 0) {
             if (++i >= argc) {
-                fputs("psikappa: -e needs code\n", stderr);
+                options_refuse(stderr, "-e", "code to run", NULL);
                 return EXIT_USAGE;
             }
         } else if (a[0] == '-' && a[1] != '\0') {

@@ -6,8 +6,10 @@
 #include <string.h>
 #include <sys/resource.h>
 
-static char *util_stack_base;
-static size_t util_stack_budget;
+/* Per thread: a worker thread that never called util_stack_init is not
+   measured against the main thread's stack (its frames live elsewhere). */
+static _Thread_local char *util_stack_base;
+static _Thread_local size_t util_stack_budget;
 
 void util_stack_init(void *base)
 {
