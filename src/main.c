@@ -6,6 +6,7 @@
 #include <unistd.h>
 
 #include "cancel.h"
+#include "deadline.h"
 #include "interp.h"
 #include "memory.h"
 #include "options.h"
@@ -220,6 +221,7 @@ int main(int argc, char **argv)
     int status = main_options(&I, &M, argc, argv);
     if (status == 0) {
         cancel_install(M.time_limit);
+        deadline_start(M.time_limit);
         status = main_run(&I, &M, argc, argv);
         if (status != 0 && cancel_flag)
             status = cancel_exit_status();

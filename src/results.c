@@ -7,6 +7,7 @@
 #include <string.h>
 #include <time.h>
 
+#include "cancel.h"
 #include "diag.h"
 #include "interp.h"
 #include "store.h"
@@ -36,6 +37,8 @@ static store *results_open(interp *I)
 
 int results_lookup(interp *I, const char *question, fmpq_mpoly_t out)
 {
+    if (cancel_flag)   /* the time is up: no wait on the store's lock either */
+        return 0;
     store *S = results_open(I);
     char *answer = NULL;
     if (!S || store_get(S, question, &answer) != 1)
@@ -47,7 +50,7 @@ int results_lookup(interp *I, const char *question, fmpq_mpoly_t out)
 
 void results_save(interp *I, const char *question, const fmpq_mpoly_t value, double seconds)
 {
-    if (seconds < RESULTS_MIN_SECONDS && !I->store_always)
+    if ((seconds < RESULTS_MIN_SECONDS && !I->store_always) || cancel_flag)
         return;
     store *S = results_open(I);
     if (!S)

@@ -10,6 +10,8 @@
 
 #include <sqlite3.h>
 
+#include "deadline.h"
+
 #include "util.h"
 
 /* Bumped whenever the tables change; a file with another value is rebuilt. */
@@ -194,7 +196,7 @@ static int store_try_open(const char *path, sqlite3 **db, char **why)
         return STORE_FAILED;
     }
     /* several psikappa runs may share the file; wait for a writer a little */
-    sqlite3_busy_timeout(*db, 5000);
+    sqlite3_busy_timeout(*db, deadline_cap_ms(5000));   /* never past --time-limit */
     struct stat sb;
     int small = stat(path, &sb) != 0 || sb.st_size <= STORE_FULL_CHECK_BYTES;
     int state = small ? store_quick_check(*db, why) : STORE_OK;
