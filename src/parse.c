@@ -2,6 +2,7 @@
 
 #include <stdlib.h>
 
+#include "diag.h"
 #include "parser.h"
 #include "util.h"
 
@@ -21,6 +22,14 @@ int parse_source(const source *src, node_list **program)
 
 int parse_source_ex(const source *src, node_list **program, int *incomplete)
 {
+    srcloc cr;
+    if (source_find_bare_cr(src, &cr)) {   /* checked before any statement runs */
+        diag_error(&cr, "a carriage return (\\r) that does not end a line: lines end with \\n or \\r\\n "
+                        "(convert the file's line endings)");
+        *incomplete = 0;
+        *program = ast_list_new();
+        return 1;
+    }
     parse_state *ps = xcalloc(1, sizeof(parse_state));
     ps->src = src;
     ps->program = ast_list_new();

@@ -141,6 +141,32 @@ source *source_read_script(const char *path, int regular_only, char **why)
     return s;
 }
 
+int source_find_bare_cr(const source *s, srcloc *at)
+{
+    const char *p = s->len ? memchr(s->text, '\r', s->len) : NULL;
+    for (; p; p = memchr(p + 1, '\r', s->len - (size_t)(p + 1 - s->text))) {
+        size_t off = (size_t)(p - s->text);
+        if (off + 1 == s->len || p[1] == '\n')
+            continue;   /* \r\n, or a last line cut before its \n */
+        int line = 1;   /* the line holding off: binary search of line_starts */
+        for (int lo = 0, hi = s->nlines - 1; lo <= hi;) {
+            int mid = (lo + hi) / 2;
+            if (s->line_starts[mid] <= off) {
+                line = mid + 1;
+                lo = mid + 1;
+            } else {
+                hi = mid - 1;
+            }
+        }
+        at->src = s;
+        at->first_line = at->last_line = line;
+        at->first_column = (int)(off - s->line_starts[line - 1]) + 1;
+        at->last_column = at->first_column + 1;
+        return 1;
+    }
+    return 0;
+}
+
 size_t source_line(const source *s, int line, const char **start)
 {
     if (!s || line < 1 || line > s->nlines) {
@@ -192,10 +218,14 @@ void source_print_caret(FILE *out, const srcloc *loc)
     size_t c0 = loc->first_column > 0 ? (size_t)loc->first_column - 1 : 0;
     size_t c1 = loc->last_line == loc->first_line && loc->last_column > loc->first_column
                     ? (size_t)loc->last_column - 1 : c0 + 1;
+    /* columns count bytes; the caret line counts characters, so the bytes
+       that continue a UTF-8 character (10xxxxxx) take no place of their own */
     for (size_t i = from; i < c0 && i < to; i++)
-        fputc(line[i] == '\t' ? '\t' : ' ', out);
+        if (((unsigned char)line[i] & 0xC0) != 0x80)
+            fputc(line[i] == '\t' ? '\t' : ' ', out);
     fputc('^', out);
     for (size_t i = c0 + 1; i < c1 && i < to; i++)
-        fputc('~', out);
+        if (((unsigned char)line[i] & 0xC0) != 0x80)
+            fputc('~', out);
     fputc('\n', out);
 }
