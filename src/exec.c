@@ -74,16 +74,26 @@ static int exec_print_value(interp *I, const node *at, value *v, const char *sep
     return s != NULL;
 }
 
+/* What follows a printed value: in CSV the values of one print are the
+   fields of one record (RFC 4180: comma-separated, ended by CRLF, as the
+   grids of table are); elsewhere a space, and a newline at the end. */
+static const char *exec_print_sep(const interp *I, int last)
+{
+    if (I->style.fmt == OUT_CSV)
+        return last ? "\r\n" : ",";
+    return last ? "\n" : " ";
+}
+
 static int exec_print(interp *I, scope *s, const node *n)
 {
     for (int i = 0; i < n->list->len; i++) {
         value *v = eval_expr(I, s, n->list->items[i]);
         if (!v) {
             if (i > 0)
-                fputc('\n', I->out);
+                fputs(exec_print_sep(I, 1), I->out);
             return 0;
         }
-        if (!exec_print_value(I, n->list->items[i], v, i + 1 < n->list->len ? " " : "\n"))
+        if (!exec_print_value(I, n->list->items[i], v, exec_print_sep(I, i + 1 == n->list->len)))
             return 0;
     }
     return 1;
@@ -182,7 +192,7 @@ static int exec_explain(interp *I, scope *s, const node *n)
     if (!v)
         return 0;
     fputs("  = ", I->out);
-    return exec_print_value(I, e, v, "\n");
+    return exec_print_value(I, e, v, exec_print_sep(I, 1));
 }
 
 /* if C { ... } else { ... }: each block runs in its own scope, like a loop body. */
@@ -236,7 +246,7 @@ static int exec_stmt_kind(interp *I, scope *s, const node *n)
         }
         if (!(v = eval_expr(I, s, n->a)))
             return 0;
-        return exec_print_value(I, n, v, "\n");
+        return exec_print_value(I, n, v, exec_print_sep(I, 1));
     default:
         diag_error(&n->loc, "not a statement");
         return 0;
