@@ -54,9 +54,22 @@ void util_out_of_memory(void)
     util_fail_allocation(0);
 }
 
+static int (*util_inject)(void);
+
+void util_set_failure_injection(int (*hook)(void))
+{
+    util_inject = hook;
+}
+
+/* 1 when the test hook wants this allocation to fail. */
+static int util_injected(void)
+{
+    return util_inject && util_inject();
+}
+
 void *xmalloc(size_t n)
 {
-    void *p = malloc(n ? n : 1);
+    void *p = util_injected() ? NULL : malloc(n ? n : 1);
     if (!p)
         util_fail_allocation(n);
     return p;
@@ -64,7 +77,7 @@ void *xmalloc(size_t n)
 
 void *xcalloc(size_t n, size_t size)
 {
-    void *p = calloc(n ? n : 1, size ? size : 1);
+    void *p = util_injected() ? NULL : calloc(n ? n : 1, size ? size : 1);
     if (!p)
         util_fail_allocation(n * size);
     return p;
@@ -72,7 +85,7 @@ void *xcalloc(size_t n, size_t size)
 
 void *xrealloc(void *p, size_t n)
 {
-    void *q = realloc(p, n ? n : 1);
+    void *q = util_injected() ? NULL : realloc(p, n ? n : 1);
     if (!q)
         util_fail_allocation(n);
     return q;
