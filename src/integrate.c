@@ -669,9 +669,12 @@ typedef struct {
     fmpq_t c;
 } volume_walk;
 
-/* Visits every alpha with |alpha| <= D, adding its term to the result. */
+/* Visits every alpha with |alpha| <= D, adding its term to the result. The recursion is
+   n < SCALAR_MAX_VARS deep; the stack guard covers calls from deeply nested user code. */
 static int volume_visit(volume_walk *W, slong i, slong left)
 {
+    if (util_stack_exhausted())
+        return WK_TOO_DEEP;
     if (i == W->n) {
         int rc = volume_coeff(W->c, W->I, &W->memo, W->g, W->n, W->alpha);
         if (rc != WK_OK || fmpq_is_zero(W->c))

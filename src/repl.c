@@ -349,32 +349,6 @@ static int repl_read_line(repl_session *rs, char **line)
     return 1;
 }
 
-/* Counts the brackets of one more line of the chunk into rs->open, skipping
-   strings (they end on their line) and comments, so that a pasted block of
-   any length costs one pass over its text: the chunk is only parsed, once,
-   when every bracket is closed. An unmatched closing bracket is left to the
-   parser to report. */
-static void repl_scan_line(repl_session *rs, const char *line)
-{
-    int in_string = 0;
-    for (const char *c = line; *c; c++) {
-        if (in_string) {
-            if (*c == '\\' && c[1])
-                c++;
-            else if (*c == '"')
-                in_string = 0;
-        } else if (*c == '#') {
-            break;
-        } else if (*c == '"') {
-            in_string = 1;
-        } else if (*c == '(' || *c == '[' || *c == '{') {
-            rs->open++;
-        } else if ((*c == ')' || *c == ']' || *c == '}') && rs->open > 0) {
-            rs->open--;
-        }
-    }
-}
-
 /* True for a line that is only the word help or :help (spaces allowed). */
 static int repl_is_help(const char *line)
 {
@@ -431,7 +405,9 @@ static void repl_take_line(repl_session *rs, const char *line)
     repl_history_add(rs, line);
     strbuf_puts(&rs->pending, line);
     strbuf_putc(&rs->pending, '\n');
-    repl_scan_line(rs, line);
+    /* one pass per line, so a pasted block costs linear time; the chunk is
+       parsed once, when every bracket is closed */
+    rs->open = source_open_brackets(line, strlen(line), rs->open);
     if (rs->open > 0) {
         rs->prompt = REPL_PROMPT_MORE;
         return;

@@ -141,6 +141,32 @@ source *source_read_script(const char *path, int regular_only, char **why)
     return s;
 }
 
+long source_open_brackets(const char *text, size_t len, long open)
+{
+    int in_string = 0;
+    for (size_t i = 0; i < len; i++) {
+        char c = text[i];
+        if (c == '\n') {
+            in_string = 0;   /* strings end on their line */
+        } else if (in_string) {
+            if (c == '\\' && i + 1 < len && text[i + 1] != '\n')
+                i++;
+            else if (c == '"')
+                in_string = 0;
+        } else if (c == '#') {
+            while (i + 1 < len && text[i + 1] != '\n')
+                i++;
+        } else if (c == '"') {
+            in_string = 1;
+        } else if (c == '(' || c == '[' || c == '{') {
+            open++;
+        } else if ((c == ')' || c == ']' || c == '}') && open > 0) {
+            open--;
+        }
+    }
+    return open;
+}
+
 int source_find_bare_cr(const source *s, srcloc *at)
 {
     const char *p = s->len ? memchr(s->text, '\r', s->len) : NULL;

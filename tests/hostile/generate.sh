@@ -68,5 +68,5 @@ printf 'print "ab\000cd"\n' > file_nul_in_string.pk
 printf 'print 1\r\nprint 2 +\r\n' > file_crlf_end_of_line.pk
 
 # A bare carriage return (not part of \r\n) between two statements on one
-# line: an error at its place, before anything runs (it used to join the lines).
+# line: an error at its place, after the lines before it ran (it used to join them).
 printf 'print 1\nprint 2\rprint 3\n' > file_bare_cr.pk
