@@ -15,6 +15,7 @@
 #include "interp.h"
 #include "strbuf.h"
 #include "util.h"
+#include "reduction_cost.h"
 
 /* Reports an unstable or oversized space; returns 1 when (g, n) is usable. */
 static int integrate_space_ok(interp *I, const node *where, slong g, slong n)
@@ -44,26 +45,6 @@ static double integrate_table_estimate(slong g, slong n, slong points, double te
     return bound < by_terms ? bound : by_terms;
 }
 
-/* Predicted seconds of the reduction route: about 3 microseconds per table entry (DVV steps on
-   numbers that grow with the genus; measured 1-2.5 us for g = 10..12 with 1.5e5..2.9e6 entries)
-   and 1 microsecond per correlator term of the pushforward sum. */
-static double integrate_seconds_estimate(double entries, double terms)
-{
-    return 3e-6 * entries + 1e-6 * terms;
-}
-
-/* Refuses, before any work, a reduction predicted to run longer than --max-seconds. */
-static int integrate_seconds_ok(interp *I, const node *where, double entries, double terms)
-{
-    double sec = integrate_seconds_estimate(entries, terms);
-    if (sec <= I->lim.max_seconds)
-        return 1;
-    diag_error(&where->loc, "this computation needs about %.3g s (%.3g correlator table entries, %.3g reduction "
-                            "terms), above the limit of %g s (raise it with --max-seconds S)",
-               sec, entries, terms, I->lim.max_seconds);
-    return 0;
-}
-
 static int integrate_table_ok_est(interp *I, const node *where, slong g, slong n, double est)
 {
     if (est <= I->lim.max_table)
@@ -78,7 +59,7 @@ static int integrate_table_ok_est(interp *I, const node *where, slong g, slong n
 static int integrate_table_ok(interp *I, const node *where, slong g, slong n)
 {
     double est = wk_estimate_entries(g, n);
-    return integrate_table_ok_est(I, where, g, n, est) && integrate_seconds_ok(I, where, est, 0);
+    return integrate_table_ok_est(I, where, g, n, est) && reduction_seconds_ok(I, where, est, 0);
 }
 
 /* Returned by the integration callbacks when a stop was requested. */
@@ -249,7 +230,7 @@ static int integrate_cost_ok(interp *I, const node *where, const cpoly *P)
     }
     double entries = integrate_table_estimate(P->g, P->n, e.points, e.terms);
     return integrate_table_ok_est(I, where, P->g, e.points, entries)
-           && integrate_seconds_ok(I, where, entries, e.terms);
+           && reduction_seconds_ok(I, where, entries, e.terms);
 }
 
 /* Memoised integral of one monomial; psi is sorted so that symmetric
@@ -420,7 +401,7 @@ static value *integrate_verify(interp *I, const node *where, slong g, slong n, c
     double terms = pf_estimate_terms(kmult, 1);
     double entries = integrate_table_estimate(g, n, n + D, terms);
     if (terms > I->lim.max_terms || entries > I->lim.max_table
-        || integrate_seconds_estimate(entries, terms) > I->lim.max_seconds)
+        || reduction_seconds(entries, terms) > I->lim.max_seconds)
         return fast;   /* the reference route is out of reach: nothing to compare */
     return integrate_compare_routes(I, where, integrate_by_reduction(I, where, g, n, integrand), fast);
 }
