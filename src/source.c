@@ -63,6 +63,16 @@ static char *source_check_kind(const struct stat *st, int regular_only)
     return NULL;
 }
 
+/* Why a file cannot be opened, in words for the common cases (caller frees). */
+static char *source_open_error(int err)
+{
+    if (err == ELOOP)
+        return xstrdup("it is a loop of symbolic links");
+    if (err == EACCES)
+        return xstrdup("it is not readable (permission denied)");
+    return xstrdup(strerror(err));
+}
+
 /* Opens path for reading after checking what it is (before opening, since
    opening a pipe or some devices blocks); NULL with *why set otherwise.
    *size is the length of a regular file, else 0. */
@@ -71,18 +81,18 @@ static FILE *source_open(const char *path, int regular_only, size_t *size, char 
     struct stat st;
     *size = 0;
     if (stat(path, &st) != 0) {
-        *why = xstrdup(strerror(errno));
+        *why = source_open_error(errno);
         return NULL;
     }
     if ((*why = source_check_kind(&st, regular_only)))
         return NULL;
     FILE *f = fopen(path, "rb");
     if (!f)
-        *why = xstrdup(strerror(errno));
+        *why = source_open_error(errno);
     /* checked again on the open file: the name may now stand for another */
     else if (fstat(fileno(f), &st) != 0 || (*why = source_check_kind(&st, regular_only))) {
         if (!*why)
-            *why = xstrdup(strerror(errno));
+            *why = source_open_error(errno);
         fclose(f);
         return NULL;
     } else if (S_ISREG(st.st_mode))
