@@ -16,6 +16,14 @@ void deadline_start(double seconds)
     deadline_end = seconds > 0 ? deadline_now() + seconds : 0;
 }
 
+double deadline_left(void)
+{
+    if (deadline_end <= 0)
+        return -1;
+    double left = deadline_end - deadline_now();
+    return left > 0 ? left : 0;
+}
+
 int deadline_cap_ms(int cap_ms)
 {
     if (deadline_end <= 0)

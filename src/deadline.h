@@ -7,6 +7,9 @@
 /* Records that the run ends `seconds` from now (0 or less: no deadline). */
 void deadline_start(double seconds);
 
+/* Seconds left before the deadline (0 once it has passed), or -1 without one. */
+double deadline_left(void);
+
 /* cap_ms, or the milliseconds left before the deadline when fewer (0 once
    it has passed). */
 int deadline_cap_ms(int cap_ms);
