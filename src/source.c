@@ -248,6 +248,10 @@ void source_print_caret(FILE *out, const srcloc *loc)
     size_t len = source_line(loc->src, loc->first_line, &line);
     size_t from, to;
     caret_window(len, loc->first_column, &from, &to);
+    while (from > 0 && ((unsigned char)line[from] & 0xC0) == 0x80)
+        from--;   /* the window holds whole UTF-8 characters */
+    while (to < len && ((unsigned char)line[to] & 0xC0) == 0x80)
+        to++;
     fprintf(out, "%5d | %s", loc->first_line, from > 0 ? "..." : "");
     print_visible(out, line + from, to - from);
     fprintf(out, "%s\n      | %s", to < len ? "..." : "", from > 0 ? "   " : "");
