@@ -3,6 +3,7 @@
 #include <string.h>
 
 #include "cancel.h"
+#include "classes/cpoly.h"
 #include "correlators/wk_kdv.h"
 #include "diag.h"
 #include "interp.h"
@@ -17,6 +18,7 @@ void interp_init(interp *I)
     I->globals = scope_new(NULL);
     I->wk = wk_table_new();
     wk_table_set_cancel(I->wk, &cancel_flag);
+    cpoly_set_cancel(&cancel_flag);
     wk_table_set_limit(I->wk, (slong)I->lim.max_table);
     keymap_init(&I->integrals);
     I->lim.max_terms = 2e7;

@@ -170,8 +170,10 @@ static int integrate_expand(cpoly *P, const node *where, const value *integrand)
         diag_error(&at->loc, "exp() of a class with a nonzero degree-0 part has no exact value here; "
                              "take the constant factor out");
     else if (rc == CPOLY_TOO_DEEP)
-        diag_error(&where->loc, "this class expression is nested too deeply to expand (build it with fewer "
-                                "nested sums, e.g. sum[i = a..b] inside one integral)");
+        diag_error(&where->loc, "this class expression is nested too deeply to expand (it was built by very "
+                                "deep recursion: build it in smaller steps)");
+    else if (rc == CPOLY_CANCELLED)
+        eval_cancelled(where);
     else if (rc == CPOLY_TOO_BIG)
         diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "
                              "(raise the limit with --max-terms N)",

@@ -279,6 +279,13 @@ static int cpoly_expand_exp(cpoly *P, const cx *e, const cx **bad)
     return rc;
 }
 
+static volatile sig_atomic_t *cpoly_cancel;
+
+void cpoly_set_cancel(volatile sig_atomic_t *flag)
+{
+    cpoly_cancel = flag;
+}
+
 /* A chain of sums or products, operand by operand in a loop: sum[] and prod[]
    build chains far longer than the C stack could recurse through. */
 static int cpoly_expand_binary(cpoly *P, const cx *e, const cx **bad)
@@ -287,6 +294,10 @@ static int cpoly_expand_binary(cpoly *P, const cx *e, const cx **bad)
     slong n = cx_chain(e, e->kind, &ops);
     int rc = cpoly_expand_rec(P, ops[0], bad);
     for (slong i = 1; i < n && rc == CPOLY_OK; i++) {
+        if ((i & 255) == 0 && cpoly_cancel && *cpoly_cancel) {   /* chains of 10^6 take seconds */
+            rc = CPOLY_CANCELLED;
+            break;
+        }
         cpoly B, T;
         cpoly_init(&B, P->g, P->n, P->max_terms, P->ctx);
         cpoly_init(&T, P->g, P->n, P->max_terms, P->ctx);
