@@ -10,6 +10,7 @@
 #include "cancel.h"
 #include "deadline.h"
 #include "diag.h"
+#include "scalar.h"
 #include "series_ops.h"
 #include "util.h"
 
@@ -56,8 +57,9 @@ static slong series_valuation(const fmpq_mpoly_t p, slong var, int *no_constant,
 }
 
 /* Reads the shape of s's polynomial (one pass over its terms). */
-static void series_shape_read(series_shape_info *info, const tseries *s, const fmpq_mpoly_ctx_t ctx)
+static void series_shape_read(series_shape_info *info, const tseries *s, const scalar_ring *R)
 {
+    const fmpq_mpoly_ctx_struct *ctx = R->ctx;
     const fmpq_mpoly_struct *p = s->p;
     slong nv = fmpq_mpoly_ctx_nvars(ctx);
     info->height = series_log2_size(fmpq_numref(p->content)) + series_log2_size(fmpq_denref(p->content));
@@ -67,15 +69,16 @@ static void series_shape_read(series_shape_info *info, const tseries *s, const f
     info->valuation = series_valuation(p, s->var, &info->no_constant, &info->top, ctx);
     if (fmpq_mpoly_is_zero(p, ctx))
         return;
-    slong *deg = xmalloc((size_t)nv * sizeof(slong));
-    fmpq_mpoly_degrees_si(deg, p, ctx);
+    slong deg[SCALAR_MAX_VARS];
+    if (nv > SCALAR_MAX_VARS)
+        return;
+    fmpq_mpoly_degrees_si(deg, p, R->ctx);
     for (slong i = 0; i < nv; i++) {
         if (i == s->var || deg[i] <= 0)
             continue;
         info->degree += (double)deg[i];
         info->nvars += 1;
     }
-    free(deg);
 }
 
 /* Bits a factor adds to coefficient n of the result beyond the operands'
@@ -128,9 +131,9 @@ int series_size_ok(interp *I, const node *at, const char *what, int kind, const 
                    slong order, double exponent)
 {
     series_shape_info x, y;
-    series_shape_read(&x, a, I->ring.ctx);
+    series_shape_read(&x, a, &I->ring);
     if (b) {   /* two operands: the taller and wider of the two, heights adding up in products */
-        series_shape_read(&y, b, I->ring.ctx);
+        series_shape_read(&y, b, &I->ring);
         x.height = kind == SERIES_COST_PRODUCT ? x.height + y.height : fmax(x.height, y.height);
         x.degree = kind == SERIES_COST_PRODUCT ? x.degree + y.degree : fmax(x.degree, y.degree);
         x.nvars = fmax(x.nvars, y.nvars);
