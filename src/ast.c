@@ -130,6 +130,10 @@ void ast_dump(FILE *out, const node *n, int depth)
 {
     if (!n)
         return;
+    if (util_stack_exhausted()) {
+        fprintf(out, "%*s... (nested too deeply to show)\n", 2 * depth, "");
+        return;
+    }
     fprintf(out, "%*s%s", 2 * depth, "", ast_kind_name(n->kind));
     if (n->kind == N_BINOP || n->kind == N_COMPARE)
         fprintf(out, " %s", ast_op_name(n));

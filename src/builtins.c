@@ -37,6 +37,8 @@ static value *builtin_exp(interp *I, const node *call, value **args)
     if (args[0]->kind == V_CLASS)
         return value_new_class(cx_exp(value_to_class(args[0]), call), &I->ring);
     if (args[0]->kind == V_SERIES) {
+        if (!series_size_ok(I, call, "this exp", SERIES_COST_EXP, args[0]->ser, NULL, args[0]->ser->order, 0))
+            return NULL;
         value *r = value_new_series(args[0]->ser->var, args[0]->ser->order, &I->ring);
         int rc = tseries_exp(r->ser, args[0]->ser, I->ring.ctx);
         if (rc == TS_OK)

@@ -137,7 +137,8 @@ static value *bs_compose(interp *I, const node *call, value **args)
     tseries g;
     tseries_init(&g, f->var, f->order, I->ring.ctx);
     value *r = NULL;
-    if (series_from_value(I, &g, args[1], call->list->items[1])) {
+    if (series_from_value(I, &g, args[1], call->list->items[1])
+        && series_size_ok(I, call, "this compose", SERIES_COST_COMPOSE, f, &g, f->order, 0)) {
         r = value_new_series(f->var, f->order, &I->ring);
         r = series_done(r, tseries_compose(r->ser, f, &g, I->ring.ctx), call, "compose");
     }
@@ -150,6 +151,9 @@ static value *bs_unary(interp *I, const node *call, value **args, int which)
     if (!series_arg(I, call, args, 0))
         return NULL;
     const tseries *f = args[0]->ser;
+    if (!series_size_ok(I, call, which == 0 ? "this revert" : "this log",
+                        which == 0 ? SERIES_COST_COMPOSE : SERIES_COST_LOG, f, NULL, f->order, 0))
+        return NULL;
     value *r = value_new_series(f->var, f->order, &I->ring);
     int rc = which == 0 ? tseries_revert(r->ser, f, I->ring.ctx) : tseries_log(r->ser, f, I->ring.ctx);
     return series_done(r, rc, call, which == 0 ? "revert" : "log");

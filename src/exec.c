@@ -4,6 +4,7 @@
 #include <unistd.h>
 
 #include "cancel.h"
+#include "classes/cpoly.h"
 #include "correlators/wk_kdv.h"
 #include "theta_lang.h"
 #include "diag.h"
@@ -25,6 +26,7 @@ void interp_init(interp *I)
     /* after the defaults, so that the table gets the default limit */
     I->wk = wk_table_new();
     wk_table_set_cancel(I->wk, &cancel_flag);
+    cpoly_set_cancel(&cancel_flag);
     wk_table_set_limit(I->wk, (slong)I->lim.max_table);
     I->lim.max_class_terms = 2000000;
     I->lim.max_dim = 2000;
@@ -85,16 +87,26 @@ static int exec_print_value(interp *I, const node *at, value *v, const char *sep
     return s != NULL;
 }
 
+/* What follows a printed value: in CSV the values of one print are the
+   fields of one record (RFC 4180: comma-separated, ended by CRLF, as the
+   grids of table are); elsewhere a space, and a newline at the end. */
+static const char *exec_print_sep(const interp *I, int last)
+{
+    if (I->style.fmt == OUT_CSV)
+        return last ? "\r\n" : ",";
+    return last ? "\n" : " ";
+}
+
 static int exec_print(interp *I, scope *s, const node *n)
 {
     for (int i = 0; i < n->list->len; i++) {
         value *v = eval_expr(I, s, n->list->items[i]);
         if (!v) {
             if (i > 0)
-                fputc('\n', I->out);
+                fputs(exec_print_sep(I, 1), I->out);
             return 0;
         }
-        if (!exec_print_value(I, n->list->items[i], v, i + 1 < n->list->len ? " " : "\n"))
+        if (!exec_print_value(I, n->list->items[i], v, exec_print_sep(I, i + 1 == n->list->len)))
             return 0;
     }
     return 1;
@@ -202,7 +214,7 @@ static int exec_explain(interp *I, scope *s, const node *n)
     if (!v)
         return 0;
     fputs("  = ", I->out);
-    return exec_print_value(I, e, v, "\n");
+    return exec_print_value(I, e, v, exec_print_sep(I, 1));
 }
 
 /* if C { ... } else { ... }: each block runs in its own scope, like a loop body. */
@@ -309,7 +321,7 @@ static int exec_stmt_kind(interp *I, scope *s, const node *n)
         }
         if (!(v = eval_expr(I, s, n->a)))
             return 0;
-        return exec_print_value(I, n, v, "\n");
+        return exec_print_value(I, n, v, exec_print_sep(I, 1));
     default:
         diag_error(&n->loc, "not a statement");
         return 0;
@@ -336,6 +348,10 @@ int exec_stmt(interp *I, scope *s, const node *n)
 {
     if (I->sink.err)
         return 0;   /* the output is gone: nothing more is worth computing */
+    if (util_stack_exhausted()) {   /* blocks in functions in loads ... nested very deeply */
+        diag_error(&n->loc, "statements nested too deeply for the stack (deep recursion through a block)");
+        return 0;
+    }
     const srcloc *outer = memory_set_statement(&n->loc);
     int ok = exec_stmt_kind(I, s, n);
     memory_set_statement(outer);

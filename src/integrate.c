@@ -18,6 +18,7 @@
 #include "theta_lang.h"
 #include "util.h"
 #include "verify_account.h"
+#include "reduction_cost.h"
 
 /* Reports an unstable or oversized space; returns 1 when (g, n) is usable. */
 static int integrate_space_ok(interp *I, const node *where, slong g, slong n)
@@ -60,7 +61,8 @@ static int integrate_table_ok_est(interp *I, const node *where, slong g, slong n
 
 static int integrate_table_ok(interp *I, const node *where, slong g, slong n)
 {
-    return integrate_table_ok_est(I, where, g, n, wk_estimate_entries(g, n));
+    double est = wk_estimate_entries(g, n);
+    return integrate_table_ok_est(I, where, g, n, est) && reduction_seconds_ok(I, where, est, 0);
 }
 
 /* Returned by the integration callbacks when a stop was requested. */
@@ -72,6 +74,9 @@ static void integrate_report_engine(const node *where, int rc)
         eval_cancelled(where);
     else if (rc == WK_LIMIT)
         diag_error(&where->loc, "the correlator table reached its size limit (raise it with --max-table N)");
+    else if (rc == WK_TOO_DEEP)
+        diag_error(&where->loc, "evaluation nested too deeply for the stack to compute this here "
+                                "(call it from less deeply nested code)");
     else
         diag_error(&where->loc, "the intersection engine rejected this request (code %d)", rc);
 }
@@ -179,6 +184,8 @@ static int integrate_expand(cpoly *P, const node *where, const value *integrand)
     else if (rc == CPOLY_TOO_DEEP)
         diag_error(&where->loc, "this class expression is nested too deeply to expand (build it with fewer "
                                 "nested sums, e.g. sum_{i=a..b} inside one integral)");
+    else if (rc == CPOLY_CANCELLED)
+        eval_cancelled(where);
     else if (rc == CPOLY_TOO_BIG)
         diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "
                              "(raise the limit with --max-terms N)",
@@ -700,9 +707,12 @@ typedef struct {
     fmpq_t c;
 } volume_walk;
 
-/* Visits every alpha with |alpha| <= D, adding its term to the result. */
+/* Visits every alpha with |alpha| <= D, adding its term to the result. The recursion is
+   n < SCALAR_MAX_VARS deep; the stack guard covers calls from deeply nested user code. */
 static int volume_visit(volume_walk *W, slong i, slong left)
 {
+    if (util_stack_exhausted())
+        return WK_TOO_DEEP;
     if (i == W->n) {
         int rc = volume_coeff(W->c, W->I, &W->memo, W->g, W->n, W->alpha);
         if (rc != WK_OK || fmpq_is_zero(W->c))

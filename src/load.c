@@ -32,11 +32,23 @@ static char *load_dirname(const char *path)
     return xasprintf("%.*s", (int)(slash - path), path);
 }
 
-static char *load_try(const char *dir, const char *name)
+/* The first candidate that exists but cannot be read, so that the error says
+   why instead of "cannot find" (path owned, NULL when there was none). */
+typedef struct {
+    char *path;
+    int err;
+} load_miss;
+
+static char *load_try(const char *dir, const char *name, load_miss *miss)
 {
     char *path = name[0] == '/' || strcmp(dir, ".") == 0 ? xstrdup(name) : xasprintf("%s/%s", dir, name);
     if (access(path, R_OK) == 0)
         return path;
+    if (errno != ENOENT && errno != ENOTDIR && !miss->path) {
+        miss->path = path;
+        miss->err = errno;
+        return NULL;
+    }
     free(path);
     return NULL;
 }
@@ -57,31 +69,43 @@ static char *load_exe_libdir(void)
     return lib;
 }
 
+/* Why a file that is there cannot be loaded, in words. */
+static const char *load_miss_reason(int err)
+{
+    if (err == ELOOP)
+        return "it is a loop of symbolic links";
+    if (err == EACCES)
+        return "it is not readable (permission denied)";
+    if (err == ENAMETOOLONG)
+        return "its name is too long";
+    return strerror(err);
+}
+
 /* Finds name, first beside the loading script; NULL when nowhere. */
-static char *load_resolve(interp *I, const node *n)
+static char *load_resolve(interp *I, const node *n, load_miss *miss)
 {
     char *here = load_dirname(n->loc.src ? n->loc.src->name : ".");
-    char *path = load_try(here, n->text);
+    char *path = load_try(here, n->text, miss);
     free(here);
     for (int i = 0; !path && i < I->nsearch; i++)
-        path = load_try(I->search[i], n->text);
+        path = load_try(I->search[i], n->text, miss);
     const char *env = getenv("PSIKAPPA_PATH");
     if (!path && env) {
         char *copy = xstrdup(env), *save = NULL;
         for (char *d = strtok_r(copy, ":", &save); d && !path; d = strtok_r(NULL, ":", &save))
-            path = load_try(d, n->text);
+            path = load_try(d, n->text, miss);
         free(copy);
     }
     char *installed = path ? NULL : load_exe_libdir();
     if (installed) {
-        path = load_try(installed, n->text);
+        path = load_try(installed, n->text, miss);
         free(installed);
     }
     if (!path)
-        path = load_try(PSIKAPPA_STDLIB_DIR, n->text);
+        path = load_try(PSIKAPPA_STDLIB_DIR, n->text, miss);
 #ifdef PSIKAPPA_INSTALLED_LIB_DIR
     if (!path)
-        path = load_try(PSIKAPPA_INSTALLED_LIB_DIR, n->text);
+        path = load_try(PSIKAPPA_INSTALLED_LIB_DIR, n->text, miss);
 #endif
     return path;
 }
@@ -113,12 +137,16 @@ int exec_load(interp *I, const node *n)
         diag_error(&n->loc, "load needs a file name, got an empty string");
         return 0;
     }
-    char *found = load_resolve(I, n);
-    if (!found) {
+    load_miss miss = {NULL, 0};
+    char *found = load_resolve(I, n, &miss);
+    if (!found && miss.path)
+        diag_error(&n->loc, "cannot load '%s': %s (%s)", n->text, load_miss_reason(miss.err), miss.path);
+    else if (!found)
         diag_error(&n->loc, "cannot find '%s' (looked beside this script, in --lib folders, PSIKAPPA_PATH "
                             "and the standard library)", n->text);
+    free(miss.path);
+    if (!found)
         return 0;
-    }
     char real[PATH_MAX];
     char *canon = realpath(found, real) ? xstrdup(real) : xstrdup(found);
     int ok = 1, cycle = load_index(I->loading, I->nloading, canon);

@@ -6,8 +6,10 @@
 #include <unistd.h>
 
 #include "cancel.h"
+#include "deadline.h"
 #include "interp.h"
 #include "memory.h"
+#include "options.h"
 #include "repl.h"
 #include "source.h"
 #include "util.h"
@@ -46,16 +48,16 @@ static void main_usage(FILE *out)
           "                     also the small ones that otherwise use the reduction (with --verify: a\n"
           "                     comparison of the two routes)\n"
           "  --format NAME      print values as exact (default), decimal, latex, csv or json\n"
-          "  --digits N         correct significant digits of decimal output (default 20)\n"
+          "  --digits N         correct significant digits of decimal output (1 to 1000000, default 20)\n"
           "  --lib DIR          add DIR to the folders searched by load \"file.pk\"\n"
           "  --max-terms N      refuse integrals reducing to more than N correlator terms (default 2e7)\n"
           "  --max-table N      refuse computations needing more than N memo entries, and lists of\n"
           "                     more than N values (default 3e7)\n"
-          "  --max-depth N      limit nesting of user-function calls (default 2000)\n"
+          "  --max-depth N      limit nesting of user-function calls (1 to 1000000, default 2000)\n"
           "  --max-memory GIB   cap the memory of numbers at GIB gibibytes (the process may use\n"
           "                     a little more)\n"
           "  --max-seconds S    refuse requests predicted to run longer than S seconds (default 600)\n"
-          "  --time-limit S     stop after S seconds (exit status 124)\n"
+          "  --time-limit S     stop after S seconds, 0.001 to 1e8 (exit status 124)\n"
           "  -h, --help         show this help\n"
           "  --version          show the version\n"
           "\n"
@@ -64,65 +66,56 @@ static void main_usage(FILE *out)
           out);
 }
 
-static int main_number(const char *opt, const char *arg, double *out)
-{
-    char *end;
-    errno = 0;
-    double v = arg ? strtod(arg, &end) : 0;
-    if (!arg || errno || *end || !(v > 0)) {
-        fprintf(stderr, "psikappa: %s needs a positive number\n", opt);
-        return 0;
-    }
-    *out = v;
-    return 1;
-}
-
 typedef struct {
     double time_limit;
     int ran;       /* a script, -e, --help or --version was given */
 } main_state;
 
-/* Applies an option taking a value; returns 0 on a bad value. */
-static int main_valued_option(interp *I, main_state *M, const char *opt, const char *arg)
+/* Applies --format, --store or --lib; returns 0 after refusing a bad value. */
+static int main_text_option(interp *I, const char *opt, const char *arg)
 {
-    double v;
     if (strcmp(opt, "--format") == 0) {
         if (arg && out_format_parse(&I->style.fmt, arg))
             return 1;
-        fprintf(stderr, "psikappa: --format takes exact, decimal, latex, csv or json\n");
+        options_refuse(stderr, opt, "one of exact, decimal, latex, csv, json", arg);
+        return 0;
+    }
+    if (!arg || !*arg || arg[0] == '-') {   /* "--lib -e CODE": the folder is missing */
+        options_refuse(stderr, opt, strcmp(opt, "--store") == 0 ? "a file name" : "a folder", arg);
         return 0;
     }
     if (strcmp(opt, "--store") == 0) {
-        if (!arg) {
-            fputs("psikappa: --store needs a file\n", stderr);
-            return 0;
-        }
         free(I->store_path);
         I->store_path = xstrdup(arg);
         I->store_always = getenv("PSIKAPPA_STORE_ALL") != NULL;
-        return 1;
+    } else {
+        interp_add_search_dir(I, arg);
     }
-    if (strcmp(opt, "--lib") == 0) {
-        if (!arg)
-            fputs("psikappa: --lib needs a folder\n", stderr);
-        else
-            interp_add_search_dir(I, arg);
-        return arg != NULL;
-    }
-    if (!main_number(opt, arg, &v))
+    return 1;
+}
+
+/* Applies an option taking a value; returns 0 after refusing a bad value
+   (out of range values are refused with the range, never capped). */
+static int main_valued_option(interp *I, main_state *M, const char *opt, const char *arg)
+{
+    const option_range *r = options_find_range(opt);
+    double v;
+    if (!r)
+        return main_text_option(I, opt, arg);
+    if (!options_parse_number(r, arg, &v, stderr))
         return 0;
     if (strcmp(opt, "--max-terms") == 0) {
         I->lim.max_terms = v;
-        I->lim.max_class_terms = v > 1e15 ? (slong)1e15 : (slong)v;
+        I->lim.max_class_terms = (slong)v;
     } else if (strcmp(opt, "--max-table") == 0) {
         I->lim.max_table = v;
-        wk_table_set_limit(I->wk, v > 1e15 ? (slong)1e15 : (slong)v);
+        wk_table_set_limit(I->wk, (slong)v);
     } else if (strcmp(opt, "--max-depth") == 0) {
-        I->lim.max_depth = v > 1e6 ? 1000000 : (int)v;
+        I->lim.max_depth = (int)v;
     } else if (strcmp(opt, "--max-seconds") == 0) {
         I->lim.max_seconds = v;
     } else if (strcmp(opt, "--digits") == 0) {
-        I->style.digits = v > OUT_MAX_DIGITS ? OUT_MAX_DIGITS : (slong)v;
+        I->style.digits = (slong)v;
     } else if (strcmp(opt, "--max-memory") == 0) {
         if (!memory_set_limit(v * 1073741824.0))
             fputs("psikappa: warning: could not set the memory cap\n", stderr);
@@ -188,7 +181,7 @@ static int main_options(interp *I, main_state *M, int argc, char **argv)
             i++;
         } else if (strcmp(a, "-e") == 0) {
             if (++i >= argc) {
-                fputs("psikappa: -e needs code\n", stderr);
+                options_refuse(stderr, "-e", "code to run", NULL);
                 return EXIT_USAGE;
             }
         } else if (a[0] == '-' && a[1] != '\0') {
@@ -234,6 +227,7 @@ int main(int argc, char **argv)
     int status = main_options(&I, &M, argc, argv);
     if (status == 0) {
         cancel_install(M.time_limit);
+        deadline_start(M.time_limit);
         status = main_run(&I, &M, argc, argv);
         if (status != 0 && cancel_flag)
             status = cancel_exit_status();

@@ -39,6 +39,44 @@
    blocks allocated before the hooks were installed may be freed through them. */
 static atomic_llong memory_live;
 static long long memory_cap;               /* 0: no cap (--max-memory) */
+
+/* PSIKAPPA_FAIL_ALLOC=k: the k-th allocation through the hooks (GMP, FLINT
+   and the front end's xmalloc) fails, to test that running out of memory
+   anywhere ends with a clean message; k = 0 only counts them and prints the
+   count at exit. memory_inject_on is 0 when the variable is not set. */
+static int memory_inject_on;
+static long long memory_fail_at;
+static atomic_llong memory_allocations;
+
+/* Counts one allocation; 1 when it is the one that must fail. */
+static int memory_inject(void)
+{
+    if (!memory_inject_on)
+        return 0;
+    return atomic_fetch_add(&memory_allocations, 1) + 1 == memory_fail_at;
+}
+
+static void memory_report_count(void)
+{
+    fprintf(stderr, "psikappa: %lld allocations\n", (long long)atomic_load(&memory_allocations));
+}
+
+/* Reads PSIKAPPA_FAIL_ALLOC (a whole number >= 0); anything else leaves it off. */
+static void memory_read_injection(void)
+{
+    const char *s = getenv("PSIKAPPA_FAIL_ALLOC");
+    char *end;
+    if (!s || !*s)
+        return;
+    long long k = strtoll(s, &end, 10);
+    if (*end || k < 0)
+        return;
+    memory_inject_on = 1;
+    memory_fail_at = k;
+    util_set_failure_injection(memory_inject);
+    if (k == 0)
+        atexit(memory_report_count);
+}
 static const srcloc *memory_where;         /* statement being run, NULL between statements */
 
 const srcloc *memory_set_statement(const srcloc *loc)
@@ -85,21 +123,21 @@ static void memory_check_cap(size_t n, size_t freed)
 static void *memory_alloc(size_t n)
 {
     memory_check_cap(n, 0);
-    return memory_count(malloc(n ? n : 1), n);
+    return memory_count(memory_inject() ? NULL : malloc(n ? n : 1), n);
 }
 
 static void *memory_calloc(size_t n, size_t size)
 {
     size_t total = n && size && n > (size_t)-1 / size ? (size_t)-1 : n * size;
     memory_check_cap(total, 0);
-    return memory_count(calloc(n ? n : 1, size ? size : 1), total);
+    return memory_count(memory_inject() ? NULL : calloc(n ? n : 1, size ? size : 1), total);
 }
 
 static void *memory_realloc(void *p, size_t n)
 {
     size_t old = p ? malloc_usable_size(p) : 0;
     memory_check_cap(n, old);
-    void *q = realloc(p, n ? n : 1);
+    void *q = memory_inject() ? NULL : realloc(p, n ? n : 1);
     if (q)
         atomic_fetch_sub_explicit(&memory_live, (long long)old, memory_order_relaxed);
     return memory_count(q, n);
@@ -129,6 +167,7 @@ void memory_install_hooks(void)
     mp_set_memory_functions(memory_alloc, memory_gmp_realloc, memory_gmp_free);
     __flint_set_memory_functions(memory_alloc, memory_calloc, memory_realloc, memory_free);
     util_set_out_of_memory_handler(memory_exhausted);   /* the front end's own allocations too */
+    memory_read_injection();
 }
 
 int memory_set_limit(double bytes)

@@ -9,7 +9,9 @@
 
 #include "source.h"
 
-/* Routes GMP's and FLINT's allocations through checked functions (call once, first). */
+/* Routes GMP's and FLINT's allocations through checked functions (call once, first).
+   For tests, PSIKAPPA_FAIL_ALLOC=k makes the k-th allocation through these hooks or the
+   front end's xmalloc fail as if memory ran out (k = 0: count them, print the count at exit). */
 void memory_install_hooks(void);
 
 /* Caps the bytes that GMP and FLINT may hold at `bytes` (0: no cap), and the

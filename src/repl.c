@@ -7,6 +7,7 @@
 #include <string.h>
 #include <sys/select.h>
 #include <sys/stat.h>
+#include <termios.h>
 #include <unistd.h>
 #include <wchar.h>
 
@@ -34,6 +35,10 @@ typedef struct repl_session {
     const char *prompt;        /* current prompt text (static storage) */
     char history_path[1024];   /* "" when there is no place for history */
     strbuf pending;            /* lines of an unfinished chunk */
+    long open;                 /* brackets ( [ { of pending still open */
+    struct termios old_tty;    /* terminal modes before the session */
+    int have_tty;              /* old_tty is valid and must be restored */
+    int history_dirty;         /* lines added since the history file was written */
     struct sigaction old_int;  /* restored when the session ends */
     sigset_t old_mask;         /* signal mask before the session */
     char *old_ctype;           /* LC_CTYPE before the session, owned */
@@ -188,6 +193,30 @@ static char *repl_prompt(EditLine *el)
     return (char *)(rs ? rs->prompt : REPL_PROMPT);
 }
 
+/* Largest history file that is read: 1000 lines of ordinary input fit many
+   times over; anything larger is not a history this program wrote. */
+#define REPL_HISTORY_MAX_BYTES (4u << 20)
+
+/* 1 when path is missing (created on the first save) or a regular file of at
+   most REPL_HISTORY_MAX_BYTES; otherwise warns and clears path, so that the
+   session neither reads (a device could be endless) nor writes it. */
+static int repl_history_usable(char *path)
+{
+    struct stat st;
+    const char *why = NULL;
+    if (stat(path, &st) != 0)
+        return 0;   /* missing: nothing to load, saved later */
+    if (!S_ISREG(st.st_mode))
+        why = "it is not a regular file";
+    else if ((unsigned long long)st.st_size > REPL_HISTORY_MAX_BYTES)
+        why = "it is larger than 4 MiB";
+    if (!why)
+        return 1;
+    fprintf(stderr, "psikappa: warning: not using the history file %s: %s\n", path, why);
+    path[0] = '\0';
+    return 0;
+}
+
 /* Loads the history file if there is one (a missing file is normal). */
 static void repl_history_open(repl_session *rs)
 {
@@ -197,8 +226,25 @@ static void repl_history_open(repl_session *rs)
     history(rs->hist, &ev, H_SETUNIQUE, 1);
     if (!repl_history_path(rs->history_path, sizeof rs->history_path))
         rs->history_path[0] = '\0';
-    if (rs->history_path[0])
+    if (rs->history_path[0] && repl_history_usable(rs->history_path))
         history(rs->hist, &ev, H_LOAD, rs->history_path);
+}
+
+/* Keeps type-ahead when Ctrl-C stops a computation (on = 1, before it runs):
+   by default the terminal driver discards its input queue on an interrupt,
+   which would drop the lines typed while the computation ran. The flag is
+   set around each computation only, since line editing resets the modes
+   when it reads a line; on = 0 puts the flag back as it was. */
+static void repl_keep_typeahead(repl_session *rs, int on)
+{
+    struct termios t;
+    if (!rs->have_tty || tcgetattr(STDIN_FILENO, &t) != 0)
+        return;
+    if (on)
+        t.c_lflag |= NOFLSH;
+    else
+        t.c_lflag = (t.c_lflag & ~(tcflag_t)NOFLSH) | (rs->old_tty.c_lflag & NOFLSH);
+    tcsetattr(STDIN_FILENO, TCSANOW, &t);
 }
 
 /* Sets up line editing, history and signals. The session owns el and hist;
@@ -213,6 +259,7 @@ static void repl_session_init(repl_session *rs, interp *I)
     const char *ct = setlocale(LC_CTYPE, NULL);
     rs->old_ctype = xstrdup(ct ? ct : "C");
     setlocale(LC_CTYPE, "");
+    rs->have_tty = tcgetattr(STDIN_FILENO, &rs->old_tty) == 0;
     repl_history_open(rs);
     rs->el = el_init("psikappa", stdin, stdout, stderr);
     el_set(rs->el, EL_CLIENTDATA, rs);
@@ -231,26 +278,52 @@ static void repl_session_init(repl_session *rs, interp *I)
     repl_mask_sigint(SIG_BLOCK);
 }
 
+static void repl_history_save(repl_session *rs);
+
 /* Restores the terminal, signals and locale; frees everything. */
 static void repl_session_clear(repl_session *rs)
 {
+    repl_history_save(rs);
     sigprocmask(SIG_SETMASK, &rs->old_mask, NULL);
     sigaction(SIGINT, &rs->old_int, NULL);
     el_end(rs->el);
+    if (rs->have_tty)
+        tcsetattr(STDIN_FILENO, TCSANOW, &rs->old_tty);
     history_end(rs->hist);
     strbuf_clear(&rs->pending);
     setlocale(LC_CTYPE, rs->old_ctype);
     free(rs->old_ctype);
 }
 
-/* Appends one line to the history and saves the file at once, so that a
-   crash or a double Ctrl-C loses nothing. */
+/* 1 when more typed or pasted input is already waiting to be read. */
+static int repl_input_waiting(void)
+{
+    fd_set rd;
+    struct timeval now = {0, 0};
+    FD_ZERO(&rd);
+    FD_SET(STDIN_FILENO, &rd);
+    return select(STDIN_FILENO + 1, &rd, NULL, NULL, &now) > 0;
+}
+
+/* Writes the history file if lines were added since it was last written. */
+static void repl_history_save(repl_session *rs)
+{
+    HistEvent ev;
+    if (rs->history_dirty && rs->history_path[0] && repl_make_parents(rs->history_path))
+        history(rs->hist, &ev, H_SAVE, rs->history_path);
+    rs->history_dirty = 0;
+}
+
+/* Appends one line to the history and saves the file as soon as no more
+   input is waiting, so that a crash or a double Ctrl-C loses nothing typed
+   by hand, while a long paste does not rewrite the file once per line. */
 static void repl_history_add(repl_session *rs, const char *line)
 {
     HistEvent ev;
     history(rs->hist, &ev, H_ENTER, line);
-    if (rs->history_path[0] && repl_make_parents(rs->history_path))
-        history(rs->hist, &ev, H_SAVE, rs->history_path);
+    rs->history_dirty = 1;
+    if (!repl_input_waiting())
+        repl_history_save(rs);
 }
 
 /* Reads one line without its newline into *line (a new string).
@@ -274,27 +347,6 @@ static int repl_read_line(repl_session *rs, char **line)
     memcpy(*line, s, n);
     (*line)[n] = '\0';
     return 1;
-}
-
-/* True when the text ends inside an open bracket or block. The probe's
-   syntax messages are discarded: the real run reports them. */
-static int repl_is_incomplete(const char *text, size_t len)
-{
-    char *msgs = NULL;
-    size_t mlen = 0;
-    FILE *sink = open_memstream(&msgs, &mlen);
-    source *src = source_new("<input>", text, len);
-    node_list *program = NULL;
-    int incomplete = 0;
-    diag_set_stream(sink ? sink : stderr);
-    parse_source_ex(src, &program, &incomplete);
-    diag_set_stream(NULL);
-    if (sink)
-        fclose(sink);
-    free(msgs);
-    ast_list_free(program);
-    source_free(src);
-    return incomplete;
 }
 
 /* True for a line that is only the word help or :help (spaces allowed). */
@@ -322,9 +374,13 @@ static void repl_run_pending(repl_session *rs)
     interp_interrupted = 0;
     if (cancel_flag == CANCEL_INTERRUPT)
         cancel_reset();
+    if (!repl_input_waiting())
+        repl_history_save(rs);
+    repl_keep_typeahead(rs, 1);
     repl_mask_sigint(SIG_UNBLOCK);
     interp_run_source(rs->I, source_new("<input>", rs->pending.data, rs->pending.len));
     fflush(stdout);
+    repl_keep_typeahead(rs, 0);
     repl_mask_sigint(SIG_BLOCK);
     repl_busy = 0;
     interp_interrupted = 0;
@@ -333,6 +389,7 @@ static void repl_run_pending(repl_session *rs)
         cancel_reset();
     strbuf_clear(&rs->pending);
     strbuf_init(&rs->pending);
+    rs->open = 0;
 }
 
 /* Handles one line: help, a continuation, or a complete chunk to run. */
@@ -348,7 +405,10 @@ static void repl_take_line(repl_session *rs, const char *line)
     repl_history_add(rs, line);
     strbuf_puts(&rs->pending, line);
     strbuf_putc(&rs->pending, '\n');
-    if (repl_is_incomplete(rs->pending.data, rs->pending.len)) {
+    /* one pass per line, so a pasted block costs linear time; the chunk is
+       parsed once, when every bracket is closed */
+    rs->open = source_open_brackets(line, strlen(line), rs->open);
+    if (rs->open > 0) {
         rs->prompt = REPL_PROMPT_MORE;
         return;
     }
@@ -363,6 +423,7 @@ static void repl_cancel(repl_session *rs)
     fflush(stdout);
     strbuf_clear(&rs->pending);
     strbuf_init(&rs->pending);
+    rs->open = 0;
     rs->prompt = REPL_PROMPT;
 }
 

@@ -8,6 +8,7 @@
 #include <string.h>
 #include <time.h>
 
+#include "cancel.h"
 #include "diag.h"
 #include "engine_version.h"
 #include "format/print.h"
@@ -92,6 +93,8 @@ void results_question_clear(results_question *q)
 
 int results_lookup(interp *I, const results_question *q, fmpq_mpoly_t out)
 {
+    if (cancel_flag)   /* the time is up: no wait on the store's lock either */
+        return 0;
     store *S = results_open(I);
     char *answer = NULL;
     int hit = S && store_get(S, q->key, &answer) == 1;
@@ -103,7 +106,7 @@ int results_lookup(interp *I, const results_question *q, fmpq_mpoly_t out)
 
 void results_save(interp *I, const results_question *q, const fmpq_mpoly_t value, double seconds)
 {
-    if (seconds < RESULTS_MIN_SECONDS && !I->store_always)
+    if ((seconds < RESULTS_MIN_SECONDS && !I->store_always) || cancel_flag)
         return;
     store *S = results_open(I);
     if (!S)

@@ -72,7 +72,10 @@ value *series_arith(interp *I, const node *n, int op, const value *a, const valu
     tseries_init(&x, shape->var, shape->order, I->ring.ctx);
     tseries_init(&y, shape->var, shape->order, I->ring.ctx);
     value *r = NULL;
-    if (series_from_value(I, &x, a, n->a ? n->a : n) && series_from_value(I, &y, b, n->b ? n->b : n)) {
+    if (series_from_value(I, &x, a, n->a ? n->a : n) && series_from_value(I, &y, b, n->b ? n->b : n)
+        && (op == '+' || op == '-'
+            || series_size_ok(I, n, op == '*' ? "this product" : "this division",
+                              op == '*' ? SERIES_COST_PRODUCT : SERIES_COST_QUOTIENT, &x, &y, shape->order, 0))) {
         r = value_new_series(shape->var, shape->order, &I->ring);
         int rc = op == '+' ? tseries_add(r->ser, &x, &y, I->ring.ctx)
                : op == '-' ? tseries_sub(r->ser, &x, &y, I->ring.ctx)
@@ -91,6 +94,8 @@ value *series_arith(interp *I, const node *n, int op, const value *a, const valu
 
 value *series_pow(interp *I, const node *n, const value *a, slong e)
 {
+    if (!series_size_ok(I, n, "this power", SERIES_COST_POWER, a->ser, NULL, a->ser->order, (double)e))
+        return NULL;
     value *r = value_new_series(a->ser->var, a->ser->order, &I->ring);
     int rc = tseries_pow_si(r->ser, a->ser, e, I->ring.ctx);
     if (rc == TS_OK)

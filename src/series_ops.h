@@ -16,4 +16,14 @@ int series_from_value(interp *I, tseries *out, const value *v, const node *at);
 value *series_arith(interp *I, const node *n, int op, const value *a, const value *b);
 value *series_pow(interp *I, const node *n, const value *a, slong e);
 
+/* How the coefficients of a result grow with the order (see series_size.c). */
+enum { SERIES_COST_PRODUCT, SERIES_COST_QUOTIENT, SERIES_COST_POWER, SERIES_COST_EXP, SERIES_COST_LOG,
+       SERIES_COST_COMPOSE };
+
+/* Estimates the result of `what` (e.g. "this exp") on a (and b, or NULL) to
+   `order`, |exponent| for powers (else 0); returns 1 when it is within the
+   size limit and --max-seconds, else reports at `at` and returns 0. */
+int series_size_ok(interp *I, const node *at, const char *what, int kind, const tseries *a, const tseries *b,
+                   slong order, double exponent);
+
 #endif

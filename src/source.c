@@ -63,6 +63,16 @@ static char *source_check_kind(const struct stat *st, int regular_only)
     return NULL;
 }
 
+/* Why a file cannot be opened, in words for the common cases (caller frees). */
+static char *source_open_error(int err)
+{
+    if (err == ELOOP)
+        return xstrdup("it is a loop of symbolic links");
+    if (err == EACCES)
+        return xstrdup("it is not readable (permission denied)");
+    return xstrdup(strerror(err));
+}
+
 /* Opens path for reading after checking what it is (before opening, since
    opening a pipe or some devices blocks); NULL with *why set otherwise.
    *size is the length of a regular file, else 0. */
@@ -71,18 +81,18 @@ static FILE *source_open(const char *path, int regular_only, size_t *size, char 
     struct stat st;
     *size = 0;
     if (stat(path, &st) != 0) {
-        *why = xstrdup(strerror(errno));
+        *why = source_open_error(errno);
         return NULL;
     }
     if ((*why = source_check_kind(&st, regular_only)))
         return NULL;
     FILE *f = fopen(path, "rb");
     if (!f)
-        *why = xstrdup(strerror(errno));
+        *why = source_open_error(errno);
     /* checked again on the open file: the name may now stand for another */
     else if (fstat(fileno(f), &st) != 0 || (*why = source_check_kind(&st, regular_only))) {
         if (!*why)
-            *why = xstrdup(strerror(errno));
+            *why = source_open_error(errno);
         fclose(f);
         return NULL;
     } else if (S_ISREG(st.st_mode))
@@ -141,6 +151,58 @@ source *source_read_script(const char *path, int regular_only, char **why)
     return s;
 }
 
+long source_open_brackets(const char *text, size_t len, long open)
+{
+    int in_string = 0;
+    for (size_t i = 0; i < len; i++) {
+        char c = text[i];
+        if (c == '\n') {
+            in_string = 0;   /* strings end on their line */
+        } else if (in_string) {
+            if (c == '\\' && i + 1 < len && text[i + 1] != '\n')
+                i++;
+            else if (c == '"')
+                in_string = 0;
+        } else if (c == '#') {
+            while (i + 1 < len && text[i + 1] != '\n')
+                i++;
+        } else if (c == '"') {
+            in_string = 1;
+        } else if (c == '(' || c == '[' || c == '{') {
+            open++;
+        } else if ((c == ')' || c == ']' || c == '}') && open > 0) {
+            open--;
+        }
+    }
+    return open;
+}
+
+int source_find_bare_cr(const source *s, srcloc *at)
+{
+    const char *p = s->len ? memchr(s->text, '\r', s->len) : NULL;
+    for (; p; p = memchr(p + 1, '\r', s->len - (size_t)(p + 1 - s->text))) {
+        size_t off = (size_t)(p - s->text);
+        if (off + 1 == s->len || p[1] == '\n')
+            continue;   /* \r\n, or a last line cut before its \n */
+        int line = 1;   /* the line holding off: binary search of line_starts */
+        for (int lo = 0, hi = s->nlines - 1; lo <= hi;) {
+            int mid = (lo + hi) / 2;
+            if (s->line_starts[mid] <= off) {
+                line = mid + 1;
+                lo = mid + 1;
+            } else {
+                hi = mid - 1;
+            }
+        }
+        at->src = s;
+        at->first_line = at->last_line = line;
+        at->first_column = (int)(off - s->line_starts[line - 1]) + 1;
+        at->last_column = at->first_column + 1;
+        return 1;
+    }
+    return 0;
+}
+
 size_t source_line(const source *s, int line, const char **start)
 {
     if (!s || line < 1 || line > s->nlines) {
@@ -186,16 +248,24 @@ void source_print_caret(FILE *out, const srcloc *loc)
     size_t len = source_line(loc->src, loc->first_line, &line);
     size_t from, to;
     caret_window(len, loc->first_column, &from, &to);
+    while (from > 0 && ((unsigned char)line[from] & 0xC0) == 0x80)
+        from--;   /* the window holds whole UTF-8 characters */
+    while (to < len && ((unsigned char)line[to] & 0xC0) == 0x80)
+        to++;
     fprintf(out, "%5d | %s", loc->first_line, from > 0 ? "..." : "");
     print_visible(out, line + from, to - from);
     fprintf(out, "%s\n      | %s", to < len ? "..." : "", from > 0 ? "   " : "");
     size_t c0 = loc->first_column > 0 ? (size_t)loc->first_column - 1 : 0;
     size_t c1 = loc->last_line == loc->first_line && loc->last_column > loc->first_column
                     ? (size_t)loc->last_column - 1 : c0 + 1;
+    /* columns count bytes; the caret line counts characters, so the bytes
+       that continue a UTF-8 character (10xxxxxx) take no place of their own */
     for (size_t i = from; i < c0 && i < to; i++)
-        fputc(line[i] == '\t' ? '\t' : ' ', out);
+        if (((unsigned char)line[i] & 0xC0) != 0x80)
+            fputc(line[i] == '\t' ? '\t' : ' ', out);
     fputc('^', out);
     for (size_t i = c0 + 1; i < c1 && i < to; i++)
-        fputc('~', out);
+        if (((unsigned char)line[i] & 0xC0) != 0x80)
+            fputc('~', out);
     fputc('\n', out);
 }

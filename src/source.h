@@ -36,6 +36,18 @@ void source_free(source *s);
    the reason (a clause such as "it is a folder, ...") that the caller frees. */
 source *source_read_script(const char *path, int regular_only, char **why);
 
+/* Brackets ( [ { still open after text[0..len), starting from `open`: strings
+   (which end on their line) and comments are skipped, an unmatched closing
+   bracket is left for the parser to report. One pass, so that callers that
+   feed text piece by piece (the interactive session) stay linear. */
+long source_open_brackets(const char *text, size_t len, long open);
+
+/* Finds the first carriage return that is not part of a \r\n line end (a
+   bare \r, which some old editors write as a line end and terminals show as
+   a return to the start of the line: two lines would silently become one).
+   Returns 1 and sets *at to its location, else 0. */
+int source_find_bare_cr(const source *s, srcloc *at);
+
 /* Points *start at line `line` (1-based) and returns its length without the
    newline; returns 0 with *start = "" when the line does not exist. */
 size_t source_line(const source *s, int line, const char **start);

@@ -1,4 +1,5 @@
 #include "store_file.h"
+#include "deadline.h"
 
 #include <errno.h>
 #include <fcntl.h>
@@ -364,7 +365,7 @@ static int store_file_open_checked(const char *path, int kind, sqlite3_int64 siz
         state = SF_FAILED;
     } else {
         /* several psikappa runs may share the file; wait for a writer a little */
-        sqlite3_busy_timeout(*db, 5000);
+        sqlite3_busy_timeout(*db, deadline_cap_ms(5000));   /* never past --time-limit */
         if (kind == HDR_FIRST_FORMAT) {
             rc = store_file_make_tables(*db, 0, why);
             state = rc == SQLITE_OK ? SF_OK : rc == SQLITE_MISMATCH ? SF_REFUSED

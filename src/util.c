@@ -6,8 +6,10 @@
 #include <string.h>
 #include <sys/resource.h>
 
-static char *util_stack_base;
-static size_t util_stack_budget;
+/* Per thread: a worker thread that never called util_stack_init is not
+   measured against the main thread's stack (its frames live elsewhere). */
+static _Thread_local char *util_stack_base;
+static _Thread_local size_t util_stack_budget;
 
 void util_stack_init(void *base)
 {
@@ -52,9 +54,22 @@ void util_out_of_memory(void)
     util_fail_allocation(0);
 }
 
+static int (*util_inject)(void);
+
+void util_set_failure_injection(int (*hook)(void))
+{
+    util_inject = hook;
+}
+
+/* 1 when the test hook wants this allocation to fail. */
+static int util_injected(void)
+{
+    return util_inject && util_inject();
+}
+
 void *xmalloc(size_t n)
 {
-    void *p = malloc(n ? n : 1);
+    void *p = util_injected() ? NULL : malloc(n ? n : 1);
     if (!p)
         util_fail_allocation(n);
     return p;
@@ -62,7 +77,7 @@ void *xmalloc(size_t n)
 
 void *xcalloc(size_t n, size_t size)
 {
-    void *p = calloc(n ? n : 1, size ? size : 1);
+    void *p = util_injected() ? NULL : calloc(n ? n : 1, size ? size : 1);
     if (!p)
         util_fail_allocation(n * size);
     return p;
@@ -70,7 +85,7 @@ void *xcalloc(size_t n, size_t size)
 
 void *xrealloc(void *p, size_t n)
 {
-    void *q = realloc(p, n ? n : 1);
+    void *q = util_injected() ? NULL : realloc(p, n ? n : 1);
     if (!q)
         util_fail_allocation(n);
     return q;

@@ -29,4 +29,9 @@ void util_out_of_memory(void) __attribute__((noreturn));
    one that names the statement being run; NULL restores the plain message. */
 void util_set_out_of_memory_handler(void (*handler)(size_t n));
 
+/* Test hook (PSIKAPPA_FAIL_ALLOC, see memory.h): when set, every allocation
+   of the front end first asks it, and fails as if memory ran out when it
+   returns 1. NULL removes it. */
+void util_set_failure_injection(int (*hook)(void));
+
 #endif

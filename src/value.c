@@ -82,17 +82,39 @@ value *value_ref(value *v)
     return v;
 }
 
+/* Lists whose items are left for later because the C stack was nearly full
+   (chained through items[0] of a one-slot array), and the outermost release. */
+static _Thread_local value *value_deferred;
+static _Thread_local int value_releasing, value_draining;
+
+/* Releases the lists put aside by deep releases, from a shallow stack. */
+static void value_release_deferred(void)
+{
+    value_draining = 1;
+    while (value_deferred) {
+        value *v = value_deferred;
+        value_deferred = v->len > 0 ? v->items[v->len - 1] : NULL;   /* the link, see value_release */
+        v->len--;
+        for (slong i = 0; i < v->len; i++)
+            value_release(v->items[i]);
+        free(v->items);
+        free(v);
+    }
+    value_draining = 0;
+}
+
+/* Frees v's parts; the items of a list are released recursively, and once the
+   stack is nearly full the list is put aside for the outermost call, so that
+   lists nested by deep recursion cannot exhaust the stack. */
 void value_release(value *v)
 {
     if (!v || --v->refs > 0)
         return;
+    value_releasing++;
     if (v->kind == V_NUM)
         fmpq_mpoly_clear(v->num, v->ctx);
     cx_release(v->cls);
     free(v->str);
-    for (slong i = 0; i < v->len; i++)
-        value_release(v->items[i]);
-    free(v->items);
     if (v->re) {
         arb_clear(v->re);
         free(v->re);
@@ -101,7 +123,18 @@ void value_release(value *v)
         tseries_clear(v->ser, v->ctx);
         free(v->ser);
     }
-    free(v);
+    if (v->len > 0 && util_stack_exhausted()) {
+        v->items = xrealloc(v->items, (size_t)(v->len + 1) * sizeof(value *));
+        v->items[v->len++] = value_deferred;   /* the link to the next deferred list */
+        value_deferred = v;
+    } else {
+        for (slong i = 0; i < v->len; i++)
+            value_release(v->items[i]);
+        free(v->items);
+        free(v);
+    }
+    if (--value_releasing == 0 && !value_draining && value_deferred)
+        value_release_deferred();
 }
 
 cx *value_to_class(const value *v)
@@ -113,6 +146,10 @@ cx *value_to_class(const value *v)
 
 char *value_get_str(const value *v, const scalar_ring *R)
 {
+    if (util_stack_exhausted()) {   /* lists nested by very deep recursion; out_value refuses them */
+        print_mark_too_deep();
+        return xstrdup("...");
+    }
     switch (v->kind) {
     case V_NUM:
         return v->termwise ? scalar_get_str_termwise(v->num, R) : scalar_get_str(v->num, R);

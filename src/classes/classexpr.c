@@ -98,22 +98,68 @@ cx *cx_ref(cx *e)
     return e;
 }
 
+/* Nodes whose second operand is left for later because the C stack was nearly
+   full (chained through a), and the state of the outermost release. */
+static _Thread_local cx *cx_deferred;
+static _Thread_local int cx_releasing, cx_draining;
+
+/* Releases the operands put aside by deep releases, from a shallow stack. */
+static void cx_release_deferred(void)
+{
+    cx_draining = 1;
+    while (cx_deferred) {
+        cx *p = cx_deferred, *b = p->b;
+        cx_deferred = p->a;
+        free(p);
+        cx_release(b);
+    }
+    cx_draining = 0;
+}
+
+/* Frees along a in a loop and recurses on b; once the stack is nearly full a
+   node with a b is put aside (its a is done first) and finished by the
+   outermost call, so that no nesting of the tree can exhaust the stack. */
 void cx_release(cx *e)
 {
+    cx_releasing++;
     while (e && --e->refs == 0) {
         cx *next = e->a;
+        if (e->b && util_stack_exhausted()) {
+            e->a = cx_deferred;
+            cx_deferred = e;
+            e = next;
+            continue;
+        }
         cx_release(e->b);
         if (e->kind == CX_SCALAR)
             fmpq_mpoly_clear(e->scalar, e->ctx);
         free(e);
         e = next;
     }
+    if (--cx_releasing == 0 && !cx_draining && cx_deferred)
+        cx_release_deferred();
+}
+
+slong cx_chain(const cx *e, cx_kind kind, const cx ***ops)
+{
+    slong m = 0;
+    for (const cx *x = e; x->kind == kind; x = x->a)
+        m++;
+    const cx **v = xmalloc((size_t)(m + 1) * sizeof(cx *));
+    const cx *x = e;
+    for (slong k = m; k > 0; k--, x = x->a)
+        v[k] = x->b;
+    v[0] = x;
+    *ops = v;
+    return m + 1;
 }
 
 slong cx_max_psi(const cx *e)
 {
     slong m = 0;
     for (; e; e = e->a) {
+        if (util_stack_exhausted())
+            return WORD_MAX;   /* unknown: callers then expand, which reports the depth */
         if (e->kind == CX_PSI && e->index > m)
             m = e->index;
         slong mb = cx_max_psi(e->b);
@@ -149,7 +195,7 @@ static slong cx_degree_mul(slong k, slong a)
 
 static slong cx_max_degree_at(const cx *e, int depth)
 {
-    if (depth > CX_WALK_MAX_DEPTH)
+    if (depth > CX_WALK_MAX_DEPTH || util_stack_exhausted())
         return WORD_MAX;
     slong a = e->a ? cx_max_degree_at(e->a, depth + 1) : 0, b = e->b ? cx_max_degree_at(e->b, depth + 1) : 0;
     switch (e->kind) {
@@ -217,7 +263,7 @@ int cx_match_exp_kappa1(const cx *e, fmpq_mpoly_t c, fmpq_mpoly_t factor)
    must be NULL on entry); 0 if e is not such a product. */
 static int cx_collect_term(const cx *e, fmpq_mpoly_t s, const cx **cls, int depth)
 {
-    if (depth > CX_WALK_MAX_DEPTH)
+    if (depth > CX_WALK_MAX_DEPTH || util_stack_exhausted())
         return 0;
     if (e->kind == CX_MUL)
         return cx_collect_term(e->a, s, cls, depth + 1) && cx_collect_term(e->b, s, cls, depth + 1);
@@ -234,7 +280,7 @@ static int cx_collect_term(const cx *e, fmpq_mpoly_t s, const cx **cls, int dept
 /* Adds the linear form e (a sum of scalar multiples of psi_i and kappa_1) into c and b. */
 static int cx_collect_linear(const cx *e, slong n, fmpq_mpoly_t c, fmpq_mpoly_struct *b, int depth)
 {
-    if (depth > CX_WALK_MAX_DEPTH)
+    if (depth > CX_WALK_MAX_DEPTH || util_stack_exhausted())
         return 0;
     if (e->kind == CX_ADD)
         return cx_collect_linear(e->a, n, c, b, depth + 1) && cx_collect_linear(e->b, n, c, b, depth + 1);
@@ -281,8 +327,12 @@ int cx_match_kappa1_power(const cx *e, fmpq_mpoly_t c, slong *k)
    not a scalar, psi_i (1 <= i <= n), kappa_1, a power of these, or one exp(c*kappa_1). */
 static int cx_match_factor(const cx *e, cx_monomial *m, slong n)
 {
-    if (e->kind == CX_MUL)
-        return cx_match_factor(e->a, m, n) && cx_match_factor(e->b, m, n);
+    /* products built in loops are long chains along a: walked in a loop, and the
+       stack guard stops the rare deep nesting on the other side (no match: the
+       expansion then reports the depth) */
+    for (; e->kind == CX_MUL; e = e->a)
+        if (util_stack_exhausted() || !cx_match_factor(e->b, m, n))
+            return 0;
     if (e->kind == CX_SCALAR) {
         fmpq_mpoly_mul(m->factor, m->factor, e->scalar, e->ctx);
         return 1;

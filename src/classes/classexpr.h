@@ -68,6 +68,11 @@ int cx_match_exp_linear(const cx *e, slong n, fmpq_mpoly_t factor, fmpq_mpoly_t 
 
 /* Whether e contains a Hodge class (lambda_j or ch_k): such integrands go to src/hodge/. */
 int cx_has_hodge(const cx *e);
+/* The operands x0, x1, ..., xk of a left-nested chain ((x0 op x1) op ...) op xk of nodes of
+   the given kind (sums and products built in loops have this shape), in order, so that
+   walkers can loop over long chains instead of recursing. Returns k+1 and sets *ops to a new
+   array (the caller frees it; the nodes stay owned by e). */
+slong cx_chain(const cx *e, cx_kind kind, const cx ***ops);
 
 /* Largest psi index used, so that callers can check it against n early. */
 slong cx_max_psi(const cx *e);

@@ -303,20 +303,39 @@ static int cpoly_expand_exp(cpoly *P, const cx *e, const cx **bad)
     return rc;
 }
 
+static volatile sig_atomic_t *cpoly_cancel;
+
+void cpoly_set_cancel(volatile sig_atomic_t *flag)
+{
+    cpoly_cancel = flag;
+}
+
+/* A chain of sums or products, operand by operand in a loop: sum[] and prod[]
+   build chains far longer than the C stack could recurse through. */
 static int cpoly_expand_binary(cpoly *P, const cx *e, const cx **bad)
 {
-    cpoly A, B;
-    cpoly_init_like(&A, P);
-    cpoly_init_like(&B, P);
-    int rc = cpoly_expand_rec(&A, e->a, bad);
-    if (rc == CPOLY_OK)
-        rc = cpoly_expand_rec(&B, e->b, bad);
-    if (rc == CPOLY_OK)
-        rc = e->kind == CX_ADD ? cpoly_add(P, &A, &B) : cpoly_mul(P, &A, &B);
+    const cx **ops;
+    slong n = cx_chain(e, e->kind, &ops);
+    int rc = cpoly_expand_rec(P, ops[0], bad);
+    for (slong i = 1; i < n && rc == CPOLY_OK; i++) {
+        if ((i & 255) == 0 && cpoly_cancel && *cpoly_cancel) {   /* chains of 10^6 take seconds */
+            rc = CPOLY_CANCELLED;
+            break;
+        }
+        cpoly B, T;
+        cpoly_init_like(&B, P);
+        cpoly_init_like(&T, P);
+        rc = cpoly_expand_rec(&B, ops[i], bad);
+        if (rc == CPOLY_OK)
+            rc = e->kind == CX_ADD ? cpoly_add(&T, P, &B) : cpoly_mul(&T, P, &B);
+        if (rc == CPOLY_OK)
+            cpoly_swap(P, &T);
+        cpoly_clear(&B);
+        cpoly_clear(&T);
+    }
     if (rc == CPOLY_TOO_BIG && !*bad)
         *bad = e;
-    cpoly_clear(&A);
-    cpoly_clear(&B);
+    free(ops);
     return rc;
 }
 

@@ -10,6 +10,8 @@
 #define PSIKAPPA_CPOLY_H
 
 #include <stdint.h>
+#include <signal.h>
+
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
 
@@ -32,7 +34,12 @@ typedef struct cpoly {
     const fmpq_mpoly_ctx_struct *ctx;
 } cpoly;
 
-enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG, CPOLY_THETA, CPOLY_HODGE };
+enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG, CPOLY_THETA, CPOLY_HODGE, CPOLY_CANCELLED };
+
+/* Makes cpoly_expand poll *flag (e.g. set by a signal handler) along long chains of sums and
+   products and stop with CPOLY_CANCELLED once it is nonzero; NULL turns polling off. The
+   flag is not owned. */
+void cpoly_set_cancel(volatile sig_atomic_t *flag);
 
 /* A space needs D <= CPOLY_MAX_DIM so that exponents fit cpoly_exp. */
 #define CPOLY_MAX_DIM 60000

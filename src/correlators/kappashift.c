@@ -13,6 +13,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <flint/fmpq_mpoly.h>
+#include "../util.h"
 #include "kappashift.h"
 
 /* The walk's data: the space, the truncation, the shifted times -p_k and the extra points chosen. */
@@ -116,6 +117,8 @@ static int ks_walk_parts(ks_walk *W, slong k, slong R, const fmpq_mpoly_t P)
     fmpq_mpoly_t Q;
     if (R == 0)
         return ks_walk_add_leaf(W, P);
+    if (util_stack_exhausted())
+        return WK_TOO_DEEP;
     if (k == 0)
         return WK_OK;
     if (k > R)

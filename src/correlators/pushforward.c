@@ -12,6 +12,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include "pushforward.h"
+#include "wk_internal.h"
 
 /* State of the multiset-partition enumeration; every array is owned by the state. */
 typedef struct {
@@ -192,13 +193,18 @@ static void pf_partition_multiplicity(fmpz_t c, const pf_enum *P, slong L)
 
 /* Turns the multiset partition blocks[0..L-1] into the term (-1)^{m-L} mult <tau_d prod tau_{b_B+1}>.
    Returns WK_LIMIT if the term budget is exceeded or memory runs out. */
+/* The stop flag of the table pf_integral works for, polled while it enumerates (NULL: none). */
+static _Thread_local volatile sig_atomic_t *pf_cancel;
+
 static int pf_emit_partition(pf_expansion *E, pf_enum *P, slong L)
 {
     slong l, j, len = P->n;
     int st;
     fmpz_t c;
-    if (P->max_terms > 0 && ++P->count > P->max_terms)
+    if (++P->count > P->max_terms && P->max_terms > 0)
         return WK_LIMIT;
+    if ((P->count & 1023) == 0 && pf_cancel && *pf_cancel)
+        return WK_CANCELLED;   /* a million partitions take about a second */
     if (P->n > 0)
         memcpy(P->key, P->d, (size_t) P->n * sizeof(slong));
     for (l = 0; l < L; l++) {
@@ -461,7 +467,9 @@ int pf_integral(fmpq_t res, wk_table *T, slong g, const slong *d, slong n, const
     if (T == NULL)
         return WK_BADARG;
     pf_expansion_init(&E);
+    pf_cancel = T->cancel;
     st = pf_expand(&E, g, d, n, kmult, kmax, 0);
+    pf_cancel = NULL;
     if (st == WK_OK)
         st = pf_expansion_evaluate(res, T, &E);
     pf_expansion_clear(&E);

@@ -17,6 +17,7 @@
  */
 #include <stdlib.h>
 #include <string.h>
+#include "../util.h"
 #include "wk_internal.h"
 
 static int wk_eval_key(wk_table *T, slong g, const slong *key, slong n, slong *idx);
@@ -370,6 +371,8 @@ static int wk_eval_key(wk_table *T, slong g, const slong *key, slong n, slong *i
         return WK_OK;
     if (T->cancel && *T->cancel)
         return WK_CANCELLED;
+    if (util_stack_exhausted())
+        return WK_TOO_DEEP;
     fmpz_init(x);
     st = wk_compute_key(T, g, key, n, x);
     if (st == WK_OK)

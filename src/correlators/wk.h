@@ -21,7 +21,9 @@ extern "C" {
 
 typedef struct wk_table wk_table;          /* opaque memo of <tau_d>_g */
 
-enum { WK_OK = 0, WK_UNSTABLE = 1, WK_BADARG = 2, WK_LIMIT = 3, WK_CANCELLED = 4 };
+/* WK_TOO_DEEP: the C stack was nearly full (util_stack_exhausted) when the recursion was
+   entered, e.g. from deep user recursion; nothing was computed. */
+enum { WK_OK = 0, WK_UNSTABLE = 1, WK_BADARG = 2, WK_LIMIT = 3, WK_CANCELLED = 4, WK_TOO_DEEP = 5 };
 
 /* Largest 2g-2+n accepted: bounds the recursion depth (each recursive step lowers 2g-2+n by at
    least one), so the engine cannot overflow the C stack.  Larger requests return WK_LIMIT. */

@@ -44,6 +44,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <flint/fmpz.h>
+#include "../util.h"
 #include "wk_kdv.h"
 
 typedef struct {
@@ -564,7 +565,7 @@ static int kdv_eval(wk_kdv_table *T, const slong *key, slong n, fmpq_t out)
     }
     if (T->cancel && *T->cancel)
         return WK_CANCELLED;
-    if (T->nest >= WK_KDV_MAX_NEST)
+    if (T->nest >= WK_KDV_MAX_NEST || util_stack_exhausted())
         return WK_LIMIT;
     if (++T->nest > T->max_nest)
         T->max_nest = T->nest;

@@ -295,29 +295,40 @@ static char *out_latex_operand(const cx *e, int min_level, const scalar_ring *R)
     return strbuf_take(&t);
 }
 
-/* Appends a sum a + b, writing a + (-x) as a - x.
-   The right operand never needs parentheses: addition is associative. */
+/* Appends a chain of sums x0 + x1 + ... (sum[] builds long ones) in a loop,
+   writing a + (-x) as a - x. No term needs parentheses: addition is
+   associative. */
 static void out_latex_put_sum(strbuf *b, const cx *e, const scalar_ring *R)
 {
-    char *l = out_latex_operand(e->a, 1, R), *r = out_latex_operand(e->b, 1, R);
-    strbuf_puts(b, l);
-    if (r[0] == '-')
-        strbuf_printf(b, " - %s", r + 1);
-    else
-        strbuf_printf(b, " + %s", r);
-    free(l);
-    free(r);
+    const cx **ops;
+    slong n = cx_chain(e, CX_ADD, &ops);
+    for (slong i = 0; i < n; i++) {
+        char *t = out_latex_operand(ops[i], 1, R);
+        if (i == 0)
+            strbuf_puts(b, t);
+        else if (t[0] == '-')
+            strbuf_printf(b, " - %s", t + 1);
+        else
+            strbuf_printf(b, " + %s", t);
+        free(t);
+    }
+    free(ops);
 }
 
-/* Appends a product by juxtaposition; \cdot only where two numbers would
-   otherwise run together (2 \cdot 3, \frac{1}{2} \cdot \frac{1}{3}). */
+/* Appends a chain of products by juxtaposition (prod[] builds long ones);
+   \cdot only where two numbers would otherwise run together (2 \cdot 3,
+   \frac{1}{2} \cdot \frac{1}{3}). */
 static void out_latex_put_product(strbuf *b, const cx *e, const scalar_ring *R)
 {
-    char *l = out_latex_operand(e->a, 2, R), *r = out_latex_operand(e->b, 3, R);
-    int dot = (r[0] >= '0' && r[0] <= '9') || strncmp(r, "\\frac", 5) == 0;
-    strbuf_printf(b, "%s%s%s", l, dot ? " \\cdot " : " ", r);
-    free(l);
-    free(r);
+    const cx **ops;
+    slong n = cx_chain(e, CX_MUL, &ops);
+    for (slong i = 0; i < n; i++) {
+        char *t = out_latex_operand(ops[i], i ? 3 : 2, R);
+        int dot = (t[0] >= '0' && t[0] <= '9') || strncmp(t, "\\frac", 5) == 0;
+        strbuf_printf(b, "%s%s", i == 0 ? "" : dot ? " \\cdot " : " ", t);
+        free(t);
+    }
+    free(ops);
 }
 
 /* Appends the LaTeX of a class expression tree.
@@ -325,6 +336,10 @@ static void out_latex_put_product(strbuf *b, const cx *e, const scalar_ring *R)
 static void out_latex_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
 {
     char *s;
+    if (util_stack_exhausted()) {   /* out_value then refuses the value */
+        print_mark_too_deep();
+        return;
+    }
     switch (e->kind) {
     case CX_SCALAR:
         s = out_latex_scalar(e->scalar, R);
@@ -431,6 +446,10 @@ static void out_json_put_string(strbuf *b, const char *str)
 }
 
 /* ------------------------------------------------------------ one value */
+
+/* Why a value nested beyond the C-stack guard is not shown. */
+#define OUT_TOO_DEEP "this value is nested too deeply to print (it was built by very deep recursion; " \
+                     "integrate or reduce it in smaller steps)"
 
 /* Exact text of v (the language's own printed form). Caller frees. */
 static char *out_value_exact(const value *v, const scalar_ring *R)
@@ -589,6 +608,10 @@ static char *out_value_latex(const value *v, const scalar_ring *R, const out_sty
    a string (exact numbers do not fit JSON's doubles). */
 static void out_json_put_value(strbuf *b, const value *v, const scalar_ring *R)
 {
+    if (util_stack_exhausted()) {   /* lists nested by deep recursion: out_value refuses */
+        print_mark_too_deep();
+        return;
+    }
     if (v->kind == V_LIST) {
         strbuf_putc(b, '[');
         for (slong i = 0; i < v->len; i++) {
@@ -609,6 +632,10 @@ static char *out_value_styled(const value *v, const scalar_ring *R, const out_st
 {
     char *s, *t;
     strbuf b;
+    if (util_stack_exhausted()) {
+        *err = xstrdup(OUT_TOO_DEEP);
+        return NULL;
+    }
     if (v->kind == V_REAL) {
         /* a ball prints its certain digits in every format; JSON keeps it a string */
         s = print_real(v->re);
@@ -654,7 +681,14 @@ char *out_value(const value *v, const scalar_ring *R, const out_style *st, char 
         *err = xasprintf("the number of digits must be between 1 and %d", OUT_MAX_DIGITS);
         return NULL;
     }
-    return out_value_styled(v, R, st, err);
+    print_take_too_deep();
+    char *s = out_value_styled(v, R, st, err);
+    if (s && print_take_too_deep()) {   /* a printer stopped at the stack guard: no partial text */
+        free(s);
+        *err = xstrdup(OUT_TOO_DEEP);
+        return NULL;
+    }
+    return s;
 }
 
 /* ------------------------------------------------------------ grids */

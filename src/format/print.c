@@ -32,10 +32,41 @@ static void print_operand(strbuf *b, const cx *e, int min_level, const scalar_ri
         strbuf_putc(b, ')');
 }
 
+/* Set when a printer stopped at the stack guard; see print_take_too_deep. */
+static _Thread_local int print_too_deep;
+
+void print_mark_too_deep(void)
+{
+    print_too_deep = 1;
+}
+
+int print_take_too_deep(void)
+{
+    int r = print_too_deep;
+    print_too_deep = 0;
+    return r;
+}
+
+/* A chain of sums or products (long ones come from sum[] and prod[]) in a
+   loop: the same text as nested binary nodes, without their recursion. */
+static void print_chain(strbuf *b, const cx *e, const scalar_ring *R)
+{
+    const cx **ops;
+    int add = e->kind == CX_ADD;
+    slong n = cx_chain(e, e->kind, &ops);
+    for (slong i = 0; i < n; i++) {
+        if (i)
+            strbuf_puts(b, add ? " + " : "*");
+        print_operand(b, ops[i], add ? 1 : 2, R);
+    }
+    free(ops);
+}
+
 static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
 {
     char *s;
     if (util_stack_exhausted()) {
+        print_mark_too_deep();
         strbuf_puts(b, "...");
         return;
     }
@@ -61,14 +92,8 @@ static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
         strbuf_printf(b, "ch_%ld", (long)e->index);
         break;
     case CX_ADD:
-        print_operand(b, e->a, 1, R);
-        strbuf_puts(b, " + ");
-        print_operand(b, e->b, 1, R);
-        break;
     case CX_MUL:
-        print_operand(b, e->a, 2, R);
-        strbuf_putc(b, '*');
-        print_operand(b, e->b, 2, R);
+        print_chain(b, e, R);
         break;
     case CX_POW:
         print_operand(b, e->a, 3, R);

@@ -13,6 +13,13 @@
 /* e.g. exp(2*pi^2*kappa_1 + L_1^2/2*psi_1); the caller frees the result. */
 char *print_class(const cx *e, const scalar_ring *R);
 
+/* The printers stop at the C-stack guard (util_stack_exhausted) and write
+   "..." there; print_mark_too_deep records that, and print_take_too_deep
+   returns whether it happened since the last call (and clears it), so that
+   output of a value can be refused instead of shown incomplete. */
+void print_mark_too_deep(void);
+int print_take_too_deep(void);
+
 /* c0 + c1*x + ... + O(x^(N+1)); the caller frees the result. */
 char *print_series(const tseries *s, const scalar_ring *R);
 

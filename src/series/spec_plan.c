@@ -85,6 +85,8 @@ static int spec_walk_node(spec_walk *w, slong i, slong D, slong B, slong depth)
     int st;
     if (D == 0)
         return spec_walk_leaf(w, depth);
+    if (util_stack_exhausted())   /* depth is below sqrt(2D) here; reached only from deep user code */
+        return SPEC_TOO_BIG;
     for (j = i; j < P->nparts; j++) {
         k = P->part[j];
         v = P->val[k];

@@ -19,7 +19,7 @@ typedef struct
 } wpoly_job_data_t;
 
 /* Writes the sorted multi-indices with a_i <= cap and sum <= left from position i on
-   (lexicographic); returns the running count. */
+   (lexicographic); returns the running count. Recursion depth n <= WPOLY_MAX_POINTS. */
 static slong wpoly_indices_rec(slong *idx, slong *cur, slong i, slong n, slong cap, slong left,
                                slong count)
 {

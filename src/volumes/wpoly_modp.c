@@ -253,8 +253,8 @@ static int wpoly_genera(wpoly_ws_t *ws, const slong *list, slong len)
     {
         if (wpvol_cancelled())
             return WPVOL_CANCELLED;
-        for (k = 0; k < len && st == WPVOL_OK && h >= 2; k++)
-            st = wpoly_step(ws, h, list[k]);
+        for (k = 0; k < len && st == WPVOL_OK && h >= 2; k++)   /* many subsets: poll per step */
+            st = wpvol_cancelled() ? WPVOL_CANCELLED : wpoly_step(ws, h, list[k]);
         for (k = 0; k < len && h < ws->g && st == WPVOL_OK; k++)
         {
             wpoly_d0(wpoly_at(ws, WPOLY_B, h, list[k]), WPOLY_A, h, list[k], ws);

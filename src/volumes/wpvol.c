@@ -4,6 +4,8 @@
  * primes that were not used to reconstruct it.  See wpvol.h for the contract.
  */
 #include <pthread.h>
+#include <signal.h>
+#include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -41,17 +43,29 @@ static void wpvol_batch_fail(wpvol_batch_t *b, int st)
     pthread_mutex_unlock(&b->lock);
 }
 
+/* The caller's signal flag is read only by the thread that set it (signals are blocked in
+   the workers, so the handler runs there too); every thread reads the stop request through
+   the C11 atomic, which that thread raises once it sees the flag. */
 static volatile sig_atomic_t *wpvol_cancel_flag;
+static pthread_t wpvol_cancel_owner;
+static atomic_int wpvol_stop;
 
 void wpvol_set_cancel(volatile sig_atomic_t *flag)
 {
     wpvol_cancel_flag = flag;
+    wpvol_cancel_owner = pthread_self();
+    atomic_store(&wpvol_stop, 0);
 }
 
 /* See wpvol_internal.h. */
 int wpvol_cancelled(void)
 {
-    return wpvol_cancel_flag != NULL && *wpvol_cancel_flag;
+    if (atomic_load_explicit(&wpvol_stop, memory_order_relaxed))
+        return 1;
+    if (wpvol_cancel_flag == NULL || !pthread_equal(pthread_self(), wpvol_cancel_owner) || !*wpvol_cancel_flag)
+        return 0;
+    atomic_store(&wpvol_stop, 1);
+    return 1;
 }
 
 /* Takes prime indices one at a time until the batch is exhausted or an error was recorded,
@@ -100,6 +114,7 @@ static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong e
 {
     wpvol_batch_t b;
     pthread_t *tid;
+    sigset_t all, old;
     int t, started = 0;
 
     b.next = start;
@@ -112,9 +127,12 @@ static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong e
     if (pthread_mutex_init(&b.lock, NULL) != 0)
         return WPVOL_NOMEM;
     tid = threads > 1 ? malloc((size_t) (threads - 1) * sizeof(pthread_t)) : NULL;
+    sigfillset(&all);   /* the workers inherit a mask blocking every signal: see wpvol_cancelled */
+    pthread_sigmask(SIG_BLOCK, &all, &old);
     for (t = 0; tid != NULL && t < threads - 1 && t < end - start - 1; t++)
         if (pthread_create(&tid[started], NULL, wpvol_batch_thread, &b) == 0)
             started++;
+    pthread_sigmask(SIG_SETMASK, &old, NULL);
     wpvol_batch_loop(&b);
     for (t = 0; t < started; t++)
         pthread_join(tid[t], NULL);
@@ -380,8 +398,14 @@ static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong fir
         status = wpvol_batch_run(D->res, D->primes, start, target, D->job, threads);
         if (status != WPVOL_OK)
             break;
-        for (i = start; i < target; i++)
+        for (i = start; i < target && status == WPVOL_OK; i++)
+        {
             wpvol_run_absorb(D, i);
+            if (wpvol_cancelled())   /* large outputs: absorbing a batch is not instant either */
+                status = WPVOL_CANCELLED;
+        }
+        if (status != WPVOL_OK)
+            break;
         pending = wpvol_run_reconstruct(D, &uncand);
         if (pending == 0)
             break;

@@ -209,7 +209,8 @@ typedef struct wpvol_job_struct
 int wpvol_drive(fmpq *out, const wpvol_job_t *job, int threads, int prime_bits, slong min_primes,
                 slong *primes_used);
 
-/* Nonzero once the flag of wpvol_set_cancel is set (long per-prime runs poll it too). */
+/* Nonzero once the flag of wpvol_set_cancel is set (long per-prime runs poll it too, once per
+   genus); safe from any thread (the request is read through a C11 atomic). */
 int wpvol_cancelled(void);
 
 /* --- wpoly_modp.c: coefficients of V_{g,n}(L) modulo one prime (see wpoly.h) ------------ */

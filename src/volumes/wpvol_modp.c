@@ -366,6 +366,8 @@ static int wpvol_modp_genera(wpvol_run_t *st)
     status = wpvol_modp_finish_genus(st, 1, A);
     for (g = 2; g <= st->G && status == WPVOL_OK; g++)
     {
+        if (wpvol_cancelled())   /* one prime of a large table takes seconds: poll per genus */
+            return WPVOL_CANCELLED;
         status = wpvol_modp_step(st, g, A);
         if (status == WPVOL_OK)
             status = wpvol_modp_finish_genus(st, g, A);

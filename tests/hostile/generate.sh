@@ -66,3 +66,7 @@ printf 'print "ab\000cd"\n' > file_nul_in_string.pk
 # Windows line endings with an error at the end of a line: the caret must be
 # where the line ends, not one column later.
 printf 'print 1\r\nprint 2 +\r\n' > file_crlf_end_of_line.pk
+
+# A bare carriage return (not part of \r\n) between two statements on one
+# line: an error at its place, after the lines before it ran (it used to join them).
+printf 'print 1\nprint 2\rprint 3\n' > file_bare_cr.pk

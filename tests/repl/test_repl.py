@@ -9,9 +9,12 @@ fresh temporary folder. Each step types a line, then waits for the expected
 text (or the next prompt) in what the program writes back. Checks: definitions
 persist across lines, an error does not end the session, multi-line blocks run
 under the continuation prompt, help prints, Ctrl-C clears the line and an
-unfinished block, Ctrl-D ends with status 0, and the history file is written.
+unfinished block, Ctrl-D ends with status 0, the history file is written, a
+line typed ahead survives a Ctrl-C, a long paste is taken in linear time, and
+a history file that is a device is refused.
 Exit status 0 when every check passed.
 """
+import fcntl
 import os
 import pty
 import re
@@ -80,6 +83,24 @@ class Session:
         time.sleep(0.3)
         self.send(data)
 
+    def send_paste(self, data, piece=512):
+        """Types a long text quickly, as a paste does, reading the echo as it
+        comes: writes do not block, so that neither side of the terminal can
+        wait on the other with both buffers full."""
+        data = data.encode()
+        flags = fcntl.fcntl(self.fd, fcntl.F_GETFL)
+        fcntl.fcntl(self.fd, fcntl.F_SETFL, flags | os.O_NONBLOCK)
+        try:
+            while data:
+                try:
+                    data = data[os.write(self.fd, data[:piece]):]
+                except BlockingIOError:
+                    self.read_some(0.05)
+                while self.read_some(0):
+                    pass
+        finally:
+            fcntl.fcntl(self.fd, fcntl.F_SETFL, flags)
+
     def finish(self):
         """Waits for the child to exit; returns its exit status (or -signal)."""
         deadline = time.time() + TIMEOUT
@@ -145,6 +166,61 @@ def interrupt_session(rep, exe, env):
     s.send_control("\x04")
     status = s.finish()
     rep.check(status == 0, "Ctrl-D after an interrupted computation: status %r, want 0" % (status,), s)
+
+
+def typeahead_session(rep, exe, env):
+    """A line typed while a computation runs (type-ahead) survives the Ctrl-C
+    that stops the computation: it runs next, as typed."""
+    s = Session(exe, env)
+    rep.check(s.expect(PROMPT) is not None, "type-ahead session starts", s)
+    step(rep, s, "let n = 7", PROMPT, "a definition before the type-ahead")
+    s.send("sum_{i=1..1000000000} i\r")
+    time.sleep(1.0)
+    s.send("n + 1\r")
+    time.sleep(0.5)
+    s.send("\x03")
+    rep.check(s.expect(r"interrupted.*" + PROMPT, timeout=5.0) is not None,
+              "Ctrl-C after type-ahead stops the computation", s)
+    rep.check(s.expect(r"\n8\n" + PROMPT, timeout=5.0) is not None,
+              "the line typed ahead runs after the Ctrl-C", s)
+    step(rep, s, "n + 2", r"\n9\n" + PROMPT, "session usable after the type-ahead")
+    s.send_control("\x04")
+    status = s.finish()
+    rep.check(status == 0, "Ctrl-D after the type-ahead: status %r, want 0" % (status,), s)
+
+
+def paste_session(rep, exe, env):
+    """A pasted block of 20000 lines under the continuation prompt is taken
+    in time linear in its length (each line used to re-read the whole
+    unfinished block: about 2*10^8 bytes of parsing here)."""
+    s = Session(exe, env)
+    rep.check(s.expect(PROMPT) is not None, "paste session starts", s)
+    lines = ["let xs = ["] + ["  %d,  # item \"%d\" (" % (i, i) for i in range(1, 20000)] + ["  20000]", "xs[20000] + xs[1]"]
+    start = time.time()
+    s.send_paste("\r".join(lines) + "\r")
+    got = s.expect(r"\n20001\n" + PROMPT, timeout=60.0)
+    took = time.time() - start
+    rep.check(got is not None, "pasted 20000-line list runs", s)
+    rep.check(took < 20.0, "pasting 20000 lines took %.1f s, want under 20 s" % took, s)
+    s.send_control("\x04")
+    status = s.finish()
+    rep.check(status == 0, "Ctrl-D after the paste: status %r, want 0" % (status,), s)
+
+
+def device_history_session(rep, exe, env):
+    """A history file that is a device (here /dev/zero, endless) is not read:
+    a warning, then the prompt at once; the session works and ends normally."""
+    state = tempfile.mkdtemp(prefix="pk-test-repl-state-")
+    os.makedirs(os.path.join(state, "psikappa"))
+    os.symlink("/dev/zero", os.path.join(state, "psikappa", "history"))
+    s = Session(exe, dict(env, XDG_STATE_HOME=state))
+    rep.check(s.expect(r"not using the history file .*not a regular file.*" + PROMPT, timeout=5.0) is not None,
+              "a device as history file is refused with a warning", s)
+    step(rep, s, "2^5", r"\n32\n" + PROMPT, "session usable without a history file")
+    s.send_control("\x04")
+    status = s.finish()
+    rep.check(status == 0, "Ctrl-D without a history file: status %r, want 0" % (status,), s)
+    shutil.rmtree(state, ignore_errors=True)
 
 
 def double_interrupt_session(rep, exe, env):
@@ -232,6 +308,9 @@ def main():
                   "history file %s holds the typed lines" % hist)
         second_session(rep, exe, env)
         interrupt_session(rep, exe, env)
+        typeahead_session(rep, exe, env)
+        paste_session(rep, exe, env)
+        device_history_session(rep, exe, env)
         double_interrupt_session(rep, exe, env)
     finally:
         try:
