@@ -30,11 +30,14 @@ typedef struct {
     fmpq_t corr;
     fmpq_mpoly_t term;
     const fmpq_mpoly_ctx_struct *ctx;
+    int rational;              /* every q_k is a rational number: the walk runs on fmpq */
+    fmpq *qq;                  /* q_k as rationals (rational walk) */
+    fmpq *acc;                 /* row sums (rational walk) */
 } sp_walk;
 
-/* Adds P * <d, parts>_g to every row d of psi degree D - R (the leaf of the walk).
-   Returns SP_OK, SP_LIMIT (correlator engine) or SP_CANCELLED. */
-static int sp_walk_leaf(sp_walk *W, slong R, const fmpq_mpoly_t P)
+/* Adds P * <d, parts>_g to every row d of psi degree D - R (the leaf of the walk); P is Pq
+   in the rational walk.  Returns SP_OK, SP_LIMIT (correlator engine) or SP_CANCELLED. */
+static int sp_walk_leaf(sp_walk *W, slong R, const fmpq_mpoly_t P, const fmpq_t Pq)
 {
     slong m = W->D - R, r, k, c, len;
     if (W->cancel && *W->cancel)
@@ -49,21 +52,27 @@ static int sp_walk_leaf(sp_walk *W, slong R, const fmpq_mpoly_t P)
             return SP_LIMIT;
         if (fmpq_is_zero(W->corr))
             continue;
+        if (W->rational) {
+            fmpq_addmul(W->acc + row, Pq, W->corr);
+            continue;
+        }
         fmpq_mpoly_scalar_mul_fmpq(W->term, P, W->corr, W->ctx);
         fmpq_mpoly_add(W->out->c + row, W->out->c + row, W->term, W->ctx);
     }
     return SP_OK;
 }
 
-/* Walks the parts k, k-1, ..., 1 with remaining weight R0 - (chosen weight) = R, P the product
-   so far (prod over chosen parts of q_k^{e_k}/e_k!).  Recursion depth at most R0. */
-static int sp_walk_parts(sp_walk *W, slong R0, slong k, slong R, const fmpq_mpoly_t P)
+/* Walks the parts k, k-1, ..., 1 with remaining weight R0 - (chosen weight) = R, P (Pq in the
+   rational walk) the product so far: prod over chosen parts of q_k^{e_k}/e_k!.  Recursion depth
+   at most R0. */
+static int sp_walk_parts(sp_walk *W, slong R0, slong k, slong R, const fmpq_mpoly_t P, const fmpq_t Pq)
 {
     slong e;
     int st = SP_OK;
     fmpq_mpoly_t Q;
+    fmpq_t Qq;
     if (R == 0)
-        return sp_walk_leaf(W, R0, P);
+        return sp_walk_leaf(W, R0, P, Pq);
     if (k > R)
         k = R;
     while (k > 0 && fmpq_mpoly_is_zero(W->q + k, W->ctx))
@@ -71,17 +80,26 @@ static int sp_walk_parts(sp_walk *W, slong R0, slong k, slong R, const fmpq_mpol
     if (k == 0)
         return SP_OK;
     fmpq_mpoly_init(Q, W->ctx);
-    fmpq_mpoly_set(Q, P, W->ctx);
+    fmpq_init(Qq);
+    if (W->rational)
+        fmpq_set(Qq, Pq);
+    else
+        fmpq_mpoly_set(Q, P, W->ctx);
     for (e = 0; st == SP_OK && e * k <= R; e++) {
-        if (e > 0) {
+        if (e > 0 && W->rational) {
+            fmpq_mul(Qq, Qq, W->qq + k);
+            fmpz_mul_si(fmpq_denref(Qq), fmpq_denref(Qq), e);
+            fmpq_canonicalise(Qq);
+        } else if (e > 0) {
             fmpq_mpoly_mul(Q, Q, W->q + k, W->ctx);
             fmpq_mpoly_scalar_div_si(Q, Q, e, W->ctx);
         }
         W->e[k] = e;
-        st = sp_walk_parts(W, R0, k - 1, R - e * k, Q);
+        st = sp_walk_parts(W, R0, k - 1, R - e * k, Q, Qq);
     }
     W->e[k] = 0;
     fmpq_mpoly_clear(Q, W->ctx);
+    fmpq_clear(Qq);
     return st;
 }
 
@@ -123,6 +141,7 @@ static int sp_int_by_shift(sp_table *out, const fmpq_mpoly_struct *y, slong K, w
     slong k, R;
     int st;
     fmpq_mpoly_t one;
+    fmpq_t oneq;
     memset(&W, 0, sizeof W);
     W.out = out;
     W.Tw = Tw;
@@ -136,8 +155,15 @@ static int sp_int_by_shift(sp_table *out, const fmpq_mpoly_struct *y, slong K, w
     for (k = 0; k <= W.D; k++)
         fmpq_mpoly_init(W.q + k, ctx);
     sp_shift_times(W.q, W.D, y, K, ctx);
-    for (k = 0; k <= W.D; k++)
+    W.rational = 1;
+    for (k = 0; k <= W.D; k++) {
         fmpq_mpoly_neg(W.q + k, W.q + k, ctx);
+        W.rational &= fmpq_mpoly_is_fmpq(W.q + k, ctx);
+    }
+    W.qq = _fmpq_vec_init(W.D + 1);
+    W.acc = _fmpq_vec_init(out->len);
+    for (k = 0; W.rational && k <= W.D; k++)
+        fmpq_mpoly_get_fmpq(W.qq + k, W.q + k, ctx);
     W.e = calloc((size_t) W.D + 1, sizeof(slong));
     W.key = malloc((size_t) (W.n + W.D + 1) * sizeof(slong));
     st = (W.e == NULL || W.key == NULL) ? SP_LIMIT : sp_walk_group_rows(&W);
@@ -145,9 +171,16 @@ static int sp_int_by_shift(sp_table *out, const fmpq_mpoly_struct *y, slong K, w
     fmpq_mpoly_init(W.term, ctx);
     fmpq_mpoly_init(one, ctx);
     fmpq_mpoly_one(one, ctx);
+    fmpq_init(oneq);
+    fmpq_one(oneq);
     for (R = 0; st == SP_OK && R <= W.D; R++)
         if (W.start[W.D - R + 1] > W.start[W.D - R])
-            st = sp_walk_parts(&W, R, W.kmax, R, one);
+            st = sp_walk_parts(&W, R, W.kmax, R, one, oneq);
+    for (k = 0; W.rational && k < out->len; k++)
+        fmpq_mpoly_set_fmpq(out->c + k, W.acc + k, ctx);
+    fmpq_clear(oneq);
+    _fmpq_vec_clear(W.qq, W.D + 1);
+    _fmpq_vec_clear(W.acc, out->len);
     fmpq_mpoly_clear(one, ctx);
     fmpq_mpoly_clear(W.term, ctx);
     fmpq_clear(W.corr);
