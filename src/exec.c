@@ -5,6 +5,7 @@
 #include "cancel.h"
 #include "correlators/wk_kdv.h"
 #include "diag.h"
+#include "builtins.h"
 #include "interp.h"
 #include "memory.h"
 #include "parse.h"
@@ -164,6 +165,15 @@ static int exec_explain(interp *I, scope *s, const node *n)
     const node *e = n->a;
     if (e->kind == N_SPEC)
         return specialise_explain(I, s, e);
+    if (e->kind == N_CALL && spectral_explains(e->text)) {
+        if (!spectral_explain(I, s, e))
+            return 0;
+        value *v = eval_expr(I, s, e);
+        if (!v)
+            return 0;
+        fputs("  = ", I->out);
+        return exec_print_value(I, e, v, "\n");
+    }
     if (e->kind != N_INTEGRAL) {
         diag_error(&e->loc, "explain takes an integral int[g, n] C or a specialisation F[g] with ...");
         return 0;
