@@ -276,8 +276,10 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
         return 0;
     double est = sp_shift_estimate(g, n, C->K);
     if (est > I->lim.max_terms) {
-        diag_error(&call->loc, "omega_{%ld,%ld} needs about %.3g correlators, above the limit of %.3g "
-                               "(raise it with --max-terms N)", (long) g, (long) n, est, I->lim.max_terms);
+        char *num = est > 1e18 ? xstrdup("more than 1e18") : xasprintf("about %.3g", est);
+        diag_error(&call->loc, "omega_{%ld,%ld} needs %s correlators, above the limit of %.3g "
+                               "(raise it with --max-terms N)", (long) g, (long) n, num, I->lim.max_terms);
+        free(num);
         bsp_curve_clear(C);
         return 0;
     }
