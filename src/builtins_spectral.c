@@ -211,6 +211,8 @@ static int bsp_curve_read(interp *I, const node *call, value **args, int i, slon
     }
     fmpq_mpoly_clear(t, I->ring.ctx);
     free(back);
+    while (C->K > 0 && fmpq_mpoly_is_zero(C->y + C->K, C->ctx))      /* the curve's own degree */
+        fmpq_mpoly_clear(C->y + C->K--, C->ctx);
     return 1;
 }
 
@@ -274,7 +276,16 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
     free(what);
     if (!ok)
         return 0;
-    double est = sp_shift_estimate(g, n, C->K);
+    int vol = sp_shift_uses_volumes(g, n, C->y, C->K, C->ctx);
+    double est = vol ? 0.0 : sp_shift_estimate(g, n, C->K);
+    double memo = vol ? 0.0 : wk_estimate_entries(g, n + 3 * g - 3 + n);
+    if (memo > 1e4 * I->lim.max_table) {       /* the bound is loose: only absurd requests */
+        diag_error(&call->loc, "omega_{%ld,%ld} of this curve needs correlators of genus %ld with up to %ld "
+                               "points, far beyond the correlator table's limit (bound %.3g entries; --max-table)",
+                   (long) g, (long) n, (long) g, (long) (3 * g - 3 + 2 * n), memo);
+        bsp_curve_clear(C);
+        return 0;
+    }
     if (est > I->lim.max_terms) {
         char *num = est > 1e18 ? xstrdup("more than 1e18") : xasprintf("about %.3g", est);
         diag_error(&call->loc, "omega_{%ld,%ld} needs %s correlators, above the limit of %.3g "

@@ -344,3 +344,16 @@ double sp_shift_estimate(slong g, slong n, slong K)
     free(cnt), free(rows);
     return total > 1e18 ? HUGE_VAL : total;
 }
+
+/* See spectral.h. */
+int sp_shift_uses_volumes(slong g, slong n, const fmpq_mpoly_struct *y, slong K, const fmpq_mpoly_ctx_t ctx)
+{
+    fmpq_mpoly_t s1;
+    int r;
+    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS || 3 * g - 3 + n > SP_MAX_DIM || sp_curve_check(y, K, ctx) != SP_OK)
+        return 0;
+    fmpq_mpoly_init(s1, ctx);
+    r = sp_int_only_kappa1(s1, y, K, 3 * g - 3 + n, ctx);
+    fmpq_mpoly_clear(s1, ctx);
+    return r;
+}

@@ -102,6 +102,10 @@ int sp_shift_times(fmpq_mpoly_struct *p, slong N, const fmpq_mpoly_struct *y, sl
    partitions of the kappa degree times the rows of that psi degree); HUGE_VAL beyond 1e18. */
 double sp_shift_estimate(slong g, slong n, slong K);
 
+/* 1 when sp_omega_shift (not forced to the shift) takes its coefficients from the volume engine:
+   g >= 2, n <= 6 and s_j = 0 for 2 <= j <= 3g-3+n; 0 otherwise and on bad input. */
+int sp_shift_uses_volumes(slong g, slong n, const fmpq_mpoly_struct *y, slong K, const fmpq_mpoly_ctx_t ctx);
+
 /* out = W_{g,n} by intersection numbers (rows of sp_table_make_rows).  Correlators come from Tw
    (the caller's, may be shared).  When s_j = 0 for 2 <= j <= 3g-3+n, g >= 2 and n <= 6 (and
    o->force_shift is 0) the coefficients come from the volume engine instead.  Returns SP_OK or
