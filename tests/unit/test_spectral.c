@@ -232,7 +232,7 @@ static fmpq_mpoly_struct *minimal_curve(slong p, const fmpq_mpoly_ctx_t ctx)
     return y;
 }
 
-/* The (2, 2p+1) minimal-model curves, p = 1, 2, 3 (the p-th multicritical point: M. Kazakov, "The
+/* The (2, 2p+1) minimal-model curves, p = 1, 2, 3 (the p-th multicritical point: V. Kazakov, "The
    appearance of matter fields from quantum fluctuations of 2D-gravity", Mod. Phys. Lett. A 4
    (1989), from memory).  Checked: y_0 = 1 and the shifted KdV times t_{k+1} = -p_k vanish for
    k > p (a curve of degree 2p+1); the hand-derived times (series of sin(N arcsin w), see
