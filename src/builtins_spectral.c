@@ -12,6 +12,7 @@
 #include "series_ops.h"
 #include "series/tseries_trig.h"
 #include "spectral/spectral.h"
+#include "volumes/wpoly.h"
 #include "util.h"
 #include "builtins_spectral.h"
 
@@ -271,6 +272,17 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
     int vol = sp_shift_uses_volumes(g, n, C->y, C->K, C->ctx);
     double est = vol ? 0.0 : sp_shift_estimate(g, n, C->K);
     double memo = vol ? 0.0 : wk_estimate_entries(g, n + 3 * g - 3 + n);
+    if (vol) {
+        double sec, bytes;
+        wpoly_estimate(&sec, &bytes, g, n);
+        if (sec > I->lim.max_seconds) {
+            diag_error(&call->loc, "omega_{%ld,%ld} by the volume engine needs about %.3g s (limit %.3g s, "
+                                   "raise with --max-seconds S)", (long) g, (long) n, sec, I->lim.max_seconds);
+            bsp_curve_clear(C);
+            return 0;
+        }
+        wpvol_set_cancel(&cancel_flag);
+    }
     if (memo > 1e4 * I->lim.max_table) {       /* the bound is loose: only absurd requests */
         diag_error(&call->loc, "omega_{%ld,%ld} of this curve needs correlators of genus %ld with up to %ld "
                                "points, far beyond the correlator table's limit (bound %.3g entries; --max-table)",
