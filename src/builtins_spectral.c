@@ -4,6 +4,8 @@
    build the usual curves.  Conventions: docs/conventions.md, "Spectral curves". */
 #include <stdlib.h>
 #include <string.h>
+#include <flint/fmpz.h>
+#include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
 
 #include "builtins.h"
@@ -379,8 +381,20 @@ static value *bsp_poly_builtin(interp *I, const node *call, value **args, int vo
     bsp_curve C;
     sp_table W;
     slong g, n;
-    if (!builtin_get_slong(I, call, args, 1, 0, SP_MAX_DIM, &g) || !builtin_get_slong(I, call, args, 2, 1, SP_MAX_DIM, &n)
-        || !bsp_compute(I, call, args, &C, &W, g, n))
+    fmpz_t terms;
+    if (!builtin_get_slong(I, call, args, 1, 0, SP_MAX_DIM, &g) || !builtin_get_slong(I, call, args, 2, 1, SP_MAX_DIM, &n))
+        return NULL;
+    fmpz_init(terms);
+    if (3 * g - 3 + n >= 0)
+        fmpz_bin_uiui(terms, (ulong) (3 * g - 3 + 2 * n), (ulong) n);   /* monomials of degree <= D */
+    if (fmpz_cmp_si(terms, I->lim.max_class_terms) > 0) {
+        diag_error(&call->loc, "omega_{%ld,%ld} has about %.3g terms, above the limit of %ld (raise it with "
+                               "--max-terms N)", (long) g, (long) n, fmpz_get_d(terms), (long) I->lim.max_class_terms);
+        fmpz_clear(terms);
+        return NULL;
+    }
+    fmpz_clear(terms);
+    if (!bsp_compute(I, call, args, &C, &W, g, n))
         return NULL;
     int *vars = xmalloc((size_t) n * sizeof(int));
     value *r = NULL;

@@ -54,7 +54,25 @@ static slong sp_rows_walk(sp_table *T, slong *row, slong i, slong cap, slong R, 
     return count;
 }
 
-/* See spectral.h.  The rows are counted first, then written. */
+/* Number of sorted rows of n entries with |d| <= D (partitions of each m <= D into at most n
+   parts), as a double. */
+static double sp_rows_count(slong n, slong D)
+{
+    double *c = calloc((size_t) D + 1, sizeof(double)), total = 0.0;
+    slong j, m;
+    if (c == NULL)
+        return HUGE_VAL;
+    c[0] = 1.0;
+    for (j = 1; j <= n && j <= D; j++)
+        for (m = j; m <= D; m++)
+            c[m] += c[m - j];
+    for (m = 0; m <= D; m++)
+        total += c[m];
+    free(c);
+    return total;
+}
+
+/* See spectral.h.  The rows are counted first (refused beyond SP_MAX_ROWS), then written. */
 int sp_table_make_rows(sp_table *T, slong g, slong n, const fmpq_mpoly_ctx_t ctx)
 {
     slong D, len, i, *row;
@@ -66,6 +84,8 @@ int sp_table_make_rows(sp_table *T, slong g, slong n, const fmpq_mpoly_ctx_t ctx
     if (g > SP_MAX_DIM || n > SP_MAX_DIM || 3 * g - 3 + n > SP_MAX_DIM)
         return SP_LIMIT;
     D = 3 * g - 3 + n;
+    if (sp_rows_count(n, D) > SP_MAX_ROWS)
+        return SP_LIMIT;
     row = malloc((size_t) n * sizeof(slong));
     if (row == NULL)
         return SP_LIMIT;

@@ -54,8 +54,8 @@ static ulong res_hash(const slong *key)
 static slong res_slot(const sp_res *S, const slong *key)
 {
     slong s = (slong) (res_hash(key) % (ulong) S->nslots);
-    while (S->keys[s] != NULL
-           && memcmp(S->keys[s], key, (size_t) (key[0] + 1) * sizeof(slong)) != 0)
+    while (S->keys[s] != NULL && (S->keys[s][0] != key[0]
+           || memcmp(S->keys[s], key, (size_t) (key[0] + 1) * sizeof(slong)) != 0))
         s = (s + 1) % S->nslots;
     return s;
 }

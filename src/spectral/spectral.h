@@ -49,6 +49,9 @@ enum {
 /* Largest 3g-3+n accepted by either route (the correlators have up to 3g-3+2n points). */
 #define SP_MAX_DIM 400
 
+/* Largest number of rows (sorted d with |d| <= 3g-3+n) of a table. */
+#define SP_MAX_ROWS 1e7
+
 /* The coefficients W[d] of one omega_{g,n} (or of V_{g,n}), one row per sorted d. */
 typedef struct {
     slong g, n, len;
@@ -74,7 +77,8 @@ void sp_table_init(sp_table *T, const fmpq_mpoly_ctx_t ctx);
 void sp_table_clear(sp_table *T, const fmpq_mpoly_ctx_t ctx);
 
 /* Makes T the table of Mbar_{g,n} with every sorted row of |d| <= 3g-3+n (lexicographic order in
-   (d_1, ..., d_n)) and zero coefficients.  SP_BADARG, SP_UNSTABLE, SP_LIMIT (dimension). */
+   (d_1, ..., d_n)) and zero coefficients.  SP_BADARG, SP_UNSTABLE, SP_LIMIT (dimension, or more
+   than SP_MAX_ROWS rows). */
 int sp_table_make_rows(sp_table *T, slong g, slong n, const fmpq_mpoly_ctx_t ctx);
 
 /* Index of the sorted row d in T (binary search), -1 when absent. */
