@@ -5,7 +5,11 @@
  * p_k = (2k+1)!! y_k / y_0 the coefficients of exp(-sum s_j u^j) itself, so no logarithm is needed:
  * the kappa degree R = 3g-3+n-|d| is spread over extra points tau_{k+1} (a partition of R into
  * parts k <= K), each partition weighted by prod_k q_k^{e_k} / e_k!.  One walk over the partitions
- * of R serves every row of psi degree 3g-3+n-R.  When only s_1 is nonzero up to the dimension the
+ * of R serves every row of psi degree 3g-3+n-R.  For a rational curve the weights are rationals
+ * carried down the walk; otherwise each leaf only records the term corr / prod e_k! times the
+ * monomial prod Q_k^{e_k} in one formal variable per time, and each row's polynomial in the Q_k is
+ * composed with the q_k once at the end (adding every leaf's product of polynomials into a large
+ * accumulator cost a pass over the accumulator per leaf).  When only s_1 is nonzero up to the
  * polynomial-time volume engine gives int psi^a kappa_1^{D-|a|}/(D-|a|)! instead (g >= 2, n <= 6).
  */
 #include <math.h>
@@ -27,17 +31,28 @@ typedef struct {
     slong *e;                  /* e[k]: multiplicity of tau_{k+1} chosen so far */
     slong *key;                /* correlator key, n + D entries */
     slong *start, *idx;        /* rows of psi degree m: idx[start[m] .. start[m+1]-1] */
-    fmpq_t corr;
-    fmpq_mpoly_t term;
+    fmpq_t corr, c;
     const fmpq_mpoly_ctx_struct *ctx;
     int rational;              /* every q_k is a rational number: the walk runs on fmpq */
     fmpq *qq;                  /* q_k as rationals (rational walk) */
     fmpq *acc;                 /* row sums (rational walk) */
+    fmpq_mpoly_ctx_t qctx;     /* symbolic walk: one variable Q_v per nonzero q_k */
+    slong nq, *qvar;           /* qvar[k] = v, or -1 when q_k = 0 */
+    ulong *qexp;               /* exponent scratch, nq entries */
+    fmpq_mpoly_struct *B;      /* per row: sum over leaves of corr prod Q^e / e! */
 } sp_walk;
 
-/* Adds P * <d, parts>_g to every row d of psi degree D - R (the leaf of the walk); P is Pq
-   in the rational walk.  Returns SP_OK, SP_LIMIT (correlator engine) or SP_CANCELLED. */
-static int sp_walk_leaf(sp_walk *W, slong R, const fmpq_mpoly_t P, const fmpq_t Pq)
+/* x = x / c for a word-size c > 0 (FLINT has no fmpq_div_si in every version we build on). */
+static void sp_fmpq_div_si(fmpq_t x, slong c)
+{
+    fmpz_mul_si(fmpq_denref(x), fmpq_denref(x), c);
+    fmpq_canonicalise(x);
+}
+
+/* Adds the leaf's term to every row d of psi degree D - R: corr * Pq in the rational walk (Pq =
+   prod q_k^{e_k}/e_k!), else the term (corr / prod e_k!) prod Q_v^{e_k} of the row's polynomial
+   in the Q variables, substituted once at the end.  Returns SP_OK, SP_LIMIT or SP_CANCELLED. */
+static int sp_walk_leaf(sp_walk *W, slong R, const fmpq_t Pq)
 {
     slong m = W->D - R, r, k, c, len;
     if (W->cancel && *W->cancel)
@@ -56,53 +71,48 @@ static int sp_walk_leaf(sp_walk *W, slong R, const fmpq_mpoly_t P, const fmpq_t 
             fmpq_addmul(W->acc + row, Pq, W->corr);
             continue;
         }
-        fmpq_mpoly_scalar_mul_fmpq(W->term, P, W->corr, W->ctx);
-        fmpq_mpoly_add(W->out->c + row, W->out->c + row, W->term, W->ctx);
+        fmpq_set(W->c, W->corr);
+        for (k = 1; k <= W->kmax; k++)
+            if (W->qvar[k] >= 0) {
+                W->qexp[W->qvar[k]] = (ulong) W->e[k];
+                for (c = 2; c <= W->e[k]; c++)
+                    sp_fmpq_div_si(W->c, c);
+            }
+        fmpq_mpoly_push_term_fmpq_ui(W->B + row, W->c, W->qexp, W->qctx);
     }
     return SP_OK;
 }
 
-/* Walks the parts k, k-1, ..., 1 with remaining weight R0 - (chosen weight) = R, P (Pq in the
-   rational walk) the product so far: prod over chosen parts of q_k^{e_k}/e_k!.  Recursion depth
-   at most R0. */
-static int sp_walk_parts(sp_walk *W, slong R0, slong k, slong R, const fmpq_mpoly_t P, const fmpq_t Pq)
+/* Walks the parts k, k-1, ..., 1 with remaining weight R0 - (chosen weight) = R, Pq the product
+   so far in the rational walk (prod over chosen parts of q_k^{e_k}/e_k!).  Recursion depth at
+   most R0. */
+static int sp_walk_parts(sp_walk *W, slong R0, slong k, slong R, const fmpq_t Pq)
 {
     slong e;
     int st = SP_OK;
-    fmpq_mpoly_t Q;
     fmpq_t Qq;
     if (R == 0)
-        return sp_walk_leaf(W, R0, P, Pq);
+        return sp_walk_leaf(W, R0, Pq);
     if (k > R)
         k = R;
-    while (k > 0 && fmpq_mpoly_is_zero(W->q + k, W->ctx))
+    while (k > 0 && W->qvar[k] < 0)
         k--;
     if (k == 0)
         return SP_OK;
-    fmpq_mpoly_init(Q, W->ctx);
     fmpq_init(Qq);
-    if (W->rational)
-        fmpq_set(Qq, Pq);
-    else
-        fmpq_mpoly_set(Q, P, W->ctx);
+    fmpq_set(Qq, Pq);
     for (e = 0; st == SP_OK && e * k <= R; e++) {
         if (e > 0 && W->rational) {
             fmpq_mul(Qq, Qq, W->qq + k);
-            fmpz_mul_si(fmpq_denref(Qq), fmpq_denref(Qq), e);
-            fmpq_canonicalise(Qq);
-        } else if (e > 0) {
-            fmpq_mpoly_mul(Q, Q, W->q + k, W->ctx);
-            fmpq_mpoly_scalar_div_si(Q, Q, e, W->ctx);
+            sp_fmpq_div_si(Qq, e);
         }
         W->e[k] = e;
-        st = sp_walk_parts(W, R0, k - 1, R - e * k, Q, Qq);
+        st = sp_walk_parts(W, R0, k - 1, R - e * k, Qq);
     }
     W->e[k] = 0;
-    fmpq_mpoly_clear(Q, W->ctx);
     fmpq_clear(Qq);
     return st;
 }
-
 /* Groups the rows of W->out by psi degree |d| (counting sort into start/idx).
    Returns SP_LIMIT when memory runs out. */
 static int sp_walk_group_rows(sp_walk *W)
@@ -132,6 +142,71 @@ static int sp_walk_group_rows(sp_walk *W)
     return SP_OK;
 }
 
+/* Sets up the times of the walk: q_k = -p_k, their rational values when all are rational, and
+   one variable Q_v of W->qctx per nonzero q_k (W->qvar) for the symbolic walk. */
+static void sp_walk_times(sp_walk *W, const fmpq_mpoly_struct *y, slong K, const fmpq_mpoly_ctx_t ctx)
+{
+    slong k;
+    W->q = flint_malloc((size_t) (W->D + 1) * sizeof(fmpq_mpoly_struct));
+    for (k = 0; k <= W->D; k++)
+        fmpq_mpoly_init(W->q + k, ctx);
+    sp_shift_times(W->q, W->D, y, K, ctx);
+    W->rational = 1;
+    W->qvar = malloc((size_t) (W->D + 1) * sizeof(slong));
+    for (k = 0; k <= W->D; k++) {
+        fmpq_mpoly_neg(W->q + k, W->q + k, ctx);
+        W->rational &= fmpq_mpoly_is_fmpq(W->q + k, ctx);
+        W->qvar[k] = (k >= 1 && k <= W->kmax && !fmpq_mpoly_is_zero(W->q + k, ctx)) ? W->nq++ : -1;
+    }
+    W->qq = _fmpq_vec_init(W->D + 1);
+    for (k = 0; W->rational && k <= W->D; k++)
+        fmpq_mpoly_get_fmpq(W->qq + k, W->q + k, ctx);
+    fmpq_mpoly_ctx_init(W->qctx, W->nq > 0 ? W->nq : 1, ORD_LEX);
+    W->qexp = calloc((size_t) (W->nq > 0 ? W->nq : 1), sizeof(ulong));
+}
+
+/* Symbolic walk, last step: out[row] = B[row] with Q_v -> q_k (one composition per row).
+   Returns SP_OK, or SP_LIMIT when FLINT refuses the composition (exponent overflow). */
+static int sp_walk_substitute(sp_walk *W)
+{
+    slong k, r;
+    int st = SP_OK;
+    fmpq_mpoly_struct **C = flint_malloc((size_t) (W->nq > 0 ? W->nq : 1) * sizeof(fmpq_mpoly_struct *));
+    fmpq_mpoly_struct zero;
+    fmpq_mpoly_init(&zero, W->ctx);
+    C[0] = &zero;                                     /* the unused variable when nq = 0 */
+    for (k = 1; k <= W->kmax; k++)
+        if (W->qvar[k] >= 0)
+            C[W->qvar[k]] = W->q + k;
+    for (r = 0; r < W->out->len && st == SP_OK; r++) {
+        fmpq_mpoly_sort_terms(W->B + r, W->qctx);
+        fmpq_mpoly_combine_like_terms(W->B + r, W->qctx);
+        if (!fmpq_mpoly_compose_fmpq_mpoly(W->out->c + r, W->B + r, C, W->qctx, W->ctx))
+            st = SP_LIMIT;
+    }
+    fmpq_mpoly_clear(&zero, W->ctx);
+    flint_free(C);
+    return st;
+}
+
+/* Releases what sp_walk_times and sp_int_by_shift allocated. */
+static void sp_walk_clear(sp_walk *W)
+{
+    slong k;
+    for (k = 0; k <= W->D; k++)
+        fmpq_mpoly_clear(W->q + k, W->ctx);
+    flint_free(W->q);
+    _fmpq_vec_clear(W->qq, W->D + 1);
+    for (k = 0; W->B != NULL && k < W->out->len; k++)
+        fmpq_mpoly_clear(W->B + k, W->qctx);
+    flint_free(W->B);
+    fmpq_mpoly_ctx_clear(W->qctx);
+    if (W->acc != NULL)
+        _fmpq_vec_clear(W->acc, W->out->len);
+    fmpq_clear(W->corr), fmpq_clear(W->c);
+    free(W->qvar), free(W->qexp), free(W->e), free(W->key), free(W->start), free(W->idx);
+}
+
 /* Fills the rows of out with int exp(sum s kappa) psi^d by the shift: one walk per kappa degree R.
    out has its rows; y is a checked curve. */
 static int sp_int_by_shift(sp_table *out, const fmpq_mpoly_struct *y, slong K, wk_table *Tw,
@@ -140,54 +215,33 @@ static int sp_int_by_shift(sp_table *out, const fmpq_mpoly_struct *y, slong K, w
     sp_walk W;
     slong k, R;
     int st;
-    fmpq_mpoly_t one;
-    fmpq_t oneq;
+    fmpq_t one;
     memset(&W, 0, sizeof W);
-    W.out = out;
-    W.Tw = Tw;
-    W.cancel = o->cancel;
-    W.g = out->g;
-    W.n = out->n;
-    W.D = 3 * out->g - 3 + out->n;
+    W.out = out, W.Tw = Tw, W.cancel = o->cancel, W.ctx = ctx;
+    W.g = out->g, W.n = out->n, W.D = 3 * out->g - 3 + out->n;
     W.kmax = K < W.D ? K : W.D;
-    W.ctx = ctx;
-    W.q = flint_malloc((size_t) (W.D + 1) * sizeof(fmpq_mpoly_struct));
-    for (k = 0; k <= W.D; k++)
-        fmpq_mpoly_init(W.q + k, ctx);
-    sp_shift_times(W.q, W.D, y, K, ctx);
-    W.rational = 1;
-    for (k = 0; k <= W.D; k++) {
-        fmpq_mpoly_neg(W.q + k, W.q + k, ctx);
-        W.rational &= fmpq_mpoly_is_fmpq(W.q + k, ctx);
+    sp_walk_times(&W, y, K, ctx);
+    if (W.rational) {
+        W.acc = _fmpq_vec_init(out->len);
+    } else {
+        W.B = flint_malloc((size_t) out->len * sizeof(fmpq_mpoly_struct));
+        for (k = 0; k < out->len; k++)
+            fmpq_mpoly_init(W.B + k, W.qctx);
     }
-    W.qq = _fmpq_vec_init(W.D + 1);
-    W.acc = _fmpq_vec_init(out->len);
-    for (k = 0; W.rational && k <= W.D; k++)
-        fmpq_mpoly_get_fmpq(W.qq + k, W.q + k, ctx);
     W.e = calloc((size_t) W.D + 1, sizeof(slong));
     W.key = malloc((size_t) (W.n + W.D + 1) * sizeof(slong));
-    st = (W.e == NULL || W.key == NULL) ? SP_LIMIT : sp_walk_group_rows(&W);
-    fmpq_init(W.corr);
-    fmpq_mpoly_init(W.term, ctx);
-    fmpq_mpoly_init(one, ctx);
-    fmpq_mpoly_one(one, ctx);
-    fmpq_init(oneq);
-    fmpq_one(oneq);
+    st = (W.e == NULL || W.key == NULL || W.qvar == NULL || W.qexp == NULL) ? SP_LIMIT : sp_walk_group_rows(&W);
+    fmpq_init(W.corr), fmpq_init(W.c), fmpq_init(one);
+    fmpq_one(one);
     for (R = 0; st == SP_OK && R <= W.D; R++)
         if (W.start[W.D - R + 1] > W.start[W.D - R])
-            st = sp_walk_parts(&W, R, W.kmax, R, one, oneq);
-    for (k = 0; W.rational && k < out->len; k++)
+            st = sp_walk_parts(&W, R, W.kmax, R, one);
+    for (k = 0; st == SP_OK && W.rational && k < out->len; k++)
         fmpq_mpoly_set_fmpq(out->c + k, W.acc + k, ctx);
-    fmpq_clear(oneq);
-    _fmpq_vec_clear(W.qq, W.D + 1);
-    _fmpq_vec_clear(W.acc, out->len);
-    fmpq_mpoly_clear(one, ctx);
-    fmpq_mpoly_clear(W.term, ctx);
-    fmpq_clear(W.corr);
-    for (k = 0; k <= W.D; k++)
-        fmpq_mpoly_clear(W.q + k, ctx);
-    flint_free(W.q);
-    free(W.e), free(W.key), free(W.start), free(W.idx);
+    if (st == SP_OK && !W.rational)
+        st = sp_walk_substitute(&W);
+    fmpq_clear(one);
+    sp_walk_clear(&W);
     return st;
 }
 
