@@ -253,9 +253,57 @@ static void bsp_report(const node *call, int st, slong g, slong n)
         diag_error(&call->loc, "omega_{%ld,%ld}: %s", (long) g, (long) n, sp_status_string(st));
 }
 
-/* W = the table of omega_{g,n} of the curve argument 0, refused by
-   estimate beyond --max-terms, compared with the residue route under --verify.  Returns 0 after
-   reporting (C and W are then empty). */
+/* Refuses omega_{g,n} of the read curve C by estimate: the volume engine's time, or the correlator
+   table's size bound (loose: only absurd requests) and the number of correlators.  Returns 0
+   after reporting. */
+static int bsp_refuse_by_estimate(interp *I, const node *call, const bsp_curve *C, slong g, slong n)
+{
+    if (sp_shift_uses_volumes(g, n, C->y, C->K, C->ctx)) {
+        double sec, bytes;
+        wpoly_estimate(&sec, &bytes, g, n);
+        if (sec > I->lim.max_seconds)
+            diag_error(&call->loc, "omega_{%ld,%ld} by the volume engine needs about %.3g s (limit %.3g s, "
+                                   "raise with --max-seconds S)", (long) g, (long) n, sec, I->lim.max_seconds);
+        return sec <= I->lim.max_seconds;
+    }
+    double est = sp_shift_estimate(g, n, C->K), memo = wk_estimate_entries(g, n + 3 * g - 3 + n);
+    if (memo > 1e4 * I->lim.max_table) {
+        diag_error(&call->loc, "omega_{%ld,%ld} of this curve needs correlators of genus %ld with up to %ld "
+                               "points, far beyond the correlator table's limit (bound %.3g entries; --max-table)",
+                   (long) g, (long) n, (long) g, (long) (3 * g - 3 + 2 * n), memo);
+        return 0;
+    }
+    if (est > I->lim.max_terms) {
+        char *num = est > 1e18 ? xstrdup("more than 1e18") : xasprintf("about %.3g", est);
+        diag_error(&call->loc, "omega_{%ld,%ld} needs %s correlators, above the limit of %.3g "
+                               "(raise it with --max-terms N)", (long) g, (long) n, num, I->lim.max_terms);
+        free(num);
+        return 0;
+    }
+    return 1;
+}
+
+/* Under --verify: W against the residue route when its memo estimate is small.  Returns SP_OK, the
+   residue route's error, or -1 after reporting a disagreement. */
+static int bsp_verify(interp *I, const node *call, const bsp_curve *C, const sp_table *W, slong g, slong n)
+{
+    sp_table R;
+    int st;
+    if (!I->verify || sp_residue_estimate(g, n) > 1e5)
+        return SP_OK;
+    sp_table_init(&R, C->ctx);
+    st = sp_omega_residue(&R, g, n, C->y, C->K, 1e6, &cancel_flag, C->ctx);
+    if (st == SP_OK && !sp_table_equal(W, &R, C->ctx)) {
+        diag_error(&call->loc, "verification failed: the intersection numbers and the recursion's "
+                               "residues disagree on omega_{%ld,%ld} (please report this input)", (long) g, (long) n);
+        st = -1;
+    }
+    sp_table_clear(&R, C->ctx);
+    return st;
+}
+
+/* W = the table of omega_{g,n} of the curve argument 0, refused by estimate first, compared with
+   the residue route under --verify.  Returns 0 after reporting (C and W are then empty). */
 static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, sp_table *W,
                        slong g, slong n)
 {
@@ -271,51 +319,18 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
     free(what);
     if (!ok)
         return 0;
-    int vol = sp_shift_uses_volumes(g, n, C->y, C->K, C->ctx);
-    double est = vol ? 0.0 : sp_shift_estimate(g, n, C->K);
-    double memo = vol ? 0.0 : wk_estimate_entries(g, n + 3 * g - 3 + n);
-    if (vol) {
-        double sec, bytes;
-        wpoly_estimate(&sec, &bytes, g, n);
-        if (sec > I->lim.max_seconds) {
-            diag_error(&call->loc, "omega_{%ld,%ld} by the volume engine needs about %.3g s (limit %.3g s, "
-                                   "raise with --max-seconds S)", (long) g, (long) n, sec, I->lim.max_seconds);
-            bsp_curve_clear(C);
-            return 0;
-        }
-        wpvol_set_cancel(&cancel_flag);
-    }
-    if (memo > 1e4 * I->lim.max_table) {       /* the bound is loose: only absurd requests */
-        diag_error(&call->loc, "omega_{%ld,%ld} of this curve needs correlators of genus %ld with up to %ld "
-                               "points, far beyond the correlator table's limit (bound %.3g entries; --max-table)",
-                   (long) g, (long) n, (long) g, (long) (3 * g - 3 + 2 * n), memo);
-        bsp_curve_clear(C);
-        return 0;
-    }
-    if (est > I->lim.max_terms) {
-        char *num = est > 1e18 ? xstrdup("more than 1e18") : xasprintf("about %.3g", est);
-        diag_error(&call->loc, "omega_{%ld,%ld} needs %s correlators, above the limit of %.3g "
-                               "(raise it with --max-terms N)", (long) g, (long) n, num, I->lim.max_terms);
-        free(num);
+    if (!bsp_refuse_by_estimate(I, call, C, g, n)) {
         bsp_curve_clear(C);
         return 0;
     }
     sp_options_default(&o);
     o.cancel = &cancel_flag;
     o.threads = 2;
+    wpvol_set_cancel(&cancel_flag);
     sp_table_init(W, C->ctx);
     int st = sp_omega_shift(W, g, n, C->y, C->K, I->wk, &o, C->ctx);
-    if (st == SP_OK && I->verify && sp_residue_estimate(g, n) <= 1e5) {
-        sp_table R;
-        sp_table_init(&R, C->ctx);
-        st = sp_omega_residue(&R, g, n, C->y, C->K, 1e6, &cancel_flag, C->ctx);
-        if (st == SP_OK && !sp_table_equal(W, &R, C->ctx)) {
-            diag_error(&call->loc, "verification failed: the intersection numbers and the recursion's "
-                                   "residues disagree on omega_{%ld,%ld} (please report this input)", (long) g, (long) n);
-            st = -1;
-        }
-        sp_table_clear(&R, C->ctx);
-    }
+    if (st == SP_OK)
+        st = bsp_verify(I, call, C, W, g, n);
     if (st == SP_OK)
         return 1;
     if (st > 0)
