@@ -8,6 +8,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <flint/fmpq_mpoly.h>
+#include <flint/fmpz.h>
 #include "spectral/spectral.h"
 
 #define SPU_NVARS 11

@@ -8,6 +8,9 @@
  * 3. Errors: nonzero constant term, huge order.
  */
 #include <flint/fmpq_mpoly.h>
+#include <flint/fmpq_poly.h>
+#include <flint/fmpz.h>
+#include <flint/ulong_extras.h>
 #include "series/tseries_trig.h"
 #include "unit.h"
 

@@ -4,6 +4,9 @@
  * Random curves are in test_spectral_routes.c.
  */
 #include <string.h>
+#include <flint/fmpz.h>
+#include <flint/fmpz_vec.h>
+#include <flint/fmpq.h>
 #include "correlators/pushforward.h"
 #include "correlators/wk.h"
 #include "wk_published.h"

@@ -9,6 +9,7 @@
  */
 #include <flint/flint.h>
 #include <flint/fmpq_poly.h>
+#include <flint/ulong_extras.h>
 #include "correlators/wk.h"
 #include "spectral_util.h"
 #include "unit.h"
