@@ -2,7 +2,7 @@
  * (src/spectral/spectral.h) agree, the intersection numbers at the Kaufmann-Manin-Zagier shifted
  * times against the topological recursion's residues, on random curves:
  *   1. 2000 random rational curves (times PSIKAPPA_TEST_MULTIPLIER), y_0..y_K with K <= 5 and
- *      random (g, n) with 2g-2+n <= 4;
+ *      random (g, n) with 2g-2+n <= 6;
  *   2. curves with symbolic coefficients y_k = c_k + a_k (a_1..a_6 formal variables), exact
  *      polynomial identity in the a_k, 2g-2+n <= 3;
  *   3. the dictionary: exp(-sum s_j u^j) reproduces sum (2k+1)!! y_k/y_0 u^k (series identity).
@@ -17,7 +17,7 @@
 static unit_report rep;
 
 static const slong cases[][2] = {{0, 3}, {0, 4}, {0, 5}, {0, 6}, {1, 1}, {1, 2}, {1, 3}, {1, 4},
-                                 {2, 1}, {2, 2}, {3, 1}};
+                                 {2, 1}, {2, 2}, {3, 1}, {0, 7}, {1, 5}, {2, 3}, {3, 2}, {4, 1}};
 #define NCASES ((slong) (sizeof cases / sizeof cases[0]))
 
 /* A random small rational in [-9, 9] / [1, 6], nonzero when nonzero is set. */
