@@ -21,6 +21,7 @@
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
+#include <flint/fmpz.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
 #include "spectral.h"
@@ -152,52 +153,89 @@ static int res_term_handle(sp_res *S, fmpq_mpoly_t T, slong g, const slong *J, s
     return st;
 }
 
-/* Product terms: T += sum over g_1 + g_2 = g and I in J (both factors stable) of
-   sum_{a+b=p-2} W_{g_1}[a, I] W_{g_2}[b, J \ I]; each unordered pair once, doubled. */
-static int res_term_split(sp_res *S, fmpq_mpoly_t T, slong g, const slong *J, slong m, slong p,
-                          slong *k1, slong *k2)
+/* The split's factors for one choice (k_i of the c_i copies of the i-th distinct value v_i of J go
+   to I): key1 = {a, I}, key2 = {b, J \ I} sorted, lengths *n1, *n2; returns prod binom(c_i, k_i). */
+static slong res_split_keys(const slong *v, const slong *c, const slong *k, slong nd, slong a, slong b,
+                            slong *key1, slong *n1, slong *key2, slong *n2)
 {
-    slong g1, mask, full = ((slong) 1 << m) - 1, a, i, c1, c2;
+    slong i, t, w = 1;
+    fmpz_t bin;
+    fmpz_init(bin);
+    *n1 = 1, *n2 = 1;
+    key1[0] = a, key2[0] = b;
+    for (i = 0; i < nd; i++) {
+        for (t = 0; t < k[i]; t++)
+            key1[(*n1)++] = v[i];
+        for (t = k[i]; t < c[i]; t++)
+            key2[(*n2)++] = v[i];
+        fmpz_bin_uiui(bin, (ulong) c[i], (ulong) k[i]);
+        w *= fmpz_get_si(bin);
+    }
+    fmpz_clear(bin);
+    res_sort(key1, *n1);
+    res_sort(key2, *n2);
+    return w;
+}
+
+/* T += w * sum_{a+b=p-2} W_{g_1}[a, I] W_{g_2}[b, J \ I] for one split (the choice k). */
+static int res_split_add(sp_res *S, fmpq_mpoly_t T, slong g1, slong g2, const slong *v, const slong *c,
+                         const slong *k, slong nd, slong p, slong w, slong *key1, slong *key2)
+{
+    slong a, n1, n2;
     int st = SP_OK;
     const fmpq_mpoly_struct *v1, *v2;
     fmpq_mpoly_t t;
     fmpq_mpoly_init(t, S->ctx);
-    for (g1 = 0; g1 <= g && st == SP_OK; g1++)
-        for (mask = 0; mask <= full && st == SP_OK; mask++) {
-            slong g2 = g - g1, comp = full & ~mask;
-            if (g1 > g2 || (g1 == g2 && mask > comp))
-                continue;
-            for (i = 0, c1 = 1, c2 = 1; i < m; i++) {
-                if (mask >> i & 1)
-                    k1[c1++] = J[i];
-                else
-                    k2[c2++] = J[i];
-            }
-            if (!res_stable(g1, c1) || !res_stable(g2, c2))
-                continue;
-            for (a = 0; a <= p - 2 && st == SP_OK; a++) {
-                k1[0] = a;
-                k2[0] = p - 2 - a;
-                res_sort(k1, c1);
-                res_sort(k2, c2);
-                st = res_get(S, g1, k1, c1, &v1);
-                if (st == SP_OK && !fmpq_mpoly_is_zero(v1, S->ctx))
-                    st = res_get(S, g2, k2, c2, &v2);
-                if (st == SP_OK && !fmpq_mpoly_is_zero(v1, S->ctx) && !fmpq_mpoly_is_zero(v2, S->ctx)) {
-                    fmpq_mpoly_mul(t, v1, v2, S->ctx);
-                    if (!(g1 == g2 && mask == comp))
-                        fmpq_mpoly_scalar_mul_si(t, t, 2, S->ctx);
-                    fmpq_mpoly_add(T, T, t, S->ctx);
-                }
-                for (i = 0, c1 = 1, c2 = 1; i < m; i++) {     /* the sort moved J's entries */
-                    if (mask >> i & 1)
-                        k1[c1++] = J[i];
-                    else
-                        k2[c2++] = J[i];
-                }
-            }
-        }
+    for (a = 0; a <= p - 2 && st == SP_OK; a++) {
+        slong wt = w * res_split_keys(v, c, k, nd, a, p - 2 - a, key1, &n1, key2, &n2);
+        if (!res_stable(g1, n1) || !res_stable(g2, n2))
+            break;
+        st = res_get(S, g1, key1, n1, &v1);
+        if (st == SP_OK && !fmpq_mpoly_is_zero(v1, S->ctx))
+            st = res_get(S, g2, key2, n2, &v2);
+        if (st != SP_OK || fmpq_mpoly_is_zero(v1, S->ctx) || fmpq_mpoly_is_zero(v2, S->ctx))
+            continue;
+        fmpq_mpoly_mul(t, v1, v2, S->ctx);
+        fmpq_mpoly_scalar_mul_si(t, t, wt, S->ctx);
+        fmpq_mpoly_add(T, T, t, S->ctx);
+    }
     fmpq_mpoly_clear(t, S->ctx);
+    return st;
+}
+
+/* Product terms: T += sum over g_1 + g_2 = g and I in J (both factors stable) of
+   sum_{a+b=p-2} W_{g_1}[a, I] W_{g_2}[b, J \ I].  J (sorted) is taken as a multiset: a split
+   keeps k_i of the c_i copies of each distinct value, weighted by prod binom(c_i, k_i); each
+   unordered pair {(g_1, k), (g_2, c - k)} is visited once and doubled. */
+static int res_term_split(sp_res *S, fmpq_mpoly_t T, slong g, const slong *J, slong m, slong p,
+                          slong *key1, slong *key2)
+{
+    slong v[SP_RESIDUE_MAX_POINTS], c[SP_RESIDUE_MAX_POINTS], k[SP_RESIDUE_MAX_POINTS], nd = 0, i, g1;
+    int st = SP_OK;
+    if (m >= SP_RESIDUE_MAX_POINTS)
+        return SP_LIMIT;
+    for (i = 0; i < m; i++) {
+        if (nd > 0 && v[nd - 1] == J[i])
+            c[nd - 1]++;
+        else
+            v[nd] = J[i], c[nd++] = 1;
+    }
+    for (g1 = 0; g1 <= g - g1 && st == SP_OK; g1++) {
+        memset(k, 0, sizeof k);
+        for (;;) {
+            int cmp = 0;                          /* k against its complement c - k, lexicographic */
+            for (i = 0; i < nd && cmp == 0; i++)
+                cmp = (k[i] > c[i] - k[i]) - (k[i] < c[i] - k[i]);
+            if (g1 < g - g1 || cmp <= 0)
+                st = res_split_add(S, T, g1, g - g1, v, c, k, nd, p, (g1 == g - g1 && cmp == 0) ? 1 : 2,
+                                   key1, key2);
+            for (i = 0; i < nd && k[i] == c[i]; i++)      /* next choice vector */
+                k[i] = 0;
+            if (i == nd || st != SP_OK)
+                break;
+            k[i]++;
+        }
+    }
     return st;
 }
 
@@ -362,6 +400,8 @@ int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y
         return SP_BADARG;
     sp_table_clear(out, ctx);
     st = sp_curve_check(y, K, ctx);
+    if (st == SP_OK && g >= 0 && n >= 1 && g + n > SP_RESIDUE_MAX_POINTS)
+        st = SP_LIMIT;                  /* the recursion reaches omega_{g',n'} with n' <= n + g */
     if (st == SP_OK)
         st = sp_table_make_rows(out, g, n, ctx);
     if (st != SP_OK)

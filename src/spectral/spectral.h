@@ -121,8 +121,12 @@ int sp_omega_shift(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, 
    need for (g, n), as a double; HUGE_VAL beyond 1e18. */
 double sp_residue_estimate(slong g, slong n);
 
+/* Largest g + n of the residue route (its multiset splits use binomial weights in a slong). */
+#define SP_RESIDUE_MAX_POINTS 60
+
 /* out = W_{g,n} by the topological recursion (residues at z = 0), independent of the correlator
-   engines.  max_entries > 0 bounds the memo (SP_LIMIT beyond it); cancel may be NULL. */
+   engines.  max_entries > 0 bounds the memo (SP_LIMIT beyond it, and for g + n above
+   SP_RESIDUE_MAX_POINTS); cancel may be NULL. */
 int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
                      double max_entries, volatile sig_atomic_t *cancel, const fmpq_mpoly_ctx_t ctx);
 
