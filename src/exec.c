@@ -9,6 +9,7 @@
 #include "theta_lang.h"
 #include "diag.h"
 #include "hodge_lang.h"
+#include "builtins.h"
 #include "interp.h"
 #include "memory.h"
 #include "parse.h"
@@ -196,6 +197,15 @@ static int exec_explain(interp *I, scope *s, const node *n)
     const node *e = n->a;
     if (e->kind == N_SPEC)
         return specialise_explain(I, s, e);
+    if (e->kind == N_CALL && spectral_explains(e->text)) {
+        if (!spectral_explain(I, s, e))
+            return 0;
+        value *v = eval_expr(I, s, e);
+        if (!v)
+            return 0;
+        fputs("  = ", I->out);
+        return exec_print_value(I, e, v, "\n");
+    }
     if (e->kind != N_INTEGRAL) {
         diag_error(&e->loc, "explain takes an integral int_{g,n} C or a specialisation F_{g} with ...");
         return 0;

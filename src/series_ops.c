@@ -68,6 +68,15 @@ value *series_arith(interp *I, const node *n, int op, const value *a, const valu
         return NULL;
     }
     const tseries *shape = series_shape(a, b);
+    if (op == '/' && a->kind == V_SERIES && b->kind == V_NUM && !fmpq_mpoly_is_fmpq(b->num, I->ring.ctx)
+        && fmpq_mpoly_degree_si(b->num, a->ser->var, I->ring.ctx) == 0) {
+        /* a constant that is not a rational number, e.g. sin(2*pi*Z)/(2*pi): exact when it divides
+           every known coefficient */
+        value *r = value_new_series(a->ser->var, a->ser->order, &I->ring);
+        if (fmpq_mpoly_divides(r->ser->p, a->ser->p, b->num, I->ring.ctx))
+            return r;
+        value_release(r);
+    }
     tseries x, y;
     tseries_init(&x, shape->var, shape->order, I->ring.ctx);
     tseries_init(&y, shape->var, shape->order, I->ring.ctx);

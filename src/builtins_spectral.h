@@ -1,0 +1,32 @@
+/* builtins_spectral.h - helpers shared by the spectral-curve builtins (builtins_spectral.c) and
+   their explain (builtins_spectral_explain.c); language side only. */
+#ifndef PSIKAPPA_BUILTINS_SPECTRAL_H
+#define PSIKAPPA_BUILTINS_SPECTRAL_H
+
+#include <flint/fmpq_mpoly.h>
+#include "builtins.h"
+
+/* A curve read from a value: y_0..y_K in a small context holding only the variables used. */
+typedef struct {
+    slong z, K;                    /* curve variable (ring index), highest y_k read */
+    fmpq_mpoly_ctx_t ctx;          /* nv >= 1 variables */
+    slong nv;
+    slong *map;                    /* local variable i is ring variable map[i] */
+    fmpq_mpoly_struct *y;          /* K + 1 coefficients in ctx */
+} bsp_curve;
+
+/* Reads y_0..y_K from the curve (a series, argument i) into C, in a context of the variables
+   used, then lowers K to the curve's own degree; `what` names the request in the error about a
+   series known to too low an order.  Returns 0 after reporting an error (C is then empty);
+   otherwise release C with bsp_curve_clear. */
+int bsp_curve_read(interp *I, const node *call, value **args, int i, slong K, const char *what, bsp_curve *C);
+void bsp_curve_clear(bsp_curve *C);
+
+/* out (ring context) = p (the curve's context) with the curve's variables put back. */
+void bsp_to_ring(interp *I, fmpq_mpoly_t out, const fmpq_mpoly_t p, const bsp_curve *C);
+
+/* Argument i as a multi-index (an integer, or a list of integers >= 0): returns n and sets *d
+   (owned by the caller), or 0 after reporting an error. */
+slong bsp_read_index(interp *I, const node *call, value **args, int i, slong **d);
+
+#endif
