@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include "classes/cpoly.h"
+#include "classes/cxsize.h"
 #include "correlators/kappashift.h"
 #include "correlators/pushforward.h"
 #include "correlators/wk_kdv.h"
@@ -486,8 +487,26 @@ static value *integrate_compute(interp *I, const node *where, slong g, slong n, 
     return integrate_by_reduction(I, where, g, n, integrand, NULL);
 }
 
+/* Nodes of an integrand unfolded into a tree beyond which it is refused: a
+   class built by repeated squaring (c = c*c) is a small graph standing for a
+   tree of 2^k nodes, which no walker could visit. */
+#define INTEGRATE_MAX_TREE 1e8
+
+/* Refuses, before any walk over it, an integrand whose tree is too large. */
+static int integrate_tree_ok(const node *where, const value *integrand)
+{
+    if (integrand->kind != V_CLASS || cx_tree_size(integrand->cls, INTEGRATE_MAX_TREE) < INTEGRATE_MAX_TREE)
+        return 1;
+    diag_error(&where->loc, "this class expression shares its parts so often that written out it has more than "
+                            "%.0e nodes (it was built by repeated squaring or the like); expand it in smaller steps",
+               INTEGRATE_MAX_TREE);
+    return 0;
+}
+
 value *integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
+    if (!integrate_tree_ok(where, integrand))
+        return NULL;
     if (theta_in_value(integrand))
         return theta_integrate_value(I, where, g, n, integrand);
     if (integrand_is_zero(I, where, g, n, integrand)) {
@@ -626,6 +645,8 @@ static void reduction_clear(reduction *R)
 
 int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
+    if (!integrate_tree_ok(where, integrand))
+        return 0;
     if (theta_in_value(integrand))
         return theta_explain(I, where, g, n, integrand);
     if (!integrate_space_ok(I, where, g, n))
