@@ -29,6 +29,7 @@
  * tau_{k+1}.  theta_kappa_shift extracts coefficients of this identity; it shares nothing with the
  * set-partition enumeration except the correlators.
  */
+#include <string.h>
 #include <stdlib.h>
 #include <flint/fmpq_mpoly.h>
 #include "theta_internal.h"
