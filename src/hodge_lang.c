@@ -5,6 +5,7 @@
 
 #include "cancel.h"
 #include "classes/cpoly.h"
+#include "class_expand.h"
 #include "diag.h"
 #include "hodge/hodge.h"
 #include "hodge_lang.h"
@@ -80,24 +81,7 @@ static hodge_ctx *hodge_lang_ctx(interp *I)
 /* Expands the integrand with the Hodge slots, reporting errors at the responsible node. */
 static int hodge_lang_expand(cpoly *P, const node *where, const value *integrand)
 {
-    const cx *bad = NULL;
-    int rc = cpoly_expand(P, integrand->cls, &bad);
-    const node *at = bad && bad->origin ? bad->origin : where;
-    if (rc == CPOLY_PSI_RANGE)
-        diag_error(&at->loc, "psi_%ld does not exist on Mbar_{%ld,%ld} (its points are numbered 1..%ld)",
-                   (long)bad->index, (long)P->g, (long)P->n, (long)P->n);
-    else if (rc == CPOLY_EXP_CONSTANT)
-        diag_error(&at->loc, "exp() of a class with a nonzero degree-0 part has no exact value here; "
-                             "take the constant factor out");
-    else if (rc == CPOLY_TOO_DEEP)
-        diag_error(&where->loc, "this class expression is nested too deeply to expand");
-    else if (rc == CPOLY_TOO_BIG)
-        diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "
-                             "(raise the limit with --max-terms N)",
-                   (long)P->g, (long)P->n, (long)P->max_terms);
-    else if (rc != CPOLY_OK)
-        diag_error(&at->loc, "this class cannot be expanded here");
-    return rc == CPOLY_OK;
+    return class_expand_reported(P, where, integrand->cls);
 }
 
 /* What the term callbacks share. */

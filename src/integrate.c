@@ -10,6 +10,7 @@
 #include "correlators/pushforward.h"
 #include "correlators/wk_kdv.h"
 #include "cancel.h"
+#include "class_expand.h"
 #include "diag.h"
 #include "hodge_lang.h"
 #include "progress.h"
@@ -173,26 +174,9 @@ static int integrate_expand(cpoly *P, const node *where, const value *integrand)
         return 0;
     }
     cx *c = value_to_class(integrand);
-    const cx *bad = NULL;
-    int rc = cpoly_expand(P, c, &bad);
-    const node *at = bad && bad->origin ? bad->origin : where;
-    if (rc == CPOLY_PSI_RANGE)
-        diag_error(&at->loc, "psi_%ld does not exist on Mbar_{%ld,%ld} (its points are numbered 1..%ld)",
-                   (long)bad->index, (long)P->g, (long)P->n, (long)P->n);
-    else if (rc == CPOLY_EXP_CONSTANT)
-        diag_error(&at->loc, "exp() of a class with a nonzero degree-0 part has no exact value here; "
-                             "take the constant factor out");
-    else if (rc == CPOLY_TOO_DEEP)
-        diag_error(&where->loc, "this class expression is nested too deeply to expand (build it with fewer "
-                                "nested sums, e.g. sum_{i=a..b} inside one integral)");
-    else if (rc == CPOLY_CANCELLED)
-        eval_cancelled(where);
-    else if (rc == CPOLY_TOO_BIG)
-        diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "
-                             "(raise the limit with --max-terms N)",
-                   (long)P->g, (long)P->n, (long)P->max_terms);
+    int ok = class_expand_reported(P, where, c);
     cx_release(c);
-    return rc == CPOLY_OK;
+    return ok;
 }
 
 typedef struct {

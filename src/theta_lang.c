@@ -14,6 +14,7 @@
 #include "cancel.h"
 #include "classes/cpoly.h"
 #include "correlators/pushforward.h"
+#include "class_expand.h"
 #include "diag.h"
 #include "format/print.h"
 #include "source.h"
@@ -199,24 +200,9 @@ static void theta_report_bad(const node *where, const cx *term, int order)
 
 /* Expands the Theta-free rest R up to degree g-1 into P, reporting errors at their nodes.
    Returns 1 on success. */
-static int theta_expand_rest(interp *I, const node *where, cpoly *P, const cx *rest)
+static int theta_expand_rest(cpoly *P, const node *where, const cx *rest)
 {
-    const cx *bad = NULL;
-    int rc = cpoly_expand(P, rest, &bad);
-    const node *at = bad && bad->origin ? bad->origin : where;
-    if (rc == CPOLY_PSI_RANGE)
-        diag_error(&at->loc, "psi_%ld does not exist on Mbar_{%ld,%ld} (its points are numbered 1..%ld)",
-                   (long)bad->index, (long)P->g, (long)P->n, (long)P->n);
-    else if (rc == CPOLY_EXP_CONSTANT)
-        diag_error(&at->loc, "exp() of a class with a nonzero degree-0 part has no exact value here; "
-                             "take the constant factor out");
-    else if (rc == CPOLY_TOO_BIG)
-        diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "
-                             "(raise the limit with --max-terms N)", (long)P->g, (long)P->n, (long)P->max_terms);
-    else if (rc != CPOLY_OK)
-        diag_error(&at->loc, "this class expression cannot be expanded next to Theta");
-    (void)I;
-    return rc == CPOLY_OK;
+    return class_expand_reported(P, where, rest);
 }
 
 typedef struct {
@@ -325,7 +311,7 @@ static int theta_integrate_rest(interp *I, const node *where, slong g, slong n, 
         return 0;
     cpoly P;
     cpoly_init_degree(&P, g, n, g - 1, I->lim.max_class_terms, I->ring.ctx);
-    int ok = theta_expand_rest(I, where, &P, rest) && theta_cost_ok(I, where, &P);
+    int ok = theta_expand_rest(&P, where, rest) && theta_cost_ok(I, where, &P);
     if (ok) {
         theta_run R = {I, where, acc, g, WK_OK, 0, 0, NULL};
         cpoly_foreach_top(&P, theta_run_term, &R);
@@ -481,7 +467,7 @@ static int theta_explain_term(void *data, const cx *term, int order, cx *rest)
         return 0;
     cpoly P;
     cpoly_init_degree(&P, E->red.g, E->n, E->red.g - 1, I->lim.max_class_terms, I->ring.ctx);
-    int ok = theta_expand_rest(I, E->where, &P, rest);
+    int ok = theta_expand_rest(&P, E->where, rest);
     if (ok) {
         int rc = cpoly_foreach_top(&P, theta_red_monomial, &E->red);
         if (rc != WK_OK)
