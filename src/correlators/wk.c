@@ -387,14 +387,9 @@ static int wk_eval_key(wk_table *T, slong g, const slong *key, slong n, slong *i
    Returns WK_OK when the correlator may be computed. */
 static int wk_check_args(const wk_table *T, slong g, const slong *d, slong n)
 {
-    slong i;
-    if (T == NULL || g < 0 || n < 0 || (n > 0 && d == NULL))
-        return WK_BADARG;
-    for (i = 0; i < n; i++)
-        if (d[i] < 0)
-            return WK_BADARG;
-    if ((g == 0 && n <= 2) || (g == 1 && n == 0))
-        return WK_UNSTABLE;
+    int st = wk_check_space(T == NULL, g, d, n);
+    if (st != WK_OK)
+        return st;
     if (g > WK_MAX_DEPTH || n > WK_MAX_DEPTH + 2 || 2 * g - 2 + n > WK_MAX_DEPTH)
         return WK_LIMIT;
     return WK_OK;

@@ -98,6 +98,11 @@ int wk_two_point(fmpq_t res, slong g, slong k);
    Status codes as for wk_table_correlator. */
 int wk_correlator(fmpq_t res, wk_table *T, slong g, const slong *d, slong n);
 
+/* The checks every correlator route makes first, in the documented order: WK_BADARG for a
+   missing table (table_missing), a negative genus, count or index, then WK_UNSTABLE for
+   Mbar_{0,n<=2} and Mbar_{1,0}; WK_OK otherwise.  Each route adds its own size limit. */
+int wk_check_space(int table_missing, slong g, const slong *d, slong n);
+
 /* Whether sum d_i = 3g-3+n (the dimension condition), for 0 <= g, n <= WORD_MAX / 8 and
    d_i >= 0; huge d_i cannot overflow. */
 int wk_degree_matches(slong g, const slong *d, slong n);

@@ -14,6 +14,18 @@
 #include <flint/fmpz.h>
 #include "wk.h"
 
+int wk_check_space(int table_missing, slong g, const slong *d, slong n)
+{
+    if (table_missing || g < 0 || n < 0 || (n > 0 && d == NULL))
+        return WK_BADARG;
+    for (slong i = 0; i < n; i++)
+        if (d[i] < 0)
+            return WK_BADARG;
+    if ((g == 0 && n <= 2) || (g == 1 && n == 0))
+        return WK_UNSTABLE;
+    return WK_OK;
+}
+
 /* Whether sum d_i = 3g-3+n, for 0 <= g, n <= WORD_MAX / 8 and d_i >= 0.
    Stops once the target is passed, so huge d_i cannot overflow. */
 int wk_degree_matches(slong g, const slong *d, slong n)

@@ -582,14 +582,9 @@ static int kdv_eval(wk_kdv_table *T, const slong *key, slong n, fmpq_t out)
    WK_OK when the correlator may be computed. */
 static int kdv_check_args(const wk_kdv_table *T, slong g, const slong *d, slong n)
 {
-    slong i;
-    if (T == NULL || g < 0 || n < 0 || (n > 0 && d == NULL))
-        return WK_BADARG;
-    for (i = 0; i < n; i++)
-        if (d[i] < 0)
-            return WK_BADARG;
-    if ((g == 0 && n <= 2) || (g == 1 && n == 0))
-        return WK_UNSTABLE;
+    int st = wk_check_space(T == NULL, g, d, n);
+    if (st != WK_OK)
+        return st;
     if (g > WK_KDV_MAX_EULER || n > WK_KDV_MAX_EULER + 2 || 2 * g - 2 + n > WK_KDV_MAX_EULER)
         return WK_LIMIT;
     return WK_OK;

@@ -131,14 +131,9 @@ int theta_eval(theta_table *T, const slong *key, slong n, fmpz_t x)
    Returns WK_OK when the number may be computed. */
 static int theta_check_args(const theta_table *T, slong g, const slong *d, slong n)
 {
-    slong i;
-    if (T == NULL || g < 0 || n < 0 || (n > 0 && d == NULL))
-        return WK_BADARG;
-    for (i = 0; i < n; i++)
-        if (d[i] < 0)
-            return WK_BADARG;
-    if ((g == 0 && n <= 2) || (g == 1 && n == 0))
-        return WK_UNSTABLE;
+    int st = wk_check_space(T == NULL, g, d, n);
+    if (st != WK_OK)
+        return st;
     if (g > THETA_MAX_GENUS || n > 4 * THETA_MAX_GENUS)
         return WK_LIMIT;
     return WK_OK;
