@@ -565,34 +565,6 @@ static int reduction_term(void *data, const slong *psi, slong n, const slong *km
     return rc;
 }
 
-static void reduction_print_coeff(strbuf *b, const fmpq_mpoly_t c, int first, const scalar_ring *ring)
-{
-    fmpq_mpoly_t a;
-    fmpq_mpoly_init(a, ring->ctx);
-    fmpq_mpoly_set(a, c, ring->ctx);
-    int single = fmpq_mpoly_length(a, ring->ctx) == 1;
-    fmpq_t lead;
-    fmpq_init(lead);
-    fmpq_mpoly_get_term_coeff_fmpq(lead, a, 0, ring->ctx);
-    if (single && fmpq_sgn(lead) < 0) {
-        strbuf_puts(b, first ? "-" : " - ");
-        fmpq_mpoly_neg(a, a, ring->ctx);
-    } else if (!first) {
-        strbuf_puts(b, " + ");
-    }
-    if (!fmpq_mpoly_is_one(a, ring->ctx)) {
-        char *s = scalar_get_str(a, ring);
-        if (single)
-            strbuf_puts(b, s);
-        else
-            strbuf_printf(b, "(%s)", s);
-        strbuf_putc(b, '*');
-        free(s);
-    }
-    fmpq_clear(lead);
-    fmpq_mpoly_clear(a, ring->ctx);
-}
-
 static void reduction_print(FILE *out, const reduction *R, const node *where)
 {
     strbuf b;
@@ -607,7 +579,7 @@ static void reduction_print(FILE *out, const reduction *R, const node *where)
     for (slong i = 0; i < R->len; i++) {
         if (fmpq_mpoly_is_zero(R->coeffs + i, R->I->ring.ctx))
             continue;
-        reduction_print_coeff(&b, R->coeffs + i, first, &R->I->ring);
+        print_signed_coeff(&b, R->coeffs + i, first, &R->I->ring);
         print_correlator(&b, R->g, R->keys[i] + 1, R->keys[i][0]);
         first = 0;
     }

@@ -478,31 +478,6 @@ static int theta_explain_term(void *data, const cx *term, int order, cx *rest)
     return ok;
 }
 
-/* Appends " + c*" / " - c*" / "c*" for the coefficient c (nothing for 1), as the psi reduction does. */
-static void theta_print_coeff(strbuf *b, const fmpq_mpoly_t c, int first, const scalar_ring *ring)
-{
-    fmpq_mpoly_t a;
-    fmpq_t lead;
-    fmpq_mpoly_init(a, ring->ctx);
-    fmpq_init(lead);
-    fmpq_mpoly_set(a, c, ring->ctx);
-    int single = fmpq_mpoly_length(a, ring->ctx) == 1;
-    fmpq_mpoly_get_term_coeff_fmpq(lead, a, 0, ring->ctx);
-    if (single && fmpq_sgn(lead) < 0) {
-        strbuf_puts(b, first ? "-" : " - ");
-        fmpq_mpoly_neg(a, a, ring->ctx);
-    } else if (!first) {
-        strbuf_puts(b, " + ");
-    }
-    if (!fmpq_mpoly_is_one(a, ring->ctx)) {
-        char *s = scalar_get_str(a, ring);
-        strbuf_printf(b, single ? "%s*" : "(%s)*", s);
-        free(s);
-    }
-    fmpq_clear(lead);
-    fmpq_mpoly_clear(a, ring->ctx);
-}
-
 /* Prints the source of the integral, the reduction and the reasons for vanishing parts. */
 static void theta_explain_print(interp *I, const theta_explain_walk *E)
 {
@@ -519,7 +494,7 @@ static void theta_explain_print(interp *I, const theta_explain_walk *E)
     for (slong i = 0; i < E->red.len; i++) {
         if (fmpq_mpoly_is_zero(E->red.coeffs + i, I->ring.ctx))
             continue;
-        theta_print_coeff(&b, E->red.coeffs + i, first, &I->ring);
+        print_signed_coeff(&b, E->red.coeffs + i, first, &I->ring);
         strbuf_init(&c);
         print_correlator(&c, g, E->red.keys[i] + 1, E->red.keys[i][0]);
         strbuf_printf(&b, "<Theta | %s", c.data + 1);

@@ -170,3 +170,30 @@ void print_correlator(strbuf *b, slong g, const slong *d, slong n)
     }
     strbuf_printf(b, ">_%ld", (long)g);
 }
+
+/* Appends a coefficient c of a sum being written: " + c*" or " - c*" (c*
+   alone, or -c*, when first), nothing but the sign for 1, and (c)* when c
+   has several terms. */
+void print_signed_coeff(strbuf *b, const fmpq_mpoly_t c, int first, const scalar_ring *ring)
+{
+    fmpq_mpoly_t a;
+    fmpq_mpoly_init(a, ring->ctx);
+    fmpq_mpoly_set(a, c, ring->ctx);
+    int single = fmpq_mpoly_length(a, ring->ctx) == 1;
+    fmpq_t lead;
+    fmpq_init(lead);
+    fmpq_mpoly_get_term_coeff_fmpq(lead, a, 0, ring->ctx);
+    if (single && fmpq_sgn(lead) < 0) {
+        strbuf_puts(b, first ? "-" : " - ");
+        fmpq_mpoly_neg(a, a, ring->ctx);
+    } else if (!first) {
+        strbuf_puts(b, " + ");
+    }
+    if (!fmpq_mpoly_is_one(a, ring->ctx)) {
+        char *s = scalar_get_str(a, ring);
+        strbuf_printf(b, single ? "%s*" : "(%s)*", s);
+        free(s);
+    }
+    fmpq_clear(lead);
+    fmpq_mpoly_clear(a, ring->ctx);
+}

@@ -31,4 +31,9 @@ char *print_real(const arb_t x);
    (printed ascending, equal entries shown as powers). */
 void print_correlator(strbuf *b, slong g, const slong *d, slong n);
 
+/* Appends the coefficient c of a term of a sum being written out: " + c*",
+   " - c*" (c*, -c* when first); only the sign for 1; (c)* when c has several
+   terms. */
+void print_signed_coeff(strbuf *b, const fmpq_mpoly_t c, int first, const scalar_ring *ring);
+
 #endif
