@@ -175,9 +175,9 @@ def typeahead_session(rep, exe, env):
     rep.check(s.expect(PROMPT) is not None, "type-ahead session starts", s)
     step(rep, s, "let n = 7", PROMPT, "a definition before the type-ahead")
     s.send("sum_{i=1..1000000000} i\r")
-    time.sleep(1.0)
+    time.sleep(3.0)   # the computation must be running (terminal set for it) before the type-ahead
     s.send("n + 1\r")
-    time.sleep(0.5)
+    time.sleep(1.0)
     s.send("\x03")
     rep.check(s.expect(r"interrupted.*" + PROMPT, timeout=30.0) is not None,
               "Ctrl-C after type-ahead stops the computation", s)
