@@ -18,6 +18,7 @@
 #include <flint/fmpq_mpoly.h>
 #include <flint/ulong_extras.h>
 #include "hodge/hodge.h"
+#include "compositions.h"
 #include "unit.h"
 
 static unit_report rep;
@@ -37,24 +38,6 @@ static void check_eq(int st, const fmpq_t v, const fmpq_t e, int route, const ch
         unit_print_fmpq("got", v);
         unit_print_fmpq("expected", e);
     }
-}
-
-/* Next composition of S into n parts after a (lexicographic on a[0..n-2]); 0 after the last. */
-static int next_composition(slong *a, slong n, slong S)
-{
-    for (slong i = n - 2; i >= 0; i--) {
-        slong rest = 0;
-        for (slong j = 0; j <= i; j++)
-            rest += a[j];
-        if (rest < S) {
-            a[i]++;
-            for (slong j = i + 1; j < n; j++)
-                a[j] = 0;
-            a[n - 1] = S - rest - 1;
-            return 1;
-        }
-    }
-    return 0;
 }
 
 /* First composition: (0, ..., 0, S). */

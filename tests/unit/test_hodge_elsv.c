@@ -22,6 +22,7 @@
 #include <flint/fmpq.h>
 #include "hodge/hodge.h"
 #include "keymap.h"
+#include "compositions.h"
 #include "unit.h"
 
 #define DMAX 8
@@ -276,24 +277,6 @@ static void test_brute_force(void)
 
 static keymap hodge_memo;
 
-/* Next composition of S into n parts (a[0..n-2] lexicographic, a[n-1] the rest); 0 after the last. */
-static int next_composition_elsv(slong *a, slong n, slong S)
-{
-    for (slong i = n - 2; i >= 0; i--) {
-        slong rest = 0;
-        for (slong j = 0; j <= i; j++)
-            rest += a[j];
-        if (rest < S) {
-            a[i]++;
-            for (slong j = i + 1; j < n; j++)
-                a[j] = 0;
-            a[n - 1] = S - rest - 1;
-            return 1;
-        }
-    }
-    return 0;
-}
-
 /* int_{Mbar_{g,n}} psi^a lambda_j by the route, cached by the sorted exponents. */
 static int hodge_psi_lambda(fmpq_t v, hodge_ctx *H, int route, slong g, const slong *a, slong n, slong j)
 {
@@ -345,7 +328,7 @@ static int elsv_side(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *
             }
             fmpq_mul_fmpz(v, v, w);
             fmpq_add(res, res, v);
-        } while (st == WK_OK && next_composition_elsv(a, n, S));
+        } while (st == WK_OK && next_composition(a, n, S));
     }
     fmpz_fac_ui(w, (ulong) r);
     fmpq_mul_fmpz(res, res, w);
