@@ -3,11 +3,12 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "../arb_compat.h"
-#include "../scalar_arb.h"
-#include "../strbuf.h"
-#include "../util.h"
+#include "arb_compat.h"
+#include "scalar_arb.h"
+#include "strbuf.h"
+#include "util.h"
 #include "print.h"
+#include "value_str.h"
 
 static const char *const out_format_names[] = {"exact", "decimal", "latex", "csv", "json"};
 

@@ -9,8 +9,8 @@
 
 #include <flint/fmpq_mpoly.h>
 
-#include "../scalar.h"
-#include "../value.h"
+#include "scalar.h"
+#include "value.h"
 
 typedef enum { OUT_EXACT, OUT_DECIMAL, OUT_LATEX, OUT_CSV, OUT_JSON } out_format;
 

@@ -3,7 +3,7 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "../util.h"
+#include "util.h"
 
 /* Binding strength of each kind, to decide where parentheses are needed. */
 static int print_level(const cx *e, const scalar_ring *R)

@@ -4,11 +4,11 @@
 
 #include <flint/flint.h>
 
-#include "../classes/classexpr.h"
-#include "../series/tseries.h"
-#include "../arb_compat.h"
-#include "../scalar.h"
-#include "../strbuf.h"
+#include "classes/classexpr.h"
+#include "series/tseries.h"
+#include "arb_compat.h"
+#include "scalar.h"
+#include "strbuf.h"
 
 /* e.g. exp(2*pi^2*kappa_1 + L_1^2/2*psi_1); the caller frees the result. */
 char *print_class(const cx *e, const scalar_ring *R);

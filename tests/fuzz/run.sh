@@ -63,7 +63,8 @@ defs="$defs -DPSIKAPPA_STDLIB_DIR=\"$src/lib\" -DPSIKAPPA_INSTALLED_LIB_DIR=\"/u
 libs="-lflint -lmpfr -lgmp -lpthread -lm"
 grep -q 'find_library(SQLITE3_LIBRARY' "$src/CMakeLists.txt" && libs="$libs -lsqlite3"
 grep -q 'find_library(EDIT_LIBRARY' "$src/CMakeLists.txt" && libs="$libs -ledit"
-incdirs="-I$src/src -I$gen"
+incdirs="-I$gen"
+for layer in support engines syntax values format store lang cli; do incdirs="$incdirs -I$src/src/$layer"; done
 if [ -f /usr/include/flint/arb.h ] || [ -f /usr/local/include/flint/arb.h ]; then
   defs="$defs -DPSIKAPPA_FLINT3_ARB"
 else
@@ -71,8 +72,8 @@ else
 fi
 cflags="-std=c11 -g -O1 -fno-omit-frame-pointer -fsanitize=address,undefined -fno-sanitize-recover=undefined $defs $incdirs"
 
-# Every C file under src/ except main.c: the psikappa_engine and psikappa_lang libraries.
-sources=$(cd "$src" && find src -name '*.c' ! -path src/main.c | sort)
+# Every C file of the layers under src/ except the command line's main.c.
+sources=$(cd "$src" && find src -name '*.c' ! -path src/cli/main.c | sort)
 rm -f "$work"/obj/*.o
 {
   for s in $sources; do echo "$src/$s"; done
@@ -84,7 +85,7 @@ rm -f "$work"/obj/*.o
 harness=fuzz_$target
 extra=()
 if [ "$target" = cli ]; then   # main.c itself, its main renamed for the harness to call
-  clang $cflags -fsanitize=fuzzer-no-link -w -Dmain=psikappa_main -c "$src/src/main.c" -o "$work/main.o"
+  clang $cflags -fsanitize=fuzzer-no-link -w -Dmain=psikappa_main -c "$src/src/cli/main.c" -o "$work/main.o"
   extra=("$work/main.o")
 fi
 clang $cflags -fsanitize=fuzzer -Wall -Wextra -c "$root/tests/fuzz/$harness.c" -o "$work/$harness.o"

@@ -13,8 +13,9 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-#include "format/output.h"
+#include "output.h"
 #include "unit.h"
+#include "value_str.h"
 
 static unit_report rep;
 static scalar_ring R;

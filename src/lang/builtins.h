@@ -1,0 +1,38 @@
+/* The table format shared by the files that define builtin functions. */
+#ifndef PSIKAPPA_BUILTINS_H
+#define PSIKAPPA_BUILTINS_H
+
+#include "interp.h"
+
+/* A builtin receives its evaluated arguments (borrowed) and returns a new
+   reference, or NULL after reporting an error. */
+typedef value *(*builtin_fn)(interp *I, const node *call, value **args);
+
+typedef struct {
+    const char *name;
+    int nargs;
+    builtin_fn fn;
+    const char *usage;
+} builtin;
+
+extern const builtin builtins_core[];    /* builtins.c, ends with a NULL name */
+extern const builtin builtins_series[];  /* builtins_series.c */
+extern const builtin builtins_toolkit[]; /* toolkit.c: sequences, extrapolation, recognition, plots */
+extern const builtin builtins_spectral[]; /* builtins_spectral.c: spectral curves, sin/cos/sinh/cosh */
+/* explain of a spectral-curve call (builtins_spectral.c): 1 when name is one, see spectral_explain. */
+int spectral_explains(const char *name);
+/* Prints the dictionary of omega/curve_volume/omega_coeff call; 0 after an error. */
+int spectral_explain(interp *I, scope *s, const node *call);
+
+/* Reports msg at the call's argument i (or the call itself when i < 0). */
+value *builtin_fail_at(const node *call, int i, const char *msg);
+/* Reads argument i as an integer in [lo, hi]; 0 after reporting an error. */
+int builtin_get_slong(interp *I, const node *call, value **args, int i, slong lo, slong hi, slong *out);
+/* Reads argument i as a declared formal variable; returns its index or -1 after an error. */
+slong builtin_get_var(interp *I, const node *call, value **args, int i);
+
+/* Builtin functions (builtins.c): returns 1 and sets *result when name is a
+   builtin (result NULL after an error was reported), 0 when it is not. */
+int builtin_call(interp *I, scope *s, const node *call, value **result);
+
+#endif

@@ -1,0 +1,141 @@
+/* Names, items of lists and subscripted names: x, xs[i], L_{i} (a member of
+   a family of variables) and V_{g,n} (the volume polynomial). Every function
+   returns a new reference, or NULL after reporting at the node responsible. */
+#include <stdlib.h>
+#include <string.h>
+
+#include "diag.h"
+#include "hodge_lang.h"
+#include "interp.h"
+#include "unavailable.h"
+#include "util.h"
+#include "integrate.h"
+#include "eval.h"
+
+/* Genus and number of points of V_{g,n} stay below this (as for every space
+   that the volume routes accept). */
+#define NAMES_MAX_VOLUME_INDEX 1000000
+
+static value *names_fail(const node *n, char *msg)
+{
+    diag_error(&n->loc, "%s", msg);
+    free(msg);
+    return NULL;
+}
+
+/* Reports a reserved class name (lambda_1, Theta, ...); 1 when name is one. */
+int names_check_reserved(const srcloc *at, const char *name)
+{
+    if (!unavailable_class(name))
+        return 0;
+    char buf[320];
+    unavailable_message(name, buf, sizeof buf);
+    diag_error(at, "%s", buf);
+    return 1;
+}
+
+value *eval_name(interp *I, scope *s, const node *n)
+{
+    binding *b = scope_lookup(s, n->text);
+    value *hodge;
+    if (b && b->kind == B_VALUE)
+        return value_ref(b->val);
+    if (!b && hodge_lang_name(I, n, &hodge))
+        return hodge;
+    if (!b && names_check_reserved(&n->loc, n->text))
+        return NULL;
+    if (!b)
+        return names_fail(n, xasprintf("undefined name '%s' (formal variables are declared with 'var %s')",
+                                       n->text, n->text));
+    if (b->kind == B_FUNCTION)
+        return names_fail(n, xasprintf("'%s' is a function: call it as %s(...)", n->text, n->text));
+    return names_fail(n, xasprintf("'%s' is a family of variables: its members are %s_%ld, ..., or %s_{i} for a "
+                                   "computed index", n->text, n->text, (long)b->lo, n->text));
+}
+
+/* xs[i] for a list: 1-based, like the mathematics it transcribes. */
+value *eval_indexed(interp *I, scope *s, const node *n)
+{
+    binding *b = scope_lookup(s, n->text);
+    if (b && b->kind == B_VALUE && b->val->kind == V_LIST) {
+        slong i;
+        if (!eval_slong(I, s, n->a, "list index", 1, &i))
+            return NULL;
+        if (i > b->val->len)
+            return names_fail(n->a, xasprintf("index %ld is past the end of a list of length %ld", (long)i,
+                                              (long)b->val->len));
+        return value_ref(b->val->items[i - 1]);
+    }
+    if (b && b->kind == B_FAMILY)
+        return names_fail(n, xasprintf("'%s' is a family of variables: a member is written %s_{i}, not %s[i] "
+                                       "(square brackets take the items of a list)", n->text, n->text, n->text));
+    if (b && b->kind == B_FUNCTION)
+        return names_fail(n, xasprintf("'%s' is a function: call it as %s(...)", n->text, n->text));
+    if (!b)
+        return names_fail(n, xasprintf("undefined name '%s'", n->text));
+    return names_fail(n, xasprintf("'%s' is not a list (square brackets take the items of a list)", n->text));
+}
+
+/* L_{i}: the member L_i of the family L declared by var L_{a..b}. */
+static value *names_family_member(interp *I, scope *s, const node *n, const binding *b)
+{
+    if (n->list->len != 1)
+        return names_fail(n, xasprintf("a member of the family %s has one index: %s_{i}", n->text, n->text));
+    slong i, lo = b->lo, hi = b->hi;
+    if (!eval_slong(I, s, n->list->items[0], "index", WORD_MIN / 2, &i))
+        return NULL;
+    if (i < lo || i > hi)
+        return names_fail(n->list->items[0], xasprintf("index %ld is outside the declared range %s_{%ld..%ld}",
+                                                       (long)i, n->text, (long)lo, (long)hi));
+    char *name = xasprintf("%s_%ld", n->text, (long)i);
+    binding *m = scope_lookup(s, name);
+    free(name);
+    if (m && m->kind == B_VALUE)
+        return value_ref(m->val);
+    return names_fail(n, xasprintf("the family member %s_%ld is no longer bound", n->text, (long)i));
+}
+
+/* One subscript of V_{g,n} as an integer in 0..NAMES_MAX_VOLUME_INDEX. */
+static int names_volume_index(interp *I, scope *s, const node *e, const char *what, slong *out)
+{
+    if (!eval_slong(I, s, e, what, 0, out))
+        return 0;
+    if (*out <= NAMES_MAX_VOLUME_INDEX)
+        return 1;
+    diag_error(&e->loc, "the %s of V_{g,n} must be at most %d", what, NAMES_MAX_VOLUME_INDEX);
+    return 0;
+}
+
+/* V_{g,n}: the volume polynomial V_{g,n}(L_1..L_n), binding L_1..L_n. */
+static value *names_volume(interp *I, scope *s, const node *n)
+{
+    if (n->list->len != 2)
+        return names_fail(n, xasprintf("V_{g,n} takes two subscripts, the genus and the number of points "
+                                       "(got %d)", n->list->len));
+    slong g, npts;
+    if (!names_volume_index(I, s, n->list->items[0], "genus", &g)
+        || !names_volume_index(I, s, n->list->items[1], "number of points", &npts))
+        return NULL;
+    return integrate_volume(I, n, g, npts);
+}
+
+value *eval_subscript(interp *I, scope *s, const node *n)
+{
+    binding *b = scope_lookup(s, n->text);
+    if (b && b->kind == B_FAMILY)
+        return names_family_member(I, s, n, b);
+    if (strcmp(n->text, "V") == 0)
+        return names_volume(I, s, n);
+    value *hodge;
+    if (!b && hodge_lang_subscript(I, s, n, &hodge))
+        return hodge;
+    char *stem = xasprintf("%s_", n->text);
+    int reserved = names_check_reserved(&n->loc, stem);
+    free(stem);
+    if (reserved)
+        return NULL;
+    if (b && b->kind == B_VALUE && b->val->kind == V_LIST)
+        return names_fail(n, xasprintf("'%s' is a list: its items are %s[i]", n->text, n->text));
+    return names_fail(n, xasprintf("'%s' is not a family of variables (declare one with var %s_{1..k})", n->text,
+                                   n->text));
+}

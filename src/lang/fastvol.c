@@ -1,0 +1,454 @@
+/* Routing of recognisable Weil-Petersson integrals to the polynomial-time
+   volume engine (src/volumes): int_{g,n} exp(c*kappa_1) and int_{g,n} c*kappa_1^k.
+   The engine fills a table of all V_{g',n'} with g' <= G, n' <= N at once,
+   so the table is kept for the session and only grown. V_{g,n} with
+   few points, and int_{g,n} psi^a kappa_1^k (or times exp(c*kappa_1)), go to
+   the polynomial engine (volumes/wpoly.h) when large. */
+#include <stdlib.h>
+#include <string.h>
+#include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
+
+#include "correlators/pushforward.h"
+#include "cancel.h"
+#include "diag.h"
+#include "progress.h"
+#include "interp.h"
+#include "util.h"
+#include "volumes/wpvol.h"
+#include "volumes/wpoly.h"
+#include "correlators/wk.h"
+#include "verify_account.h"
+#include "fastvol.h"
+#include "integrate.h"
+#include "eval.h"
+
+/* Below this many correlator terms the reduction is as fast as the engine,
+   and it stays the reference route. */
+#define FASTVOL_MIN_TERMS 2000.0
+
+/* The same for V_{g,1} (correlator terms summed over the sorted
+   multi-indices): measured with bench_wpoly, V_{10,1} (18460 terms) takes
+   0.10 s by the reduction and 0.12 s by the engine, V_{12,1} 0.69 s and 0.42 s.
+   With n >= 2 the reduction shares its memo between many more coefficients
+   and stays faster (V_{13,2}: 2.6 s against 17 s), so the engine only takes
+   the cases the reduction refuses (its table estimate beyond --max-table). */
+#define FASTVOL_POLY_MIN_TERMS 10000.0
+
+/* Refuse requests whose predicted memory is beyond the engine's own limit
+   (8 GiB, a third of this machine's memory), before any work, with the estimate. */
+#define FASTVOL_MAX_BYTES WPVOL_MAX_BYTES
+
+/* Reports a failure of either volume engine in words (codes of wpvol.h). */
+static void fastvol_report(const node *where, int rc)
+{
+    if (rc == WPVOL_CANCELLED || cancel_flag)
+        eval_cancelled(where);
+    else if (rc == WPVOL_LIMIT)
+        diag_error(&where->loc, "this request is beyond the limits of the volume engine (%.3g s, %.3g GiB)",
+                   WPVOL_MAX_SECONDS, WPVOL_MAX_BYTES / 1073741824.0);
+    else if (rc == WPVOL_NOMEM)
+        diag_error(&where->loc, "the volume engine ran out of memory");
+    else if (rc == WPVOL_INTERNAL)
+        diag_error(&where->loc, "the volume engine failed a consistency check (please report this input)");
+    else
+        diag_error(&where->loc, "the volume engine rejected this request (code %d)", rc);
+}
+
+static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
+                              int *handled);
+static value *fastvol_try_exp_linear(interp *I, const node *where, slong g, slong n, const value *integrand,
+                                     int *handled);
+
+static int fastvol_grow(interp *I, const node *where, slong g, slong n)
+{
+    if (I->wpv && g <= I->wpv_G && n <= I->wpv_N)
+        return 1;
+    /* grow in steps, so that a loop over g or n does not recompute the table each time */
+    slong G = I->wpv ? I->wpv_G + I->wpv_G / 4 : g, N = I->wpv ? I->wpv_N : 6;
+    G = g > G ? g : G;
+    N = n > N ? n : N;
+    double sec, bytes;
+    wpvol_estimate(&sec, &bytes, G, N);
+    if (sec > I->lim.max_seconds || bytes > FASTVOL_MAX_BYTES) {
+        diag_error(&where->loc, "volumes up to genus %ld with %ld points need about %.3g s and %.3g GiB "
+                   "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", (long)G, (long)N, sec,
+                   bytes / 1073741824.0, I->lim.max_seconds, FASTVOL_MAX_BYTES / 1073741824.0);
+        return 0;
+    }
+    fmpq *t = _fmpq_vec_init((G + 1) * (N + 1));
+    char what[96];
+    snprintf(what, sizeof what, "volume engine: all V_{g,n} with g <= %ld, n <= %ld", (long)G, (long)N);
+    progress_note(what, sec / 2);
+    wpvol_set_cancel(&cancel_flag);
+    int rc = wpvol_table(t, G, N, 2);
+    progress_clear_note(sec / 2);
+    if (rc != WPVOL_OK) {
+        _fmpq_vec_clear(t, (G + 1) * (N + 1));
+        fastvol_report(where, rc);
+        return 0;
+    }
+    if (I->wpv)
+        _fmpq_vec_clear(I->wpv, (I->wpv_G + 1) * (I->wpv_N + 1));
+    I->wpv = t;
+    I->wpv_G = G;
+    I->wpv_N = N;
+    return 1;
+}
+
+int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n)
+{
+    if (!fastvol_grow(I, where, g, n))
+        return 0;
+    fmpq_set(v, I->wpv + g * (I->wpv_N + 1) + n);
+    return 1;
+}
+
+void fastvol_clear(interp *I)
+{
+    if (I->wpv)
+        _fmpq_vec_clear(I->wpv, (I->wpv_G + 1) * (I->wpv_N + 1));
+    I->wpv = NULL;
+}
+
+/* The integral as f c^D V (exp) or c D! V (power k = D), V normalised. */
+static value *fastvol_scale(interp *I, const fmpq_t V, const fmpq_mpoly_t c, const fmpq_mpoly_t f, slong D,
+                            int is_exp)
+{
+    value *r = value_new_num(&I->ring);
+    if (is_exp) {
+        fmpq_mpoly_pow_ui(r->num, c, (ulong)D, I->ring.ctx);
+        fmpq_mpoly_mul(r->num, r->num, f, I->ring.ctx);
+    } else {
+        fmpz_t f;
+        fmpz_init(f);
+        fmpz_fac_ui(f, (ulong)D);
+        fmpq_mpoly_scalar_mul_fmpz(r->num, c, f, I->ring.ctx);
+        fmpz_clear(f);
+    }
+    fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, V, I->ring.ctx);
+    return r;
+}
+
+value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled)
+{
+    *handled = 0;
+    if (integrand->kind != V_CLASS || 2 * g - 2 + n <= 0)
+        return NULL;
+    slong D = 3 * g - 3 + n, k = 0, kmult[2] = {0, D};
+    fmpq_mpoly_t c, f;
+    fmpq_mpoly_init(c, I->ring.ctx);
+    fmpq_mpoly_init(f, I->ring.ctx);
+    int is_exp = cx_match_exp_kappa1(integrand->cls, c, f);
+    int is_pow = !is_exp && cx_match_kappa1_power(integrand->cls, c, &k) && k == D;
+    value *r = NULL;
+    if ((is_exp || is_pow) && (I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS)) {
+        *handled = 1;
+        fmpq_t V;
+        fmpq_init(V);
+        if (fastvol_get(I, where, V, g, n))
+            r = fastvol_scale(I, V, c, f, D, is_exp);
+        fmpq_clear(V);
+    }
+    fmpq_mpoly_clear(c, I->ring.ctx);
+    fmpq_mpoly_clear(f, I->ring.ctx);
+    if (!is_exp && !is_pow)
+        r = fastvol_try_psi(I, where, g, n, integrand, handled);
+    if (!is_exp && !is_pow && !*handled)
+        r = fastvol_try_exp_linear(I, where, g, n, integrand, handled);
+    return r;
+}
+
+/* Set while V_{g,n} recomputes a routed result by the reduction (--verify),
+   so that the nested call takes the reference route. */
+static int fastvol_in_reference;
+
+/* Correlator terms of the reduction of V_{g,n}(L): one kappa_1 pushforward
+   per sorted multi-index (the reduction memoises on sorted indices). */
+static double fastvol_poly_terms(slong g, slong n, const slong *idx, slong nidx)
+{
+    double t = 0.0;
+    for (slong k = 0; k < nidx; k++) {
+        slong kmult[2] = {0, 3 * g - 3 + n};
+        for (slong i = 0; i < n; i++)
+            kmult[1] -= idx[k * n + i];
+        t += pf_estimate_terms(kmult, 1);
+    }
+    return t;
+}
+
+/* Steps p[0..n) to the next permutation in lexicographic order (repeated
+   entries give each distinct arrangement once); returns 0 after the last. */
+static int fastvol_next_perm(slong *p, slong n)
+{
+    slong i = n - 2, j = n - 1, t;
+    while (i >= 0 && p[i] >= p[i + 1])
+        i--;
+    if (i < 0)
+        return 0;
+    while (p[j] <= p[i])
+        j--;
+    t = p[i], p[i] = p[j], p[j] = t;
+    for (slong l = i + 1, r = n - 1; l < r; l++, r--)
+        t = p[l], p[l] = p[r], p[r] = t;
+    return 1;
+}
+
+/* The powers the sums below need: cpow[j] = c^j and bpow[i (D+1) + k] = b_i^k/k!
+   for j, k <= D (arrays of D+1 and n (D+1) entries, initialised here; the caller
+   clears them). */
+static void fastvol_exp_powers(interp *I, fmpq_mpoly_struct *cpow, fmpq_mpoly_struct *bpow, const fmpq_mpoly_t c,
+                               const fmpq_mpoly_struct *b, slong n, slong D)
+{
+    for (slong j = 0; j <= D; j++) {
+        fmpq_mpoly_init(cpow + j, I->ring.ctx);
+        if (j == 0)
+            fmpq_mpoly_one(cpow, I->ring.ctx);
+        else
+            fmpq_mpoly_mul(cpow + j, cpow + j - 1, c, I->ring.ctx);
+    }
+    for (slong i = 0; i < n; i++)
+        for (slong k = 0; k <= D; k++) {
+            fmpq_mpoly_struct *p = bpow + i * (D + 1) + k;
+            fmpq_mpoly_init(p, I->ring.ctx);
+            if (k == 0) {
+                fmpq_mpoly_one(p, I->ring.ctx);
+            } else {
+                fmpq_mpoly_mul(p, p - 1, b + i, I->ring.ctx);
+                fmpq_mpoly_scalar_div_si(p, p, k, I->ring.ctx);
+            }
+        }
+}
+
+/* res += W c^{D-|a|} sum over the arrangements p of the sorted a of prod_i b_i^{p_i}/p_i!:
+   the terms of int exp(c kappa_1 + sum_i b_i psi_i) with psi exponents a, V being
+   symmetric. cpow, bpow as made by fastvol_exp_powers (borrowed). */
+static void fastvol_exp_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const slong *a, slong n, slong D,
+                            const fmpq_mpoly_struct *cpow, const fmpq_mpoly_struct *bpow)
+{
+    slong s = 0, perm[WPOLY_MAX_POINTS];
+    if (fmpq_is_zero(W))
+        return;
+    for (slong i = 0; i < n; i++) {
+        s += a[i];
+        perm[i] = a[n - 1 - i];   /* increasing: the first arrangement */
+    }
+    fmpq_mpoly_t t, sum;
+    fmpq_mpoly_init(t, I->ring.ctx);
+    fmpq_mpoly_init(sum, I->ring.ctx);
+    do {
+        fmpq_mpoly_set(t, bpow + perm[0], I->ring.ctx);
+        for (slong i = 1; i < n; i++)
+            fmpq_mpoly_mul(t, t, bpow + i * (D + 1) + perm[i], I->ring.ctx);
+        fmpq_mpoly_add(sum, sum, t, I->ring.ctx);
+    } while (fastvol_next_perm(perm, n));
+    fmpq_mpoly_mul(sum, sum, cpow + D - s, I->ring.ctx);
+    fmpq_mpoly_scalar_mul_fmpq(sum, sum, W, I->ring.ctx);
+    fmpq_mpoly_add(res, res, sum, I->ring.ctx);
+    fmpq_mpoly_clear(t, I->ring.ctx);
+    fmpq_mpoly_clear(sum, I->ring.ctx);
+}
+
+/* int_{g,n} exp(c kappa_1 + sum_i b_i psi_i) from the coefficients w of the sorted multi-indices
+   idx (all nidx of them, from wpoly_indices). Returns a new value. */
+static value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
+                              const fmpq_mpoly_t c, const fmpq_mpoly_struct *b)
+{
+    fmpq_mpoly_struct *cpow = flint_malloc((size_t)(D + 1) * (size_t)(n + 1) * sizeof(fmpq_mpoly_struct));
+    fmpq_mpoly_struct *bpow = cpow + D + 1;
+    fastvol_exp_powers(I, cpow, bpow, c, b, n, D);
+    value *r = value_new_num(&I->ring);
+    for (slong k = 0; k < nidx; k++)
+        fastvol_exp_add(I, r->num, w + k, idx + k * n, n, D, cpow, bpow);
+    for (slong j = 0; j < (D + 1) * (n + 1); j++)
+        fmpq_mpoly_clear(cpow + j, I->ring.ctx);
+    flint_free(cpow);
+    return r;
+}
+
+/* Runs the polynomial engine on the sorted multi-indices idx; returns the
+   W_a (caller clears nidx entries) or NULL after reporting an error. */
+static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx)
+{
+    double sec, bytes, maxb = FASTVOL_MAX_BYTES;
+    wpoly_estimate_at(&sec, &bytes, g, n, idx, nidx);
+    if (sec > I->lim.max_seconds || bytes > maxb) {
+        diag_error(&where->loc, "%s on Mbar_{%ld,%ld} by the volume engine needs about %.3g s and %.3g GiB "
+                   "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", nidx > 1 ? "the volume polynomial"
+                   : "this integral", (long)g, (long)n, sec, bytes / 1073741824.0, I->lim.max_seconds,
+                   maxb / 1073741824.0);
+        return NULL;
+    }
+    fmpq *w = _fmpq_vec_init(nidx);
+    char what[96];
+    snprintf(what, sizeof what, "volume engine: V_{%ld,%ld}(L)", (long)g, (long)n);
+    progress_note(what, sec / 2);
+    wpvol_set_cancel(&cancel_flag);
+    int rc = wpoly_coeffs_at(w, g, n, idx, nidx, 2);
+    progress_clear_note(sec / 2);
+    if (rc == WPVOL_OK)
+        return w;
+    _fmpq_vec_clear(w, nidx);
+    fastvol_report(where, rc);
+    return NULL;
+}
+
+/* With --verify: the reduction's polynomial, if within its limits, must be
+   the same. Returns fast, or NULL after reporting a disagreement. */
+static value *fastvol_poly_verify(interp *I, const node *where, slong g, slong n, double terms, value *fast)
+{
+    if (!I->verify)
+        return fast;
+    if (terms > I->lim.max_terms)
+        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TERMS);
+    if (wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table)
+        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TABLE);
+    fastvol_in_reference = 1;
+    verify_second_begin(I);
+    value *slow = integrate_volume(I, where, g, n);
+    verify_second_end(I);
+    fastvol_in_reference = 0;
+    return integrate_compare_routes(I, where, slow, fast);
+}
+
+/* Whether the polynomial engine should take all coefficients of a few-point volume on
+   Mbar_{g,n}, the reduction needing `terms` correlator terms: when forced, when the
+   reduction would be refused, or for one point once the engine is faster. */
+static int fastvol_poly_wanted(interp *I, slong g, slong n, double terms)
+{
+    int refused = wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table;
+    return I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS);
+}
+
+/* V_{g,n}(L) = int exp(2 pi^2 kappa_1 + sum_i L_i^2 psi_i / 2) from the coefficients w,
+   printed term by term. Returns a new value. */
+static value *fastvol_volume_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
+                                 const int *vars)
+{
+    fmpq_mpoly_t c;
+    fmpq_mpoly_struct b[WPOLY_MAX_POINTS];
+    fmpq_mpoly_init(c, I->ring.ctx);
+    scalar_set_gen(c, &I->ring, SCALAR_PI);
+    fmpq_mpoly_mul(c, c, c, I->ring.ctx);
+    fmpq_mpoly_scalar_mul_si(c, c, 2, I->ring.ctx);
+    for (slong i = 0; i < n; i++) {
+        fmpq_mpoly_init(b + i, I->ring.ctx);
+        scalar_set_gen(b + i, &I->ring, vars[i]);
+        fmpq_mpoly_mul(b + i, b + i, b + i, I->ring.ctx);
+        fmpq_mpoly_scalar_div_si(b + i, b + i, 2, I->ring.ctx);
+    }
+    value *r = fastvol_exp_sum(I, w, idx, nidx, n, D, c, b);
+    r->termwise = 1;
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_clear(b + i, I->ring.ctx);
+    fmpq_mpoly_clear(c, I->ring.ctx);
+    return r;
+}
+
+value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled)
+{
+    *handled = 0;
+    if (fastvol_in_reference || g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return NULL;
+    slong nidx = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n;
+    slong *idx = xmalloc((size_t)(nidx * n) * sizeof(slong));
+    wpoly_indices(idx, g, n);
+    double terms = fastvol_poly_terms(g, n, idx, nidx);
+    value *r = NULL;
+    int vars[WPOLY_MAX_POINTS];
+    if (fastvol_poly_wanted(I, g, n, terms)) {
+        *handled = 1;
+        fmpq *w = integrate_declare_lengths(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
+        if (w) {
+            r = fastvol_volume_sum(I, w, idx, nidx, n, D, vars);
+            _fmpq_vec_clear(w, nidx);
+            r = fastvol_poly_verify(I, where, g, n, terms, r);
+        }
+    }
+    free(idx);
+    return r;
+}
+
+/* int_{g,n} f psi^a kappa_1^k (times exp(c kappa_1)) with some psi: the
+   coefficient of kappa_1^{D-|a|} times (D-|a|)! W_a from the polynomial
+   engine, when the reduction of that monomial would be large (or
+   route_volumes). Sets *handled when it takes the integral. */
+static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
+                              int *handled)
+{
+    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return NULL;
+    cx_monomial m;
+    fmpq_mpoly_init(m.factor, I->ring.ctx);
+    fmpq_mpoly_init(m.c, I->ring.ctx);
+    slong a[WPOLY_MAX_POINTS], s = 0, D = 3 * g - 3 + n;
+    int ok = cx_match_psi_kappa1(integrand->cls, n, &m);
+    for (slong i = 0; ok && i < n; i++) {   /* sorted decreasingly: V is symmetric */
+        slong x = m.psi[i], j = i;
+        for (; j > 0 && a[j - 1] < x; j--)
+            a[j] = a[j - 1];
+        a[j] = x;
+        s += x;
+    }
+    slong j = D - s - (ok ? m.kappa1 : 0), kmult[2] = {0, D - s};
+    ok = ok && s > 0 && j >= 0 && (m.is_exp || j == 0);
+    value *r = NULL;
+    if (ok && (I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS)) {
+        *handled = 1;
+        fmpq *w = fastvol_poly_run(I, where, g, n, a, 1);
+        if (w) {
+            fmpz_t f;
+            fmpz_init(f);
+            r = value_new_num(&I->ring);
+            fmpq_mpoly_pow_ui(r->num, m.c, (ulong)j, I->ring.ctx);   /* c^j/j! of exp(c kappa_1) */
+            fmpz_fac_ui(f, (ulong)j);
+            fmpq_mpoly_scalar_div_fmpz(r->num, r->num, f, I->ring.ctx);
+            fmpz_fac_ui(f, (ulong)(D - s));
+            fmpq_mpoly_scalar_mul_fmpz(r->num, r->num, f, I->ring.ctx);
+            fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, w, I->ring.ctx);
+            fmpq_mpoly_mul(r->num, r->num, m.factor, I->ring.ctx);
+            fmpz_clear(f);
+            _fmpq_vec_clear(w, 1);
+        }
+    }
+    fmpq_mpoly_clear(m.factor, I->ring.ctx);
+    fmpq_mpoly_clear(m.c, I->ring.ctx);
+    return r;
+}
+
+/* int_{g,n} f exp(c kappa_1 + sum_i b_i psi_i) with c != 0 and some b_i != 0 (the volume
+   polynomials written as integrals): every coefficient from the polynomial engine, when
+   fastvol_poly_wanted. Sets *handled when it takes the integral. */
+static value *fastvol_try_exp_linear(interp *I, const node *where, slong g, slong n, const value *integrand,
+                                     int *handled)
+{
+    if (fastvol_in_reference || g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return NULL;
+    fmpq_mpoly_t f, c;
+    fmpq_mpoly_struct b[WPOLY_MAX_POINTS];
+    fmpq_mpoly_init(f, I->ring.ctx);
+    fmpq_mpoly_init(c, I->ring.ctx);
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_init(b + i, I->ring.ctx);
+    int ok = cx_match_exp_linear(integrand->cls, n, f, c, b) && !fmpq_mpoly_is_zero(c, I->ring.ctx);
+    value *r = NULL;
+    slong nidx = ok ? wpoly_indices(NULL, g, n) : 0, D = 3 * g - 3 + n;
+    slong *idx = ok ? xmalloc((size_t)(nidx * n) * sizeof(slong)) : NULL;
+    if (ok)
+        wpoly_indices(idx, g, n);
+    if (ok && fastvol_poly_wanted(I, g, n, fastvol_poly_terms(g, n, idx, nidx))) {
+        *handled = 1;
+        fmpq *w = fastvol_poly_run(I, where, g, n, idx, nidx);
+        if (w) {
+            r = fastvol_exp_sum(I, w, idx, nidx, n, D, c, b);
+            fmpq_mpoly_mul(r->num, r->num, f, I->ring.ctx);
+            _fmpq_vec_clear(w, nidx);
+        }
+    }
+    free(idx);
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_clear(b + i, I->ring.ctx);
+    fmpq_mpoly_clear(c, I->ring.ctx);
+    fmpq_mpoly_clear(f, I->ring.ctx);
+    return r;
+}

@@ -1,0 +1,380 @@
+/* The language's bridge to the Hodge engine: names lambda_j, ch_k; int_{g,n} and explain of
+   integrands with Hodge classes; --verify by the second route. */
+#include <stdlib.h>
+#include <string.h>
+
+#include "cancel.h"
+#include "classes/cpoly.h"
+#include "class_expand.h"
+#include "diag.h"
+#include "hodge/hodge.h"
+#include "hodge_lang.h"
+#include "strbuf.h"
+#include "util.h"
+#include "eval.h"
+
+int hodge_lang_name(interp *I, const node *n, value **out)
+{
+    const char *t = n->text;
+    size_t skip = strncmp(t, "lambda_", 7) == 0 ? 7 : strncmp(t, "ch_", 3) == 0 ? 3 : 0;
+    if (skip == 0 || t[skip] == '\0' || strspn(t + skip, "0123456789") != strlen(t + skip))
+        return 0;
+    *out = NULL;
+    while (t[skip] == '0' && t[skip + 1] != '\0')   /* leading zeros: lambda_01 is lambda_1 */
+        skip++;
+    if (strlen(t + skip) > 6 || atol(t + skip) > HODGE_MAX_INDEX) {
+        diag_error(&n->loc, "%s: Hodge class indices go up to %d", t, HODGE_MAX_INDEX);
+        return 1;
+    }
+    slong j = atol(t + skip);
+    cx *c = t[0] == 'l' ? cx_lambda(j, I->ring.ctx, n) : cx_ch(j, I->ring.ctx, n);
+    *out = value_new_class(c, &I->ring);
+    return 1;
+}
+
+int hodge_lang_subscript(interp *I, scope *s, const node *n, value **out)
+{
+    int is_lambda = strcmp(n->text, "lambda") == 0;
+    slong j;
+    if (!is_lambda && strcmp(n->text, "ch") != 0)
+        return 0;
+    *out = NULL;
+    if (n->list->len != 1) {
+        diag_error(&n->loc, "%s_{j} takes one index", n->text);
+        return 1;
+    }
+    const node *idx = n->list->items[0];
+    if (!eval_slong(I, s, idx, is_lambda ? "lambda index" : "ch index", 0, &j))
+        return 1;
+    if (j > HODGE_MAX_INDEX) {
+        diag_error(&idx->loc, "%s index %ld: Hodge class indices go up to %d", n->text, (long)j, HODGE_MAX_INDEX);
+        return 1;
+    }
+    cx *c = is_lambda ? cx_lambda(j, I->ring.ctx, n) : cx_ch(j, I->ring.ctx, n);
+    *out = value_new_class(c, &I->ring);
+    return 1;
+}
+
+int hodge_lang_applies(const value *integrand)
+{
+    return integrand->kind == V_CLASS && cx_has_hodge(integrand->cls);
+}
+
+void hodge_lang_clear(interp *I)
+{
+    hodge_free(I->hodge);
+    I->hodge = NULL;
+}
+
+/* The engine context, created on first use with the correlator table and the limits. */
+static hodge_ctx *hodge_lang_ctx(interp *I)
+{
+    if (I->hodge == NULL) {
+        I->hodge = hodge_new(I->wk);
+        if (I->hodge == NULL)
+            return NULL;
+        hodge_set_cancel(I->hodge, &cancel_flag);
+        hodge_set_limit(I->hodge, I->lim.max_table > 1e15 ? (slong)1e15 : (slong)I->lim.max_table);
+    }
+    return I->hodge;
+}
+
+/* Expands the integrand with the Hodge slots, reporting errors at the responsible node. */
+static int hodge_lang_expand(cpoly *P, const node *where, const value *integrand)
+{
+    return class_expand_reported(P, where, integrand->cls);
+}
+
+/* What the term callbacks share. */
+typedef struct {
+    interp *I;
+    hodge_ctx *H;
+    slong g;
+    fmpq_mpoly_struct *res;
+    double estimate;        /* largest state estimate over the terms */
+    int mismatch;           /* --verify found a difference */
+    double compared;        /* terms the second route reached */
+} hodge_run;
+
+/* Total degree of the lambda and ch factors of a term. */
+static slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax)
+{
+    slong s = 0;
+    for (slong j = 1; j <= lmax; j++)
+        s += j * lmult[j];
+    for (slong k = 1; k <= cmax; k++)
+        s += k * cmult[k];
+    return s;
+}
+
+static int hodge_lang_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
+                                    const slong *lmult, slong lmax, const slong *cmult, slong cmax,
+                                    const fmpq_mpoly_t coeff)
+{
+    hodge_run *R = data;
+    slong kdeg = 0;
+    (void)psi, (void)coeff;
+    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0)
+        return 0;               /* E = 0 in genus 0: no work */
+    for (slong j = 1; j <= kmax; j++)
+        kdeg += kmult[j];
+    double e = hodge_estimate_states(R->g, n + kdeg, hodge_lang_degree(lmult, lmax, cmult, cmax));
+    if (e > R->estimate)
+        R->estimate = e;
+    return 0;
+}
+
+/* One term by the operator route, and with --verify by Mumford's formula (out of reach: the
+   memo limit, nothing compared).  Adds coeff times the value to the result. */
+static int hodge_lang_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
+                           const slong *lmult, slong lmax, const slong *cmult, slong cmax,
+                           const fmpq_mpoly_t coeff)
+{
+    hodge_run *R = data;
+    fmpq_t v, w;
+    fmpq_mpoly_t t;
+    fmpq_init(v);
+    fmpq_init(w);
+    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0) {
+        fmpq_clear(v);          /* E = 0 in genus 0 */
+        fmpq_clear(w);
+        return WK_OK;
+    }
+    int st = hodge_integral_lambda(v, R->H, HODGE_ROUTE_FP, R->g, psi, n, kmult, kmax, lmult, lmax, cmult,
+                                   cmax, 0);
+    if (st == WK_OK && R->I->verify) {
+        int s2 = hodge_integral_lambda(w, R->H, HODGE_ROUTE_GRR, R->g, psi, n, kmult, kmax, lmult, lmax,
+                                       cmult, cmax, 0);
+        if (s2 == WK_OK) {
+            R->compared++;
+            R->mismatch |= !fmpq_equal(v, w);
+        } else if (s2 == WK_CANCELLED) {
+            st = s2;
+        }
+    }
+    if (st == WK_OK) {
+        fmpq_mpoly_init(t, R->I->ring.ctx);
+        fmpq_mpoly_scalar_mul_fmpq(t, coeff, v, R->I->ring.ctx);
+        fmpq_mpoly_add(R->res, R->res, t, R->I->ring.ctx);
+        fmpq_mpoly_clear(t, R->I->ring.ctx);
+    }
+    fmpq_clear(v);
+    fmpq_clear(w);
+    return st;
+}
+
+/* Reports an engine status other than WK_OK at where. */
+static void hodge_lang_report(interp *I, const node *where, int st)
+{
+    if (st == WK_CANCELLED || cancel_flag)
+        eval_cancelled(where);
+    else if (st == WK_LIMIT)
+        diag_error(&where->loc, "the Hodge integral reached the memo limit of %.3g states (raise it with "
+                                "--max-table N)", I->lim.max_table);
+    else
+        diag_error(&where->loc, "the Hodge engine rejected this request (code %d)", st);
+}
+
+/* Expands and refuses by estimate; returns 1 when P is ready to integrate. */
+static int hodge_lang_prepare(interp *I, const node *where, cpoly *P, const value *integrand)
+{
+    hodge_run R = {I, NULL, P->g, NULL, 0, 0, 0};
+    if (!hodge_lang_expand(P, where, integrand))
+        return 0;
+    cpoly_foreach_top_hodge(P, hodge_lang_estimate_term, &R);
+    if (R.estimate <= I->lim.max_table)
+        return 1;
+    char amount[48];
+    if (R.estimate > 1e18)
+        snprintf(amount, sizeof amount, "more than 1e18");
+    else
+        snprintf(amount, sizeof amount, "about %.3g", R.estimate);
+    diag_error(&where->loc, "this Hodge integral on Mbar_{%ld,%ld} needs %s memo states, above the limit of "
+                            "%.3g (raise it with --max-table N)",
+               (long)P->g, (long)P->n, amount, I->lim.max_table);
+    return 0;
+}
+
+value *hodge_lang_integrate(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    cpoly P;
+    value *r = NULL;
+    cpoly_init_hodge(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
+    if (hodge_lang_prepare(I, where, &P, integrand)) {
+        hodge_run R = {I, hodge_lang_ctx(I), g, NULL, 0, 0, 0};
+        r = value_new_num(&I->ring);
+        R.res = r->num;
+        int st = R.H ? cpoly_foreach_top_hodge(&P, hodge_lang_term, &R) : WK_LIMIT;
+        if (st != WK_OK || R.mismatch) {
+            if (R.mismatch)
+                diag_error(&where->loc, "verification failed: the Faber-Pandharipande operator and Mumford's "
+                                        "formula disagree (please report this input)");
+            else
+                hodge_lang_report(I, where, st);
+            value_release(r);
+            r = NULL;
+        }
+    }
+    cpoly_clear(&P);
+    return r;
+}
+
+/* The integrand of explain as a sum of psi-kappa-ch monomials: keys[i] holds psi_1..psi_n,
+   kappa_1..kappa_D, ch_1..ch_D exponents, coeffs[i] its coefficient (both owned). */
+typedef struct {
+    interp *I;
+    slong n, D, len, cap;
+    slong **keys;
+    fmpq_mpoly_struct *coeffs;
+} hodge_sum;
+
+/* S += c * monomial(key) (key of n + 2D entries, copied). */
+static void hodge_sum_add(hodge_sum *S, const slong *key, const fmpq_mpoly_t c)
+{
+    slong w = S->n + 2 * S->D, i;
+    for (i = 0; i < S->len; i++)
+        if (memcmp(S->keys[i], key, (size_t)w * sizeof(slong)) == 0)
+            break;
+    if (i == S->len) {
+        if (S->len == S->cap) {
+            S->cap = S->cap ? 2 * S->cap : 8;
+            S->keys = xrealloc(S->keys, (size_t)S->cap * sizeof(slong *));
+            S->coeffs = xrealloc(S->coeffs, (size_t)S->cap * sizeof(fmpq_mpoly_struct));
+        }
+        S->keys[i] = xmalloc(((size_t)w + 1) * sizeof(slong));
+        memcpy(S->keys[i], key, (size_t)w * sizeof(slong));
+        fmpq_mpoly_init(S->coeffs + i, S->I->ring.ctx);
+        S->len++;
+    }
+    fmpq_mpoly_add(S->coeffs + i, S->coeffs + i, c, S->I->ring.ctx);
+}
+
+/* Adds one top term with its lambda monomial written in ch classes (Newton's identities). */
+static int hodge_sum_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
+                          const slong *lmult, slong lmax, const slong *cmult, slong cmax, const fmpq_mpoly_t coeff)
+{
+    hodge_sum *S = data;
+    slong ldeg = hodge_lang_degree(lmult, lmax, NULL, 0), nv = ldeg > 0 ? (ldeg + 1) / 2 : 1;
+    slong *key = xcalloc((size_t)(n + 2 * S->D) + 1, sizeof(slong)), *e = xcalloc((size_t)nv + 1, sizeof(slong));
+    fmpq_mpoly_ctx_t R;
+    fmpq_mpoly_t P, c;
+    fmpq_t q;
+    fmpq_mpoly_ctx_init(R, nv, ORD_LEX);
+    fmpq_mpoly_init(P, R);
+    fmpq_mpoly_init(c, S->I->ring.ctx);
+    fmpq_init(q);
+    int st = hodge_lambda_ch_poly(P, lmult, lmax, R);
+    for (slong t = 0; st == WK_OK && t < fmpq_mpoly_length(P, R); t++) {
+        fmpq_mpoly_get_term_exp_si(e, P, t, R);
+        fmpq_mpoly_get_term_coeff_fmpq(q, P, t, R);
+        memcpy(key, psi, (size_t)n * sizeof(slong));
+        for (slong j = 1; j <= S->D; j++)
+            key[n + j - 1] = j <= kmax ? kmult[j] : 0, key[n + S->D + j - 1] = j <= cmax ? cmult[j] : 0;
+        for (slong v = 0; v < nv && 2 * v + 1 <= S->D; v++)
+            key[n + S->D + 2 * v] += e[v];
+        fmpq_mpoly_scalar_mul_fmpq(c, coeff, q, S->I->ring.ctx);
+        hodge_sum_add(S, key, c);
+    }
+    fmpq_clear(q);
+    fmpq_mpoly_clear(c, S->I->ring.ctx);
+    fmpq_mpoly_clear(P, R);
+    fmpq_mpoly_ctx_clear(R);
+    free(key);
+    free(e);
+    return st;
+}
+
+/* Appends "name_i^e" factors for the nonzero entries of a[0..len), joined by '*'. */
+static void hodge_put_factors(strbuf *b, const char *name, const slong *a, slong len, int *first)
+{
+    for (slong i = 0; i < len; i++) {
+        if (a[i] == 0)
+            continue;
+        strbuf_printf(b, "%s%s_%ld", *first ? "" : "*", name, (long)(i + 1));
+        if (a[i] > 1)
+            strbuf_printf(b, "^%ld", (long)a[i]);
+        *first = 0;
+    }
+}
+
+/* Appends one summand: sign, coefficient (omitted when 1 before a monomial), monomial. */
+static void hodge_put_term(strbuf *b, const hodge_sum *S, slong i, int lead)
+{
+    fmpq_mpoly_t a;
+    fmpq_t c;
+    strbuf m;
+    int none = 1;
+    fmpq_mpoly_init(a, S->I->ring.ctx);
+    fmpq_init(c);
+    strbuf_init(&m);
+    hodge_put_factors(&m, "psi", S->keys[i], S->n, &none);
+    hodge_put_factors(&m, "kappa", S->keys[i] + S->n, S->D, &none);
+    hodge_put_factors(&m, "ch", S->keys[i] + S->n + S->D, S->D, &none);
+    fmpq_mpoly_set(a, S->coeffs + i, S->I->ring.ctx);
+    int single = fmpq_mpoly_length(a, S->I->ring.ctx) == 1;
+    fmpq_mpoly_get_term_coeff_fmpq(c, a, 0, S->I->ring.ctx);
+    if (single && fmpq_sgn(c) < 0) {
+        strbuf_puts(b, lead ? "-" : " - ");
+        fmpq_mpoly_neg(a, a, S->I->ring.ctx);
+    } else if (!lead) {
+        strbuf_puts(b, " + ");
+    }
+    char *s = scalar_get_str(a, &S->I->ring);
+    if (none)
+        strbuf_puts(b, s);
+    else if (!fmpq_mpoly_is_one(a, S->I->ring.ctx))
+        strbuf_printf(b, single ? "%s*" : "(%s)*", s);
+    strbuf_puts(b, none ? "" : m.data);
+    free(s);
+    strbuf_clear(&m);
+    fmpq_clear(c);
+    fmpq_mpoly_clear(a, S->I->ring.ctx);
+}
+
+/* Prints the source text of where, then "  = " and the sum S. */
+static void hodge_sum_print(FILE *out, const hodge_sum *S, const node *where)
+{
+    strbuf b;
+    const char *line;
+    int lead = 1;
+    strbuf_init(&b);
+    size_t len = source_line(where->loc.src, where->loc.first_line, &line);
+    if (where->loc.last_line == where->loc.first_line && (size_t)where->loc.last_column <= len + 1)
+        strbuf_printf(&b, "%.*s\n", where->loc.last_column - where->loc.first_column,
+                      line + where->loc.first_column - 1);
+    strbuf_puts(&b, "  = ");
+    for (slong i = 0; i < S->len; i++) {
+        if (fmpq_mpoly_is_zero(S->coeffs + i, S->I->ring.ctx))
+            continue;
+        hodge_put_term(&b, S, i, lead);
+        lead = 0;
+    }
+    if (lead)
+        strbuf_putc(&b, '0');
+    fprintf(out, "%s\n", b.data);
+    strbuf_clear(&b);
+}
+
+int hodge_lang_explain(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    cpoly P;
+    cpoly_init_hodge(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
+    int ok = hodge_lang_prepare(I, where, &P, integrand);
+    if (ok) {
+        hodge_sum S = {I, n, P.D > 0 ? P.D : 0, 0, 0, NULL, NULL};
+        int st = cpoly_foreach_top_hodge(&P, hodge_sum_term, &S);
+        if (st == WK_OK)
+            hodge_sum_print(I->out, &S, where);
+        else
+            hodge_lang_report(I, where, st);
+        ok = st == WK_OK;
+        for (slong i = 0; i < S.len; i++) {
+            free(S.keys[i]);
+            fmpq_mpoly_clear(S.coeffs + i, I->ring.ctx);
+        }
+        free(S.keys);
+        free(S.coeffs);
+    }
+    cpoly_clear(&P);
+    return ok;
+}

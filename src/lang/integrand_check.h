@@ -1,0 +1,12 @@
+/* Integrands without a term of the dimension (integrand_check.c). */
+#ifndef PSIKAPPA_INTEGRAND_CHECK_H
+#define PSIKAPPA_INTEGRAND_CHECK_H
+
+#include "interp.h"
+
+/* Whether int_{g,n} of integrand is 0 because no term has degree 3g-3+n,
+   saying so once per integral `where` (integrand_check.c); it also warns once
+   about a formal variable added to a class, which contributes 0. */
+int integrand_is_zero(interp *I, const node *where, slong g, slong n, const value *integrand);
+
+#endif
