@@ -1,9 +1,7 @@
-/* Routing of recognisable Weil-Petersson integrals to the polynomial-time
-   volume engine (src/volumes): int_{g,n} exp(c*kappa_1) and int_{g,n} c*kappa_1^k.
-   The engine fills a table of all V_{g',n'} with g' <= G, n' <= N at once,
-   so the table is kept for the session and only grown. V_{g,n} with
-   few points, and int_{g,n} psi^a kappa_1^k (or times exp(c*kappa_1)), go to
-   the polynomial engine (volumes/wpoly.h) when large. */
+/* The language's side of the polynomial-time volume engine (src/volumes): the session's table
+   of normalised volumes V_{g',n'}, g' <= G, n' <= N, computed at once and only grown; the
+   few-point volume polynomials V_{g,n}(L) (volumes/wpoly.h) and the sums that turn the
+   engine's coefficients into integrals. Which integrals go here is route_volume.c's. */
 #include <stdlib.h>
 #include <string.h>
 #include <flint/fmpq.h>
@@ -23,10 +21,6 @@
 #include "integrate.h"
 #include "eval.h"
 
-/* Below this many correlator terms the reduction is as fast as the engine,
-   and it stays the reference route. */
-#define FASTVOL_MIN_TERMS 2000.0
-
 /* The same for V_{g,1} (correlator terms summed over the sorted
    multi-indices): measured with bench_wpoly, V_{10,1} (18460 terms) takes
    0.10 s by the reduction and 0.12 s by the engine, V_{12,1} 0.69 s and 0.42 s.
@@ -40,7 +34,7 @@
 #define FASTVOL_MAX_BYTES WPVOL_MAX_BYTES
 
 /* Reports a failure of either volume engine in words (codes of wpvol.h). */
-static void fastvol_report(const node *where, int rc)
+void fastvol_report(const node *where, int rc)
 {
     if (rc == WPVOL_CANCELLED || cancel_flag)
         eval_cancelled(where);
@@ -55,27 +49,46 @@ static void fastvol_report(const node *where, int rc)
         diag_error(&where->loc, "the volume engine rejected this request (code %d)", rc);
 }
 
-static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
-                              int *handled);
-static value *fastvol_try_exp_linear(interp *I, const node *where, slong g, slong n, const value *integrand,
-                                     int *handled);
+/* The table that holds V_{g,n}: grown in steps, so that a loop over g or n does not recompute
+   it each time. */
+static void fastvol_table_size(const interp *I, slong g, slong n, slong *G, slong *N)
+{
+    *G = I->wpv ? I->wpv_G + I->wpv_G / 4 : g;
+    *N = I->wpv ? I->wpv_N : 6;
+    *G = g > *G ? g : *G;
+    *N = n > *N ? n : *N;
+}
+
+const char *fastvol_table_cost(const interp *I, slong g, slong n, double *seconds, char *msg, size_t len)
+{
+    *seconds = 0.0;
+    if (I->wpv && g <= I->wpv_G && n <= I->wpv_N)
+        return NULL;
+    slong G, N;
+    double bytes;
+    fastvol_table_size(I, g, n, &G, &N);
+    wpvol_estimate(seconds, &bytes, G, N);
+    if (*seconds <= I->lim.max_seconds && bytes <= FASTVOL_MAX_BYTES)
+        return NULL;
+    snprintf(msg, len, "volumes up to genus %ld with %ld points need about %.3g s and %.3g GiB "
+             "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", (long)G, (long)N, *seconds,
+             bytes / 1073741824.0, I->lim.max_seconds, FASTVOL_MAX_BYTES / 1073741824.0);
+    return *seconds > I->lim.max_seconds ? "the volume engine's time estimate is above --max-seconds"
+                                         : "the volume engine's memory estimate is above its limit";
+}
 
 static int fastvol_grow(interp *I, const node *where, slong g, slong n)
 {
-    if (I->wpv && g <= I->wpv_G && n <= I->wpv_N)
-        return 1;
-    /* grow in steps, so that a loop over g or n does not recompute the table each time */
-    slong G = I->wpv ? I->wpv_G + I->wpv_G / 4 : g, N = I->wpv ? I->wpv_N : 6;
-    G = g > G ? g : G;
-    N = n > N ? n : N;
-    double sec, bytes;
-    wpvol_estimate(&sec, &bytes, G, N);
-    if (sec > I->lim.max_seconds || bytes > FASTVOL_MAX_BYTES) {
-        diag_error(&where->loc, "volumes up to genus %ld with %ld points need about %.3g s and %.3g GiB "
-                   "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", (long)G, (long)N, sec,
-                   bytes / 1073741824.0, I->lim.max_seconds, FASTVOL_MAX_BYTES / 1073741824.0);
+    char msg[320];
+    double sec;
+    if (fastvol_table_cost(I, g, n, &sec, msg, sizeof msg)) {
+        diag_error(&where->loc, "%s", msg);
         return 0;
     }
+    if (I->wpv && g <= I->wpv_G && n <= I->wpv_N)
+        return 1;
+    slong G, N;
+    fastvol_table_size(I, g, n, &G, &N);
     fmpq *t = _fmpq_vec_init((G + 1) * (N + 1));
     char what[96];
     snprintf(what, sizeof what, "volume engine: all V_{g,n} with g <= %ld, n <= %ld", (long)G, (long)N);
@@ -111,61 +124,9 @@ void fastvol_clear(interp *I)
     I->wpv = NULL;
 }
 
-/* The integral as f c^D V (exp) or c D! V (power k = D), V normalised. */
-static value *fastvol_scale(interp *I, const fmpq_t V, const fmpq_mpoly_t c, const fmpq_mpoly_t f, slong D,
-                            int is_exp)
-{
-    value *r = value_new_num(&I->ring);
-    if (is_exp) {
-        fmpq_mpoly_pow_ui(r->num, c, (ulong)D, I->ring.ctx);
-        fmpq_mpoly_mul(r->num, r->num, f, I->ring.ctx);
-    } else {
-        fmpz_t f;
-        fmpz_init(f);
-        fmpz_fac_ui(f, (ulong)D);
-        fmpq_mpoly_scalar_mul_fmpz(r->num, c, f, I->ring.ctx);
-        fmpz_clear(f);
-    }
-    fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, V, I->ring.ctx);
-    return r;
-}
-
-value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled)
-{
-    *handled = 0;
-    if (integrand->kind != V_CLASS || 2 * g - 2 + n <= 0)
-        return NULL;
-    slong D = 3 * g - 3 + n, k = 0, kmult[2] = {0, D};
-    fmpq_mpoly_t c, f;
-    fmpq_mpoly_init(c, I->ring.ctx);
-    fmpq_mpoly_init(f, I->ring.ctx);
-    int is_exp = cx_match_exp_kappa1(integrand->cls, c, f);
-    int is_pow = !is_exp && cx_match_kappa1_power(integrand->cls, c, &k) && k == D;
-    value *r = NULL;
-    if ((is_exp || is_pow) && (I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS)) {
-        *handled = 1;
-        fmpq_t V;
-        fmpq_init(V);
-        if (fastvol_get(I, where, V, g, n))
-            r = fastvol_scale(I, V, c, f, D, is_exp);
-        fmpq_clear(V);
-    }
-    fmpq_mpoly_clear(c, I->ring.ctx);
-    fmpq_mpoly_clear(f, I->ring.ctx);
-    if (!is_exp && !is_pow)
-        r = fastvol_try_psi(I, where, g, n, integrand, handled);
-    if (!is_exp && !is_pow && !*handled)
-        r = fastvol_try_exp_linear(I, where, g, n, integrand, handled);
-    return r;
-}
-
-/* Set while V_{g,n} recomputes a routed result by the reduction (--verify),
-   so that the nested call takes the reference route. */
-static int fastvol_in_reference;
-
 /* Correlator terms of the reduction of V_{g,n}(L): one kappa_1 pushforward
    per sorted multi-index (the reduction memoises on sorted indices). */
-static double fastvol_poly_terms(slong g, slong n, const slong *idx, slong nidx)
+double fastvol_poly_terms(slong g, slong n, const slong *idx, slong nidx)
 {
     double t = 0.0;
     for (slong k = 0; k < nidx; k++) {
@@ -251,8 +212,8 @@ static void fastvol_exp_add(interp *I, fmpq_mpoly_t res, const fmpq_t W, const s
 
 /* int_{g,n} exp(c kappa_1 + sum_i b_i psi_i) from the coefficients w of the sorted multi-indices
    idx (all nidx of them, from wpoly_indices). Returns a new value. */
-static value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
-                              const fmpq_mpoly_t c, const fmpq_mpoly_struct *b)
+value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
+                       const fmpq_mpoly_t c, const fmpq_mpoly_struct *b)
 {
     fmpq_mpoly_struct *cpow = flint_malloc((size_t)(D + 1) * (size_t)(n + 1) * sizeof(fmpq_mpoly_struct));
     fmpq_mpoly_struct *bpow = cpow + D + 1;
@@ -266,17 +227,27 @@ static value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong 
     return r;
 }
 
-/* Runs the polynomial engine on the sorted multi-indices idx; returns the
-   W_a (caller clears nidx entries) or NULL after reporting an error. */
-static fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx)
+const char *fastvol_poly_cost(const interp *I, slong g, slong n, const slong *idx, slong nidx, double *seconds,
+                              char *msg, size_t len)
 {
-    double sec, bytes, maxb = FASTVOL_MAX_BYTES;
-    wpoly_estimate_at(&sec, &bytes, g, n, idx, nidx);
-    if (sec > I->lim.max_seconds || bytes > maxb) {
-        diag_error(&where->loc, "%s on Mbar_{%ld,%ld} by the volume engine needs about %.3g s and %.3g GiB "
-                   "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", nidx > 1 ? "the volume polynomial"
-                   : "this integral", (long)g, (long)n, sec, bytes / 1073741824.0, I->lim.max_seconds,
-                   maxb / 1073741824.0);
+    double bytes, maxb = FASTVOL_MAX_BYTES;
+    wpoly_estimate_at(seconds, &bytes, g, n, idx, nidx);
+    if (*seconds <= I->lim.max_seconds && bytes <= maxb)
+        return NULL;
+    snprintf(msg, len, "%s on Mbar_{%ld,%ld} by the volume engine needs about %.3g s and %.3g GiB "
+             "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", nidx > 1 ? "the volume polynomial"
+             : "this integral", (long)g, (long)n, *seconds, bytes / 1073741824.0, I->lim.max_seconds,
+             maxb / 1073741824.0);
+    return *seconds > I->lim.max_seconds ? "the volume engine's time estimate is above --max-seconds"
+                                         : "the volume engine's memory estimate is above its limit";
+}
+
+fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx)
+{
+    char msg[320];
+    double sec;
+    if (fastvol_poly_cost(I, g, n, idx, nidx, &sec, msg, sizeof msg)) {
+        diag_error(&where->loc, "%s", msg);
         return NULL;
     }
     fmpq *w = _fmpq_vec_init(nidx);
@@ -303,18 +274,16 @@ static value *fastvol_poly_verify(interp *I, const node *where, slong g, slong n
         return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TERMS);
     if (wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table)
         return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TABLE);
-    fastvol_in_reference = 1;
     verify_second_begin(I);
-    value *slow = integrate_volume(I, where, g, n);
+    value *slow = integrate_volume_by_reduction(I, where, g, n);
     verify_second_end(I);
-    fastvol_in_reference = 0;
     return integrate_compare_routes(I, where, slow, fast);
 }
 
 /* Whether the polynomial engine should take all coefficients of a few-point volume on
    Mbar_{g,n}, the reduction needing `terms` correlator terms: when forced, when the
    reduction would be refused, or for one point once the engine is faster. */
-static int fastvol_poly_wanted(interp *I, slong g, slong n, double terms)
+int fastvol_poly_wanted(interp *I, slong g, slong n, double terms)
 {
     int refused = wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table;
     return I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS);
@@ -348,7 +317,7 @@ static value *fastvol_volume_sum(interp *I, const fmpq *w, const slong *idx, slo
 value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled)
 {
     *handled = 0;
-    if (fastvol_in_reference || g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
         return NULL;
     slong nidx = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n;
     slong *idx = xmalloc((size_t)(nidx * n) * sizeof(slong));
@@ -369,86 +338,3 @@ value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, in
     return r;
 }
 
-/* int_{g,n} f psi^a kappa_1^k (times exp(c kappa_1)) with some psi: the
-   coefficient of kappa_1^{D-|a|} times (D-|a|)! W_a from the polynomial
-   engine, when the reduction of that monomial would be large (or
-   route_volumes). Sets *handled when it takes the integral. */
-static value *fastvol_try_psi(interp *I, const node *where, slong g, slong n, const value *integrand,
-                              int *handled)
-{
-    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
-        return NULL;
-    cx_monomial m;
-    fmpq_mpoly_init(m.factor, I->ring.ctx);
-    fmpq_mpoly_init(m.c, I->ring.ctx);
-    slong a[WPOLY_MAX_POINTS], s = 0, D = 3 * g - 3 + n;
-    int ok = cx_match_psi_kappa1(integrand->cls, n, &m);
-    for (slong i = 0; ok && i < n; i++) {   /* sorted decreasingly: V is symmetric */
-        slong x = m.psi[i], j = i;
-        for (; j > 0 && a[j - 1] < x; j--)
-            a[j] = a[j - 1];
-        a[j] = x;
-        s += x;
-    }
-    slong j = D - s - (ok ? m.kappa1 : 0), kmult[2] = {0, D - s};
-    ok = ok && s > 0 && j >= 0 && (m.is_exp || j == 0);
-    value *r = NULL;
-    if (ok && (I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS)) {
-        *handled = 1;
-        fmpq *w = fastvol_poly_run(I, where, g, n, a, 1);
-        if (w) {
-            fmpz_t f;
-            fmpz_init(f);
-            r = value_new_num(&I->ring);
-            fmpq_mpoly_pow_ui(r->num, m.c, (ulong)j, I->ring.ctx);   /* c^j/j! of exp(c kappa_1) */
-            fmpz_fac_ui(f, (ulong)j);
-            fmpq_mpoly_scalar_div_fmpz(r->num, r->num, f, I->ring.ctx);
-            fmpz_fac_ui(f, (ulong)(D - s));
-            fmpq_mpoly_scalar_mul_fmpz(r->num, r->num, f, I->ring.ctx);
-            fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, w, I->ring.ctx);
-            fmpq_mpoly_mul(r->num, r->num, m.factor, I->ring.ctx);
-            fmpz_clear(f);
-            _fmpq_vec_clear(w, 1);
-        }
-    }
-    fmpq_mpoly_clear(m.factor, I->ring.ctx);
-    fmpq_mpoly_clear(m.c, I->ring.ctx);
-    return r;
-}
-
-/* int_{g,n} f exp(c kappa_1 + sum_i b_i psi_i) with c != 0 and some b_i != 0 (the volume
-   polynomials written as integrals): every coefficient from the polynomial engine, when
-   fastvol_poly_wanted. Sets *handled when it takes the integral. */
-static value *fastvol_try_exp_linear(interp *I, const node *where, slong g, slong n, const value *integrand,
-                                     int *handled)
-{
-    if (fastvol_in_reference || g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
-        return NULL;
-    fmpq_mpoly_t f, c;
-    fmpq_mpoly_struct b[WPOLY_MAX_POINTS];
-    fmpq_mpoly_init(f, I->ring.ctx);
-    fmpq_mpoly_init(c, I->ring.ctx);
-    for (slong i = 0; i < n; i++)
-        fmpq_mpoly_init(b + i, I->ring.ctx);
-    int ok = cx_match_exp_linear(integrand->cls, n, f, c, b) && !fmpq_mpoly_is_zero(c, I->ring.ctx);
-    value *r = NULL;
-    slong nidx = ok ? wpoly_indices(NULL, g, n) : 0, D = 3 * g - 3 + n;
-    slong *idx = ok ? xmalloc((size_t)(nidx * n) * sizeof(slong)) : NULL;
-    if (ok)
-        wpoly_indices(idx, g, n);
-    if (ok && fastvol_poly_wanted(I, g, n, fastvol_poly_terms(g, n, idx, nidx))) {
-        *handled = 1;
-        fmpq *w = fastvol_poly_run(I, where, g, n, idx, nidx);
-        if (w) {
-            r = fastvol_exp_sum(I, w, idx, nidx, n, D, c, b);
-            fmpq_mpoly_mul(r->num, r->num, f, I->ring.ctx);
-            _fmpq_vec_clear(w, nidx);
-        }
-    }
-    free(idx);
-    for (slong i = 0; i < n; i++)
-        fmpq_mpoly_clear(b + i, I->ring.ctx);
-    fmpq_mpoly_clear(c, I->ring.ctx);
-    fmpq_mpoly_clear(f, I->ring.ctx);
-    return r;
-}

@@ -1,16 +1,42 @@
-/* The volume engine as a route of the language (fastvol.c). */
+/* The language's side of the volume engine (fastvol.c): the session's table of normalised
+   volumes, the few-point volume polynomials, and the sums that make integrals of them. */
 #ifndef PSIKAPPA_FASTVOL_H
 #define PSIKAPPA_FASTVOL_H
 
+#include <stddef.h>
+
 #include "interp.h"
 
-/* Volume integrals by the fast engine (fastvol.c). fastvol_try sets *handled
-   when it recognised the integrand (the result is then NULL after an error). */
-value *fastvol_try(interp *I, const node *where, slong g, slong n, const value *integrand, int *handled);
+/* Below this many correlator terms the reduction is as fast as the engine, and it stays the
+   reference route. */
+#define FASTVOL_MIN_TERMS 2000.0
+
+/* v = V_{g,n} (normalised) from the session's table, grown when needed; 0 after reporting. */
 int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n);
 void fastvol_clear(interp *I);
-/* V_{g,n} by the polynomial engine when the reduction would be large
-   (or route_volumes is set); *handled as for fastvol_try. */
+/* The estimate of making the table hold V_{g,n} (*seconds, 0 when it does): NULL within the
+   limits, else the reason, with the error's message in msg. */
+const char *fastvol_table_cost(const interp *I, slong g, slong n, double *seconds, char *msg, size_t len);
+
+/* The same for the polynomial engine on the sorted multi-indices idx[0..nidx n). */
+const char *fastvol_poly_cost(const interp *I, slong g, slong n, const slong *idx, slong nidx, double *seconds,
+                              char *msg, size_t len);
+/* Runs the polynomial engine on idx: the W_a (caller clears nidx entries), or NULL after
+   reporting an error at where. */
+fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx);
+/* Correlator terms the reduction would need for the coefficients idx of V_{g,n}(L). */
+double fastvol_poly_terms(slong g, slong n, const slong *idx, slong nidx);
+/* Whether the polynomial engine should take all coefficients of a few-point volume on
+   Mbar_{g,n}, the reduction needing `terms` correlator terms. */
+int fastvol_poly_wanted(interp *I, slong g, slong n, double terms);
+/* int_{g,n} exp(c kappa_1 + sum_i b_i psi_i) from the coefficients w of idx. New value. */
+value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
+                       const fmpq_mpoly_t c, const fmpq_mpoly_struct *b);
+/* Reports a failure of either volume engine in words (codes of wpvol.h). */
+void fastvol_report(const node *where, int rc);
+
+/* V_{g,n}(L) by the polynomial engine when the reduction would be large (or route_volumes is
+   set): sets *handled when it took it (the result is then NULL after an error). */
 value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled);
 
 #endif

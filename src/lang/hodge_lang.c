@@ -67,7 +67,7 @@ void hodge_lang_clear(interp *I)
 }
 
 /* The engine context, created on first use with the correlator table and the limits. */
-static hodge_ctx *hodge_lang_ctx(interp *I)
+hodge_ctx *hodge_lang_ctx(interp *I)
 {
     if (I->hodge == NULL) {
         I->hodge = hodge_new(I->wk);
@@ -79,22 +79,6 @@ static hodge_ctx *hodge_lang_ctx(interp *I)
     return I->hodge;
 }
 
-/* Expands the integrand with the Hodge slots, reporting errors at the responsible node. */
-static int hodge_lang_expand(cpoly *P, const node *where, const value *integrand)
-{
-    return class_expand_reported(P, where, integrand->cls);
-}
-
-/* What the term callbacks share. */
-typedef struct {
-    interp *I;
-    hodge_ctx *H;
-    slong g;
-    fmpq_mpoly_struct *res;
-    double estimate;        /* largest state estimate over the terms */
-    int mismatch;           /* --verify found a difference */
-    double compared;        /* terms the second route reached */
-} hodge_run;
 
 /* Total degree of the lambda and ch factors of a term. */
 static slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax)
@@ -105,118 +89,6 @@ static slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmul
     for (slong k = 1; k <= cmax; k++)
         s += k * cmult[k];
     return s;
-}
-
-static int hodge_lang_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
-                                    const slong *lmult, slong lmax, const slong *cmult, slong cmax,
-                                    const fmpq_mpoly_t coeff)
-{
-    hodge_run *R = data;
-    slong kdeg = 0;
-    (void)psi, (void)coeff;
-    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0)
-        return 0;               /* E = 0 in genus 0: no work */
-    for (slong j = 1; j <= kmax; j++)
-        kdeg += kmult[j];
-    double e = hodge_estimate_states(R->g, n + kdeg, hodge_lang_degree(lmult, lmax, cmult, cmax));
-    if (e > R->estimate)
-        R->estimate = e;
-    return 0;
-}
-
-/* One term by the operator route, and with --verify by Mumford's formula (out of reach: the
-   memo limit, nothing compared).  Adds coeff times the value to the result. */
-static int hodge_lang_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
-                           const slong *lmult, slong lmax, const slong *cmult, slong cmax,
-                           const fmpq_mpoly_t coeff)
-{
-    hodge_run *R = data;
-    fmpq_t v, w;
-    fmpq_mpoly_t t;
-    fmpq_init(v);
-    fmpq_init(w);
-    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0) {
-        fmpq_clear(v);          /* E = 0 in genus 0 */
-        fmpq_clear(w);
-        return WK_OK;
-    }
-    int st = hodge_integral_lambda(v, R->H, HODGE_ROUTE_FP, R->g, psi, n, kmult, kmax, lmult, lmax, cmult,
-                                   cmax, 0);
-    if (st == WK_OK && R->I->verify) {
-        int s2 = hodge_integral_lambda(w, R->H, HODGE_ROUTE_GRR, R->g, psi, n, kmult, kmax, lmult, lmax,
-                                       cmult, cmax, 0);
-        if (s2 == WK_OK) {
-            R->compared++;
-            R->mismatch |= !fmpq_equal(v, w);
-        } else if (s2 == WK_CANCELLED) {
-            st = s2;
-        }
-    }
-    if (st == WK_OK) {
-        fmpq_mpoly_init(t, R->I->ring.ctx);
-        fmpq_mpoly_scalar_mul_fmpq(t, coeff, v, R->I->ring.ctx);
-        fmpq_mpoly_add(R->res, R->res, t, R->I->ring.ctx);
-        fmpq_mpoly_clear(t, R->I->ring.ctx);
-    }
-    fmpq_clear(v);
-    fmpq_clear(w);
-    return st;
-}
-
-/* Reports an engine status other than WK_OK at where. */
-static void hodge_lang_report(interp *I, const node *where, int st)
-{
-    if (st == WK_CANCELLED || cancel_flag)
-        eval_cancelled(where);
-    else if (st == WK_LIMIT)
-        diag_error(&where->loc, "the Hodge integral reached the memo limit of %.3g states (raise it with "
-                                "--max-table N)", I->lim.max_table);
-    else
-        diag_error(&where->loc, "the Hodge engine rejected this request (code %d)", st);
-}
-
-/* Expands and refuses by estimate; returns 1 when P is ready to integrate. */
-static int hodge_lang_prepare(interp *I, const node *where, cpoly *P, const value *integrand)
-{
-    hodge_run R = {I, NULL, P->g, NULL, 0, 0, 0};
-    if (!hodge_lang_expand(P, where, integrand))
-        return 0;
-    cpoly_foreach_top_hodge(P, hodge_lang_estimate_term, &R);
-    if (R.estimate <= I->lim.max_table)
-        return 1;
-    char amount[48];
-    if (R.estimate > 1e18)
-        snprintf(amount, sizeof amount, "more than 1e18");
-    else
-        snprintf(amount, sizeof amount, "about %.3g", R.estimate);
-    diag_error(&where->loc, "this Hodge integral on Mbar_{%ld,%ld} needs %s memo states, above the limit of "
-                            "%.3g (raise it with --max-table N)",
-               (long)P->g, (long)P->n, amount, I->lim.max_table);
-    return 0;
-}
-
-value *hodge_lang_integrate(interp *I, const node *where, slong g, slong n, const value *integrand)
-{
-    cpoly P;
-    value *r = NULL;
-    cpoly_init_hodge(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
-    if (hodge_lang_prepare(I, where, &P, integrand)) {
-        hodge_run R = {I, hodge_lang_ctx(I), g, NULL, 0, 0, 0};
-        r = value_new_num(&I->ring);
-        R.res = r->num;
-        int st = R.H ? cpoly_foreach_top_hodge(&P, hodge_lang_term, &R) : WK_LIMIT;
-        if (st != WK_OK || R.mismatch) {
-            if (R.mismatch)
-                diag_error(&where->loc, "verification failed: the Faber-Pandharipande operator and Mumford's "
-                                        "formula disagree (please report this input)");
-            else
-                hodge_lang_report(I, where, st);
-            value_release(r);
-            r = NULL;
-        }
-    }
-    cpoly_clear(&P);
-    return r;
 }
 
 /* The integrand of explain as a sum of psi-kappa-ch monomials: keys[i] holds psi_1..psi_n,
@@ -355,26 +227,21 @@ static void hodge_sum_print(FILE *out, const hodge_sum *S, const node *where)
     strbuf_clear(&b);
 }
 
-int hodge_lang_explain(interp *I, const node *where, slong g, slong n, const value *integrand)
+int hodge_lang_explain(interp *I, const node *where, const cpoly *P)
 {
-    cpoly P;
-    cpoly_init_hodge(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
-    int ok = hodge_lang_prepare(I, where, &P, integrand);
-    if (ok) {
-        hodge_sum S = {I, n, P.D > 0 ? P.D : 0, 0, 0, NULL, NULL};
-        int st = cpoly_foreach_top_hodge(&P, hodge_sum_term, &S);
-        if (st == WK_OK)
-            hodge_sum_print(I->out, &S, where);
-        else
-            hodge_lang_report(I, where, st);
-        ok = st == WK_OK;
-        for (slong i = 0; i < S.len; i++) {
-            free(S.keys[i]);
-            fmpq_mpoly_clear(S.coeffs + i, I->ring.ctx);
-        }
-        free(S.keys);
-        free(S.coeffs);
+    hodge_sum S = {I, P->n, P->D > 0 ? P->D : 0, 0, 0, NULL, NULL};
+    int st = cpoly_foreach_top_hodge(P, hodge_sum_term, &S);
+    if (st == WK_OK)
+        hodge_sum_print(I->out, &S, where);
+    else if (st == WK_CANCELLED || cancel_flag)
+        eval_cancelled(where);
+    else
+        diag_error(&where->loc, "the Hodge engine rejected this request (code %d)", st);
+    for (slong i = 0; i < S.len; i++) {
+        free(S.keys[i]);
+        fmpq_mpoly_clear(S.coeffs + i, I->ring.ctx);
     }
-    cpoly_clear(&P);
-    return ok;
+    free(S.keys);
+    free(S.coeffs);
+    return st == WK_OK;
 }

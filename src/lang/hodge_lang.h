@@ -3,6 +3,7 @@
 #ifndef PSIKAPPA_HODGE_LANG_H
 #define PSIKAPPA_HODGE_LANG_H
 
+#include "classes/cpoly.h"
 #include "interp.h"
 
 /* When n is the name lambda_J or ch_K (J, K decimal), sets *out to the class (NULL after an
@@ -13,17 +14,16 @@ int hodge_lang_name(interp *I, const node *n, value **out);
    after an error, e.g. a negative index) and returns 1; returns 0 for any other name. */
 int hodge_lang_subscript(interp *I, scope *s, const node *n, value **out);
 
-/* Whether the integrand holds a Hodge class, so that int_{g,n} goes to hodge_lang_integrate. */
+/* Whether the integrand holds a Hodge class, so that int_{g,n} goes to the Hodge routes (route_hodge.c). */
 int hodge_lang_applies(const value *integrand);
 
-/* int_{g,n} of an integrand with Hodge classes on a stable space (checked by the caller): exact,
-   by the Faber-Pandharipande operator; with --verify also by Mumford's formula, compared.
-   Returns a new value, or NULL after reporting an error at where. */
-value *hodge_lang_integrate(interp *I, const node *where, slong g, slong n, const value *integrand);
+/* The session's Hodge engine context, created on first use with the correlator table and the
+   limits; NULL when memory is exhausted. The interpreter owns it. */
+struct hodge_ctx *hodge_lang_ctx(interp *I);
 
-/* explain for such an integral: the source line and the integrand with every lambda monomial
-   written in ch classes.  Returns 0 after reporting an error. */
-int hodge_lang_explain(interp *I, const node *where, slong g, slong n, const value *integrand);
+/* explain for such an integral, expanded into P with the Hodge slots: the source line and the
+   integrand with every lambda monomial written in ch classes.  Returns 0 after reporting an error. */
+int hodge_lang_explain(interp *I, const node *where, const cpoly *P);
 
 /* Releases the Hodge engine's memo (called by interp_clear). */
 void hodge_lang_clear(interp *I);

@@ -26,12 +26,6 @@
 
 #define THETA_WALK_MAX_DEPTH 4000
 
-/* Largest kappa degree whose time shift --verify runs (p(40) = 37338 partitions, each with a
-   polynomial product); larger monomials are checked by nothing, like other out-of-reach routes. */
-#define THETA_LANG_SHIFT_MAX 40
-
-enum { TH_DEEP = -2, TH_BAD = -1, TH_FREE = 0, TH_LINEAR = 1, TH_SQUARE = 2 };
-
 static int theta_split(const cx *e, cx **rest, int depth);
 static const cx *theta_find(const cx *e);
 
@@ -158,8 +152,7 @@ int theta_in_value(const value *v)
 
 /* Calls fn on each additive term of e (the top-level sums are flattened iteratively, so long
    sums built in loops are fine), with its Theta order and rest.  Returns 0 as soon as fn does. */
-typedef int (*theta_term_visit)(void *data, const cx *term, int order, cx *rest);
-static int theta_each_term(const cx *e, theta_term_visit fn, void *data)
+int theta_each_term(const cx *e, theta_term_visit fn, void *data)
 {
     slong len = 0, cap = 64;
     const cx **st = xmalloc(cap * sizeof(const cx *));
@@ -187,7 +180,7 @@ static int theta_each_term(const cx *e, theta_term_visit fn, void *data)
 }
 
 /* Reports why a term cannot be integrated with Theta, at its Theta node. */
-static void theta_report_bad(const node *where, const cx *term, int order)
+void theta_report_bad(const node *where, const cx *term, int order)
 {
     const cx *t = theta_find(term);
     const node *at = t && t->origin ? t->origin : where;
@@ -201,68 +194,13 @@ static void theta_report_bad(const node *where, const cx *term, int order)
 
 /* Expands the Theta-free rest R up to degree g-1 into P, reporting errors at their nodes.
    Returns 1 on success. */
-static int theta_expand_rest(cpoly *P, const node *where, const cx *rest)
+int theta_expand_rest(cpoly *P, const node *where, const cx *rest)
 {
     return class_expand_reported(P, where, rest);
 }
 
-typedef struct {
-    interp *I;
-    const node *where;
-    fmpq_mpoly_struct *acc;      /* the integral so far */
-    slong g;
-    int rc;
-    double checked, unchecked;   /* --verify: monomials compared by the time shift, or not */
-    const char *why;             /* why the last unchecked one was not */
-} theta_run;
-
-/* One monomial c * psi^d kappa^kmult of R: acc += c * int Theta psi^d kappa^kmult by the
-   pushforward (Virasoro table); with --verify also by the time shift on the KdV table. */
-static int theta_run_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
-                          const fmpq_mpoly_t coeff)
-{
-    theta_run *R = data;
-    interp *I = R->I;
-    theta_table *T = theta_lang_table(I, THETA_ROUTE_VIRASORO);
-    fmpq_t v, w;
-    fmpq_init(v);
-    fmpq_init(w);
-    slong maxt = I->lim.max_terms > 1e18 ? 0 : (slong)I->lim.max_terms;
-    int rc = T ? theta_kappa_pushforward(v, T, R->g, psi, n, kmult, kmax, maxt) : WK_LIMIT;
-    slong deg = 0;
-    for (slong j = 1; j <= kmax; j++)
-        deg += j * kmult[j];
-    if (rc == WK_OK && I->verify && deg > THETA_LANG_SHIFT_MAX) {
-        R->unchecked++;
-        R->why = "the Theta time shift runs up to kappa degree 40";
-    } else if (rc == WK_OK && I->verify) {
-        theta_table *K = theta_lang_table(I, THETA_ROUTE_KDV);
-        int r2 = K ? theta_kappa_shift(w, K, R->g, psi, n, kmult, kmax) : WK_LIMIT;
-        if (r2 == WK_OK && !fmpq_equal(v, w))
-            rc = THETA_INEXACT;
-        else if (r2 == WK_OK)
-            R->checked++;
-        else if (r2 == WK_LIMIT) {
-            R->unchecked++;
-            R->why = "the Theta time shift's table reached its limit";
-        } else
-            rc = r2;
-    }
-    if (rc == WK_OK) {
-        fmpq_mpoly_t t;
-        fmpq_mpoly_init(t, I->ring.ctx);
-        fmpq_mpoly_scalar_mul_fmpq(t, coeff, v, I->ring.ctx);
-        fmpq_mpoly_add(R->acc, R->acc, t, I->ring.ctx);
-        fmpq_mpoly_clear(t, I->ring.ctx);
-    }
-    fmpq_clear(v);
-    fmpq_clear(w);
-    R->rc = rc;
-    return rc;
-}
-
 /* Checks the genus against the engine's limit and the table estimate (see theta_lang_values.c). */
-static int theta_rest_genus_ok(interp *I, const node *where, slong g)
+int theta_rest_genus_ok(interp *I, const node *where, slong g)
 {
     if (g > THETA_MAX_GENUS) {
         diag_error(&where->loc, "Theta integrals are computed up to genus %d, not %ld", THETA_MAX_GENUS, (long)g);
@@ -277,115 +215,43 @@ static int theta_rest_genus_ok(interp *I, const node *where, slong g)
     return 1;
 }
 
-/* Adds the multiset partitions of one monomial's kappa factors (its number of Theta correlator
-   terms, the count of src/correlators/pushforward.c) to the double at data. */
-static int theta_cost_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
-                           const fmpq_mpoly_t coeff)
-{
-    (void)psi;
-    (void)n;
-    (void)coeff;
-    *(double *)data += kmax > 0 ? pf_estimate_terms(kmult, kmax) : 1.0;
-    return 0;
-}
-
-/* Refuses, before any work, an integral whose reduction has more than --max-terms terms. */
-static int theta_cost_ok(interp *I, const node *where, const cpoly *P)
-{
-    double terms = 0.0;
-    cpoly_foreach_top(P, theta_cost_term, &terms);
-    if (terms <= I->lim.max_terms)
-        return 1;
-    diag_error(&where->loc, "this integral reduces to about %.3g Theta correlator terms, above the limit of %.3g "
-                            "(raise it with --max-terms N)", terms, I->lim.max_terms);
-    return 0;
-}
-
-/* acc += int_{Mbar_{g,n}} Theta * rest.  Zero in genus 0 and for the parts of rest whose degree
-   is not g-1.  Returns 0 after reporting an error. */
-static int theta_integrate_rest(interp *I, const node *where, slong g, slong n, const cx *rest,
-                                fmpq_mpoly_struct *acc, double *unchecked)
-{
-    if (g == 0)
-        return 1;
-    if (!theta_rest_genus_ok(I, where, g))
-        return 0;
-    cpoly P;
-    cpoly_init_degree(&P, g, n, g - 1, I->lim.max_class_terms, I->ring.ctx);
-    int ok = theta_expand_rest(&P, where, rest) && theta_cost_ok(I, where, &P);
-    if (ok) {
-        theta_run R = {I, where, acc, g, WK_OK, 0, 0, NULL};
-        cpoly_foreach_top(&P, theta_run_term, &R);
-        ok = R.rc == WK_OK;
-        if (ok && I->verify) {
-            verify_checked(I, VERIFY_MONOMIAL, R.checked);
-            if (R.unchecked > 0) {
-                *unchecked += R.unchecked;
-                ok = verify_unchecked(I, where, VERIFY_MONOMIAL, R.unchecked, R.why);
-            }
-        }
-        if (R.rc == THETA_INEXACT)
-            diag_error(&where->loc, "verification failed: the Theta pushforward and the time shift disagree "
-                                    "(please report this input)");
-        else if (!ok)
-            theta_lang_report(I, where, R.rc);
-    }
-    cpoly_clear(&P);
-    return ok;
-}
-
 typedef struct {
-    interp *I;
     const node *where;
-    slong g, n;
-    value *res;
-    double unchecked;        /* --verify: monomials the time shift could not check */
-} theta_whole;
+    cx *free_part, *theta_part;   /* sums of the Theta-free and the Theta-linear terms */
+} theta_parts;
 
-/* One additive term of the integrand (theta_each_term): by its Theta order. */
-static int theta_whole_term(void *data, const cx *term, int order, cx *rest)
+/* Adds one term to its part (theta_each_term); a term Theta cannot be read in is reported. */
+static int theta_parts_add(void *data, const cx *term, int order, cx *rest)
 {
-    theta_whole *W = data;
+    theta_parts *T = data;
+    (void)rest;
     if (order < 0) {
-        theta_report_bad(W->where, term, order);
+        theta_report_bad(T->where, term, order);
         return 0;
     }
     if (order == TH_SQUARE)
         return 1;                                /* Theta^2 = 0 by degree */
-    if (order == TH_LINEAR)
-        return theta_integrate_rest(W->I, W->where, W->g, W->n, rest, W->res->num, &W->unchecked);
-    value *t = value_new_class(cx_ref((cx *)term), &W->I->ring);
-    value *r = integrate_value(W->I, W->where, W->g, W->n, t);
-    value_release(t);
-    if (r == NULL)
-        return 0;
-    fmpq_mpoly_add(W->res->num, W->res->num, r->num, W->I->ring.ctx);
-    value_release(r);
+    cx **part = order == TH_LINEAR ? &T->theta_part : &T->free_part;
+    cx *t = cx_ref((cx *)term);
+    *part = *part ? cx_add(*part, t) : t;
     return 1;
 }
 
-value *theta_integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand)
+int theta_split_integrand(interp *I, const node *where, const cx *e, cx **free_part, cx **theta_part)
 {
-    if (2 * g - 2 + n <= 0) {
-        diag_error(&where->loc, "Mbar_{%ld,%ld} is not a stable moduli space (needs 2g-2+n > 0)", (long)g, (long)n);
-        return NULL;
+    (void)I;
+    theta_parts T = {where, NULL, NULL};
+    int ok = theta_each_term(e, theta_parts_add, &T);
+    if (!ok) {
+        if (T.free_part)
+            cx_release(T.free_part);
+        if (T.theta_part)
+            cx_release(T.theta_part);
+        T.free_part = T.theta_part = NULL;
     }
-    if (3 * g - 3 + n > I->lim.max_dim) {
-        diag_error(&where->loc, "Mbar_{%ld,%ld} has dimension %ld, beyond the limit of %ld", (long)g, (long)n,
-                   (long)(3 * g - 3 + n), (long)I->lim.max_dim);
-        return NULL;
-    }
-    theta_whole W = {I, where, g, n, value_new_num(&I->ring), 0};
-    if (!theta_each_term(integrand->cls, theta_whole_term, &W)) {
-        value_release(W.res);
-        return NULL;
-    }
-    if (!I->verify)
-        return W.res;
-    if (W.unchecked > 0)
-        return verify_unchecked_value(I, where, W.res, VERIFY_WHY_MONOMIALS);
-    verify_checked(I, VERIFY_VALUE, 1);
-    return W.res;
+    *free_part = T.free_part;
+    *theta_part = T.theta_part;
+    return ok;
 }
 
 /* The reduction printed by explain: merged terms coeff * <Theta | tau_key>_g. */

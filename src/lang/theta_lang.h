@@ -4,6 +4,7 @@
 #define PSIKAPPA_THETA_LANG_H
 
 #include "interp.h"
+#include "classes/cpoly.h"
 #include "theta/theta.h"
 
 /* Whether name is a class name this module evaluates (Theta) when the script has not bound it. */
@@ -15,10 +16,27 @@ value *theta_class_value(interp *I, const node *n);
 /* Whether v is a class expression holding Theta. */
 int theta_in_value(const value *v);
 
-/* int_{g,n} of an integrand holding Theta: Theta-linear terms by the Theta pushforward,
-   Theta-free terms by the ordinary integral, terms with Theta^2 are zero.  New reference, or NULL
-   after reporting an error at where. */
-value *theta_integrate_value(interp *I, const node *where, slong g, slong n, const value *integrand);
+/* The Theta order of an additive term of an integrand: negative when it cannot be read. */
+enum { TH_DEEP = -2, TH_BAD = -1, TH_FREE = 0, TH_LINEAR = 1, TH_SQUARE = 2 };
+
+/* Calls fn on each additive term of e with its Theta order and its Theta-free rest (the term
+   divided by Theta, for TH_LINEAR); returns 0 as soon as fn does. */
+typedef int (*theta_term_visit)(void *data, const cx *term, int order, cx *rest);
+int theta_each_term(const cx *e, theta_term_visit fn, void *data);
+
+/* Reports why a term cannot be integrated with Theta, at its Theta node. */
+void theta_report_bad(const node *where, const cx *term, int order);
+
+/* Expands the Theta-free rest R of a Theta-linear term up to degree g-1 into P (made by
+   cpoly_init_degree), reporting errors at their nodes; 1 on success. */
+int theta_expand_rest(cpoly *P, const node *where, const cx *rest);
+/* Whether genus g is within the Theta engine's reach and --max-table; reports at where. */
+int theta_rest_genus_ok(interp *I, const node *where, slong g);
+
+/* Splits an integrand holding Theta into the sum of its Theta-free terms and the sum of its
+   Theta-linear terms (new references, NULL for an empty sum); terms with Theta^2 are zero and
+   dropped. Returns 0 after reporting a term Theta cannot be read in. */
+int theta_split_integrand(interp *I, const node *where, const cx *e, cx **free_part, cx **theta_part);
 
 /* explain int_{g,n} ... for such an integrand: prints the reduction to <Theta | ...>_g numbers.
    Returns 0 after reporting an error. */

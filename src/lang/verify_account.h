@@ -27,6 +27,7 @@ typedef enum { VERIFY_VALUE = 0, VERIFY_MONOMIAL = 1 } verify_unit;
 #define VERIFY_WHY_MONOMIALS "some of its monomials could not be checked (see the monomials)"
 #define VERIFY_WHY_NO_ROUTE_VOLUME "no second route for V_{g,n}(L) by the reduction"
 #define VERIFY_WHY_NO_ROUTE_SERIES "no second route for specialisations of F"
+#define VERIFY_WHY_NO_SECOND_ROUTE "its route has no second route"
 
 /* Counts `count` units checked by a second route (ignored inside a second route). */
 void verify_checked(interp *I, verify_unit u, double count);

@@ -1,0 +1,208 @@
+/* V_{g,n}(L_1..L_n) as a polynomial: by the volume engine when it is faster or the only one
+   in reach (fastvol.c), else coefficient by coefficient by the reduction. */
+#include <stdlib.h>
+#include <string.h>
+
+#include "diag.h"
+#include "fastvol.h"
+#include "integrate.h"
+#include "progress.h"
+#include "route_reduction.h"
+#include "util.h"
+#include "verify_account.h"
+
+/* Coefficient of L^{2 alpha} pi^{2(D-m)} in V_{g,n}(L), m = |alpha|:
+   2^{D-m}/(D-m)! * int psi^alpha kappa_1^{D-m} / (2^m prod alpha_i!).
+   Memoised on the sorted alpha, since V_{g,n} is symmetric. */
+static int volume_coeff(fmpq_t c, interp *I, keymap *memo, slong g, slong n, const slong *alpha)
+{
+    slong *key = xmalloc((n + 1) * sizeof(slong));
+    memcpy(key, alpha, n * sizeof(slong));
+    for (slong i = 1; i < n; i++)
+        for (slong j = i; j > 0 && key[j - 1] < key[j]; j--) {
+            slong t = key[j];
+            key[j] = key[j - 1];
+            key[j - 1] = t;
+        }
+    const fmpq *hit = keymap_get(memo, key, n);
+    int rc = WK_OK;
+    if (hit) {
+        fmpq_set(c, hit);
+    } else {
+        slong D = 3 * g - 3 + n, m = 0, kmult[2];
+        for (slong i = 0; i < n; i++)
+            m += key[i];
+        kmult[0] = 0;
+        kmult[1] = D - m;
+        reduction_run run;
+        run.I = I;
+        run.done = 0;
+        progress_start(&run.bar, "V_{g,n}: coefficients", 0);
+        run.bar.enabled = 0;   /* one monomial at a time: the caller's loop is what takes long */
+        rc = reduction_monomial(c, &run, g, key, n, kmult, D - m > 0 ? 1 : 0);
+        fmpz_t f;
+        fmpz_init(f);
+        fmpz_fac_ui(f, (ulong)(D - m));
+        fmpq_div_fmpz(c, c, f);
+        fmpq_mul_2exp(c, c, (ulong)(D - m));
+        fmpq_div_2exp(c, c, (ulong)m);
+        for (slong i = 0; i < n; i++) {
+            fmpz_fac_ui(f, (ulong)key[i]);
+            fmpq_div_fmpz(c, c, f);
+        }
+        fmpz_clear(f);
+        if (rc == WK_OK)
+            keymap_set(memo, key, n, c);
+    }
+    free(key);
+    return rc;
+}
+
+typedef struct {
+    interp *I;
+    keymap memo;
+    slong g, n, D;
+    const int *vars;       /* ring index of L_1..L_n */
+    slong *alpha;
+    ulong *exps;
+    fmpq_mpoly_struct *res;
+    fmpq_t c;
+} volume_walk;
+
+/* Visits every alpha with |alpha| <= D, adding its term to the result. The recursion is
+   n < SCALAR_MAX_VARS deep; the stack guard covers calls from deeply nested user code. */
+static int volume_visit(volume_walk *W, slong i, slong left)
+{
+    if (util_stack_exhausted())
+        return WK_TOO_DEEP;
+    if (i == W->n) {
+        int rc = volume_coeff(W->c, W->I, &W->memo, W->g, W->n, W->alpha);
+        if (rc != WK_OK || fmpq_is_zero(W->c))
+            return rc;
+        memset(W->exps, 0, SCALAR_MAX_VARS * sizeof(ulong));
+        for (slong k = 0; k < W->n; k++)
+            W->exps[W->vars[k]] = 2 * (ulong)W->alpha[k];
+        W->exps[SCALAR_PI] = 2 * (ulong)left;
+        fmpq_mpoly_set_coeff_fmpq_ui(W->res, W->c, W->exps, W->I->ring.ctx);
+        return WK_OK;
+    }
+    for (slong a = 0; a <= left; a++) {
+        W->alpha[i] = a;
+        int rc = volume_visit(W, i + 1, left - a);
+        if (rc != WK_OK)
+            return rc;
+    }
+    return WK_OK;
+}
+
+/* Declares L_1..L_n (reusing existing ones) as formal variables, binds the names
+   that are still free in the global scope, and records their ring indices in
+   vars[0..n); the order is the same for every route that builds V_{g,n}(L).
+   Returns 0 after reporting an error. */
+int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars)
+{
+    for (slong i = 0; i < n; i++) {
+        char name[32];
+        snprintf(name, sizeof name, "L_%ld", (long)(i + 1));
+        vars[i] = scalar_ring_declare(&I->ring, name);
+        if (vars[i] < 0) {
+            diag_error(&where->loc, "not enough formal variables left for L_1..L_%ld", (long)n);
+            return 0;
+        }
+        if (!scope_lookup(I->globals, name)) {   /* so that the script can use L_i afterwards */
+            value *v = value_new_num(&I->ring);
+            scalar_set_gen(v->num, &I->ring, vars[i]);
+            scope_bind_value(I->globals, name, v);
+        }
+    }
+    return 1;
+}
+
+/* Whether V_{g,n}(L) has few enough terms to be written out; reports when not. */
+static int volume_size_ok(interp *I, const node *where, slong g, slong n)
+{
+    slong D = 3 * g - 3 + n;
+    fmpz_t terms;
+    fmpz_init(terms);
+    fmpz_bin_uiui(terms, (ulong)(D + n), (ulong)n);
+    int small = fmpz_cmp_si(terms, I->lim.max_class_terms) <= 0;
+    if (!small)
+        diag_error(&where->loc, "V_{%ld,%ld}(L) has about %.3g terms, above the limit of %ld (raise it with --max-terms N)",
+                   (long)g, (long)n, fmpz_get_d(terms), (long)I->lim.max_class_terms);
+    fmpz_clear(terms);
+    return small;
+}
+
+/* Every coefficient by the reduction, memoised on the sorted multi-index. */
+static value *volume_by_reduction(interp *I, const node *where, slong g, slong n)
+{
+    if (n > SCALAR_MAX_VARS - 1 || !integrate_table_ok(I, where, g, n + 3 * g - 3 + n))
+        return NULL;
+    int *vars = xmalloc((n + 1) * sizeof(int));
+    value *r = NULL;
+    if (integrate_declare_lengths(I, where, n, vars)) {
+        r = value_new_num(&I->ring);
+        volume_walk W;
+        W.I = I;
+        W.g = g;
+        W.n = n;
+        W.D = 3 * g - 3 + n;
+        W.vars = vars;
+        W.alpha = xcalloc(n + 1, sizeof(slong));
+        W.exps = xcalloc(SCALAR_MAX_VARS, sizeof(ulong));
+        W.res = r->num;
+        keymap_init(&W.memo);
+        fmpq_init(W.c);
+        int rc = volume_visit(&W, 0, W.D);
+        fmpq_clear(W.c);
+        keymap_clear(&W.memo);
+        free(W.alpha);
+        free(W.exps);
+        if (rc != WK_OK) {
+            integrate_report_engine(where, rc);
+            value_release(r);
+            r = NULL;
+        } else {
+            r->termwise = 1;
+        }
+    }
+    free(vars);
+    return r;
+}
+
+value *integrate_volume_by_reduction(interp *I, const node *where, slong g, slong n)
+{
+    if (!integrate_space_ok(I, where, g, n) || !volume_size_ok(I, where, g, n))
+        return NULL;
+    return volume_by_reduction(I, where, g, n);
+}
+
+value *integrate_volume(interp *I, const node *where, slong g, slong n)
+{
+    if (!integrate_space_ok(I, where, g, n) || !volume_size_ok(I, where, g, n))
+        return NULL;
+    int handled = 0;
+    value *fast = n < SCALAR_MAX_VARS ? fastvol_try_polynomial(I, where, g, n, &handled) : NULL;
+    if (handled || n > SCALAR_MAX_VARS - 1)
+        return fast;
+    value *r = volume_by_reduction(I, where, g, n);
+    if (r && I->verify)
+        r = verify_unchecked_value(I, where, r, VERIFY_WHY_NO_ROUTE_VOLUME);
+    return r;
+}
+
+value *integrate_compare_routes(interp *I, const node *where, value *slow, value *fast)
+{
+    if (!slow)
+        return fast;
+    int same = fmpq_mpoly_equal(slow->num, fast->num, I->ring.ctx);
+    value_release(slow);
+    if (same) {
+        verify_checked(I, VERIFY_VALUE, 1);
+        return fast;
+    }
+    diag_error(&where->loc, "verification failed: the volume engine and the pushforward reduction disagree "
+                            "(please report this input)");
+    value_release(fast);
+    return NULL;
+}
