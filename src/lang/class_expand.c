@@ -2,6 +2,7 @@
 
 #include "diag.h"
 #include "eval.h"
+#include "failure.h"
 
 int class_expand_reported(cpoly *P, const node *where, const cx *c)
 {
@@ -24,7 +25,7 @@ int class_expand_reported(cpoly *P, const node *where, const cx *c)
                                 "nested sums, e.g. sum_{i=a..b} inside one integral)");
         break;
     case CPOLY_CANCELLED:
-        eval_cancelled(where);
+        failure_cancelled(where);
         break;
     case CPOLY_TOO_BIG:
         diag_error(&at->loc, "expanding this class on Mbar_{%ld,%ld} needs more than %ld terms "

@@ -18,6 +18,7 @@
 #include "specialise.h"
 #include "eval.h"
 #include "builtins.h"
+#include "failure.h"
 
 /* Exponents and factorial arguments beyond these would not fit in memory. */
 #define EVAL_MAX_RESULT_BITS 200000000.0
@@ -26,14 +27,6 @@ static value *eval_fail(const node *n, const char *msg)
 {
     diag_error(&n->loc, "%s", msg);
     return NULL;
-}
-
-int eval_cancelled(const node *n)
-{
-    if (!cancel_flag)
-        return 0;
-    diag_error(&n->loc, "%s", cancel_message());
-    return 1;
 }
 
 static value *eval_number(interp *I, const node *n)
@@ -524,7 +517,7 @@ static value *eval_list(interp *I, scope *s, const node *n)
 static value *eval_seq_fill(interp *I, scope *s, const node *n, slong lo, slong hi, value *v)
 {
     for (slong i = lo; i <= hi; i++) {
-        if (eval_cancelled(n)) {
+        if (failure_cancelled(n)) {
             value_release(v);
             return NULL;
         }
@@ -582,7 +575,7 @@ static value *eval_sum(interp *I, scope *s, const node *n)
     op.a = op.b = NULL;
     value *acc = value_new_si(&I->ring, n->op == '*');
     for (slong i = lo; acc && i <= hi; i++) {
-        if (eval_cancelled(n)) {
+        if (failure_cancelled(n)) {
             value_release(acc);
             return NULL;
         }
@@ -616,7 +609,7 @@ static value *eval_user_call(interp *I, scope *s, const node *n, const node *def
         free(msg);
         return NULL;
     }
-    if (eval_cancelled(n))
+    if (failure_cancelled(n))
         return NULL;
     if (I->depth >= I->lim.max_depth) {
         char *msg = xasprintf("calls nested more than %d deep (endless recursion? raise with --max-depth)",

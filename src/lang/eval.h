@@ -4,9 +4,6 @@
 
 #include "interp.h"
 
-/* Reports a pending interrupt or timeout at n and returns 1; 0 when none. */
-int eval_cancelled(const node *n);
-
 /* Names, items of lists, subscripted names L_{i} and V_{g,n} (eval_names.c). */
 value *eval_name(interp *I, scope *s, const node *n);
 value *eval_indexed(interp *I, scope *s, const node *n);

@@ -21,6 +21,7 @@
 #include "specialise.h"
 #include "exec.h"
 #include "eval.h"
+#include "failure.h"
 
 void interp_init(interp *I)
 {
@@ -136,7 +137,7 @@ static int exec_for(interp *I, scope *s, const node *n)
         || !eval_slong(I, s, n->b, "loop end", WORD_MIN / 2, &hi))
         return 0;
     for (slong i = lo; i <= hi; i++) {
-        if (eval_cancelled(n))
+        if (failure_cancelled(n))
             return 0;
         scope *body = scope_new(s);
         scope_bind_value(body, n->text, value_new_si(&I->ring, i));

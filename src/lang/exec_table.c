@@ -10,6 +10,7 @@
 #include "util.h"
 #include "exec.h"
 #include "eval.h"
+#include "failure.h"
 
 /* Tables larger than this would not be read by anyone. */
 #define TABLE_MAX_CELLS 1000000
@@ -132,7 +133,7 @@ static int table_fill(interp *I, scope *s, const node *n, const table_shape *T, 
         for (slong c = 0; c < T->ncols && ok; c++) {
             idx[T->nranges - 1] = T->lo[T->nranges - 1] + c;
             value *v = table_cell(I, s, n->a, T, idx);
-            ok = v != NULL && !eval_cancelled(n);
+            ok = v != NULL && !failure_cancelled(n);
             if (v && v->kind == V_STR && v->str[0] == '\0') {
                 value_release(v);
                 v = NULL;

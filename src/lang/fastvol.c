@@ -20,6 +20,7 @@
 #include "fastvol.h"
 #include "integrate.h"
 #include "eval.h"
+#include "failure.h"
 
 /* The same for V_{g,1} (correlator terms summed over the sorted
    multi-indices): measured with bench_wpoly, V_{10,1} (18460 terms) takes
@@ -36,17 +37,16 @@
 /* Reports a failure of either volume engine in words (codes of wpvol.h). */
 void fastvol_report(const node *where, int rc)
 {
-    if (rc == WPVOL_CANCELLED || cancel_flag)
-        eval_cancelled(where);
-    else if (rc == WPVOL_LIMIT)
-        diag_error(&where->loc, "this request is beyond the limits of the volume engine (%.3g s, %.3g GiB)",
-                   WPVOL_MAX_SECONDS, WPVOL_MAX_BYTES / 1073741824.0);
-    else if (rc == WPVOL_NOMEM)
-        diag_error(&where->loc, "the volume engine ran out of memory");
-    else if (rc == WPVOL_INTERNAL)
-        diag_error(&where->loc, "the volume engine failed a consistency check (please report this input)");
-    else
-        diag_error(&where->loc, "the volume engine rejected this request (code %d)", rc);
+    char limit[160];
+    snprintf(limit, sizeof limit, "this request is beyond the limits of the volume engine (%.3g s, %.3g GiB)",
+             WPVOL_MAX_SECONDS, WPVOL_MAX_BYTES / 1073741824.0);
+    const failure_words words[] = {
+        {WPVOL_LIMIT, limit},
+        {WPVOL_NOMEM, "the volume engine ran out of memory"},
+        {WPVOL_INTERNAL, "the volume engine failed a consistency check (please report this input)"},
+        {0, NULL},
+    };
+    failure_report(where, "the volume engine", rc, WPVOL_CANCELLED, words);
 }
 
 /* The table that holds V_{g,n}: grown in steps, so that a loop over g or n does not recompute

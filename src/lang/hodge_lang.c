@@ -12,6 +12,7 @@
 #include "strbuf.h"
 #include "util.h"
 #include "eval.h"
+#include "failure.h"
 
 int hodge_lang_name(interp *I, const node *n, value **out)
 {
@@ -233,10 +234,8 @@ int hodge_lang_explain(interp *I, const node *where, const cpoly *P)
     int st = cpoly_foreach_top_hodge(P, hodge_sum_term, &S);
     if (st == WK_OK)
         hodge_sum_print(I->out, &S, where);
-    else if (st == WK_CANCELLED || cancel_flag)
-        eval_cancelled(where);
     else
-        diag_error(&where->loc, "the Hodge engine rejected this request (code %d)", st);
+        failure_report(where, "the Hodge engine", st, WK_CANCELLED, NULL);
     for (slong i = 0; i < S.len; i++) {
         free(S.keys[i]);
         fmpq_mpoly_clear(S.coeffs + i, I->ring.ctx);

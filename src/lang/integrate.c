@@ -12,6 +12,7 @@
 #include "reduction_cost.h"
 #include "util.h"
 #include "verify_account.h"
+#include "failure.h"
 
 /* Reports an unstable or oversized space; returns 1 when (g, n) is usable. */
 int integrate_space_ok(interp *I, const node *where, slong g, slong n)
@@ -58,17 +59,17 @@ int integrate_table_ok(interp *I, const node *where, slong g, slong n)
     return integrate_table_ok_est(I, where, g, n, est) && reduction_seconds_ok(I, where, est, 0);
 }
 
+static const failure_words integrate_words[] = {
+    {WK_LIMIT, "the correlator table reached its size limit (raise it with --max-table N)"},
+    {WK_TOO_DEEP, "evaluation nested too deeply for the stack to compute this here (call it from less deeply "
+                  "nested code)"},
+    {0, NULL},
+};
+
 void integrate_report_engine(const node *where, int rc)
 {
-    if (rc == INTEGRATE_CANCELLED || rc == WK_CANCELLED || cancel_flag)
-        eval_cancelled(where);
-    else if (rc == WK_LIMIT)
-        diag_error(&where->loc, "the correlator table reached its size limit (raise it with --max-table N)");
-    else if (rc == WK_TOO_DEEP)
-        diag_error(&where->loc, "evaluation nested too deeply for the stack to compute this here "
-                                "(call it from less deeply nested code)");
-    else
-        diag_error(&where->loc, "the intersection engine rejected this request (code %d)", rc);
+    failure_report(where, "the intersection engine", rc == INTEGRATE_CANCELLED ? WK_CANCELLED : rc, WK_CANCELLED,
+                   integrate_words);
 }
 
 /* The memo of the second correlator route, created on first use with the table limit.

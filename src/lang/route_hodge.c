@@ -11,6 +11,7 @@
 #include "hodge_lang.h"
 #include "route.h"
 #include "verify_account.h"
+#include "failure.h"
 
 /* What the term callbacks share. */
 typedef struct {
@@ -85,13 +86,11 @@ static int hodge_route_term(void *data, const slong *psi, slong n, const slong *
 /* Reports an engine status other than WK_OK at where: a cancellation first, then the code. */
 static void hodge_route_report(interp *I, const node *where, int st)
 {
-    if (st == WK_CANCELLED || cancel_flag)
-        eval_cancelled(where);
-    else if (st == WK_LIMIT)
-        diag_error(&where->loc, "the Hodge integral reached the memo limit of %.3g states (raise it with "
-                                "--max-table N)", I->lim.max_table);
-    else
-        diag_error(&where->loc, "the Hodge engine rejected this request (code %d)", st);
+    char limit[160];
+    snprintf(limit, sizeof limit, "the Hodge integral reached the memo limit of %.3g states (raise it with "
+             "--max-table N)", I->lim.max_table);
+    const failure_words words[] = {{WK_LIMIT, limit}, {0, NULL}};
+    failure_report(where, "the Hodge engine", st, WK_CANCELLED, words);
 }
 
 static int hodge_route_applies(integral *q)

@@ -13,6 +13,7 @@
 #include "util.h"
 #include "specialise.h"
 #include "eval.h"
+#include "failure.h"
 
 typedef struct {
     interp *I;
@@ -213,7 +214,7 @@ static void spec_report_plan_error(spec_ctx *C, int rc)
         diag_error(&n->loc, "genus %ld or order %ld is out of range (at most genus %d and order %d)", (long)C->g,
                    (long)C->order, SPEC_MAX_GENUS, SPEC_MAX_ORDER);
     else if (!C->failed)
-        diag_error(&n->loc, "the specialisation could not be planned (code %d)", rc);
+        failure_report(n, "the specialisation's planner", rc, -1, NULL);
 }
 
 /* Builds the plan; on success *P is owned by the caller. */
@@ -243,7 +244,11 @@ value *specialise_value(interp *I, scope *s, const node *n)
             r = value_new_series(C.var, C.order, &I->ring);
             int rc = spec_plan_evaluate(r->ser, P, I->wk, C.t, I->ring.ctx);
             if (rc != SPEC_OK) {
-                diag_error(&n->loc, "the correlator engine stopped (code %d; raise --max-table?)", rc);
+                static const failure_words words[] = {
+                    {SPEC_WK, "the correlator table reached its size limit (raise it with --max-table N)"},
+                    {0, NULL},
+                };
+                failure_report(n, "the specialisation's evaluation", rc, -1, words);
                 value_release(r);
                 r = NULL;
             } else if (I->verify) {

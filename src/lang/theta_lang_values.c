@@ -11,6 +11,7 @@
 #include "util.h"
 #include "integrate.h"
 #include "eval.h"
+#include "failure.h"
 
 int theta_is_class_name(const char *name)
 {
@@ -45,16 +46,14 @@ void theta_lang_clear(interp *I)
 void theta_lang_report(interp *I, const node *where, int rc)
 {
     (void)I;
-    if (rc == WK_CANCELLED || cancel_flag)
-        eval_cancelled(where);
-    else if (rc == WK_LIMIT)
-        diag_error(&where->loc, "the Theta table reached its size limit (raise it with --max-table N), or the "
-                                "reduction has more than --max-terms correlator terms");
-    else if (rc == THETA_INEXACT)
-        diag_error(&where->loc, "verification failed: the KdV route for Theta numbers met an inexact "
-                                "division (please report this input)");
-    else
-        diag_error(&where->loc, "the Theta engine rejected this request (code %d)", rc);
+    static const failure_words words[] = {
+        {WK_LIMIT, "the Theta table reached its size limit (raise it with --max-table N), or the reduction has "
+                   "more than --max-terms correlator terms"},
+        {THETA_INEXACT, "verification failed: the KdV route for Theta numbers met an inexact division (please "
+                        "report this input)"},
+        {0, NULL},
+    };
+    failure_report(where, "the Theta engine", rc, WK_CANCELLED, words);
 }
 
 /* Refuses a genus beyond the engine's limit or a table larger than --max-table, by estimate.

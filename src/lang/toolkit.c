@@ -11,6 +11,7 @@
 #include "builtins.h"
 #include "util.h"
 #include "eval.h"
+#include "failure.h"
 
 /* toolkit_numeric.c */
 value *toolkit_ball(interp *I, const node *call, value **args);
@@ -162,7 +163,7 @@ static value *toolkit_richardson(interp *I, const node *call, value **args)
     fmpz_init(kfac);
     fmpz_fac_ui(kfac, (ulong)k);
     toolkit_richardson_tables(P, B, xs->len, k, n0);
-    for (slong i = 0; i < r->len && !eval_cancelled(call); i++) {
+    for (slong i = 0; i < r->len && !failure_cancelled(call); i++) {
         r->items[i] = value_new_num(&I->ring);
         toolkit_richardson_row(r->items[i]->num, xs, i, k, P, B, I->ring.ctx);
         fmpq_mpoly_scalar_div_fmpz(r->items[i]->num, r->items[i]->num, kfac, I->ring.ctx);

@@ -1,10 +1,14 @@
 #include "cancel.h"
 
+#include <assert.h>
+#include <stdatomic.h>
 #include <string.h>
 #include <sys/time.h>
 #include <unistd.h>
 
-volatile sig_atomic_t cancel_flag;
+static_assert(ATOMIC_INT_LOCK_FREE == 2, "cancel_flag is written by signal handlers: it must be lock-free");
+
+atomic_int cancel_flag;
 volatile sig_atomic_t cancel_writing;
 static volatile sig_atomic_t cancel_pending_signal;
 static const char *volatile cancel_pending_message;

@@ -4,12 +4,17 @@
 #ifndef PSIKAPPA_CANCEL_H
 #define PSIKAPPA_CANCEL_H
 
+#include <stdatomic.h>
 #include <signal.h>
 
 enum { CANCEL_NONE = 0, CANCEL_INTERRUPT = 1, CANCEL_TIMEOUT = 2 };
 
-/* Nonzero (one of the CANCEL_ codes) once a stop was requested. */
-extern volatile sig_atomic_t cancel_flag;
+/* Nonzero (one of the CANCEL_ codes) once a stop was requested. The one cancellation
+   convention: signal handlers store into it, and every loop of the evaluator and of the
+   engines, worker threads included, polls it (or the pointer to it an engine was given).
+   A lock-free atomic_int is both what C11 lets a signal handler write and what threads may
+   read without a data race. */
+extern atomic_int cancel_flag;
 
 /* Installs the handlers: SIGINT stops the computation (the statement fails
    with a message); SIGTERM and SIGHUP end the program at once with status

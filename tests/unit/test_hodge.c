@@ -9,6 +9,7 @@
  *    c(E) c(E^dual) = 1) and to the direct ch_m integral for odd m, on random integrands;
  *    lambda_g^2 = 0; the lambda_j with j > g expanded into ch classes integrate to 0.
  */
+#include <stdatomic.h>
 #include <signal.h>
 #include <string.h>
 #include <flint/arith.h>
@@ -435,7 +436,7 @@ static void test_errors(hodge_ctx *H)
     /* the memo limit and the cancel flag stop a computation, per route */
     wk_table *T = wk_table_new();
     hodge_ctx *L = hodge_new(T);
-    volatile sig_atomic_t flag = 1;
+    atomic_int flag = 1;
     slong lm6[7] = {0, 0, 0, 0, 0, 1, 1}, a[1] = {5};
     hodge_set_limit(L, 10);
     for (int r = 0; r < 2; r++) {

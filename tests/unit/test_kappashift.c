@@ -7,6 +7,7 @@
  *    prod psi_i^{d_i} prod kappa_j^{m_j}, g <= 5, n <= 5, kappa indices <= 4.
  * 3. The work estimate against an independent partition count, and every error code.
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <signal.h>
 #include <string.h>
@@ -175,7 +176,7 @@ static void test_estimate(void)
 static void test_errors(wk_table *T)
 {
     slong d[3] = {0, 0, 0}, km[3] = {0, 1, 0}, bad[2] = {0, -1};
-    volatile sig_atomic_t flag = 1;
+    atomic_int flag = 1;
     fmpq_t r;
     fmpq_init(r);
     fmpq_set_si(r, 5, 1);

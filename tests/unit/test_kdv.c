@@ -7,6 +7,7 @@
  * 3. Property tests of the closed forms against both recursions; error codes, the entry limit, the
  *    cancel flag, the nesting cap and the memo estimate (an upper bound by construction).
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <signal.h>
 #include <string.h>
@@ -221,7 +222,7 @@ static void test_errors(wk_kdv_table *K)
 static void test_limit_cancel(void)
 {
     wk_kdv_table *K = wk_kdv_table_new();
-    volatile sig_atomic_t flag = 1;
+    atomic_int flag = 1;
     slong d = 13;
     int st;
     fmpq_t r, e;

@@ -1,5 +1,6 @@
 #include "cpoly.h"
 
+#include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -303,9 +304,9 @@ static int cpoly_expand_exp(cpoly *P, const cx *e, const cx **bad)
     return rc;
 }
 
-static volatile sig_atomic_t *cpoly_cancel;
+static atomic_int *cpoly_cancel;
 
-void cpoly_set_cancel(volatile sig_atomic_t *flag)
+void cpoly_set_cancel(atomic_int *flag)
 {
     cpoly_cancel = flag;
 }

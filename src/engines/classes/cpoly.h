@@ -9,6 +9,7 @@
 #ifndef PSIKAPPA_CPOLY_H
 #define PSIKAPPA_CPOLY_H
 
+#include <stdatomic.h>
 #include <stdint.h>
 #include <signal.h>
 
@@ -39,7 +40,7 @@ enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_
 /* Makes cpoly_expand poll *flag (e.g. set by a signal handler) along long chains of sums and
    products and stop with CPOLY_CANCELLED once it is nonzero; NULL turns polling off. The
    flag is not owned. */
-void cpoly_set_cancel(volatile sig_atomic_t *flag);
+void cpoly_set_cancel(atomic_int *flag);
 
 /* A space needs D <= CPOLY_MAX_DIM so that exponents fit cpoly_exp. */
 #define CPOLY_MAX_DIM 60000

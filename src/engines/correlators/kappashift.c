@@ -9,6 +9,7 @@
  * truncated product is zero.  p_k comes from the power-series exponential by the recurrence
  *     p_0 = 1,   k p_k = - sum_{j <= k} j s_j p_{k-j}        (f = exp(h)  =>  k f_k = sum_i i h_i f_{k-i}).
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -19,7 +20,7 @@
 /* The walk's data: the space, the truncation, the shifted times -p_k and the extra points chosen. */
 typedef struct {
     wk_table *T;
-    volatile sig_atomic_t *cancel;
+    atomic_int *cancel;
     slong g, n, K;
     const slong *d;
     slong r;                   /* number of kappa variables */
@@ -209,7 +210,7 @@ static int ks_integral_run(ks_walk *W, const slong *kmult, slong kmax)
 /* res = the mixed integral by the time shift; see kappashift.h.
    Degree mismatch gives zero at once; no kappa at all is one correlator. */
 int ks_integral(fmpq_t res, wk_table *T, slong g, const slong *d, slong n, const slong *kmult, slong kmax,
-                volatile sig_atomic_t *cancel)
+                atomic_int *cancel)
 {
     ks_walk W;
     slong i, sum = 0, K = ks_kappa_degree(kmult, kmax);

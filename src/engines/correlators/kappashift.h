@@ -15,6 +15,7 @@
 #ifndef PSIKAPPA_CORRELATORS_KAPPASHIFT_H
 #define PSIKAPPA_CORRELATORS_KAPPASHIFT_H
 
+#include <stdatomic.h>
 #include <signal.h>
 #include <flint/fmpq.h>
 #include "wk.h"
@@ -28,7 +29,7 @@ extern "C" {
    come from T; *cancel (may be NULL, not owned) is polled once per correlator.  Returns WK_OK,
    WK_BADARG, WK_UNSTABLE, WK_CANCELLED, or WK_LIMIT (memory, memo limit of T). */
 int ks_integral(fmpq_t res, wk_table *T, slong g, const slong *d, slong n, const slong *kmult, slong kmax,
-                volatile sig_atomic_t *cancel);
+                atomic_int *cancel);
 
 /* Work of ks_integral as a double: an upper bound on the correlators it evaluates (partitions of the
    kappa degree into parts k whose p_k is not truncated away) times the monomials of its truncated

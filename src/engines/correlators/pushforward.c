@@ -8,6 +8,7 @@
  * one term.  Multiset partitions are generated as block sequences beta^1 >= beta^2 >= ... in
  * lexicographic order, iteratively (no recursion, so huge inputs cannot exhaust the C stack).
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -194,7 +195,7 @@ static void pf_partition_multiplicity(fmpz_t c, const pf_enum *P, slong L)
 /* Turns the multiset partition blocks[0..L-1] into the term (-1)^{m-L} mult <tau_d prod tau_{b_B+1}>.
    Returns WK_LIMIT if the term budget is exceeded or memory runs out. */
 /* The stop flag of the table pf_integral works for, polled while it enumerates (NULL: none). */
-static _Thread_local volatile sig_atomic_t *pf_cancel;
+static _Thread_local atomic_int *pf_cancel;
 
 static int pf_emit_partition(pf_expansion *E, pf_enum *P, slong L)
 {

@@ -15,6 +15,7 @@
  *   DVV      X = 2 sum_j (2d_j+1) X(...) + 4 sum_{r+s=k-1} X_{g-1}(...) + sum X_{g1}(...) X_{g2}(...)
  * Working in fmpz avoids all rational canonicalisation in the inner loop.
  */
+#include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
 #include "util.h"
@@ -83,7 +84,7 @@ slong wk_table_limit(const wk_table *T)
 
 /* Number of memoised correlators.
    Returns 0 for NULL so callers can report sizes unconditionally. */
-void wk_table_set_cancel(wk_table *T, volatile sig_atomic_t *flag)
+void wk_table_set_cancel(wk_table *T, atomic_int *flag)
 {
     if (T)
         T->cancel = flag;

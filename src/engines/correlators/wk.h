@@ -12,6 +12,7 @@
 #ifndef PSIKAPPA_CORRELATORS_WK_H
 #define PSIKAPPA_CORRELATORS_WK_H
 
+#include <stdatomic.h>
 #include <signal.h>
 #include <flint/fmpq.h>
 
@@ -46,7 +47,7 @@ slong wk_table_limit(const wk_table *T);
 
 /* Makes long computations poll *flag (e.g. set by a signal handler) and stop with
    WK_CANCELLED once it is nonzero; NULL turns polling off. The flag is not owned. */
-void wk_table_set_cancel(wk_table *T, volatile sig_atomic_t *flag);
+void wk_table_set_cancel(wk_table *T, atomic_int *flag);
 
 /* Number of correlators currently memoised.
    Returns 0 for a NULL table. */

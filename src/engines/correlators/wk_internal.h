@@ -10,6 +10,7 @@
 #ifndef PSIKAPPA_CORRELATORS_WK_INTERNAL_H
 #define PSIKAPPA_CORRELATORS_WK_INTERNAL_H
 
+#include <stdatomic.h>
 #include "wk.h"
 
 typedef struct {
@@ -20,7 +21,7 @@ typedef struct {
 
 struct wk_table {
     slong limit;               /* maximum number of entries, 0 = unlimited */
-    volatile sig_atomic_t *cancel;  /* polled before each new entry; not owned */
+    atomic_int *cancel;  /* polled before each new entry; not owned */
     slong len, alloc;          /* entries in use / allocated in ent and val */
     wk_entry *ent;
     fmpz *val;                 /* val[i] = X of entry i */

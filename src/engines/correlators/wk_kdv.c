@@ -40,6 +40,7 @@
  * string and dilaton lower n.  By induction a key of genus g' has at most n + 4(g-g') points, and it
  * is a partition of 3g'-3+n' into at most n' parts: wk_kdv_estimate_entries counts these.
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -54,7 +55,7 @@ typedef struct {
 
 struct wk_kdv_table {
     slong limit;                    /* maximum entries, 0 = unlimited */
-    volatile sig_atomic_t *cancel;  /* polled before each new entry; not owned */
+    atomic_int *cancel;  /* polled before each new entry; not owned */
     slong nest, max_nest;           /* current and deepest recursion nesting */
     slong len, alloc;
     kdv_entry *ent;
@@ -121,7 +122,7 @@ void wk_kdv_table_set_limit(wk_kdv_table *T, slong max_entries)
 
 /* Installs the cancel flag polled by the recursion (NULL: none).
    The flag stays the caller's. */
-void wk_kdv_table_set_cancel(wk_kdv_table *T, volatile sig_atomic_t *flag)
+void wk_kdv_table_set_cancel(wk_kdv_table *T, atomic_int *flag)
 {
     if (T != NULL)
         T->cancel = flag;

@@ -14,6 +14,7 @@
 #ifndef PSIKAPPA_CORRELATORS_WK_KDV_H
 #define PSIKAPPA_CORRELATORS_WK_KDV_H
 
+#include <stdatomic.h>
 #include <signal.h>
 #include <flint/fmpq.h>
 #include "wk.h"
@@ -44,7 +45,7 @@ void wk_kdv_table_set_limit(wk_kdv_table *T, slong max_entries);
 
 /* Makes the recursion poll *flag before each new entry and stop with WK_CANCELLED once it is
    nonzero; NULL turns polling off.  The flag is not owned. */
-void wk_kdv_table_set_cancel(wk_kdv_table *T, volatile sig_atomic_t *flag);
+void wk_kdv_table_set_cancel(wk_kdv_table *T, atomic_int *flag);
 
 /* Number of memoised correlators (0 for NULL). */
 slong wk_kdv_table_entries(const wk_kdv_table *T);

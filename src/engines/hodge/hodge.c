@@ -1,4 +1,5 @@
 /* hodge.c - the Hodge context, argument checks and dispatch to the two routes. */
+#include <stdatomic.h>
 #include <math.h>
 #include <stdlib.h>
 #include <flint/arith.h>
@@ -28,7 +29,7 @@ void hodge_free(hodge_ctx *H)
     free(H);
 }
 
-void hodge_set_cancel(hodge_ctx *H, volatile sig_atomic_t *flag)
+void hodge_set_cancel(hodge_ctx *H, atomic_int *flag)
 {
     if (H != NULL)
         H->cancel = flag;

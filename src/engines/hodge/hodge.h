@@ -26,6 +26,7 @@
 #ifndef PSIKAPPA_HODGE_HODGE_H
 #define PSIKAPPA_HODGE_HODGE_H
 
+#include <stdatomic.h>
 #include <signal.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
@@ -51,7 +52,7 @@ void hodge_free(hodge_ctx *H);
 
 /* Makes long computations poll *flag and stop with WK_CANCELLED once it is nonzero (NULL: off).
    The flag is not owned. */
-void hodge_set_cancel(hodge_ctx *H, volatile sig_atomic_t *flag);
+void hodge_set_cancel(hodge_ctx *H, atomic_int *flag);
 
 /* Stops a computation with WK_LIMIT once the memo table of its route holds more than max_entries
    states (0 = unlimited). */

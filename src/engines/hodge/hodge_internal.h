@@ -6,6 +6,7 @@
 #ifndef PSIKAPPA_HODGE_INTERNAL_H
 #define PSIKAPPA_HODGE_INTERNAL_H
 
+#include <stdatomic.h>
 #include <flint/fmpq.h>
 #include "keymap.h"
 #include "hodge.h"
@@ -13,7 +14,7 @@
 struct hodge_ctx {
     wk_table *T;                       /* psi correlators, borrowed */
     keymap memo[2];                    /* one per route, keyed by normalised states */
-    volatile sig_atomic_t *cancel;     /* polled on each memo miss, not owned */
+    atomic_int *cancel;     /* polled on each memo miss, not owned */
     slong limit;                       /* states allowed per route, 0 = unlimited */
     fmpq *bcoef;                       /* bcoef[l] = B_{2l}/(2l)!, l = 0..nbcoef-1 */
     slong nbcoef;

@@ -12,6 +12,7 @@
  * accumulator cost a pass over the accumulator per leaf).  When only s_1 is nonzero up to the
  * polynomial-time volume engine gives int psi^a kappa_1^{D-|a|}/(D-|a|)! instead (g >= 2, n <= 6).
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -25,7 +26,7 @@
 typedef struct {
     sp_table *out;
     wk_table *Tw;
-    volatile sig_atomic_t *cancel;
+    atomic_int *cancel;
     slong g, n, D, kmax;
     fmpq_mpoly_struct *q;      /* q[k] = -p_k, k = 1..kmax */
     slong *e;                  /* e[k]: multiplicity of tau_{k+1} chosen so far */

@@ -18,6 +18,7 @@
  * and the base omega_{0,3} = -(1/y_0) prod dz_i / z_i^2 (the same residue with two factors B).
  * Values are memoised on (g, sorted d) in an open-addressing hash table.
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -35,7 +36,7 @@ typedef struct {
     slong **keys;              /* keys[s] = {length, g, d sorted}, NULL when free */
     fmpq_mpoly_struct **vals;
     double max_entries;
-    volatile sig_atomic_t *cancel;
+    atomic_int *cancel;
     fmpq_mpoly_t zero;
 } sp_res;
 
@@ -390,7 +391,7 @@ static void res_clear(sp_res *S)
 
 /* See spectral.h: every row of the table through the memo. */
 int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
-                     double max_entries, volatile sig_atomic_t *cancel, const fmpq_mpoly_ctx_t ctx)
+                     double max_entries, atomic_int *cancel, const fmpq_mpoly_ctx_t ctx)
 {
     sp_res S;
     slong i;

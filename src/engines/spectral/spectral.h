@@ -27,6 +27,7 @@
 #ifndef PSIKAPPA_SPECTRAL_SPECTRAL_H
 #define PSIKAPPA_SPECTRAL_SPECTRAL_H
 
+#include <stdatomic.h>
 #include <signal.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
@@ -64,7 +65,7 @@ typedef struct {
     int force_shift;           /* 1: never use the volume engine (tests, benchmarks) */
     int threads;               /* threads of the volume engine (>= 1) */
     double max_terms;          /* refuse when more correlators are estimated (0: no limit) */
-    volatile sig_atomic_t *cancel;   /* polled; may be NULL; not owned */
+    atomic_int *cancel;   /* polled; may be NULL; not owned */
 } sp_options;
 
 /* Default options: automatic route, one thread, no term limit, no cancel flag. */
@@ -128,7 +129,7 @@ double sp_residue_estimate(slong g, slong n);
    engines.  max_entries > 0 bounds the memo (SP_LIMIT beyond it, and for g + n above
    SP_RESIDUE_MAX_POINTS); cancel may be NULL. */
 int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
-                     double max_entries, volatile sig_atomic_t *cancel, const fmpq_mpoly_ctx_t ctx);
+                     double max_entries, atomic_int *cancel, const fmpq_mpoly_ctx_t ctx);
 
 /* V = the volume coefficients of W (same rows, each divided by prod (2 d_i + 1)!).
    V may be W. */

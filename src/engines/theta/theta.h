@@ -21,6 +21,7 @@
 #ifndef PSIKAPPA_THETA_THETA_H
 #define PSIKAPPA_THETA_THETA_H
 
+#include <stdatomic.h>
 #include <signal.h>
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
@@ -51,7 +52,7 @@ void theta_table_free(theta_table *T);
 void theta_table_set_limit(theta_table *T, slong max_entries);
 
 /* Polls *flag (not owned; NULL = off) before each new entry and stops with WK_CANCELLED. */
-void theta_table_set_cancel(theta_table *T, volatile sig_atomic_t *flag);
+void theta_table_set_cancel(theta_table *T, atomic_int *flag);
 
 /* Number of memoised values (0 for NULL).  Keys are partitions of g-1 (no index 0). */
 slong theta_table_entries(const theta_table *T);

@@ -12,6 +12,7 @@
 #ifndef PSIKAPPA_THETA_INTERNAL_H
 #define PSIKAPPA_THETA_INTERNAL_H
 
+#include <stdatomic.h>
 #include <flint/fmpz.h>
 #include "theta.h"
 #include "correlators/wk_internal.h"
@@ -19,7 +20,7 @@
 struct theta_table {
     int route;                       /* THETA_ROUTE_VIRASORO or THETA_ROUTE_KDV */
     wk_table *memo;                  /* zero-free keys -> X */
-    volatile sig_atomic_t *cancel;   /* not owned */
+    atomic_int *cancel;   /* not owned */
 };
 
 /* Distinct values (descending) with multiplicities, and an odometer a_i in [0, mul_i] running

@@ -10,6 +10,7 @@
  * (n-1)!/8.  X (theta_internal.h) has no factor depending on n, so it obeys the same equation and
  * X(tau_0^n) = (n-1)! in genus 1.  Both routes call theta_eval, so they share only this step.
  */
+#include <stdatomic.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
@@ -54,7 +55,7 @@ void theta_table_set_limit(theta_table *T, slong max_entries)
 
 /* Cancel flag polled before each new entry (not owned).
    NULL turns polling off. */
-void theta_table_set_cancel(theta_table *T, volatile sig_atomic_t *flag)
+void theta_table_set_cancel(theta_table *T, atomic_int *flag)
 {
     if (T != NULL)
         T->cancel = flag;

@@ -46,11 +46,11 @@ static void wpvol_batch_fail(wpvol_batch_t *b, int st)
 /* The caller's signal flag is read only by the thread that set it (signals are blocked in
    the workers, so the handler runs there too); every thread reads the stop request through
    the C11 atomic, which that thread raises once it sees the flag. */
-static volatile sig_atomic_t *wpvol_cancel_flag;
+static atomic_int *wpvol_cancel_flag;
 static pthread_t wpvol_cancel_owner;
 static atomic_int wpvol_stop;
 
-void wpvol_set_cancel(volatile sig_atomic_t *flag)
+void wpvol_set_cancel(atomic_int *flag)
 {
     wpvol_cancel_flag = flag;
     wpvol_cancel_owner = pthread_self();

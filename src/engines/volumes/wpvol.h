@@ -17,6 +17,7 @@
 #ifndef PSIKAPPA_VOLUMES_WPVOL_H
 #define PSIKAPPA_VOLUMES_WPVOL_H
 
+#include <stdatomic.h>
 #include <signal.h>
 #include <flint/fmpq.h>
 
@@ -41,7 +42,7 @@ enum { WPVOL_OK = 0, WPVOL_BADARG = 1, WPVOL_LIMIT = 2, WPVOL_NOMEM = 3, WPVOL_I
    WPVOL_NOMEM, WPVOL_INTERNAL; on error every entry of out is 0. */
 /* Makes wpvol_table poll *flag between primes (e.g. set by a signal handler) and return
    WPVOL_CANCELLED once it is nonzero; NULL turns polling off. The flag is not owned. */
-void wpvol_set_cancel(volatile sig_atomic_t *flag);
+void wpvol_set_cancel(atomic_int *flag);
 
 int wpvol_table(fmpq *out, slong G, slong N, int threads);
 
