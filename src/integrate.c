@@ -492,7 +492,7 @@ value *integrate_value(interp *I, const node *where, slong g, slong n, const val
     if (!integrate_tree_ok(where, integrand))
         return NULL;
     if (theta_in_value(integrand))
-        return theta_integrate_value(I, where, g, n, integrand);
+        return theta_integrate_stored(I, where, g, n, integrand);
     if (integrand_is_zero(I, where, g, n, integrand)) {
         if (I->verify)
             verify_no_check_needed(I);

@@ -185,6 +185,38 @@ static int theta_each_term(const cx *e, theta_term_visit fn, void *data)
     return ok;
 }
 
+enum { THETA_ZERO_GENUS0 = 1, THETA_ZERO_SQUARE = 2, THETA_ZERO_DEGREE = 4, THETA_ZERO_NOT = 8 };
+
+/* 1 the first time `where` asks (the list the integrand warnings share), so that an integral in
+   a loop warns once. */
+static int theta_first_time(interp *I, const node *where)
+{
+    for (int i = 0; i < I->nwarned; i++)
+        if (I->warned[i] == where)
+            return 0;
+    I->warned = xrealloc(I->warned, (I->nwarned + 1) * sizeof(const node *));
+    I->warned[I->nwarned++] = where;
+    return 1;
+}
+
+/* Says once why an integral with Theta is 0 (genus 0, Theta^2, no cofactor of degree g-1): the
+   answer is right, but the question was probably not the one meant. */
+static void theta_warn_zero(interp *I, const node *where, slong g, slong n, int why)
+{
+    if (why == 0 || !theta_first_time(I, where))
+        return;
+    if (why & THETA_ZERO_GENUS0)
+        diag_warning(&where->loc, "Theta is zero on Mbar_{0,%ld} (it vanishes in genus 0): the integral is 0",
+                     (long)n);
+    else if (why & THETA_ZERO_SQUARE && !(why & THETA_ZERO_DEGREE))
+        diag_warning(&where->loc, "Theta^2 has degree %ld, above the dimension %ld of Mbar_{%ld,%ld}: the integral "
+                                  "is 0", (long)(4 * g - 4 + 2 * n), (long)(3 * g - 3 + n), (long)g, (long)n);
+    else
+        diag_warning(&where->loc, "Theta has degree 2g-2+n = %ld on Mbar_{%ld,%ld}, so only the part of degree "
+                                  "g-1 = %ld of its cofactor counts, and there is none: the integral is 0",
+                     (long)(2 * g - 2 + n), (long)g, (long)n, (long)(g - 1));
+}
+
 /* Reports why a term cannot be integrated with Theta, at its Theta node. */
 static void theta_report_bad(const node *where, const cx *term, int order)
 {
@@ -211,6 +243,7 @@ typedef struct {
     fmpq_mpoly_struct *acc;      /* the integral so far */
     slong g;
     int rc;
+    slong monomials;             /* monomials of degree g-1 visited */
     double checked, unchecked;   /* --verify: monomials compared by the time shift, or not */
     const char *why;             /* why the last unchecked one was not */
 } theta_run;
@@ -223,6 +256,7 @@ static int theta_run_term(void *data, const slong *psi, slong n, const slong *km
     theta_run *R = data;
     interp *I = R->I;
     theta_table *T = theta_lang_table(I, THETA_ROUTE_VIRASORO);
+    R->monomials++;
     fmpq_t v, w;
     fmpq_init(v);
     fmpq_init(w);
@@ -301,20 +335,24 @@ static int theta_cost_ok(interp *I, const node *where, const cpoly *P)
 }
 
 /* acc += int_{Mbar_{g,n}} Theta * rest.  Zero in genus 0 and for the parts of rest whose degree
-   is not g-1.  Returns 0 after reporting an error. */
+   is not g-1; *why gets THETA_ZERO_GENUS0 or THETA_ZERO_DEGREE when it is zero for that reason,
+   THETA_ZERO_NOT when some monomial was integrated.  Returns 0 after reporting an error. */
 static int theta_integrate_rest(interp *I, const node *where, slong g, slong n, const cx *rest,
-                                fmpq_mpoly_struct *acc, double *unchecked)
+                                fmpq_mpoly_struct *acc, double *unchecked, int *why)
 {
-    if (g == 0)
+    if (g == 0) {
+        *why |= THETA_ZERO_GENUS0;
         return 1;
+    }
     if (!theta_rest_genus_ok(I, where, g))
         return 0;
     cpoly P;
     cpoly_init_degree(&P, g, n, g - 1, I->lim.max_class_terms, I->ring.ctx);
     int ok = theta_expand_rest(&P, where, rest) && theta_cost_ok(I, where, &P);
     if (ok) {
-        theta_run R = {I, where, acc, g, WK_OK, 0, 0, NULL};
+        theta_run R = {I, where, acc, g, WK_OK, 0, 0, 0, NULL};
         cpoly_foreach_top(&P, theta_run_term, &R);
+        *why |= R.monomials > 0 ? THETA_ZERO_NOT : THETA_ZERO_DEGREE;
         ok = R.rc == WK_OK;
         if (ok && I->verify) {
             verify_checked(I, VERIFY_MONOMIAL, R.checked);
@@ -339,6 +377,7 @@ typedef struct {
     slong g, n;
     value *res;
     double unchecked;        /* --verify: monomials the time shift could not check */
+    int why;                 /* THETA_ZERO_* bits: why terms vanished, or that some did not */
 } theta_whole;
 
 /* One additive term of the integrand (theta_each_term): by its Theta order. */
@@ -349,10 +388,13 @@ static int theta_whole_term(void *data, const cx *term, int order, cx *rest)
         theta_report_bad(W->where, term, order);
         return 0;
     }
-    if (order == TH_SQUARE)
-        return 1;                                /* Theta^2 = 0 by degree */
+    if (order == TH_SQUARE) {
+        W->why |= W->g == 0 ? THETA_ZERO_GENUS0 : THETA_ZERO_SQUARE;   /* Theta^2 = 0 by degree */
+        return 1;
+    }
     if (order == TH_LINEAR)
-        return theta_integrate_rest(W->I, W->where, W->g, W->n, rest, W->res->num, &W->unchecked);
+        return theta_integrate_rest(W->I, W->where, W->g, W->n, rest, W->res->num, &W->unchecked, &W->why);
+    W->why |= THETA_ZERO_NOT;
     value *t = value_new_class(cx_ref((cx *)term), &W->I->ring);
     value *r = integrate_value(W->I, W->where, W->g, W->n, t);
     value_release(t);
@@ -374,17 +416,36 @@ value *theta_integrate_value(interp *I, const node *where, slong g, slong n, con
                    (long)(3 * g - 3 + n), (long)I->lim.max_dim);
         return NULL;
     }
-    theta_whole W = {I, where, g, n, value_new_num(&I->ring), 0};
+    theta_whole W = {I, where, g, n, value_new_num(&I->ring), 0, 0};
     if (!theta_each_term(integrand->cls, theta_whole_term, &W)) {
         value_release(W.res);
         return NULL;
     }
+    if (!(W.why & THETA_ZERO_NOT))
+        theta_warn_zero(I, where, g, n, W.why);
     if (!I->verify)
         return W.res;
     if (W.unchecked > 0)
         return verify_unchecked_value(I, where, W.res, VERIFY_WHY_MONOMIALS);
     verify_checked(I, VERIFY_VALUE, 1);
     return W.res;
+}
+
+value *theta_integrate_stored(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    results_question q;
+    if (I->verify || g == 0 || 2 * g - 2 + n <= 0 || !results_question_integral(I, g, n, integrand->cls, &q))
+        return theta_integrate_value(I, where, g, n, integrand);
+    value *r = value_new_num(&I->ring);
+    if (!results_lookup(I, &q, r->num)) {
+        value_release(r);
+        double t0 = results_clock();
+        r = theta_integrate_value(I, where, g, n, integrand);
+        if (r)
+            results_save(I, &q, r->num, results_clock() - t0);
+    }
+    results_question_clear(&q);
+    return r;
 }
 
 /* The reduction printed by explain: merged terms coeff * <Theta | tau_key>_g. */
