@@ -14,6 +14,8 @@
  * vanish (Theta_{0,n} = 0), so V_{1,1} = 1/8 is the only base value.  The recursion then rebuilds
  * V_{g,1} for g <= 7 from the engine's V_{g-1,2} and V_{h,1}, and V_{1,n} from V_{1,n-1}: every
  * coefficient must agree.  This fixes the normalisation stated in docs/conventions.md.
+ * Also the dilaton-type identity V^Theta_{g,n+1}(L, 2 pi i) = (2g-2+n) V^Theta_{g,n}(L) (property
+ * test, see check_dilaton).
  */
 #include <math.h>
 #include <flint/arith.h>
@@ -173,6 +175,50 @@ static void check_moments(void)
     }
 }
 
+/* Dilaton-type identity (property test, derived from Theta_{g,n+1} = psi_{n+1} pi^* Theta_{g,n}
+   and kappa_1 = pi^* kappa_1 + psi_{n+1}: at L_{n+1} = 2 pi i the exponent is pulled back, and
+   pi_* psi_{n+1} = 2g-2+n):  V^Theta_{g,n+1}(L, 2 pi i) = (2g-2+n) V^Theta_{g,n}(L).  With
+   L_{n+1}^2 = -4 pi^2 every monomial prod x_i^{2 d_i} keeps its pi power by homogeneity. */
+static void check_dilaton(slong g, slong n)
+{
+    slong d[8], e, i, total = 0;
+    int ok = 1;
+    fmpq_t lhs, t, rhs;
+    fmpz_t p;
+    fmpq_init(lhs);
+    fmpq_init(t);
+    fmpq_init(rhs);
+    fmpz_init(p);
+    for (slong code = 0; ok; code++) {     /* every d in [0, g-1]^n with sum <= g-1, by its digits */
+        slong c = code, sum = 0;
+        for (i = 0; i < n; i++, c /= g)
+            d[i] = c % g, sum += d[i];
+        if (c > 0)
+            break;
+        if (sum > g - 1)
+            continue;
+        fmpq_zero(lhs);
+        for (e = 0; sum + e <= g - 1; e++) {
+            d[n] = e;
+            vol_coeff(t, g, d, n + 1);
+            fmpz_set_si(p, -4);
+            fmpz_pow_ui(p, p, (ulong) e);
+            fmpq_mul_fmpz(t, t, p);
+            fmpq_add(lhs, lhs, t);
+        }
+        vol_coeff(rhs, g, d, n);
+        fmpq_mul_si(rhs, rhs, 2 * g - 2 + n);
+        ok = fmpq_equal(lhs, rhs);
+        total++;
+    }
+    UNIT_CHECK(&rep, ok && total > 0, "V^Theta_{%ld,%ld}(L, 2 pi i) = (2g-2+n) V^Theta_{%ld,%ld}(L)", (long) (g),
+               (long) (n + 1), (long) g, (long) n);
+    fmpq_clear(lhs);
+    fmpq_clear(t);
+    fmpq_clear(rhs);
+    fmpz_clear(p);
+}
+
 int main(void)
 {
     VT = theta_table_new(THETA_ROUTE_VIRASORO);
@@ -180,6 +226,9 @@ int main(void)
     check_genus_one();
     for (slong g = 2; g <= GMAX; g++)
         check_one_boundary(g);
+    for (slong g = 2; g <= 8; g++)
+        for (slong n = 1; n <= 3; n++)
+            check_dilaton(g, n);
     theta_table_free(VT);
     flint_cleanup();
     return unit_finish("test_theta_superrec", &rep);
