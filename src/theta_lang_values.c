@@ -291,22 +291,31 @@ value *theta_supervolume_value(interp *I, const node *call, slong g, slong n)
     return r;
 }
 
+/* A Theta table and the last status its correlators returned (the planner only passes on
+   that one failed). */
+typedef struct {
+    theta_table *T;
+    int rc;
+} theta_spec_leaf;
+
 /* The correlator of a leaf of a Brezin-Gross-Witten plan from the Theta table at data. */
 static int theta_spec_corr(void *data, fmpq_t res, slong g, const slong *d, slong n)
 {
-    return theta_correlator(res, (theta_table *)data, g, d, n);
+    theta_spec_leaf *L = data;
+    L->rc = theta_correlator(res, L->T, g, d, n);
+    return L->rc;
 }
 
 /* The plan's value on one route's table into res; reports at where and returns 0 on failure. */
 static int theta_spec_route(interp *I, const node *where, tseries *res, const spec_plan *P, const tseries *t,
                             int route)
 {
-    theta_table *T = theta_lang_table(I, route);
-    int rc = T ? spec_plan_evaluate_corr(res, P, theta_spec_corr, T, t, I->ring.ctx) : SPEC_WK;
+    theta_spec_leaf L = {theta_lang_table(I, route), WK_LIMIT};
+    int rc = L.T ? spec_plan_evaluate_corr(res, P, theta_spec_corr, &L, t, I->ring.ctx) : SPEC_WK;
     if (rc == SPEC_OK)
         return 1;
     if (rc == SPEC_WK)
-        theta_lang_report(I, where, cancel_flag ? WK_CANCELLED : WK_LIMIT);
+        theta_lang_report(I, where, L.rc);
     else
         diag_error(&where->loc, "the specialisation could not be evaluated (code %d)", rc);
     return 0;
