@@ -431,23 +431,6 @@ value *theta_integrate_value(interp *I, const node *where, slong g, slong n, con
     return W.res;
 }
 
-value *theta_integrate_stored(interp *I, const node *where, slong g, slong n, const value *integrand)
-{
-    results_question q;
-    if (I->verify || g == 0 || 2 * g - 2 + n <= 0 || !results_question_integral(I, g, n, integrand->cls, &q))
-        return theta_integrate_value(I, where, g, n, integrand);
-    value *r = value_new_num(&I->ring);
-    if (!results_lookup(I, &q, r->num)) {
-        value_release(r);
-        double t0 = results_clock();
-        r = theta_integrate_value(I, where, g, n, integrand);
-        if (r)
-            results_save(I, &q, r->num, results_clock() - t0);
-    }
-    results_question_clear(&q);
-    return r;
-}
-
 /* The reduction printed by explain: merged terms coeff * <Theta | tau_key>_g. */
 typedef struct {
     interp *I;

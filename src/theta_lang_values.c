@@ -1,5 +1,6 @@
 /* Theta numbers and super volumes for the language: the tables of the session, <Theta | ...>_g
-   with --verify comparing the Virasoro and KdV routes, and supervolume(g, n). */
+   with --verify comparing the Virasoro and KdV routes, supervolume(g, n) and VTheta_{g,n},
+   Theta integrals through the results store, and the evaluation of FTheta_{g} with ... */
 #include <stdlib.h>
 #include <string.h>
 
@@ -339,4 +340,21 @@ int theta_spec_evaluate(interp *I, const node *where, tseries *res, const spec_p
     }
     tseries_clear(&second, I->ring.ctx);
     return ok;
+}
+
+value *theta_integrate_stored(interp *I, const node *where, slong g, slong n, const value *integrand)
+{
+    results_question q;
+    if (I->verify || g == 0 || 2 * g - 2 + n <= 0 || !results_question_integral(I, g, n, integrand->cls, &q))
+        return theta_integrate_value(I, where, g, n, integrand);
+    value *r = value_new_num(&I->ring);
+    if (!results_lookup(I, &q, r->num)) {
+        value_release(r);
+        double t0 = results_clock();
+        r = theta_integrate_value(I, where, g, n, integrand);
+        if (r)
+            results_save(I, &q, r->num, results_clock() - t0);
+    }
+    results_question_clear(&q);
+    return r;
 }
