@@ -224,9 +224,14 @@ primary
     | F_SUB expr '}' WITH rules ',' ORDER NAME '^' power
                                     { $$ = ast_with_list(N_SPEC, @$, $8, $5); $$->a = $2; $$->b = $10; }
     | NAME WITH rules ',' ORDER NAME '^' power
-                                    { node *g = parser_free_energy_genus(@1, $1);
+                                    { int theta = 0;
+                                      node *g = parser_free_energy_genus(@1, $1, &theta);
                                       if (!g) { free($6); ast_list_free($3); ast_free($8); YYERROR; }
-                                      $$ = ast_with_list(N_SPEC, @$, $6, $3); $$->a = g; $$->b = $8; }
+                                      $$ = ast_with_list(N_SPEC, @$, $6, $3); $$->a = g; $$->b = $8; $$->op = theta; }
+    | SUBNAME arg_list '}' WITH rules ',' ORDER NAME '^' power
+                                    { node *g = parser_free_energy_theta_genus(@1, $1, $2);
+                                      if (!g) { free($8); ast_list_free($5); ast_free($10); YYERROR; }
+                                      $$ = ast_with_list(N_SPEC, @$, $8, $5); $$->a = g; $$->b = $10; $$->op = 'T'; }
     ;
 
 ranges

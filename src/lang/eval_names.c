@@ -1,5 +1,6 @@
 /* Names, items of lists and subscripted names: x, xs[i], L_{i} (a member of
-   a family of variables) and V_{g,n} (the volume polynomial). Every function
+   a family of variables), V_{g,n} (the volume polynomial) and VTheta_{g,n}
+   (the super volume polynomial). Every function
    returns a new reference, or NULL after reporting at the node responsible. */
 #include <stdlib.h>
 #include <string.h>
@@ -7,6 +8,7 @@
 #include "diag.h"
 #include "hodge_lang.h"
 #include "interp.h"
+#include "theta_lang.h"
 #include "unavailable.h"
 #include "util.h"
 #include "integrate.h"
@@ -102,21 +104,22 @@ static int names_volume_index(interp *I, scope *s, const node *e, const char *wh
         return 0;
     if (*out <= NAMES_MAX_VOLUME_INDEX)
         return 1;
-    diag_error(&e->loc, "the %s of V_{g,n} must be at most %d", what, NAMES_MAX_VOLUME_INDEX);
+    diag_error(&e->loc, "the %s of V_{g,n} or VTheta_{g,n} must be at most %d", what, NAMES_MAX_VOLUME_INDEX);
     return 0;
 }
 
-/* V_{g,n}: the volume polynomial V_{g,n}(L_1..L_n), binding L_1..L_n. */
-static value *names_volume(interp *I, scope *s, const node *n)
+/* V_{g,n}: the volume polynomial V_{g,n}(L_1..L_n), binding L_1..L_n; VTheta_{g,n} (theta): the
+   super volume polynomial V^Theta_{g,n}(L_1..L_n) of src/theta_lang_values.c, the same way. */
+static value *names_volume(interp *I, scope *s, const node *n, int theta)
 {
     if (n->list->len != 2)
-        return names_fail(n, xasprintf("V_{g,n} takes two subscripts, the genus and the number of points "
-                                       "(got %d)", n->list->len));
+        return names_fail(n, xasprintf("%s_{g,n} takes two subscripts, the genus and the number of points "
+                                       "(got %d)", n->text, n->list->len));
     slong g, npts;
     if (!names_volume_index(I, s, n->list->items[0], "genus", &g)
         || !names_volume_index(I, s, n->list->items[1], "number of points", &npts))
         return NULL;
-    return integrate_volume(I, n, g, npts);
+    return theta ? theta_supervolume_value(I, n, g, npts) : integrate_volume(I, n, g, npts);
 }
 
 value *eval_subscript(interp *I, scope *s, const node *n)
@@ -124,8 +127,8 @@ value *eval_subscript(interp *I, scope *s, const node *n)
     binding *b = scope_lookup(s, n->text);
     if (b && b->kind == B_FAMILY)
         return names_family_member(I, s, n, b);
-    if (strcmp(n->text, "V") == 0)
-        return names_volume(I, s, n);
+    if (strcmp(n->text, "V") == 0 || strcmp(n->text, "VTheta") == 0)
+        return names_volume(I, s, n, n->text[1] != '\0');
     value *hodge;
     if (!b && hodge_lang_subscript(I, s, n, &hodge))
         return hodge;

@@ -44,6 +44,7 @@ typedef struct integral {
     volume_form form;
     cpoly P;                  /* the expansion (integral_expansion) */
     int expanded;             /* 0 not yet, 1 made, -1 failed (reported) */
+    int theta_why;            /* Theta-linear part: THETA_ZERO_* of the terms split off it */
 } integral;
 
 /* A route's estimate of one integral: refusal is NULL when it runs within the limits, else

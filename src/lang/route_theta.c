@@ -20,6 +20,7 @@ typedef struct {
     fmpq_mpoly_struct *acc;      /* the integral so far */
     slong g;
     int rc;
+    slong monomials;             /* monomials of degree g-1 visited */
     route_check *check;          /* NULL: the pushforward; else the time shift, counting its reach */
 } theta_run;
 
@@ -53,6 +54,7 @@ static int theta_run_term(void *data, const slong *psi, slong n, const slong *km
 {
     theta_run *R = data;
     interp *I = R->I;
+    R->monomials++;
     fmpq_t v;
     fmpq_init(v);
     int rc = R->check ? theta_route_shift(v, R, psi, n, kmult, kmax) : WK_LIMIT;
@@ -102,6 +104,7 @@ typedef struct {
     integral *q;
     fmpq_mpoly_struct *acc;
     route_check *check;
+    slong monomials;
 } theta_walk;
 
 /* acc += int_{Mbar_{g,n}} Theta * rest for one Theta-linear term (only the part of rest of
@@ -119,8 +122,9 @@ static int theta_route_term(void *data, const cx *term, int order, cx *rest)
     cpoly_init_degree(&P, q->g, q->n, q->g - 1, I->lim.max_class_terms, I->ring.ctx);
     int ok = theta_expand_rest(&P, q->where, rest) && theta_cost_ok(I, q->where, &P);
     if (ok) {
-        theta_run R = {I, W->acc, q->g, WK_OK, W->check};
+        theta_run R = {I, W->acc, q->g, WK_OK, 0, W->check};
         cpoly_foreach_top(&P, theta_run_term, &R);
+        W->monomials += R.monomials;
         ok = R.rc == WK_OK;
         if (!ok)
             theta_lang_report(I, q->where, R.rc);
@@ -156,13 +160,14 @@ static void theta_route_estimate(integral *q, route_cost *cost)
 static value *theta_route_walk(integral *q, route_check *check)
 {
     value *r = value_new_num(&q->I->ring);
-    if (q->g == 0)
-        return r;
-    theta_walk W = {q, r->num, check};
-    if (!theta_each_term(q->integrand->cls, theta_route_term, &W)) {
+    theta_walk W = {q, r->num, check, 0};
+    if (q->g > 0 && !theta_each_term(q->integrand->cls, theta_route_term, &W)) {
         value_release(r);
         return NULL;
     }
+    int why = q->theta_why | (q->g == 0 ? THETA_ZERO_GENUS0 : W.monomials > 0 ? THETA_ZERO_NOT : THETA_ZERO_DEGREE);
+    if (!(why & THETA_ZERO_NOT))
+        theta_warn_zero(q->I, q->where, q->g, q->n, why);
     return r;
 }
 

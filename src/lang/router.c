@@ -53,6 +53,7 @@ void integral_init(integral *q, interp *I, const node *where, slong g, slong n, 
                 : hodge_lang_applies(integrand) ? INTEGRAND_HODGE
                                                 : INTEGRAND_PSI_KAPPA;
     q->expanded = 0;
+    q->theta_why = 0;
     volume_form_match(q);
 }
 
@@ -188,13 +189,16 @@ static value *router_run_stored(integral *q)
 }
 
 /* A Theta integrand: its Theta-free part is an ordinary integral, its Theta-linear part goes to
-   the Theta route (Theta^2 = 0). */
+   the Theta routes (Theta^2 = 0); an integral that is 0 for a reason of degree says so once. */
 static value *router_theta(integral *q)
 {
     interp *I = q->I;
     cx *free_part = NULL, *theta_part = NULL;
-    if (!theta_split_integrand(I, q->where, q->integrand->cls, &free_part, &theta_part))
+    int why = 0;
+    if (!theta_split_integrand(I, q->where, q->g, q->integrand->cls, &free_part, &theta_part, &why))
         return NULL;
+    if (!theta_part && !(why & THETA_ZERO_NOT))
+        theta_warn_zero(I, q->where, q->g, q->n, why);
     value *a = free_part ? value_new_class(free_part, &I->ring) : NULL;
     value *b = theta_part ? value_new_class(theta_part, &I->ring) : NULL;
     value *ra = a ? integrate_value(I, q->where, q->g, q->n, a) : value_new_num(&I->ring);
@@ -202,7 +206,7 @@ static value *router_theta(integral *q)
     if (ra && b) {
         integral t;
         integral_init(&t, I, q->where, q->g, q->n, b);
-        t.family = INTEGRAND_THETA;
+        t.theta_why = why;
         rb = router_run_stored(&t);
         integral_clear(&t);
     }

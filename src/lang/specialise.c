@@ -1,6 +1,8 @@
 /* F_{g} with t_k = ..., order x^N: the specialisation of the Witten-Kontsevich
-   free energy at times given by rules. The rules are evaluated lazily, only
-   for the k the plan (src/series/spec.h) asks for. */
+   free energy at times given by rules, and FTheta_{g} with ... (node op 'T')
+   that of the Brezin-Gross-Witten free energy of the Theta-psi numbers. The
+   rules are evaluated lazily, only for the k the plan (src/series/spec.h)
+   asks for. */
 #include <ctype.h>
 #include <stdlib.h>
 #include <string.h>
@@ -10,6 +12,7 @@
 #include "verify_account.h"
 #include "series/spec.h"
 #include "series_ops.h"
+#include "theta_lang.h"
 #include "util.h"
 #include "specialise.h"
 #include "eval.h"
@@ -181,6 +184,8 @@ static int spec_ctx_setup(spec_ctx *C)
     C->var = var;
     if (!eval_slong(I, C->s, n->a, "genus", 0, &C->g) || !eval_slong(I, C->s, n->b, "order", 0, &C->order))
         return 0;
+    if (n->op == 'T' && !theta_genus_ok(I, n->a, C->g))
+        return 0;
     if (C->g > SPEC_MAX_GENUS || C->order > SPEC_MAX_ORDER) {
         int genus = C->g > SPEC_MAX_GENUS;
         diag_error(&(genus ? n->a : n->b)->loc, "%s %ld is too large for a specialisation (at most %d)",
@@ -222,7 +227,8 @@ static int spec_prepare(spec_ctx *C, spec_plan **P)
 {
     if (!spec_ctx_setup(C))
         return 0;
-    int rc = spec_plan_build(P, C->g, C->order, spec_valuation_cb, C, C->I->lim.max_terms);
+    int rc = C->n->op == 'T' ? spec_plan_build_theta(P, C->g, C->order, spec_valuation_cb, C, C->I->lim.max_terms)
+                             : spec_plan_build(P, C->g, C->order, spec_valuation_cb, C, C->I->lim.max_terms);
     if (rc != SPEC_OK) {
         spec_report_plan_error(C, rc);
         return 0;
@@ -240,7 +246,13 @@ value *specialise_value(interp *I, scope *s, const node *n)
         int ok = 1;
         for (slong k = 0; k <= kmax && ok; k++)
             ok = spec_time(&C, k) != NULL;
-        if (ok) {
+        if (ok && n->op == 'T') {
+            r = value_new_series(C.var, C.order, &I->ring);
+            if (!theta_spec_evaluate(I, n, r->ser, P, C.t)) {
+                value_release(r);
+                r = NULL;
+            }
+        } else if (ok) {
             r = value_new_series(C.var, C.order, &I->ring);
             int rc = spec_plan_evaluate(r->ser, P, I->wk, C.t, I->ring.ctx);
             if (rc != SPEC_OK) {
@@ -268,6 +280,10 @@ int specialise_explain(interp *I, scope *s, const node *n)
     int ok = spec_prepare(&C, &P);
     if (ok)
         spec_plan_print(I->out, P);
+    if (ok && spec_plan_is_theta(P)) {
+        double entries = theta_estimate_entries(C.g);
+        fprintf(I->out, "  memo estimate: at most %.3g Theta entr%s\n", entries, entries == 1 ? "y" : "ies");
+    }
     spec_plan_free(P);
     spec_ctx_clear(&C);
     return ok;

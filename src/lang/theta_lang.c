@@ -179,6 +179,36 @@ int theta_each_term(const cx *e, theta_term_visit fn, void *data)
     return ok;
 }
 
+/* 1 the first time `where` asks (the list the integrand warnings share), so that an integral in
+   a loop warns once. */
+static int theta_first_time(interp *I, const node *where)
+{
+    for (int i = 0; i < I->nwarned; i++)
+        if (I->warned[i] == where)
+            return 0;
+    I->warned = xrealloc(I->warned, (I->nwarned + 1) * sizeof(const node *));
+    I->warned[I->nwarned++] = where;
+    return 1;
+}
+
+/* Says once why an integral with Theta is 0 (genus 0, Theta^2, no cofactor of degree g-1): the
+   answer is right, but the question was probably not the one meant. */
+void theta_warn_zero(interp *I, const node *where, slong g, slong n, int why)
+{
+    if (why == 0 || !theta_first_time(I, where))
+        return;
+    if (why & THETA_ZERO_GENUS0)
+        diag_warning(&where->loc, "Theta is zero on Mbar_{0,%ld} (it vanishes in genus 0): the integral is 0",
+                     (long)n);
+    else if (why & THETA_ZERO_SQUARE && !(why & THETA_ZERO_DEGREE))
+        diag_warning(&where->loc, "Theta^2 has degree %ld, above the dimension %ld of Mbar_{%ld,%ld}: the integral "
+                                  "is 0", (long)(4 * g - 4 + 2 * n), (long)(3 * g - 3 + n), (long)g, (long)n);
+    else
+        diag_warning(&where->loc, "Theta has degree 2g-2+n = %ld on Mbar_{%ld,%ld}, so only the part of degree "
+                                  "g-1 = %ld of its cofactor counts, and there is none: the integral is 0",
+                     (long)(2 * g - 2 + n), (long)g, (long)n, (long)(g - 1));
+}
+
 /* Reports why a term cannot be integrated with Theta, at its Theta node. */
 void theta_report_bad(const node *where, const cx *term, int order)
 {
@@ -217,7 +247,9 @@ int theta_rest_genus_ok(interp *I, const node *where, slong g)
 
 typedef struct {
     const node *where;
+    slong g;
     cx *free_part, *theta_part;   /* sums of the Theta-free and the Theta-linear terms */
+    int why;                      /* THETA_ZERO_* of the terms dropped or kept */
 } theta_parts;
 
 /* Adds one term to its part (theta_each_term); a term Theta cannot be read in is reported. */
@@ -229,18 +261,23 @@ static int theta_parts_add(void *data, const cx *term, int order, cx *rest)
         theta_report_bad(T->where, term, order);
         return 0;
     }
-    if (order == TH_SQUARE)
-        return 1;                                /* Theta^2 = 0 by degree */
+    if (order == TH_SQUARE) {                    /* Theta^2 = 0 by degree */
+        T->why |= T->g == 0 ? THETA_ZERO_GENUS0 : THETA_ZERO_SQUARE;
+        return 1;
+    }
+    if (order != TH_LINEAR)
+        T->why |= THETA_ZERO_NOT;
     cx **part = order == TH_LINEAR ? &T->theta_part : &T->free_part;
     cx *t = cx_ref((cx *)term);
     *part = *part ? cx_add(*part, t) : t;
     return 1;
 }
 
-int theta_split_integrand(interp *I, const node *where, const cx *e, cx **free_part, cx **theta_part)
+int theta_split_integrand(interp *I, const node *where, slong g, const cx *e, cx **free_part, cx **theta_part,
+                          int *why)
 {
     (void)I;
-    theta_parts T = {where, NULL, NULL};
+    theta_parts T = {where, g, NULL, NULL, 0};
     int ok = theta_each_term(e, theta_parts_add, &T);
     if (!ok) {
         if (T.free_part)
@@ -251,6 +288,7 @@ int theta_split_integrand(interp *I, const node *where, const cx *e, cx **free_p
     }
     *free_part = T.free_part;
     *theta_part = T.theta_part;
+    *why = T.why;
     return ok;
 }
 

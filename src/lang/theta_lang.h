@@ -5,6 +5,7 @@
 
 #include "interp.h"
 #include "classes/cpoly.h"
+#include "series/spec.h"
 #include "theta/theta.h"
 
 /* Whether name is a class name this module evaluates (Theta) when the script has not bound it. */
@@ -36,7 +37,16 @@ int theta_rest_genus_ok(interp *I, const node *where, slong g);
 /* Splits an integrand holding Theta into the sum of its Theta-free terms and the sum of its
    Theta-linear terms (new references, NULL for an empty sum); terms with Theta^2 are zero and
    dropped. Returns 0 after reporting a term Theta cannot be read in. */
-int theta_split_integrand(interp *I, const node *where, const cx *e, cx **free_part, cx **theta_part);
+int theta_split_integrand(interp *I, const node *where, slong g, const cx *e, cx **free_part, cx **theta_part,
+                          int *why);
+
+/* Why an integral with Theta is 0, as bits: genus 0, Theta^2, no cofactor of degree g-1; and
+   THETA_ZERO_NOT when some term may be nonzero. */
+enum { THETA_ZERO_GENUS0 = 1, THETA_ZERO_SQUARE = 2, THETA_ZERO_DEGREE = 4, THETA_ZERO_NOT = 8 };
+/* Says once per integral `where` why it is 0 (why without THETA_ZERO_NOT): the answer is right,
+   but the question was probably not the one meant. */
+void theta_warn_zero(interp *I, const node *where, slong g, slong n, int why);
+
 
 /* explain int_{g,n} ... for such an integrand: prints the reduction to <Theta | ...>_g numbers.
    Returns 0 after reporting an error. */
@@ -48,9 +58,22 @@ value *theta_correlator_value(interp *I, const node *where, slong g, const slong
 /* supervolume(g, n): V^Theta_{g,n}(L_1..L_n) as a polynomial in L_i and pi (declares L_i). */
 value *theta_builtin_supervolume(interp *I, const node *call, value **args);
 
+/* VTheta_{g,n} and supervolume(g, n) for evaluated g, n >= 0: V^Theta_{g,n}(L_1..L_n), declaring
+   L_1..L_n.  New reference, or NULL after reporting at where. */
+value *theta_supervolume_value(interp *I, const node *where, slong g, slong n);
+
 /* The Virasoro (route 0) or KdV (route 1) table of the session, created on first use with the
    session's limits; NULL when memory is exhausted.  The interpreter owns it. */
 theta_table *theta_lang_table(interp *I, int route);
+
+/* Refuses (reporting at where) a genus beyond the engine's limit or whose Theta table would pass
+   --max-table by estimate.  Returns 1 when the Theta numbers of genus g may be computed. */
+int theta_genus_ok(interp *I, const node *where, slong g);
+
+/* res = the planned Brezin-Gross-Witten specialisation P (spec_plan_build_theta) at the times t, by
+   the Virasoro table; with --verify also by the KdV table, compared.  res is initialised by the
+   caller.  Returns 0 after reporting an error at where. */
+int theta_spec_evaluate(interp *I, const node *where, tseries *res, const spec_plan *P, const tseries *t);
 
 /* Reports an engine status of the Theta routes at where (cancel, limits, inexact division). */
 void theta_lang_report(interp *I, const node *where, int rc);

@@ -1,11 +1,13 @@
 /* Theta numbers and super volumes for the language: the tables of the session, <Theta | ...>_g
-   with --verify comparing the Virasoro and KdV routes, and supervolume(g, n). */
+   with --verify comparing the Virasoro and KdV routes, supervolume(g, n) and VTheta_{g,n},
+   Theta integrals through the results store, and the evaluation of FTheta_{g} with ... */
 #include <stdlib.h>
 #include <string.h>
 
 #include "builtins.h"
 #include "cancel.h"
 #include "diag.h"
+#include "series/spec.h"
 #include "theta_lang.h"
 #include "verify_account.h"
 #include "util.h"
@@ -56,9 +58,7 @@ void theta_lang_report(interp *I, const node *where, int rc)
     failure_report(where, "the Theta engine", rc, WK_CANCELLED, words);
 }
 
-/* Refuses a genus beyond the engine's limit or a table larger than --max-table, by estimate.
-   Returns 1 when the Theta numbers of genus g may be computed. */
-static int theta_genus_ok(interp *I, const node *where, slong g)
+int theta_genus_ok(interp *I, const node *where, slong g)
 {
     if (g > THETA_MAX_GENUS) {
         diag_error(&where->loc, "Theta numbers are computed up to genus %d, not %ld", THETA_MAX_GENUS, (long)g);
@@ -252,6 +252,11 @@ value *theta_builtin_supervolume(interp *I, const node *call, value **args)
     slong g, n;
     if (!builtin_get_slong(I, call, args, 0, 0, 1000000, &g) || !builtin_get_slong(I, call, args, 1, 0, 1000000, &n))
         return NULL;
+    return theta_supervolume_value(I, call, g, n);
+}
+
+value *theta_supervolume_value(interp *I, const node *call, slong g, slong n)
+{
     if (!theta_volume_ok(I, call, g, n))
         return NULL;
     int *vars = xmalloc((n + 1) * sizeof(int));
@@ -287,3 +292,54 @@ value *theta_builtin_supervolume(interp *I, const node *call, value **args)
     free(vars);
     return r;
 }
+
+/* A Theta table and the last status its correlators returned (the planner only passes on
+   that one failed). */
+typedef struct {
+    theta_table *T;
+    int rc;
+} theta_spec_leaf;
+
+/* The correlator of a leaf of a Brezin-Gross-Witten plan from the Theta table at data. */
+static int theta_spec_corr(void *data, fmpq_t res, slong g, const slong *d, slong n)
+{
+    theta_spec_leaf *L = data;
+    L->rc = theta_correlator(res, L->T, g, d, n);
+    return L->rc;
+}
+
+/* The plan's value on one route's table into res; reports at where and returns 0 on failure. */
+static int theta_spec_route(interp *I, const node *where, tseries *res, const spec_plan *P, const tseries *t,
+                            int route)
+{
+    theta_spec_leaf L = {theta_lang_table(I, route), WK_LIMIT};
+    int rc = L.T ? spec_plan_evaluate_corr(res, P, theta_spec_corr, &L, t, I->ring.ctx) : SPEC_WK;
+    if (rc == SPEC_OK)
+        return 1;
+    if (rc == SPEC_WK)
+        theta_lang_report(I, where, L.rc);
+    else
+        diag_error(&where->loc, "the specialisation could not be evaluated (code %d)", rc);
+    return 0;
+}
+
+int theta_spec_evaluate(interp *I, const node *where, tseries *res, const spec_plan *P, const tseries *t)
+{
+    if (!theta_spec_route(I, where, res, P, t, THETA_ROUTE_VIRASORO))
+        return 0;
+    if (!I->verify)
+        return 1;
+    tseries second;
+    tseries_init(&second, res->var, res->order, I->ring.ctx);
+    int ok = theta_spec_route(I, where, &second, P, t, THETA_ROUTE_KDV);
+    if (ok && (res->order != second.order || !fmpq_mpoly_equal(res->p, second.p, I->ring.ctx))) {
+        diag_error(&where->loc, "verification failed: the Virasoro and KdV routes disagree on this specialisation "
+                                "(please report this input)");
+        ok = 0;
+    } else if (ok) {
+        verify_checked(I, VERIFY_VALUE, 1);
+    }
+    tseries_clear(&second, I->ring.ctx);
+    return ok;
+}
+

@@ -156,16 +156,34 @@ void parser_old_family(const srcloc *at, const char *name)
         diag_error(at, "a family of variables is declared as var %s_{a..b}", name);
 }
 
-node *parser_free_energy_genus(srcloc at, char *name)
+node *parser_free_energy_genus(srcloc at, char *name, int *theta)
 {
-    size_t len = strlen(name);
-    int ok = len > 2 && name[0] == 'F' && name[1] == '_' && strspn(name + 2, "0123456789") == len - 2;
+    size_t len = strlen(name), stem = strncmp(name, "FTheta_", 7) == 0 ? 7 : 2;
+    int ok = len > stem && name[0] == 'F' && name[stem - 1] == '_' && strspn(name + stem, "0123456789") == len - stem;
     if (!ok) {
-        diag_error(&at, "'with' follows F_{g} or F_2 (a specialisation of F_g), not '%s'", name);
+        diag_error(&at, "'with' follows F_{g} or F_2 (a specialisation of F_g), or FTheta_{g} or FTheta_2 (of the "
+                        "Brezin-Gross-Witten free energy), not '%s'", name);
         free(name);
         return NULL;
     }
-    node *g = ast_index_literal(at, name + 2);
+    *theta = stem == 7 ? 'T' : 0;
+    node *g = ast_index_literal(at, name + stem);
     free(name);
+    return g;
+}
+
+node *parser_free_energy_theta_genus(srcloc at, char *name, node_list *subs)
+{
+    node *g = NULL;
+    if (strcmp(name, "FTheta") != 0)
+        diag_error(&at, "'with' follows F_{g} or FTheta_{g} (a specialisation of a free energy), not '%s_{...}'", name);
+    else if (subs->len != 1)
+        diag_error(&at, "FTheta_{g} takes one subscript, the genus (got %d)", subs->len);
+    else {
+        g = subs->items[0];
+        subs->len = 0;
+    }
+    free(name);
+    ast_list_free(subs);
     return g;
 }

@@ -20,8 +20,13 @@ node *parser_integral(srcloc at, node *g, node *n, node *integrand);
 /* var L[a..b]: reports the form that replaced it (var L_{a..b}). */
 void parser_old_family(const srcloc *at, const char *name);
 
-/* The genus of F_2 with ...: a number node for the digits after F_. Takes
-   name; returns NULL after reporting when name is not F_ and digits. */
-node *parser_free_energy_genus(srcloc at, char *name);
+/* The genus of F_2 with ... (or FTheta_2 with ..., then *theta = 'T', else 0): a number node
+   for the digits after F_ / FTheta_. Takes name; returns NULL after reporting when name is
+   not F_ or FTheta_ and digits. */
+node *parser_free_energy_genus(srcloc at, char *name, int *theta);
+
+/* The genus of FTheta_{g} with ...: the one subscript. Takes name and subs (both freed);
+   returns NULL after reporting when the name is not FTheta or there is not one subscript. */
+node *parser_free_energy_theta_genus(srcloc at, char *name, node_list *subs);
 
 #endif

@@ -31,6 +31,20 @@ rows=$(sql "$tmp/db.sqlite" "select count(*) from results")
 [ "$rows" -ge 3 ] && check ok || check no "expected at least 3 stored answers, found $rows"
 [ "$(sql "$tmp/db.sqlite" "pragma application_id")" = 1886612273 ] && check ok || check no "application id not set"
 
+# Integrals with Norbury's class Theta go through the store like the others: stored once, and a
+# second run answers the same from it.
+cat > "$tmp/theta.pk" <<'PK'
+int_{5,1} Theta*exp(2*pi^2*kappa_1 + psi_1)
+int_{4,2} Theta*kappa_1*kappa_2*psi_1^0
+PK
+"$exe" --no-store "$tmp/theta.pk" > "$tmp/theta.fresh" 2>&1
+"$exe" --store "$tmp/theta.sqlite" "$tmp/theta.pk" > "$tmp/theta.first" 2>&1
+"$exe" --store "$tmp/theta.sqlite" "$tmp/theta.pk" > "$tmp/theta.cached" 2>&1
+cmp -s "$tmp/theta.fresh" "$tmp/theta.first" && cmp -s "$tmp/theta.fresh" "$tmp/theta.cached" && check ok \
+  || check no "Theta answers through the store differ from fresh ones"
+[ "$(sql "$tmp/theta.sqlite" "select count(*) from results where label like '%Theta%'")" = 2 ] && check ok \
+  || check no "the two Theta integrals were not stored"
+
 # Two integrands that differ deep inside a long product (the printed form is elided there):
 # each gets its own answer, in the same run and in the next one.
 cat > "$tmp/deep.pk" <<'PK'

@@ -68,6 +68,21 @@ typedef slong (*spec_valuation_fn)(void *data, slong k);
 int spec_plan_build(spec_plan **P, slong g, slong order, spec_valuation_fn valuation, void *data,
                     double max_terms);
 
+/* The same for the genus-g Brezin-Gross-Witten free energy
+       F^Theta_g(t_0, t_1, ...) = sum over multisets < Theta | prod_k tau_k^{m_k} >_g prod_k t_k^{m_k} / m_k!
+   whose multisets satisfy sum_{k>=1} k m_k = g-1 (m_0 free; stability 2g-2+sum m_k > 0).  Only t_0
+   must vanish at x = 0 (else SPEC_T0_CONSTANT): every m_k with k >= 1 is at most g-1, and only
+   k <= g-1 occur.  Internally t_k takes the place of the Witten-Kontsevich t_{k+1}, so the same
+   enumerator serves both.  Evaluate with spec_plan_evaluate_corr and a Theta correlator. */
+int spec_plan_build_theta(spec_plan **P, slong g, slong order, spec_valuation_fn valuation, void *data,
+                          double max_terms);
+
+/* Whether P plans the Brezin-Gross-Witten free energy (spec_plan_build_theta). */
+int spec_plan_is_theta(const spec_plan *P);
+
+/* Largest number of points of a planned correlator (0 without a plan or multiset). */
+slong spec_plan_max_points(const spec_plan *P);
+
 /* Largest k whose t_k occurs in some planned multiset (spec_plan_evaluate reads t[0..max_k]);
    -1 when the plan has no multiset at all. */
 slong spec_plan_max_k(const spec_plan *P);
@@ -77,7 +92,8 @@ double spec_plan_terms(const spec_plan *P);
 
 
 /* Human-readable summary: g, N, the needed t_k with their valuations, the number of multisets by
-   m_0 and by lowest x-order, the largest correlator and the memo estimate. */
+   m_0 and by lowest x-order, the largest correlator and (Witten-Kontsevich plans only; the caller
+   prints its own for Theta) the memo estimate. */
 void spec_plan_print(FILE *out, const spec_plan *P);
 
 /* res = F_g(t_0(x), ..., t_maxk(x)) + O(x^(order'+1)), order' = min(N, orders of the series used).
@@ -86,6 +102,15 @@ void spec_plan_print(FILE *out, const spec_plan *P);
    SPEC_MISMATCH).  Errors: SPEC_BADARG (NULL), SPEC_MISMATCH, SPEC_SERIES, SPEC_WK. */
 int spec_plan_evaluate(tseries *res, const spec_plan *P, wk_table *T, const tseries *t,
                        const fmpq_mpoly_ctx_t ctx);
+
+/* The correlator of a leaf: res = <tau_d[0] ... tau_d[n-1]>_g of the planned theory (d borrowed,
+   unsorted).  Returns 0, or a nonzero engine status that stops the evaluation with SPEC_WK. */
+typedef int (*spec_corr_fn)(void *data, fmpq_t res, slong g, const slong *d, slong n);
+
+/* As spec_plan_evaluate, with the correlators given by corr (the caller's data cdata); the only
+   way to evaluate a plan of spec_plan_build_theta. */
+int spec_plan_evaluate_corr(tseries *res, const spec_plan *P, spec_corr_fn corr, void *cdata,
+                            const tseries *t, const fmpq_mpoly_ctx_t ctx);
 
 /* Releases the plan.
    Accepts NULL. */

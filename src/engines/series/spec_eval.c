@@ -17,10 +17,12 @@
 typedef struct {
     const spec_plan *P;
     const fmpq_mpoly_ctx_struct *ctx;
-    wk_table *T;
+    spec_corr_fn corr;           /* the leaf correlators and their data */
+    void *cdata;
+    slong *dx;                   /* a leaf's indices in the caller's numbering */
     slong len;                   /* coefficients kept: order' + 1 */
     slong *mmax;                 /* highest power stored per k (-1: t_k unused) */
-    fmpq_t corr;
+    fmpq_t cval;                 /* the current leaf's correlator */
     /* rational mode */
     fmpq_poly_struct **qpow;     /* qpow[k][m] = t_k^m/m! */
     fmpq_poly_struct *qacc;      /* sums of the subtrees by depth */
@@ -58,16 +60,17 @@ static int spec_eval_check(const spec_plan *P, const tseries *t, const fmpq_mpol
     for (k = 0; k <= P->max_k; k++) {
         if (!P->used[k])
             continue;
-        if (tseries_check(t + k, ctx) != TS_OK)
+        const tseries *tk = t + (k - P->shift);   /* used internal k are >= shift */
+        if (tseries_check(tk, ctx) != TS_OK)
             return SPEC_SERIES;
-        if (!first && t[k].var != *var)
+        if (!first && tk->var != *var)
             return SPEC_MISMATCH;
-        *var = t[k].var, first = 0;
-        v = tseries_valuation(t + k, ctx);
+        *var = tk->var, first = 0;
+        v = tseries_valuation(tk, ctx);
         if (v != -1 && v < P->val[k])
             return SPEC_MISMATCH;
-        *order = FLINT_MIN(*order, t[k].order);
-        *rational = *rational && tseries_is_rational(t + k, ctx);
+        *order = FLINT_MIN(*order, tk->order);
+        *rational = *rational && tseries_is_rational(tk, ctx);
     }
     return SPEC_OK;
 }
@@ -102,14 +105,24 @@ static int spec_eval_qleave(spec_walk *w, slong depth, slong k, slong m)
     return SPEC_OK;
 }
 
+/* E->cval = the correlator of the current leaf, in the caller's indices.
+   SPEC_WK when the correlator engine fails. */
+static int spec_eval_leaf_value(spec_eval *E, const spec_walk *w)
+{
+    slong i;
+    for (i = 0; i < w->n; i++)
+        E->dx[i] = w->d[i] - E->P->shift;
+    return E->corr(E->cdata, E->cval, E->P->g, E->dx, w->n) != 0 ? SPEC_WK : SPEC_OK;
+}
+
 /* Rational mode, leaf: qacc[depth] += <d>_g.
    SPEC_WK when the correlator engine fails. */
 static int spec_eval_qleaf(spec_walk *w, slong depth)
 {
     spec_eval *E = w->data;
-    if (wk_table_correlator(E->corr, E->T, E->P->g, w->d, w->n) != WK_OK)
+    if (spec_eval_leaf_value(E, w) != SPEC_OK)
         return SPEC_WK;
-    fmpq_poly_set_fmpq(E->qtmp, E->corr);
+    fmpq_poly_set_fmpq(E->qtmp, E->cval);
     fmpq_poly_add(E->qacc + depth, E->qacc + depth, E->qtmp);
     return SPEC_OK;
 }
@@ -140,9 +153,9 @@ static int spec_eval_sleave(spec_walk *w, slong depth, slong k, slong m)
 static int spec_eval_sleaf(spec_walk *w, slong depth)
 {
     spec_eval *E = w->data;
-    if (wk_table_correlator(E->corr, E->T, E->P->g, w->d, w->n) != WK_OK)
+    if (spec_eval_leaf_value(E, w) != SPEC_OK)
         return SPEC_WK;
-    fmpq_mpoly_add_fmpq(E->sacc[depth].p, E->sacc[depth].p, E->corr, E->ctx);
+    fmpq_mpoly_add_fmpq(E->sacc[depth].p, E->sacc[depth].p, E->cval, E->ctx);
     return SPEC_OK;
 }
 
@@ -194,12 +207,13 @@ static int spec_eval_spowers(spec_eval *E, const tseries *tk, slong k)
 
 /* Allocates the evaluation state: power bounds per k, stacks (depth <= nparts + 2).
    rational selects the mode; powers are filled by the caller. */
-static void spec_eval_init(spec_eval *E, const spec_plan *P, wk_table *T, slong var, slong order,
-                           int rational, const fmpq_mpoly_ctx_t ctx)
+static void spec_eval_init(spec_eval *E, const spec_plan *P, slong var, slong order, int rational,
+                           const fmpq_mpoly_ctx_t ctx)
 {
     slong k, depth = P->nparts + 3;
-    E->P = P, E->ctx = ctx, E->T = T, E->len = order + 1;
-    fmpq_init(E->corr);
+    E->P = P, E->ctx = ctx, E->len = order + 1;
+    fmpq_init(E->cval);
+    E->dx = xmalloc((size_t) (P->max_points + 1) * sizeof(slong));
     E->mmax = xmalloc((size_t) (P->max_k + 1) * sizeof(slong));
     for (k = 0; k <= P->max_k; k++)
         E->mmax[k] = spec_eval_mmax(P, k);
@@ -250,7 +264,8 @@ static void spec_eval_clear(spec_eval *E)
     free(E->qacc), free(E->sacc), free(E->qpow), free(E->spow), free(E->mmax);
     fmpq_poly_clear(E->qtmp);
     tseries_clear(&E->stmp, E->ctx);
-    fmpq_clear(E->corr);
+    fmpq_clear(E->cval);
+    free(E->dx);
 }
 
 /* Computes the powers, walks the plan and stores the sum in res (order len - 1).
@@ -262,9 +277,9 @@ static int spec_eval_run(tseries *res, spec_eval *E, const tseries *t, slong var
     for (k = 0; k <= E->P->max_k && st == SPEC_OK; k++)
         if (E->mmax[k] >= 0) {
             if (rational)
-                spec_eval_qpowers(E, t + k, k);
+                spec_eval_qpowers(E, t + (k - E->P->shift), k);
             else
-                st = spec_eval_spowers(E, t + k, k);
+                st = spec_eval_spowers(E, t + (k - E->P->shift), k);
         }
     if (st == SPEC_OK && E->P->dmax >= 0)
         st = rational ? spec_walk_run(E->P, spec_eval_qenter, spec_eval_qleave, spec_eval_qleaf, E)
@@ -280,10 +295,10 @@ static int spec_eval_run(tseries *res, spec_eval *E, const tseries *t, slong var
     return SPEC_OK;
 }
 
-/* Evaluation with a choice of path (allow_fast = 0 forces the generic one).
-   Contract of spec_plan_evaluate otherwise. */
-int spec_plan_evaluate_mode(tseries *res, const spec_plan *P, wk_table *T, const tseries *t,
-                            const fmpq_mpoly_ctx_t ctx, int allow_fast)
+/* Evaluation with given correlators and a choice of path (allow_fast = 0 forces the generic one).
+   Contract of spec_plan_evaluate_corr otherwise. */
+int spec_plan_evaluate_corr_mode(tseries *res, const spec_plan *P, spec_corr_fn corr, void *cdata,
+                                 const tseries *t, const fmpq_mpoly_ctx_t ctx, int allow_fast)
 {
     spec_eval E;
     slong var, order;
@@ -291,12 +306,13 @@ int spec_plan_evaluate_mode(tseries *res, const spec_plan *P, wk_table *T, const
     if (res == NULL)
         return SPEC_BADARG;
     var = res->var;
-    if (P == NULL || T == NULL || (t == NULL && P->max_k >= 0))
+    if (P == NULL || corr == NULL || (t == NULL && P->max_k >= 0))
         st = SPEC_BADARG;
     else
         st = spec_eval_check(P, t, ctx, &var, &order, &rational);
     if (st == SPEC_OK) {
-        spec_eval_init(&E, P, T, var, order, rational && allow_fast, ctx);
+        E.corr = corr, E.cdata = cdata;
+        spec_eval_init(&E, P, var, order, rational && allow_fast, ctx);
         st = spec_eval_run(res, &E, t, var, rational && allow_fast);
         spec_eval_clear(&E);
     }
@@ -305,10 +321,37 @@ int spec_plan_evaluate_mode(tseries *res, const spec_plan *P, wk_table *T, const
     return st;
 }
 
+/* The Witten-Kontsevich correlator of a leaf from the caller's table.
+   Returns the table's status. */
+static int spec_eval_wk_corr(void *data, fmpq_t res, slong g, const slong *d, slong n)
+{
+    return wk_table_correlator(res, (wk_table *) data, g, d, n);
+}
+
+/* Evaluation of a Witten-Kontsevich plan with a choice of path.
+   Contract of spec_plan_evaluate otherwise. */
+int spec_plan_evaluate_mode(tseries *res, const spec_plan *P, wk_table *T, const tseries *t,
+                            const fmpq_mpoly_ctx_t ctx, int allow_fast)
+{
+    if (res != NULL && (T == NULL || (P != NULL && P->theta))) {
+        tseries_set_error(res, res->var, ctx);
+        return SPEC_BADARG;
+    }
+    return spec_plan_evaluate_corr_mode(res, P, spec_eval_wk_corr, T, t, ctx, allow_fast);
+}
+
 /* res = F_g at the times t (see spec.h).
    Rational fast path when every used series is rational. */
 int spec_plan_evaluate(tseries *res, const spec_plan *P, wk_table *T, const tseries *t,
                        const fmpq_mpoly_ctx_t ctx)
 {
     return spec_plan_evaluate_mode(res, P, T, t, ctx, 1);
+}
+
+/* res = the planned free energy at the times t with the caller's correlators (see spec.h).
+   Rational fast path when every used series is rational. */
+int spec_plan_evaluate_corr(tseries *res, const spec_plan *P, spec_corr_fn corr, void *cdata,
+                            const tseries *t, const fmpq_mpoly_ctx_t ctx)
+{
+    return spec_plan_evaluate_corr_mode(res, P, corr, cdata, t, ctx, 1);
 }

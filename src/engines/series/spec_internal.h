@@ -17,6 +17,9 @@
 
 struct spec_plan {
     slong g, order;          /* genus and N */
+    int theta;               /* 1: the Brezin-Gross-Witten free energy (Theta-psi numbers) */
+    slong shift;             /* internal index of t_k is k + shift (theta: 1, see spec.h) */
+    slong dim0;              /* dimension to fill at m_0 = 0: 3g-3 (WK) or g-1 (theta) */
     slong nval;              /* valuations queried: val[0..nval-1] */
     slong *val;              /* v_k, -1 for t_k = 0 */
     slong m0max, m1max;      /* m_0 <= m0max, m_1 <= m1max */
@@ -45,7 +48,7 @@ typedef int (*spec_leaf_fn)(spec_walk *w, slong depth);
 struct spec_walk {
     const spec_plan *P;
     slong *d, n;             /* current multiset as tau indices */
-    slong m0, used;          /* m_0 and budget spent sum v_k m_k */
+    slong m0, m1, used;      /* m_0, m_1 and budget spent sum v_k m_k */
     spec_step_fn enter, leave;
     spec_leaf_fn leaf;
     void *data;              /* the visitor's state */
@@ -61,5 +64,9 @@ int spec_walk_run(const spec_plan *P, spec_step_fn enter, spec_step_fn leave, sp
    is rational (for tests comparing both paths). */
 int spec_plan_evaluate_mode(tseries *res, const spec_plan *P, wk_table *T, const tseries *t,
                             const fmpq_mpoly_ctx_t ctx, int allow_fast);
+
+/* As spec_plan_evaluate_corr, with a choice of path (allow_fast = 0: generic). */
+int spec_plan_evaluate_corr_mode(tseries *res, const spec_plan *P, spec_corr_fn corr, void *cdata,
+                                 const tseries *t, const fmpq_mpoly_ctx_t ctx, int allow_fast);
 
 #endif

@@ -65,6 +65,8 @@ static int spec_walk_low(spec_walk *w, slong k, slong m, slong D, slong B, slong
 {
     int st = SPEC_OK;
     slong d1 = depth + (m > 0);
+    if (k == 1)
+        w->m1 = m;
     spec_walk_push(w, k, m);
     if (m > 0)
         st = w->enter(w, depth, k, m);
@@ -123,10 +125,10 @@ int spec_walk_run(const spec_plan *P, spec_step_fn enter, spec_step_fn leave, sp
     slong m0, D;
     int st = SPEC_OK;
     w.P = P, w.enter = enter, w.leave = leave, w.leaf = leaf, w.data = data;
-    w.n = 0, w.used = 0;
+    w.n = 0, w.used = 0, w.m1 = 0;
     w.d = xmalloc((size_t) (P->m0max + P->m1max + FLINT_MAX(P->dmax, 0) + 1) * sizeof(slong));
     for (m0 = 0; m0 <= P->m0max && st == SPEC_OK; m0++) {
-        D = 3 * P->g - 3 + m0;
+        D = P->dim0 + m0;
         if (D < 0)
             continue;
         w.m0 = m0;
@@ -156,21 +158,28 @@ static void spec_plan_minc(spec_plan *P)
     }
 }
 
+/* The valuation of the internal t_k: the caller's t_{k - shift}; below the shift (the
+   Witten-Kontsevich t_0 of a Theta plan, which has no dimension-raising time) identically zero. */
+static slong spec_plan_valuation(const spec_plan *P, spec_valuation_fn valuation, void *data, slong k)
+{
+    return k < P->shift ? -1 : valuation(data, k - P->shift);
+}
+
 /* Queries v_0 and v_1 and derives the bounds m0max, m1max, dmax.
    Returns SPEC_OK, SPEC_T0_CONSTANT, SPEC_T1_CONSTANT or the callback's error. */
 static int spec_plan_query_low(spec_plan *P, spec_valuation_fn valuation, void *data, slong *v)
 {
     slong k;
     for (k = 0; k < 2; k++) {
-        v[k] = valuation(data, k);
+        v[k] = spec_plan_valuation(P, valuation, data, k);
         if (v[k] < -1)
             return v[k] < INT_MIN ? INT_MIN : (int) v[k];
-        if (v[k] == 0)
-            return k == 0 ? SPEC_T0_CONSTANT : SPEC_T1_CONSTANT;
+        if (v[k] == 0)   /* internal t_1 is the caller's t_0 in a Theta plan */
+            return k == 0 || P->theta ? SPEC_T0_CONSTANT : SPEC_T1_CONSTANT;
     }
     P->m0max = v[0] >= 1 ? P->order / v[0] : 0;
     P->m1max = v[1] >= 1 ? P->order / v[1] : 0;
-    P->dmax = 3 * P->g - 3 + P->m0max;
+    P->dmax = P->dim0 + P->m0max;
     return SPEC_OK;
 }
 
@@ -187,7 +196,7 @@ static int spec_plan_query(spec_plan *P, spec_valuation_fn valuation, void *data
     P->part = xmalloc((size_t) P->nval * sizeof(slong));
     P->val[0] = v[0], P->val[1] = v[1];
     for (k = 2; k < P->nval; k++) {
-        P->val[k] = valuation(data, k);
+        P->val[k] = spec_plan_valuation(P, valuation, data, k);
         if (P->val[k] < -1)
             return P->val[k] < INT_MIN ? INT_MIN : (int) P->val[k];
     }
@@ -229,7 +238,7 @@ static int spec_count_leaf(spec_walk *w, slong depth)
     (void) depth;
     if (++c->P->terms > c->limit)
         return SPEC_TOO_BIG;
-    c->P->by_m0[w->m0] += 1.0;
+    c->P->by_m0[c->P->theta ? w->m1 : w->m0] += 1.0;
     c->P->by_xord[w->used] += 1.0;
     c->P->max_points = FLINT_MAX(c->P->max_points, w->n);
     return SPEC_OK;
@@ -250,21 +259,24 @@ static int spec_plan_count(spec_plan *P, double max_terms)
     return spec_walk_run(P, spec_count_enter, spec_count_leave, spec_count_leaf, &c);
 }
 
-/* Allocates an empty plan for genus g and order N.
-   Never fails (out of memory exits through xmalloc). */
-static spec_plan *spec_plan_new(slong g, slong order)
+/* Allocates an empty plan for genus g and order N, of the Witten-Kontsevich free energy or (theta)
+   of the Brezin-Gross-Witten one.  Never fails (out of memory exits through xmalloc). */
+static spec_plan *spec_plan_new(slong g, slong order, int theta)
 {
     spec_plan *P = xcalloc(1, sizeof(spec_plan));
     P->g = g;
     P->order = order;
     P->max_k = -1;
+    P->theta = theta;
+    P->shift = theta ? 1 : 0;
+    P->dim0 = theta ? g - 1 : 3 * g - 3;
     return P;
 }
 
-/* Plans F_g to x-order N (see spec.h).
+/* Plans F_g (theta = 0) or F^Theta_g (theta = 1) to x-order N.
    *P is NULL on error. */
-int spec_plan_build(spec_plan **P, slong g, slong order, spec_valuation_fn valuation, void *data,
-                    double max_terms)
+static int spec_plan_build_kind(spec_plan **P, slong g, slong order, spec_valuation_fn valuation, void *data,
+                                double max_terms, int theta)
 {
     spec_plan *Q;
     int st;
@@ -274,10 +286,10 @@ int spec_plan_build(spec_plan **P, slong g, slong order, spec_valuation_fn valua
     if (g < 0 || g > SPEC_MAX_GENUS || order < 0 || order > SPEC_MAX_ORDER || valuation == NULL
         || !(max_terms > 0))
         return SPEC_BADARG;
-    Q = spec_plan_new(g, order);
+    Q = spec_plan_new(g, order, theta);
     st = spec_plan_query(Q, valuation, data);
     if (st == SPEC_OK) {
-        Q->by_m0 = xcalloc((size_t) (Q->m0max + 1), sizeof(double));
+        Q->by_m0 = xcalloc((size_t) ((theta ? Q->m1max : Q->m0max) + 1), sizeof(double));
         Q->by_xord = xcalloc((size_t) (order + 1), sizeof(double));
         Q->used = xcalloc((size_t) Q->nval, 1);
         st = spec_plan_count(Q, max_terms);
@@ -290,11 +302,41 @@ int spec_plan_build(spec_plan **P, slong g, slong order, spec_valuation_fn valua
     return SPEC_OK;
 }
 
-/* Largest used k, -1 when there is no multiset.
+/* Plans F_g to x-order N (see spec.h).
+   *P is NULL on error. */
+int spec_plan_build(spec_plan **P, slong g, slong order, spec_valuation_fn valuation, void *data,
+                    double max_terms)
+{
+    return spec_plan_build_kind(P, g, order, valuation, data, max_terms, 0);
+}
+
+/* Plans F^Theta_g to x-order N (see spec.h).
+   *P is NULL on error. */
+int spec_plan_build_theta(spec_plan **P, slong g, slong order, spec_valuation_fn valuation, void *data,
+                          double max_terms)
+{
+    return spec_plan_build_kind(P, g, order, valuation, data, max_terms, 1);
+}
+
+/* Whether the plan is of the Brezin-Gross-Witten free energy.
+   0 for NULL. */
+int spec_plan_is_theta(const spec_plan *P)
+{
+    return P != NULL && P->theta;
+}
+
+/* Largest number of points of a planned correlator.
+   0 for NULL. */
+slong spec_plan_max_points(const spec_plan *P)
+{
+    return P == NULL ? 0 : P->max_points;
+}
+
+/* Largest used k in the caller's indices, -1 when there is no multiset.
    -1 for NULL. */
 slong spec_plan_max_k(const spec_plan *P)
 {
-    return P == NULL ? -1 : P->max_k;
+    return P == NULL || P->max_k < 0 ? -1 : P->max_k - P->shift;
 }
 
 /* Number of planned multisets.
@@ -312,7 +354,7 @@ static void spec_plan_print_times(FILE *out, const spec_plan *P)
     fprintf(out, "  needed times (k: valuation in x):");
     for (k = 0; k <= P->max_k; k++)
         if (P->used[k])
-            fprintf(out, " t_%ld:%ld", (long) k, (long) P->val[k]);
+            fprintf(out, " t_%ld:%ld", (long) (k - P->shift), (long) P->val[k]);
     fprintf(out, P->max_k < 0 ? " none\n" : "\n");
 }
 
@@ -337,12 +379,14 @@ void spec_plan_print(FILE *out, const spec_plan *P)
         fprintf(out, "(no plan)\n");
         return;
     }
-    fprintf(out, "plan for F_%ld to x^%ld: %.0f correlator%s, largest with %ld point%s\n",
-            (long) P->g, (long) P->order, P->terms, P->terms == 1 ? "" : "s",
+    fprintf(out, "plan for %s_%ld to x^%ld: %.0f correlator%s, largest with %ld point%s\n",
+            P->theta ? "FTheta" : "F", (long) P->g, (long) P->order, P->terms, P->terms == 1 ? "" : "s",
             (long) P->max_points, P->max_points == 1 ? "" : "s");
     spec_plan_print_times(out, P);
-    spec_plan_print_counts(out, "correlators by m_0", "m_0=", P->by_m0, P->m0max + 1);
+    spec_plan_print_counts(out, "correlators by m_0", "m_0=", P->by_m0, (P->theta ? P->m1max : P->m0max) + 1);
     spec_plan_print_counts(out, "correlators by lowest x-order", "x^", P->by_xord, P->order + 1);
+    if (P->theta)
+        return;
     double entries = wk_estimate_entries(P->g, P->max_points);
     fprintf(out, "  memo estimate: at most %.3g correlator entr%s\n", entries, entries == 1 ? "y" : "ies");
 }
