@@ -331,7 +331,7 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
         return 0;
     }
     char *what = xasprintf("omega_{%ld,%ld}", (long) g, (long) n);
-    int ok = bsp_curve_read(I, call, args, 0, 3 * g - 3 + n, what, C);
+    int ok = bsp_curve_read(I, call, args, 0, bsp_curve_needs(I, args[0], g, n), what, C);
     free(what);
     if (!ok)
         return 0;

@@ -44,6 +44,8 @@ int bsp_check_curve(interp *I, const node *at, const tseries *s);
 /* Bessel-type curves (builtins_spectral_bessel.c).  A curve value is a series in z: y_odd for the
    Airy kind, z*y_odd (even, with a nonzero constant term) for the Bessel kind. */
 int bsp_series_kind(interp *I, const tseries *s);
+/* The highest y_k that omega_{g,n} of the curve value reads: 3g-3+n, or g-1 for the Bessel kind. */
+slong bsp_curve_needs(interp *I, const value *curve, slong g, slong n);
 /* Checks a Bessel-type curve value (constant term a rational, no odd terms); 0 after reporting. */
 int bsp_check_bessel(interp *I, const node *at, const tseries *s);
 /* Refuses omega_{g,n} of a Bessel-type curve by estimate (Theta table, correlator count). */

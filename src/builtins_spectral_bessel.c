@@ -25,6 +25,13 @@ int bsp_series_kind(interp *I, const tseries *s)
     return bessel ? SP_CURVE_BESSEL : SP_CURVE_AIRY;
 }
 
+slong bsp_curve_needs(interp *I, const value *curve, slong g, slong n)
+{
+    if (curve->kind == V_SERIES && bsp_series_kind(I, curve->ser) == SP_CURVE_BESSEL)
+        return g > 0 ? g - 1 : 0;
+    return 3 * g - 3 + n;
+}
+
 /* 1 when p has a term of odd degree in z. */
 static int bsp_has_odd_terms(interp *I, const fmpq_mpoly_t p, slong z)
 {

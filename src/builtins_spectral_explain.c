@@ -129,7 +129,7 @@ int spectral_explain(interp *I, scope *s, const node *call)
         ok = 0;
     }
     if (ok)
-        ok = bsp_curve_read(I, call, args, 0, 3 * g - 3 + n, "this request", &C);
+        ok = bsp_curve_read(I, call, args, 0, bsp_curve_needs(I, args[0], g, n), "this request", &C);
     if (ok) {
         bsp_print_dictionary(I, &C, g, n, strcmp(call->text, "curve_volume") == 0);
         bsp_curve_clear(&C);

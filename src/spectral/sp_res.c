@@ -18,6 +18,9 @@
  * and the base omega_{0,3} = -r_0 prod dz_i / z_i^2 (the same residue with two factors B).
  * A Bessel-type curve, y_odd = z^{-1} sum_k y_k z^{2k}, has 1/y_odd = z sum_k (1/y)_k z^{2k}: the
  * same formulas with r_0 = 0 and r_{k+1} = (1/y)_k, so omega_{0,3} and with it all of genus 0 vanish.
+ * Each kernel then raises the degree in the 1/z_i^2 by one less, and by induction over 2g-2+n
+ * W_{g,n}[d] = 0 for |d| > g-1: the recursion takes the lower omega as zero there, and the rows
+ * of the requested omega_{g,n} beyond g-1 are still computed, which checks the induction step.
  * Values are memoised on (g, sorted d) in an open-addressing hash table.
  */
 #include <math.h>
@@ -33,6 +36,7 @@ typedef struct {
     fmpq_mpoly_struct *r;      /* r[k], k = 0..rlen-1: 1/y_odd = z^{-1} sum r_k z^{2k} */
     slong rlen;
     int bessel;                /* SP_CURVE_BESSEL: r[0] = 0 */
+    slong top_chi;             /* 2g-2+n of the requested omega_{g,n} */
     fmpq_t y0inv;
     slong nslots, len;
     slong **keys;              /* keys[s] = {length, g, d sorted}, NULL when free */
@@ -317,6 +321,8 @@ static int res_get(sp_res *S, slong g, const slong *d, slong n, const fmpq_mpoly
         sum += d[i];
     if (sum > 3 * g - 3 + n)
         return SP_OK;
+    if (S->bessel && sum > g - 1 && 2 * g - 2 + n < S->top_chi)
+        return SP_OK;                       /* the degree bound, proved row by row at the top */
     if (S->cancel && *S->cancel)
         return SP_CANCELLED;
     key = malloc((size_t) (n + 2) * sizeof(slong));
@@ -424,6 +430,7 @@ int sp_omega_residue_kind(sp_table *out, int kind, slong g, slong n, const fmpq_
     S.max_entries = max_entries;
     S.cancel = cancel;
     S.bessel = kind == SP_CURVE_BESSEL;
+    S.top_chi = 2 * g - 2 + n;
     S.rlen = 3 * g - 2 + n;
     S.r = flint_malloc((size_t) S.rlen * sizeof(fmpq_mpoly_struct));
     fmpq_init(S.y0inv);
