@@ -21,7 +21,8 @@
  * One child process per run, so that the peak RSS is that run's own.  When the residue route
  * passes the budget the row says it was capped, and that curve's larger cases skip it.  Columns:
  * curve, n, g, then for each route wall s, CPU s, peak MiB, and the checksum of the coefficients
- * (sum of numerators and denominators mod 2^61-1); ratio is residue wall / intersection wall, and
+ * (sum of numerators and denominators mod 2^61-1); ratio is residue CPU / intersection CPU (the
+ * wall clock of a shared machine measures the other load too, and the budget is wall time), and
  * "equal" means the two checksums agree.
  */
 #include <stdio.h>
@@ -167,7 +168,7 @@ static void bs_row(const char *curve, slong g, slong n, int *res_on)
         printf("  %-50s", oka < 0 ? "(capped: stopped at the budget)" : "(failed)");
     if (*res_on && (okb = bs_measure(&b, &ub, &sb)) == 1)
         printf("  %9.3f %9.3f %8.1f %20lu  %8.1f %s", ub.wall, ub.cpu, ub.mib, sb,
-               bench_ratio(ub.wall, ua.wall), oka == 1 && sa == sb ? "equal" : oka == 1 ? "DIFFERENT" : "");
+               bench_ratio(ub.cpu, ua.cpu), oka == 1 && sa == sb ? "equal" : oka == 1 ? "DIFFERENT" : "");
     else if (*res_on && okb < 0)
         printf("  residue route capped at the budget of %u s (not finished); larger g skip it", budget_s);
     else if (*res_on)
