@@ -20,7 +20,7 @@ extern const builtin builtins_series[];  /* builtins_series.c */
 extern const builtin builtins_toolkit[]; /* toolkit.c: sequences, extrapolation, recognition, plots */
 extern const builtin builtins_spectral[]; /* builtins_spectral.c: spectral curves, sin/cos/sinh/cosh */
 /* explain of a spectral-curve call (builtins_spectral.c): 1 when name is one, see spectral_explain. */
-int spectral_explains(const char *name);
+int spectral_explains(scope *s, const char *name);
 /* Prints the dictionary of omega/curve_volume/omega_coeff call; 0 after an error. */
 int spectral_explain(interp *I, scope *s, const node *call);
 

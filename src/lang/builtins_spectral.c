@@ -1,5 +1,6 @@
 /* Spectral curves in the language: curve(x, y) normalises a curve with one simple branch point at
-   z = 0 to x = z^2/2 (a series in z holding the odd part of y); omega, omega_coeff, curve_volume,
+   z = 0 to x = z^2/2 (a series in z holding the odd part of y; curve_over_z in
+   builtins_spectral_bessel.c makes the Bessel-type curves y = w/z, held as z*y_odd); omega, omega_coeff, curve_volume,
    curve_times and curve_kdv read it (src/spectral/spectral.h); sin, cos, sinh, cosh of series
    build the usual curves.  Conventions: docs/conventions.md, "Spectral curves". */
 #include <stdlib.h>
@@ -14,6 +15,7 @@
 #include "series_ops.h"
 #include "series/tseries_trig.h"
 #include "spectral/spectral.h"
+#include "theta_lang.h"
 #include "volumes/wpoly.h"
 #include "util.h"
 #include "builtins_spectral.h"
@@ -54,7 +56,7 @@ static value *bsp_cosh(interp *I, const node *call, value **args) { return bsp_t
 
 /* Reads x = c*z^2 (z a declared variable, c a nonzero rational): sets *z and c.
    Returns 0 after reporting an error. */
-static int bsp_read_x(interp *I, const node *call, const value *x, slong *z, fmpq_t c)
+int bsp_read_x(interp *I, const node *call, const value *x, slong *z, fmpq_t c)
 {
     ulong e[SCALAR_MAX_VARS];
     slong v, found = -1;
@@ -74,9 +76,9 @@ static int bsp_read_x(interp *I, const node *call, const value *x, slong *z, fmp
     return 0;
 }
 
-/* The terms of p with odd degree in z, times f. */
-static void bsp_odd_part(fmpq_mpoly_t out, const fmpq_mpoly_t p, slong z, const fmpq_t f,
-                         const fmpq_mpoly_ctx_t ctx)
+/* The terms of p with degree in z of the given parity (1: odd, 0: even), times f. */
+void bsp_parity_part(fmpq_mpoly_t out, const fmpq_mpoly_t p, slong z, const fmpq_t f, int parity,
+                     const fmpq_mpoly_ctx_t ctx)
 {
     ulong e[SCALAR_MAX_VARS];
     fmpq_t c;
@@ -84,7 +86,7 @@ static void bsp_odd_part(fmpq_mpoly_t out, const fmpq_mpoly_t p, slong z, const 
     fmpq_mpoly_zero(out, ctx);
     for (slong i = 0; i < fmpq_mpoly_length(p, ctx); i++) {
         fmpq_mpoly_get_term_exp_ui(e, p, i, ctx);
-        if (e[z] % 2 == 0)
+        if ((int) (e[z] % 2) != parity)
             continue;
         fmpq_mpoly_get_term_coeff_fmpq(c, p, i, ctx);
         fmpq_mul(c, c, f);
@@ -96,11 +98,14 @@ static void bsp_odd_part(fmpq_mpoly_t out, const fmpq_mpoly_t p, slong z, const 
 }
 
 /* Checks the coefficient y_0 of z in the series s (the odd part): reports and returns 0 when the
-   curve has no odd part, when y_0 vanishes or is not a rational number. */
-static int bsp_check_y0(interp *I, const node *at, const tseries *s)
+   curve has no odd part, when y_0 vanishes or is not a rational number.  A series with a constant
+   term is a Bessel-type curve, checked by bsp_check_bessel. */
+int bsp_check_curve(interp *I, const node *at, const tseries *s)
 {
     fmpq_mpoly_t y0;
     int ok;
+    if (bsp_series_kind(I, s) == SP_CURVE_BESSEL)
+        return bsp_check_bessel(I, at, s);
     fmpq_mpoly_init(y0, I->ring.ctx);
     tseries_coeff(y0, s, 1, I->ring.ctx);
     ok = !fmpq_mpoly_is_zero(s->p, I->ring.ctx) && fmpq_mpoly_is_fmpq(y0, I->ring.ctx)
@@ -138,12 +143,12 @@ static value *bsp_curve_new(interp *I, const node *call, value **args)
     }
     fmpq_mul_2exp(c, c, 1);
     r = value_new_series(z, args[1]->kind == V_SERIES ? args[1]->ser->order : TSERIES_MAX_ORDER, &I->ring);
-    bsp_odd_part(r->ser->p, args[1]->kind == V_SERIES ? args[1]->ser->p : args[1]->num, z, c, I->ring.ctx);
+    bsp_parity_part(r->ser->p, args[1]->kind == V_SERIES ? args[1]->ser->p : args[1]->num, z, c, 1, I->ring.ctx);
     if (args[1]->kind == V_NUM && fmpq_mpoly_degree_si(r->ser->p, z, I->ring.ctx) > TSERIES_MAX_ORDER) {
         builtin_fail_at(call, 1, "y has too high a degree in z");
         value_release(r);
         r = NULL;
-    } else if (!bsp_check_y0(I, call->list->items[1], r->ser)) {
+    } else if (!bsp_check_curve(I, call->list->items[1], r->ser)) {
         value_release(r);
         r = NULL;
     }
@@ -176,12 +181,14 @@ int bsp_curve_read(interp *I, const node *call, value **args, int i, slong K, co
         builtin_fail_at(call, i, "expected a curve: make it with curve(z^2/2, y)");
         return 0;
     }
-    if (!bsp_check_y0(I, call->list->items[i], v->ser))
+    if (!bsp_check_curve(I, call->list->items[i], v->ser))
         return 0;
-    if (v->ser->order < 2 * K + 1) {
+    C->kind = bsp_series_kind(I, v->ser);
+    slong top = C->kind == SP_CURVE_BESSEL ? 2 * K : 2 * K + 1;    /* the power of z holding y_K */
+    if (v->ser->order < top) {
         char *msg = xasprintf("%s needs the curve to order z^%ld, but it is known to O(z^%ld): build "
-                              "it from series(z, z, %ld) or higher", what, (long) (2 * K + 1),
-                              (long) (v->ser->order + 1), (long) (2 * K + 1));
+                              "it from series(z, z, %ld) or higher", what, (long) top,
+                              (long) (v->ser->order + 1), (long) top);
         builtin_fail_at(call, i, msg);
         free(msg);
         return 0;
@@ -190,6 +197,7 @@ int bsp_curve_read(interp *I, const node *call, value **args, int i, slong K, co
     used[v->ser->var] = 0;
     C->z = v->ser->var;
     C->K = K;
+    C->kind = bsp_series_kind(I, v->ser);
     C->map = xmalloc(SCALAR_MAX_VARS * sizeof(slong));
     for (slong j = 0; j < SCALAR_MAX_VARS; j++)
         if (used[j])
@@ -203,7 +211,7 @@ int bsp_curve_read(interp *I, const node *call, value **args, int i, slong K, co
     fmpq_mpoly_init(t, I->ring.ctx);
     for (slong k = 0; k <= K; k++) {
         fmpq_mpoly_init(C->y + k, C->ctx);
-        tseries_coeff(t, v->ser, 2 * k + 1, I->ring.ctx);
+        tseries_coeff(t, v->ser, C->kind == SP_CURVE_BESSEL ? 2 * k : 2 * k + 1, I->ring.ctx);
         fmpq_mpoly_compose_fmpq_mpoly_gen(C->y + k, t, back, I->ring.ctx, C->ctx);
     }
     fmpq_mpoly_clear(t, I->ring.ctx);
@@ -260,6 +268,8 @@ static void bsp_report(const node *call, int st, slong g, slong n)
    after reporting. */
 static int bsp_refuse_by_estimate(interp *I, const node *call, const bsp_curve *C, slong g, slong n)
 {
+    if (C->kind == SP_CURVE_BESSEL)
+        return bsp_refuse_bessel(I, call, C, g, n);
     if (sp_shift_uses_volumes(g, n, C->y, C->K, C->ctx)) {
         double sec, bytes;
         wpoly_estimate(&sec, &bytes, g, n);
@@ -297,7 +307,7 @@ static int bsp_verify(interp *I, const node *call, const bsp_curve *C, const sp_
         return verify_unchecked(I, call, VERIFY_VALUE, 1, "the residue route's estimate is above its limit of 1e5")
                    ? SP_OK : -1;
     sp_table_init(&R, C->ctx);
-    st = sp_omega_residue(&R, g, n, C->y, C->K, 1e6, &cancel_flag, C->ctx);
+    st = sp_omega_residue_kind(&R, C->kind, g, n, C->y, C->K, 1e6, &cancel_flag, C->ctx);
     if (st == SP_OK && !sp_table_equal(W, &R, C->ctx)) {
         diag_error(&call->loc, "verification failed: the intersection numbers and the recursion's "
                                "residues disagree on omega_{%ld,%ld} (please report this input)", (long) g, (long) n);
@@ -322,7 +332,7 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
         return 0;
     }
     char *what = xasprintf("omega_{%ld,%ld}", (long) g, (long) n);
-    int ok = bsp_curve_read(I, call, args, 0, 3 * g - 3 + n, what, C);
+    int ok = bsp_curve_read(I, call, args, 0, bsp_curve_needs(I, args[0], g, n), what, C);
     free(what);
     if (!ok)
         return 0;
@@ -334,8 +344,13 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
     o.cancel = &cancel_flag;
     o.threads = 2;
     wpvol_set_cancel(&cancel_flag);
+    if (C->kind == SP_CURVE_BESSEL && (o.theta = theta_lang_table(I, THETA_ROUTE_VIRASORO)) == NULL) {
+        diag_error(&call->loc, "out of memory for the table of Theta-psi numbers");
+        bsp_curve_clear(C);
+        return 0;
+    }
     sp_table_init(W, C->ctx);
-    int st = sp_omega_shift(W, g, n, C->y, C->K, I->wk, &o, C->ctx);
+    int st = sp_omega_shift_kind(W, C->kind, g, n, C->y, C->K, I->wk, &o, C->ctx);
     if (st == SP_OK)
         st = bsp_verify(I, call, C, W, g, n);
     if (st == SP_OK)
@@ -491,21 +506,22 @@ static value *bsp_dictionary(interp *I, const node *call, value **args, int kdv)
     bsp_curve C;
     if (!builtin_get_slong(I, call, args, 1, kdv ? 0 : 1, 100000, &N))
         return NULL;
-    if (!bsp_curve_read(I, call, args, 0, kdv ? N - 1 : N, kdv ? "curve_kdv" : "curve_times", &C))
+    int bessel = args[0]->kind == V_SERIES && bsp_series_kind(I, args[0]->ser) == SP_CURVE_BESSEL;
+    slong M = kdv && !bessel ? N - 1 : N, len = kdv ? N + 1 : N;   /* Bessel kind: t_k = -p_k */
+    if (!bsp_curve_read(I, call, args, 0, M, kdv ? "curve_kdv" : "curve_times", &C))
         return NULL;
-    slong M = kdv ? N - 1 : N, len = kdv ? N + 1 : N;
     fmpq_mpoly_struct *s = flint_malloc((size_t) (M + 2) * sizeof(fmpq_mpoly_struct));
     for (slong k = 0; k <= M + 1; k++)
         fmpq_mpoly_init(s + k, C.ctx);
     if (kdv)
-        sp_shift_times(s, M < 0 ? 0 : M, C.y, C.K, C.ctx);
+        sp_shift_times_kind(s, M < 0 ? 0 : M, C.kind, C.y, C.K, C.ctx);
     else
-        sp_times(s, M, C.y, C.K, C.ctx);
+        sp_times_kind(s, M, C.kind, C.y, C.K, C.ctx);
     value *r = value_new_list(len, &I->ring);
     for (slong i = 0; i < len; i++) {
         r->items[i] = value_new_num(&I->ring);
-        if (kdv && i >= 2) {                            /* t_i = -p_{i-1} */
-            bsp_to_ring(I, r->items[i]->num, s + (i - 1), &C);
+        if (kdv && i >= (bessel ? 1 : 2)) {             /* t_i = -p_{i-1}, Bessel kind -p_i */
+            bsp_to_ring(I, r->items[i]->num, s + (bessel ? i : i - 1), &C);
             fmpq_mpoly_neg(r->items[i]->num, r->items[i]->num, I->ring.ctx);
         } else if (!kdv)
             bsp_to_ring(I, r->items[i]->num, s + (i + 1), &C);
@@ -526,6 +542,7 @@ const builtin builtins_spectral[] = {
     {"sinh", 1, bsp_sinh, "sinh(S) for a series S with zero constant term"},
     {"cosh", 1, bsp_cosh, "cosh(S) for a series S with zero constant term"},
     {"curve", 2, bsp_curve_new, "curve(x, y) with x = c*z^2: the spectral curve, normalised to x = z^2/2"},
+    {"curve_over_z", 2, bsp_curve_over_z, "curve_over_z(x, w) with x = c*z^2: the curve y = w/z (Bessel type when w(0) != 0)"},
     {"omega", 3, bsp_omega, "omega(C, g, n): omega_{g,n} of the curve C in u_i = 1/z_i"},
     {"omega_coeff", 3, bsp_omega_coeff, "omega_coeff(C, g, [d_1, ..., d_n]): coefficient of prod 1/z_i^(2d_i+2)"},
     {"curve_volume", 3, bsp_volume, "curve_volume(C, g, n): the volume polynomial V_{g,n}(L_1..L_n) of C"},

@@ -11,9 +11,13 @@
 #include "spectral/spectral.h"
 #include "eval.h"
 
-int spectral_explains(const char *name)
+/* See builtins.h.  A name bound in the scope (a function of the user's, or a variable) hides the
+   builtin, as in eval_call, so explain leaves it alone. */
+int spectral_explains(scope *s, const char *name)
 {
-    return strcmp(name, "omega") == 0 || strcmp(name, "omega_coeff") == 0 || strcmp(name, "curve_volume") == 0;
+    if (strcmp(name, "omega") != 0 && strcmp(name, "omega_coeff") != 0 && strcmp(name, "curve_volume") != 0)
+        return 0;
+    return scope_lookup(s, name) == NULL;
 }
 
 /* Prints "  label name_j = value" for the nonzero entries j = from..to of s (curve context). */
@@ -46,38 +50,58 @@ static void bsp_print_list(interp *I, const char *label, const char *name, const
 /* The dictionary of omega_{g,n} for the curve C: times, weights, normalisation, route. */
 static void bsp_print_dictionary(interp *I, const bsp_curve *C, slong g, slong n, int volume)
 {
-    slong D = 3 * g - 3 + n, j;
+    int bessel = C->kind == SP_CURVE_BESSEL;
+    slong D = 3 * g - 3 + n, Dt = bessel ? (g > 0 ? g - 1 : 0) : D, j;
     fmpq_mpoly_struct *s = flint_malloc((size_t) (D + 1) * sizeof(fmpq_mpoly_struct));
     int only1 = 1;
     fmpq_t c;
     for (j = 0; j <= D; j++)
         fmpq_mpoly_init(s + j, C->ctx);
-    sp_times(s, D, C->y, C->K, C->ctx);
+    sp_times_kind(s, D, C->kind, C->y, C->K, C->ctx);
     for (j = 2; j <= D; j++)
         only1 &= fmpq_mpoly_is_zero(s + j, C->ctx);
-    fprintf(I->out, "%s of the curve x = z^2/2, y_odd = sum_k y_k z^(2k+1), Mbar_{%ld,%ld} of dimension %ld\n",
-            volume ? "volume polynomial" : "omega", (long) g, (long) n, (long) D);
-    bsp_print_list(I, "y_k", "y", C->y, 0, D < C->K ? D : C->K, 0, C);
-    bsp_print_list(I, "kappa times, exp(-sum s_j u^j) = sum (2k+1)!! y_k/y_0 u^k", "s", s, 1, D, 0, C);
-    sp_shift_times(s, D, C->y, C->K, C->ctx);
+    if (bessel)
+        fprintf(I->out, "%s of the Bessel-type curve x = z^2/2, y_odd = sum_k y_k z^(2k-1), Theta on Mbar_{%ld,%ld}\n",
+                volume ? "volume polynomial" : "omega", (long) g, (long) n);
+    else
+        fprintf(I->out, "%s of the curve x = z^2/2, y_odd = sum_k y_k z^(2k+1), Mbar_{%ld,%ld} of dimension %ld\n",
+                volume ? "volume polynomial" : "omega", (long) g, (long) n, (long) D);
+    if (bessel && g == 0) {
+        fprintf(I->out, "  Theta_{0,%ld} = 0: every coefficient vanishes\n", (long) n);
+        for (j = 0; j <= D; j++)
+            fmpq_mpoly_clear(s + j, C->ctx);
+        flint_free(s);
+        return;
+    }
+    bsp_print_list(I, "y_k", "y", C->y, 0, Dt < C->K ? Dt : C->K, 0, C);
+    bsp_print_list(I, bessel ? "kappa times, exp(-sum s_j u^j) = sum (2k-1)!! y_k/y_0 u^k"
+                             : "kappa times, exp(-sum s_j u^j) = sum (2k+1)!! y_k/y_0 u^k", "s", s, 1, Dt, 0, C);
+    sp_shift_times_kind(s, D, C->kind, C->y, C->K, C->ctx);
     for (j = 1; j <= D; j++)
         fmpq_mpoly_neg(s + j, s + j, C->ctx);
-    bsp_print_list(I, "KdV times t_0 = t_1 = 0, t_{k+1} = -(2k+1)!! y_k/y_0", "t", s, 1, D, 1, C);
+    if (bessel)
+        bsp_print_list(I, "Theta times t_0 = 0, t_k = -(2k-1)!! y_k/y_0", "t", s, 1, Dt, 0, C);
+    else
+        bsp_print_list(I, "KdV times t_0 = t_1 = 0, t_{k+1} = -(2k+1)!! y_k/y_0", "t", s, 1, D, 1, C);
     fmpq_init(c);
     fmpq_mpoly_get_fmpq(c, C->y + 0, C->ctx);
     fmpq_pow_si(c, c, 2 - 2 * g - n);
     if (n % 2)
         fmpq_neg(c, c);
     char *ct = fmpq_get_str(NULL, 10, c);
+    const char *th = bessel ? "Theta " : "";
     if (volume)
-        fprintf(I->out, "  V_{%ld,%ld}(L) = c * int exp(sum_j s_j kappa_j + sum_i L_i^2 psi_i/2), "
-                        "c = (-1)^n y_0^(2-2g-n) = %s\n", (long) g, (long) n, ct);
+        fprintf(I->out, "  V_{%ld,%ld}(L) = c * int %sexp(sum_j s_j kappa_j + sum_i L_i^2 psi_i/2), "
+                        "c = (-1)^n y_0^(2-2g-n) = %s\n", (long) g, (long) n, th, ct);
     else
-        fprintf(I->out, "  omega_{%ld,%ld} = c * sum_d prod_i (2d_i+1)!! u_i^(2d_i+2) int exp(sum_j s_j kappa_j) "
-                        "prod_i psi_i^d_i, u_i = 1/z_i, c = (-1)^n y_0^(2-2g-n) = %s\n", (long) g, (long) n, ct);
+        fprintf(I->out, "  omega_{%ld,%ld} = c * sum_d prod_i (2d_i+1)!! u_i^(2d_i+2) int %sexp(sum_j s_j kappa_j) "
+                        "prod_i psi_i^d_i, u_i = 1/z_i, c = (-1)^n y_0^(2-2g-n) = %s\n", (long) g, (long) n, th, ct);
     flint_free(ct);
     fmpq_clear(c);
-    if (only1 && g >= 2 && n <= 6)
+    if (bessel)
+        fprintf(I->out, "  route: Theta-psi numbers at the Theta times, %.0f of them at most\n",
+                sp_shift_estimate_kind(SP_CURVE_BESSEL, g, n, C->K));
+    else if (only1 && g >= 2 && n <= 6)
         fprintf(I->out, "  route: only s_1 is nonzero: the volume engine\n");
     else
         fprintf(I->out, "  route: psi correlators at the KdV times, %.0f of them at most\n", sp_shift_estimate(g, n, C->K));
@@ -106,7 +130,7 @@ int spectral_explain(interp *I, scope *s, const node *call)
         ok = 0;
     }
     if (ok)
-        ok = bsp_curve_read(I, call, args, 0, 3 * g - 3 + n, "this request", &C);
+        ok = bsp_curve_read(I, call, args, 0, bsp_curve_needs(I, args[0], g, n), "this request", &C);
     if (ok) {
         bsp_print_dictionary(I, &C, g, n, strcmp(call->text, "curve_volume") == 0);
         bsp_curve_clear(&C);

@@ -204,7 +204,7 @@ static int exec_explain(interp *I, scope *s, const node *n)
     const node *e = n->a;
     if (e->kind == N_SPEC)
         return specialise_explain(I, s, e);
-    if (e->kind == N_CALL && spectral_explains(e->text)) {
+    if (e->kind == N_CALL && spectral_explains(s, e->text)) {
         if (!spectral_explain(I, s, e))
             return 0;
         value *v = eval_expr(I, s, e);

@@ -15,6 +15,12 @@ void sp_options_default(sp_options *o)
     o->threads = 1;
     o->max_terms = 0.0;
     o->cancel = NULL;
+    o->theta = NULL;
+}
+
+slong sp_curve_degree(int kind, slong g, slong n)
+{
+    return kind == SP_CURVE_BESSEL ? g - 1 : 3 * g - 3 + n;
 }
 
 void sp_table_init(sp_table *T, const fmpq_mpoly_ctx_t ctx)
@@ -155,29 +161,32 @@ int sp_curve_check(const fmpq_mpoly_struct *y, slong K, const fmpq_mpoly_ctx_t c
     return SP_OK;
 }
 
-/* See spectral.h: p_k = (2k+1)!! y_k / y_0, the double factorial built up as k grows. */
-int sp_shift_times(fmpq_mpoly_struct *p, slong N, const fmpq_mpoly_struct *y, slong K,
-                   const fmpq_mpoly_ctx_t ctx)
+/* See spectral.h: p_k = w_k y_k / y_0 with w_k = (2k+1)!! (Airy kind) or (2k-1)!! (Bessel kind),
+   the double factorial built up as k grows. */
+int sp_shift_times_kind(fmpq_mpoly_struct *p, slong N, int kind, const fmpq_mpoly_struct *y, slong K,
+                        const fmpq_mpoly_ctx_t ctx)
 {
     slong k;
     int st = sp_curve_check(y, K, ctx);
     fmpq_t y0, c;
     fmpz_t df;
-    if (st != SP_OK || p == NULL || N < 0)
-        return st != SP_OK ? st : SP_BADARG;
+    if (st == SP_OK && (p == NULL || N < 0 || (kind != SP_CURVE_AIRY && kind != SP_CURVE_BESSEL)))
+        st = SP_BADARG;
+    if (st != SP_OK)
+        return st;
     fmpq_init(y0);
     fmpq_init(c);
     fmpz_init_set_ui(df, 1);
     fmpq_mpoly_get_fmpq(y0, y + 0, ctx);
     for (k = 0; k <= N; k++) {
         if (k > 0)
-            fmpz_mul_ui(df, df, (ulong) (2 * k + 1));
+            fmpz_mul_ui(df, df, (ulong) (kind == SP_CURVE_BESSEL ? 2 * k - 1 : 2 * k + 1));
         if (k > K) {
             fmpq_mpoly_zero(p + k, ctx);
             continue;
         }
         fmpq_set_fmpz_frac(c, df, fmpq_numref(y0));
-        fmpq_mul_fmpz(c, c, fmpq_denref(y0));                 /* c = (2k+1)!! / y_0 */
+        fmpq_mul_fmpz(c, c, fmpq_denref(y0));                 /* c = w_k / y_0 */
         fmpq_mpoly_scalar_mul_fmpq(p + k, y + k, c, ctx);
     }
     fmpz_clear(df);
@@ -186,10 +195,22 @@ int sp_shift_times(fmpq_mpoly_struct *p, slong N, const fmpq_mpoly_struct *y, sl
     return SP_OK;
 }
 
-/* See spectral.h.  With f = sum p_k u^k (p_0 = 1) and h = log f, f' = h' f gives
-   k h_k = k p_k - sum_{i=1}^{k-1} i h_i p_{k-i};  s_j = -h_j. */
+int sp_shift_times(fmpq_mpoly_struct *p, slong N, const fmpq_mpoly_struct *y, slong K,
+                   const fmpq_mpoly_ctx_t ctx)
+{
+    return sp_shift_times_kind(p, N, SP_CURVE_AIRY, y, K, ctx);
+}
+
 int sp_times(fmpq_mpoly_struct *s, slong N, const fmpq_mpoly_struct *y, slong K,
              const fmpq_mpoly_ctx_t ctx)
+{
+    return sp_times_kind(s, N, SP_CURVE_AIRY, y, K, ctx);
+}
+
+/* See spectral.h.  With f = sum p_k u^k (p_0 = 1) and h = log f, f' = h' f gives
+   k h_k = k p_k - sum_{i=1}^{k-1} i h_i p_{k-i};  s_j = -h_j. */
+int sp_times_kind(fmpq_mpoly_struct *s, slong N, int kind, const fmpq_mpoly_struct *y, slong K,
+                  const fmpq_mpoly_ctx_t ctx)
 {
     slong k, i;
     int st;
@@ -200,7 +221,7 @@ int sp_times(fmpq_mpoly_struct *s, slong N, const fmpq_mpoly_struct *y, slong K,
     p = flint_malloc((size_t) (N + 1) * sizeof(fmpq_mpoly_struct));
     for (k = 0; k <= N; k++)
         fmpq_mpoly_init(p + k, ctx);
-    st = sp_shift_times(p, N, y, K, ctx);
+    st = sp_shift_times_kind(p, N, kind, y, K, ctx);
     fmpq_mpoly_init(t, ctx);
     fmpq_mpoly_zero(s + 0, ctx);
     for (k = 1; st == SP_OK && k <= N; k++) {

@@ -11,6 +11,9 @@
  * composed with the q_k once at the end (adding every leaf's product of polynomials into a large
  * accumulator cost a pass over the accumulator per leaf).  When only s_1 is nonzero up to the
  * polynomial-time volume engine gives int psi^a kappa_1^{D-|a|}/(D-|a|)! instead (g >= 2, n <= 6).
+ * A Bessel-type curve runs the same walk with Theta: int Theta exp(sum s_j kappa_j) psi^d is
+ * < Theta | prod tau_{d_i} exp(sum_{k>=1} q_k tau_k) >_g (the shift of theta_kappa_shift: one psi at
+ * each forgotten point belongs to Theta, so the extra points carry tau_k), of degree D = g-1.
  */
 #include <stdatomic.h>
 #include <math.h>
@@ -27,7 +30,9 @@ typedef struct {
     sp_table *out;
     wk_table *Tw;
     atomic_int *cancel;
-    slong g, n, D, kmax;
+    slong g, n, D, kmax;       /* D: the degree of the classes, sp_curve_degree */
+    int bessel;                /* Theta-psi numbers from Tt, extra points tau_k (not tau_{k+1}) */
+    theta_table *Tt;
     fmpq_mpoly_struct *q;      /* q[k] = -p_k, k = 1..kmax */
     slong *e;                  /* e[k]: multiplicity of tau_{k+1} chosen so far */
     slong *key;                /* correlator key, n + D entries */
@@ -63,9 +68,11 @@ static int sp_walk_leaf(sp_walk *W, slong R, const fmpq_t Pq)
         memcpy(W->key, W->out->d + row * W->n, (size_t) W->n * sizeof(slong));
         for (k = 1, len = W->n; k <= W->kmax; k++)
             for (c = 0; c < W->e[k]; c++)
-                W->key[len++] = k + 1;
-        if (wk_table_correlator(W->corr, W->Tw, W->g, W->key, len) != WK_OK)
-            return SP_LIMIT;
+                W->key[len++] = W->bessel ? k : k + 1;
+        int st = W->bessel ? theta_correlator(W->corr, W->Tt, W->g, W->key, len)
+                           : wk_table_correlator(W->corr, W->Tw, W->g, W->key, len);
+        if (st != WK_OK)
+            return st == WK_CANCELLED ? SP_CANCELLED : SP_LIMIT;
         if (fmpq_is_zero(W->corr))
             continue;
         if (W->rational) {
@@ -114,8 +121,8 @@ static int sp_walk_parts(sp_walk *W, slong R0, slong k, slong R, const fmpq_t Pq
     fmpq_clear(Qq);
     return st;
 }
-/* Groups the rows of W->out by psi degree |d| (counting sort into start/idx).
-   Returns SP_LIMIT when memory runs out. */
+/* Groups the rows of W->out with psi degree |d| <= W->D by that degree (counting sort into
+   start/idx; the other rows stay zero).  Returns SP_LIMIT when memory runs out. */
 static int sp_walk_group_rows(sp_walk *W)
 {
     slong r, j, m, *fill;
@@ -130,14 +137,16 @@ static int sp_walk_group_rows(sp_walk *W)
     for (r = 0; r < T->len; r++) {
         for (j = 0, m = 0; j < T->n; j++)
             m += T->d[r * T->n + j];
-        W->start[m + 1]++;
+        if (m <= W->D)
+            W->start[m + 1]++;
     }
     for (m = 0; m <= W->D; m++)
         W->start[m + 1] += W->start[m];
     for (r = 0; r < T->len; r++) {
         for (j = 0, m = 0; j < T->n; j++)
             m += T->d[r * T->n + j];
-        W->idx[W->start[m] + fill[m]++] = r;
+        if (m <= W->D)
+            W->idx[W->start[m] + fill[m]++] = r;
     }
     free(fill);
     return SP_OK;
@@ -151,7 +160,7 @@ static void sp_walk_times(sp_walk *W, const fmpq_mpoly_struct *y, slong K, const
     W->q = flint_malloc((size_t) (W->D + 1) * sizeof(fmpq_mpoly_struct));
     for (k = 0; k <= W->D; k++)
         fmpq_mpoly_init(W->q + k, ctx);
-    sp_shift_times(W->q, W->D, y, K, ctx);
+    sp_shift_times_kind(W->q, W->D, W->bessel ? SP_CURVE_BESSEL : SP_CURVE_AIRY, y, K, ctx);
     W->rational = 1;
     W->qvar = malloc((size_t) (W->D + 1) * sizeof(slong));
     for (k = 0; k <= W->D; k++) {
@@ -208,10 +217,10 @@ static void sp_walk_clear(sp_walk *W)
     free(W->qvar), free(W->qexp), free(W->e), free(W->key), free(W->start), free(W->idx);
 }
 
-/* Fills the rows of out with int exp(sum s kappa) psi^d by the shift: one walk per kappa degree R.
-   out has its rows; y is a checked curve. */
-static int sp_int_by_shift(sp_table *out, const fmpq_mpoly_struct *y, slong K, wk_table *Tw,
-                           const sp_options *o, const fmpq_mpoly_ctx_t ctx)
+/* Fills the rows of out with int exp(sum s kappa) psi^d (times Theta for the Bessel kind) by the
+   shift: one walk per kappa degree R.  out has its rows (all zero); y is a checked curve. */
+static int sp_int_by_shift(sp_table *out, int kind, const fmpq_mpoly_struct *y, slong K, wk_table *Tw,
+                           theta_table *Tt, const sp_options *o, const fmpq_mpoly_ctx_t ctx)
 {
     sp_walk W;
     slong k, R;
@@ -219,7 +228,10 @@ static int sp_int_by_shift(sp_table *out, const fmpq_mpoly_struct *y, slong K, w
     fmpq_t one;
     memset(&W, 0, sizeof W);
     W.out = out, W.Tw = Tw, W.cancel = o->cancel, W.ctx = ctx;
-    W.g = out->g, W.n = out->n, W.D = 3 * out->g - 3 + out->n;
+    W.g = out->g, W.n = out->n, W.D = sp_curve_degree(kind, out->g, out->n);
+    W.bessel = kind == SP_CURVE_BESSEL, W.Tt = Tt;
+    if (W.D < 0)
+        return SP_OK;                                 /* Theta vanishes in genus 0 */
     W.kmax = K < W.D ? K : W.D;
     sp_walk_times(&W, y, K, ctx);
     if (W.rational) {
@@ -337,35 +349,53 @@ static void sp_int_normalise(sp_table *out, const fmpq_mpoly_struct *y, const fm
 int sp_omega_shift(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
                    wk_table *Tw, const sp_options *o, const fmpq_mpoly_ctx_t ctx)
 {
+    return sp_omega_shift_kind(out, SP_CURVE_AIRY, g, n, y, K, Tw, o, ctx);
+}
+
+/* See spectral.h.  The volume engine serves only the Airy kind; a Bessel-type curve without the
+   caller's Theta table gets a private one for the call. */
+int sp_omega_shift_kind(sp_table *out, int kind, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
+                        wk_table *Tw, const sp_options *o, const fmpq_mpoly_ctx_t ctx)
+{
     sp_options def;
     fmpq_mpoly_t s1;
-    int st, vol = 0;
+    theta_table *Tt = NULL;
+    int st, vol = 0, bessel = kind == SP_CURVE_BESSEL;
     if (o == NULL) {
         sp_options_default(&def);
         o = &def;
     }
-    if (out == NULL || Tw == NULL)
+    if (out == NULL || (!bessel && Tw == NULL) || (kind != SP_CURVE_AIRY && !bessel))
         return SP_BADARG;
     sp_table_clear(out, ctx);
     st = sp_curve_check(y, K, ctx);
     if (st == SP_OK)
         st = sp_table_make_rows(out, g, n, ctx);
-    if (st == SP_OK && o->max_terms > 0 && sp_shift_estimate(g, n, K) > o->max_terms)
+    if (st == SP_OK && o->max_terms > 0 && sp_shift_estimate_kind(kind, g, n, K) > o->max_terms)
         st = SP_LIMIT;
+    if (st == SP_OK && bessel && (Tt = o->theta) == NULL) {
+        Tt = theta_table_new(THETA_ROUTE_VIRASORO);
+        if (Tt == NULL)
+            st = SP_LIMIT;
+        else
+            theta_table_set_cancel(Tt, o->cancel);
+    }
     if (st != SP_OK) {
         sp_table_clear(out, ctx);
         return st;
     }
     fmpq_mpoly_init(s1, ctx);
-    if (!o->force_shift && g >= 2 && n <= WPOLY_MAX_POINTS
+    if (!bessel && !o->force_shift && g >= 2 && n <= WPOLY_MAX_POINTS
         && sp_int_only_kappa1(s1, y, K, 3 * g - 3 + n, ctx))
         vol = sp_int_by_volumes(out, s1, o, ctx) == SP_OK;
     fmpq_mpoly_clear(s1, ctx);
     if (!vol) {
         for (slong r = 0; r < out->len; r++)
             fmpq_mpoly_zero(out->c + r, ctx);
-        st = sp_int_by_shift(out, y, K, Tw, o, ctx);
+        st = sp_int_by_shift(out, kind, y, K, Tw, Tt, o, ctx);
     }
+    if (Tt != o->theta)
+        theta_table_free(Tt);
     if (st == SP_OK)
         sp_int_normalise(out, y, ctx);
     else
@@ -377,9 +407,14 @@ int sp_omega_shift(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, 
    doubles; see spectral.h. */
 double sp_shift_estimate(slong g, slong n, slong K)
 {
-    slong D = 3 * g - 3 + n, m, k, j;
+    return sp_shift_estimate_kind(SP_CURVE_AIRY, g, n, K);
+}
+
+double sp_shift_estimate_kind(int kind, slong g, slong n, slong K)
+{
+    slong D = sp_curve_degree(kind, g, n), m, k, j;
     double *cnt, *rows, total = 0.0;
-    if (g < 0 || n < 1 || D < 0 || D > SP_MAX_DIM || n > SP_MAX_DIM)
+    if (g < 0 || n < 1 || D < 0 || 3 * g - 3 + n > SP_MAX_DIM || n > SP_MAX_DIM)
         return D < 0 ? 0.0 : HUGE_VAL;
     cnt = calloc((size_t) D + 1, sizeof(double));
     rows = calloc((size_t) D + 1, sizeof(double));

@@ -15,7 +15,12 @@
  *          + sum' sum_{a+b=p-2} W_{g_1}[a, I] W_{g_2}[b, J \ I]             (stable factors)
  *          + sum_{i in J} 2 (2 d_i + 1) W_{g,|J|}[p + d_i - 1, J \ i]        (the two factors B(+-z, z_i):
  *                                                                          1/(z_i-z)^2 + 1/(z_i+z)^2),
- * and the base omega_{0,3} = -(1/y_0) prod dz_i / z_i^2 (the same residue with two factors B).
+ * and the base omega_{0,3} = -r_0 prod dz_i / z_i^2 (the same residue with two factors B).
+ * A Bessel-type curve, y_odd = z^{-1} sum_k y_k z^{2k}, has 1/y_odd = z sum_k (1/y)_k z^{2k}: the
+ * same formulas with r_0 = 0 and r_{k+1} = (1/y)_k, so omega_{0,3} and with it all of genus 0 vanish.
+ * Each kernel then raises the degree in the 1/z_i^2 by one less, and by induction over 2g-2+n
+ * W_{g,n}[d] = 0 for |d| > g-1: the recursion takes the lower omega as zero there, and the rows
+ * of the requested omega_{g,n} beyond g-1 are still computed, which checks the induction step.
  * Values are memoised on (g, sorted d) in an open-addressing hash table.
  */
 #include <stdatomic.h>
@@ -31,6 +36,8 @@ typedef struct {
     const fmpq_mpoly_ctx_struct *ctx;
     fmpq_mpoly_struct *r;      /* r[k], k = 0..rlen-1: 1/y_odd = z^{-1} sum r_k z^{2k} */
     slong rlen;
+    int bessel;                /* SP_CURVE_BESSEL: r[0] = 0 */
+    slong top_chi;             /* 2g-2+n of the requested omega_{g,n} */
     fmpq_t y0inv;
     slong nslots, len;
     slong **keys;              /* keys[s] = {length, g, d sorted}, NULL when free */
@@ -277,7 +284,7 @@ static int res_compute(sp_res *S, fmpq_mpoly_t res, slong g, const slong *d, slo
         return SP_LIMIT;
     if (g == 0 && n == 3) {
         if (d[0] == 0)
-            fmpq_mpoly_set_fmpq(res, S->y0inv, S->ctx), fmpq_mpoly_neg(res, res, S->ctx);
+            fmpq_mpoly_neg(res, S->r + 0, S->ctx);
         free(key);
         return SP_OK;
     }
@@ -315,6 +322,8 @@ static int res_get(sp_res *S, slong g, const slong *d, slong n, const fmpq_mpoly
         sum += d[i];
     if (sum > 3 * g - 3 + n)
         return SP_OK;
+    if (S->bessel && sum > g - 1 && 2 * g - 2 + n < S->top_chi)
+        return SP_OK;                       /* the degree bound, proved row by row at the top */
     if (S->cancel && *S->cancel)
         return SP_CANCELLED;
     key = malloc((size_t) (n + 2) * sizeof(slong));
@@ -350,23 +359,25 @@ static int res_get(sp_res *S, slong g, const slong *d, slong n, const fmpq_mpoly
     return SP_OK;
 }
 
-/* r_k with sum_k r_k w^k = 1 / sum_k y_k w^k: r_0 = 1/y_0, r_k = -(1/y_0) sum_{j=1}^{k} y_j r_{k-j}. */
+/* v_k with sum_k v_k w^k = 1 / sum_k y_k w^k: v_0 = 1/y_0, v_k = -(1/y_0) sum_{j=1}^{k} y_j v_{k-j},
+   stored at r[k] (Airy kind) or r[k+1] with r[0] = 0 (Bessel kind). */
 static void res_fill_inverse(sp_res *S, const fmpq_mpoly_struct *y, slong K)
 {
-    slong k, j;
+    slong k, j, o = S->bessel ? 1 : 0;
     fmpq_mpoly_t t;
     fmpq_mpoly_init(t, S->ctx);
-    for (k = 0; k < S->rlen; k++) {
+    for (k = 0; k < S->rlen; k++)
         fmpq_mpoly_init(S->r + k, S->ctx);
+    for (k = 0; k + o < S->rlen; k++) {
         if (k == 0) {
-            fmpq_mpoly_set_fmpq(S->r, S->y0inv, S->ctx);
+            fmpq_mpoly_set_fmpq(S->r + o, S->y0inv, S->ctx);
             continue;
         }
         for (j = 1; j <= k && j <= K; j++) {
-            fmpq_mpoly_mul(t, y + j, S->r + (k - j), S->ctx);
-            fmpq_mpoly_sub(S->r + k, S->r + k, t, S->ctx);
+            fmpq_mpoly_mul(t, y + j, S->r + (k - j + o), S->ctx);
+            fmpq_mpoly_sub(S->r + k + o, S->r + k + o, t, S->ctx);
         }
-        fmpq_mpoly_scalar_mul_fmpq(S->r + k, S->r + k, S->y0inv, S->ctx);
+        fmpq_mpoly_scalar_mul_fmpq(S->r + k + o, S->r + k + o, S->y0inv, S->ctx);
     }
     fmpq_mpoly_clear(t, S->ctx);
 }
@@ -389,9 +400,15 @@ static void res_clear(sp_res *S)
     fmpq_clear(S->y0inv);
 }
 
-/* See spectral.h: every row of the table through the memo. */
 int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
                      double max_entries, atomic_int *cancel, const fmpq_mpoly_ctx_t ctx)
+{
+    return sp_omega_residue_kind(out, SP_CURVE_AIRY, g, n, y, K, max_entries, cancel, ctx);
+}
+
+/* See spectral.h: every row of the table through the memo. */
+int sp_omega_residue_kind(sp_table *out, int kind, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
+                          double max_entries, atomic_int *cancel, const fmpq_mpoly_ctx_t ctx)
 {
     sp_res S;
     slong i;
@@ -401,6 +418,8 @@ int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y
         return SP_BADARG;
     sp_table_clear(out, ctx);
     st = sp_curve_check(y, K, ctx);
+    if (st == SP_OK && kind != SP_CURVE_AIRY && kind != SP_CURVE_BESSEL)
+        st = SP_BADARG;
     if (st == SP_OK && g >= 0 && n >= 1 && g + n > SP_RESIDUE_MAX_POINTS)
         st = SP_LIMIT;                  /* the recursion reaches omega_{g',n'} with n' <= n + g */
     if (st == SP_OK)
@@ -411,6 +430,8 @@ int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y
     S.ctx = ctx;
     S.max_entries = max_entries;
     S.cancel = cancel;
+    S.bessel = kind == SP_CURVE_BESSEL;
+    S.top_chi = 2 * g - 2 + n;
     S.rlen = 3 * g - 2 + n;
     S.r = flint_malloc((size_t) S.rlen * sizeof(fmpq_mpoly_struct));
     fmpq_init(S.y0inv);

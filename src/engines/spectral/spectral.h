@@ -13,6 +13,14 @@
  * transform of omega_{g,n}: omega_{g,n} = int prod_i L_i e^{-z_i L_i} dL_i V_{g,n}(L) prod dz_i,
  *     [prod L_i^{2 d_i}] V_{g,n} = W_{g,n}[d] / prod_i (2 d_i + 1)!.
  *
+ * Bessel-type curves (kind SP_CURVE_BESSEL) have a simple pole at the branch point instead:
+ *     y_odd(z) = sum_{k=0}^{K} y_k z^{2k-1},  y_0 != 0,
+ * and their correlators insert Norbury's class Theta (src/theta/theta.h):
+ *     W_{g,n}[d] = (-1)^n y_0^{2-2g-n} prod_i (2d_i+1)!! int_{Mbar_{g,n}} Theta exp(sum_j s_j kappa_j) prod psi_i^{d_i},
+ *     sum_k (2k-1)!! (y_k/y_0) u^k = exp(-sum_{j>=1} s_j u^j),
+ * that is Theta-psi numbers at the times t_k = -p_k, p_k = (2k-1)!! y_k / y_0 (k >= 1), t_0 = 0;
+ * W vanishes in genus 0 and for |d| > g-1.  A curve of either kind is y_0..y_K with the kind.
+ *
  * Two independent routes fill a table of W_{g,n}[d] (d sorted decreasingly, |d| <= 3g-3+n):
  * sp_omega_shift (intersection numbers: the correlator engine at the shifted times, or the volume
  * engine when only s_1 is nonzero) and sp_omega_residue (the topological recursion itself, residues
@@ -32,6 +40,7 @@
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
 #include "correlators/wk.h"
+#include "theta/theta.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -46,6 +55,9 @@ enum {
     SP_LIMIT,          /* estimate beyond the caller's limit, memo limit, memory */
     SP_CANCELLED
 };
+
+/* The kind of a curve: the lowest odd power of z in y is z (Airy type) or 1/z (Bessel type). */
+enum { SP_CURVE_AIRY = 0, SP_CURVE_BESSEL = 1 };
 
 /* Largest 3g-3+n accepted by either route (the correlators have up to 3g-3+2n points). */
 #define SP_MAX_DIM 400
@@ -66,9 +78,11 @@ typedef struct {
     int threads;               /* threads of the volume engine (>= 1) */
     double max_terms;          /* refuse when more correlators are estimated (0: no limit) */
     atomic_int *cancel;   /* polled; may be NULL; not owned */
+    theta_table *theta;        /* Theta-psi numbers for Bessel-type curves (not owned); NULL: a
+                                  table of the Virasoro route made and freed by the call */
 } sp_options;
 
-/* Default options: automatic route, one thread, no term limit, no cancel flag. */
+/* Default options: automatic route, one thread, no term limit, no cancel flag, no Theta table. */
 void sp_options_default(sp_options *o);
 
 /* Empty table (no rows); pair with sp_table_clear in the same context. */
@@ -103,9 +117,24 @@ int sp_times(fmpq_mpoly_struct *s, slong N, const fmpq_mpoly_struct *y, slong K,
 int sp_shift_times(fmpq_mpoly_struct *p, slong N, const fmpq_mpoly_struct *y, slong K,
                    const fmpq_mpoly_ctx_t ctx);
 
+/* sp_times and sp_shift_times for a curve of either kind: for SP_CURVE_BESSEL the weights are
+   (2k-1)!! instead of (2k+1)!!, and the Theta times are t_0 = 0, t_k = -p_k (k >= 1).
+   SP_BADARG for an unknown kind. */
+int sp_times_kind(fmpq_mpoly_struct *s, slong N, int kind, const fmpq_mpoly_struct *y, slong K,
+                  const fmpq_mpoly_ctx_t ctx);
+int sp_shift_times_kind(fmpq_mpoly_struct *p, slong N, int kind, const fmpq_mpoly_struct *y, slong K,
+                        const fmpq_mpoly_ctx_t ctx);
+
+/* Degree of the psi and kappa classes in W_{g,n} (rows with larger |d| vanish): 3g-3+n for the
+   Airy kind, g-1 (what Theta leaves) for the Bessel kind. */
+slong sp_curve_degree(int kind, slong g, slong n);
+
 /* Number of correlators the intersection route evaluates for (g, n) with parts up to K (the
    partitions of the kappa degree times the rows of that psi degree); HUGE_VAL beyond 1e18. */
 double sp_shift_estimate(slong g, slong n, slong K);
+
+/* The same count for a curve of either kind (Theta-psi numbers for SP_CURVE_BESSEL). */
+double sp_shift_estimate_kind(int kind, slong g, slong n, slong K);
 
 /* 1 when sp_omega_shift (not forced to the shift) takes its coefficients from the volume engine:
    g >= 2, n <= 6 and s_j = 0 for 2 <= j <= 3g-3+n; 0 otherwise and on bad input. */
@@ -117,6 +146,12 @@ int sp_shift_uses_volumes(slong g, slong n, const fmpq_mpoly_struct *y, slong K,
    an error code; out is empty on error. */
 int sp_omega_shift(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
                    wk_table *Tw, const sp_options *o, const fmpq_mpoly_ctx_t ctx);
+
+/* sp_omega_shift for a curve of either kind.  SP_CURVE_BESSEL takes Theta-psi numbers from
+   o->theta (or a private table; Tw is then not used and may be NULL); every row with |d| > g-1,
+   and all of genus 0, is zero. */
+int sp_omega_shift_kind(sp_table *out, int kind, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
+                        wk_table *Tw, const sp_options *o, const fmpq_mpoly_ctx_t ctx);
 
 /* Number of memo entries (sorted multi-indices of all (g', n') reached) the residue route may
    need for (g, n), as a double; HUGE_VAL beyond 1e18. */
@@ -130,6 +165,11 @@ double sp_residue_estimate(slong g, slong n);
    SP_RESIDUE_MAX_POINTS); cancel may be NULL. */
 int sp_omega_residue(sp_table *out, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
                      double max_entries, atomic_int *cancel, const fmpq_mpoly_ctx_t ctx);
+
+/* sp_omega_residue for a curve of either kind (for SP_CURVE_BESSEL 1/y_odd starts at z^{+1}).
+   It uses no Theta number: the zeros in genus 0 and beyond |d| = g-1 come out of the residues. */
+int sp_omega_residue_kind(sp_table *out, int kind, slong g, slong n, const fmpq_mpoly_struct *y, slong K,
+                          double max_entries, atomic_int *cancel, const fmpq_mpoly_ctx_t ctx);
 
 /* V = the volume coefficients of W (same rows, each divided by prod (2 d_i + 1)!).
    V may be W. */
