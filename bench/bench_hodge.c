@@ -1,4 +1,4 @@
-/* bench_hodge.c - the two Hodge routes of src/hodge/hodge.h side by side: every
+/* bench_hodge.c - the two Hodge routes of src/engines/hodge/hodge.h side by side: every
  * int_{Mbar_{g,1}} psi_1^a lambda_j lambda_k with 0 <= j <= k <= g and a = 3g-2-j-k >= 0, for
  * g = 1..G, by the Faber-Pandharipande operator (FP) and by Mumford's formula with the pushforward
  * reduction (GRR); one child process per genus and route, each with fresh tables.

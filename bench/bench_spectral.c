@@ -1,4 +1,4 @@
-/* bench_spectral.c - omega_{g,n} of spectral curves (src/spectral/spectral.h) by the intersection
+/* bench_spectral.c - omega_{g,n} of spectral curves (src/engines/spectral/spectral.h) by the intersection
  * route (sp_omega_shift_kind: psi correlators at the shifted KdV times, the volume engine when only
  * kappa_1 appears, Theta-psi numbers for a Bessel-type curve) and by the recursion's residues
  * (sp_omega_residue_kind), side by side in one run.

@@ -1,4 +1,4 @@
-/* bench_theta.c - wall-clock time and peak memory of the Theta engine (src/theta/).
+/* bench_theta.c - wall-clock time and peak memory of the Theta engine (src/engines/theta/).
  *
  * Usage:  bench_theta psi G     every Theta-psi number <Theta | tau_d>_G with all d_i >= 1 (the
  *                                partitions of G-1; the others follow by the tau_0 equation), by

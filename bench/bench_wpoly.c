@@ -1,5 +1,5 @@
 /* bench_wpoly.c - wall-clock time and peak memory of the few-point volume polynomials
- * (src/volumes/wpoly.h, all coefficients of V_{g,n}(L)), and the same coefficients by the
+ * (src/engines/volumes/wpoly.h, all coefficients of V_{g,n}(L)), and the same coefficients by the
  * reduction (pf_integral of psi^a kappa_1^{D-|a|} for every sorted a, one fresh wk_table).
  *
  * Usage:  bench_wpoly G N THREADS   one engine run

@@ -1,5 +1,5 @@
 /* Grammar of the psikappa language. Actions only call the syntax-tree
-   constructors of src/ast.h, so this file reads as the grammar itself. */
+   constructors of src/syntax/ast.h, so this file reads as the grammar itself. */
 %define api.pure full
 %define parse.error custom
 %locations

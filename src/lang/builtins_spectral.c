@@ -1,7 +1,7 @@
 /* Spectral curves in the language: curve(x, y) normalises a curve with one simple branch point at
    z = 0 to x = z^2/2 (a series in z holding the odd part of y; curve_over_z in
    builtins_spectral_bessel.c makes the Bessel-type curves y = w/z, held as z*y_odd); omega, omega_coeff, curve_volume,
-   curve_times and curve_kdv read it (src/spectral/spectral.h); sin, cos, sinh, cosh of series
+   curve_times and curve_kdv read it (src/engines/spectral/spectral.h); sin, cos, sinh, cosh of series
    build the usual curves.  Conventions: docs/conventions.md, "Spectral curves". */
 #include <stdlib.h>
 #include <string.h>

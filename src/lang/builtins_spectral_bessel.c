@@ -1,6 +1,6 @@
 /* Spectral curves of Bessel type in the language: curve_over_z(x, w) is the curve x = c*z^2,
    y = w/z.  When w(0) != 0 the odd part of y has a simple pole at the branch point and the
-   correlators insert Norbury's class Theta (src/spectral/spectral.h, kind SP_CURVE_BESSEL); the
+   correlators insert Norbury's class Theta (src/engines/spectral/spectral.h, kind SP_CURVE_BESSEL); the
    value holds z*y_odd (an even series with a nonzero constant term), which is how omega and the
    other readers tell the kinds apart.  When w(0) = 0, y = w/z is an ordinary curve and the value is
    the one curve(x, w/z) would give.  Conventions: docs/conventions.md, "Spectral curves". */

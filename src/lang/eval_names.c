@@ -109,7 +109,7 @@ static int names_volume_index(interp *I, scope *s, const node *e, const char *wh
 }
 
 /* V_{g,n}: the volume polynomial V_{g,n}(L_1..L_n), binding L_1..L_n; VTheta_{g,n} (theta): the
-   super volume polynomial V^Theta_{g,n}(L_1..L_n) of src/theta_lang_values.c, the same way. */
+   super volume polynomial V^Theta_{g,n}(L_1..L_n) of src/lang/theta_lang_values.c, the same way. */
 static value *names_volume(interp *I, scope *s, const node *n, int theta)
 {
     if (n->list->len != 2)

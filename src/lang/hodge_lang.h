@@ -1,4 +1,4 @@
-/* The language's bridge to the Hodge engine (src/hodge/): the names lambda_j and ch_k, and
+/* The language's bridge to the Hodge engine (src/engines/hodge/): the names lambda_j and ch_k, and
    int_{g,n} of integrands that contain them (hodge_lang.c). */
 #ifndef PSIKAPPA_HODGE_LANG_H
 #define PSIKAPPA_HODGE_LANG_H

@@ -1,6 +1,6 @@
 /* The Hodge routes of int_{g,n} (integrands with lambda_j or ch_k): the Faber-Pandharipande
-   operator (src/hodge/hodge_fp.c) answers, Mumford's Grothendieck-Riemann-Roch formula
-   (src/hodge/hodge_grr.c) checks it term by term. */
+   operator (src/engines/hodge/hodge_fp.c) answers, Mumford's Grothendieck-Riemann-Roch formula
+   (src/engines/hodge/hodge_grr.c) checks it term by term. */
 #include <stdio.h>
 
 #include "cancel.h"

@@ -1,5 +1,5 @@
 /* The reference route of int_{g,n}: the class expanded into psi-kappa monomials, each reduced
-   to Witten-Kontsevich correlators by the pushforward (src/correlators/pushforward.c) and
+   to Witten-Kontsevich correlators by the pushforward (src/engines/correlators/pushforward.c) and
    memoised for the session. Its check is the time shift (route_time_shift.c). */
 #include <stdlib.h>
 #include <string.h>

@@ -1,7 +1,7 @@
 /* The Theta routes of int_{g,n} (Theta-linear integrands; the router splits off the rest): each
    term Theta * R becomes <Theta | ...>_g numbers by the pushforward on the Virasoro table
-   (src/theta/theta_kappa.c); the check recomputes every monomial by the time shift on the KdV
-   table (src/theta/theta_shift.c). */
+   (src/engines/theta/theta_kappa.c); the check recomputes every monomial by the time shift on the KdV
+   table (src/engines/theta/theta_shift.c). */
 #include <stdio.h>
 
 #include "classes/cpoly.h"
@@ -76,7 +76,7 @@ static int theta_run_term(void *data, const slong *psi, slong n, const slong *km
 }
 
 /* Adds the multiset partitions of one monomial's kappa factors (its number of Theta correlator
-   terms, the count of src/correlators/pushforward.c) to the double at data. */
+   terms, the count of src/engines/correlators/pushforward.c) to the double at data. */
 static int theta_cost_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                            const fmpq_mpoly_t coeff)
 {

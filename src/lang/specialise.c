@@ -1,7 +1,7 @@
 /* F_{g} with t_k = ..., order x^N: the specialisation of the Witten-Kontsevich
    free energy at times given by rules, and FTheta_{g} with ... (node op 'T')
    that of the Brezin-Gross-Witten free energy of the Theta-psi numbers. The
-   rules are evaluated lazily, only for the k the plan (src/series/spec.h)
+   rules are evaluated lazily, only for the k the plan (src/engines/series/spec.h)
    asks for. */
 #include <ctype.h>
 #include <stdlib.h>

@@ -3,7 +3,7 @@
  * Theta_{g,n} has degree 2g-2+n, so int_{Mbar_{g,n}} Theta * R only sees the part of R of degree
  * g-1 = (3g-3+n) - (2g-2+n).  Each additive term of the integrand is classified: without Theta
  * it goes to the ordinary integral; Theta times a Theta-free class R goes to the Theta pushforward
- * (src/theta/theta_kappa.c) after R is expanded up to degree g-1; a term with Theta^2 is zero,
+ * (src/engines/theta/theta_kappa.c) after R is expanded up to degree g-1; a term with Theta^2 is zero,
  * because 2(2g-2+n) > 3g-3+n whenever g + n > 1, which holds on every space where Theta is not
  * already zero (genus 0).  Theta inside exp() or added to Theta-free classes inside a product is
  * refused with a message, as is anything the classification cannot read.

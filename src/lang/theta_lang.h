@@ -1,4 +1,4 @@
-/* The language side of Norbury's class Theta (the engine is src/theta/): the name Theta as a
+/* The language side of Norbury's class Theta (the engine is src/engines/theta/): the name Theta as a
    class, int_{g,n} of integrands holding Theta, <Theta | tau_...>_g, supervolume(g, n). */
 #ifndef PSIKAPPA_THETA_LANG_H
 #define PSIKAPPA_THETA_LANG_H

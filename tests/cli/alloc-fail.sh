@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Allocation-failure injection: for a few short scripts, makes the k-th
 # allocation through the memory hooks fail (PSIKAPPA_FAIL_ALLOC=k, see
-# src/memory.h), for k = 1, 2, ... up to the number of allocations the script
+# src/lang/memory.h), for k = 1, 2, ... up to the number of allocations the script
 # makes (every k for the first 60, then a stride that keeps the whole test
 # under about a minute), and requires each run to end cleanly: exit status 0
 # (the failing allocation was not needed) or 1 with an "out of memory" error,

@@ -1,6 +1,6 @@
 /* test_engine_version.c - the results store must never answer a question whose meaning changed.
  *
- * The store keys every answer by RESULTS_ENGINE_VERSION (src/engine_version.h).  This test runs
+ * The store keys every answer by RESULTS_ENGINE_VERSION (src/lang/engine_version.h).  This test runs
  * the fixed questions of engine_answers.pk through the interpreter (store off) and compares the
  * printed answers with the record engine_answers.txt, whose first line is the version they were
  * recorded under:
@@ -95,7 +95,7 @@ int main(int argc, char **argv)
             int same_answers = strcmp(nl + 1, now) == 0;
             UNIT_CHECK(&rep, !same_version || same_answers,
                        "the engine's answers to %s changed but the store's engine version (%s) did not: "
-                       "bump RESULTS_ENGINE_VERSION in src/engine_version.h so that old stored answers are "
+                       "bump RESULTS_ENGINE_VERSION in src/lang/engine_version.h so that old stored answers are "
                        "not reused, then refresh the record with: build/test_engine_version --refresh",
                        ANSWERS_SCRIPT, RESULTS_ENGINE_VERSION);
             UNIT_CHECK(&rep, same_version, "the record %s is for version %s, the engine is %s: refresh it with "

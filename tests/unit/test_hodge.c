@@ -1,4 +1,4 @@
-/* test_hodge.c - Hodge integrals (src/hodge/hodge.h): published values and closed formulas on both
+/* test_hodge.c - Hodge integrals (src/engines/hodge/hodge.h): published values and closed formulas on both
  * routes, Mumford's relation as a property test, the lambda-to-ch expansion and every error code.
  *
  * 1. int_{Mbar_{1,1}} lambda_1 = 1/24 and int_{Mbar_2} lambda_1 lambda_2 = 1/5760.

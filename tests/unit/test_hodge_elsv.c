@@ -1,5 +1,5 @@
 /* test_hodge_elsv.c - the ELSV formula: simple Hurwitz numbers from Hodge integrals (both routes of
- * src/hodge/hodge.h) against an independent count through characters of the symmetric group.
+ * src/engines/hodge/hodge.h) against an independent count through characters of the symmetric group.
  *
  * T. Ekedahl, S. Lando, M. Shapiro, A. Vainshtein, "Hurwitz numbers and intersections on moduli
  * spaces of curves", Invent. Math. 146 (2001) 297-327 (normalisation from memory, confirmed by the

@@ -1,4 +1,4 @@
-/* test_hodge_routes.c - property test: the two Hodge routes of src/hodge/hodge.h (Mumford's
+/* test_hodge_routes.c - property test: the two Hodge routes of src/engines/hodge/hodge.h (Mumford's
  * Grothendieck-Riemann-Roch reduction with the pushforward at the end, and the operator of
  * Faber-Pandharipande with kappa classes traded for points) agree on random integrands
  * prod psi_i^{d_i} prod kappa_j prod lambda_j prod ch_k on Mbar_{g,n}, g <= 5, n <= 4.

@@ -1,5 +1,5 @@
 /* test_kappashift.c - unit tests for mixed psi-kappa integrals by the Kaufmann-Manin-Zagier time
- * shift (src/correlators/kappashift.h), the second route next to the pushforward formula.
+ * shift (src/engines/correlators/kappashift.h), the second route next to the pushforward formula.
  *
  * 1. Hand-computed cases that fix the sign of the shift (worked out in the comments), and published
  *    values, each with its source.

@@ -1,5 +1,5 @@
-/* test_kdv.c - unit tests for the second correlator route (src/correlators/wk_kdv.h) and the
- * closed forms (wk_closed_form in src/correlators/wk.h).
+/* test_kdv.c - unit tests for the second correlator route (src/engines/correlators/wk_kdv.h) and the
+ * closed forms (wk_closed_form in src/engines/correlators/wk.h).
  *
  * 1. Published values computed by the KdV recursion alone (no DVV table involved).
  * 2. Property test: the KdV recursion against the DVV engine on random correlators of genus <= 8

@@ -1,4 +1,4 @@
-/* test_keys.c - SHA-256 and the keys of the results store (src/sha256.h, src/results_key.h).
+/* test_keys.c - SHA-256 and the keys of the results store (src/support/sha256.h, src/lang/results_key.h).
  *
  * SHA-256: the three messages of FIPS 180-2 Appendix B ("abc", the 448-bit two-block message,
  * one million 'a') with the digests printed there (NIST, Secure Hash Standard, FIPS PUB 180-2,

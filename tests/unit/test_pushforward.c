@@ -1,4 +1,4 @@
-/* test_pushforward.c - unit tests for the psi-kappa expansion (src/correlators/pushforward.h).
+/* test_pushforward.c - unit tests for the psi-kappa expansion (src/engines/correlators/pushforward.h).
  *
  * The main property test compares pf_expand / pf_integral with an independent naive expansion
  * that enumerates all set partitions of the m labelled kappa factors (restricted growth strings),

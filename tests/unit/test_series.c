@@ -1,4 +1,4 @@
-/* test_series.c - unit tests of truncated power series (src/series/tseries.h).
+/* test_series.c - unit tests of truncated power series (src/engines/series/tseries.h).
  *
  * Property tests (identities that must hold exactly, on random input with a fixed seed):
  * exp(log f) = f, log(exp f) = f, revert(revert f) = f, compose(f, revert f) = x, (a*b)/b = a,

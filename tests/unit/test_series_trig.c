@@ -1,4 +1,4 @@
-/* test_series_trig.c - sin, cos, sinh, cosh of truncated series (src/series/tseries_trig.h).
+/* test_series_trig.c - sin, cos, sinh, cosh of truncated series (src/engines/series/tseries_trig.h).
  *
  * 1. Taylor coefficients of sin x, cos x, sinh x, cosh x: (-1)^k/(2k+1)!, ... (textbook series).
  * 2. Property tests (identities): sin^2 + cos^2 = 1 and cosh^2 - sinh^2 = 1, on random series

@@ -1,4 +1,4 @@
-/* test_source.c - unit tests for reading scripts (source_read_script in src/source.h).
+/* test_source.c - unit tests for reading scripts (source_read_script in src/syntax/source.h).
  *
  * The size cap is checked here rather than in tests/hostile because a script over the cap would
  * be a 16 MiB file in the repository: the test makes a sparse file of that length (no disk used)

@@ -1,5 +1,5 @@
 /* test_spec.c - unit tests of the specialisation of the Witten-Kontsevich free energy
- * (src/series/spec.h).
+ * (src/engines/series/spec.h).
  *
  * 1. Weil-Petersson point t_0 = x, t_1 = 0, t_k = (-1)^k/(k-1)! (k >= 2): n! [x^n] F_g must equal
  *    V_{g,n} = int kappa_1^{3g-3+n}/(3g-3+n)! computed independently by pf_integral, for g <= 5,

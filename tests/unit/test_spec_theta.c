@@ -1,6 +1,6 @@
 /* test_spec_theta.c - unit tests of the specialisation of the Brezin-Gross-Witten free energy
  * F^Theta_g = sum over multisets <Theta | prod tau_k^{m_k}>_g prod t_k^{m_k}/m_k!
- * (spec_plan_build_theta in src/series/spec.h).
+ * (spec_plan_build_theta in src/engines/series/spec.h).
  *
  * 1. Random rational times (t_0 without constant term, t_k for k >= 1 with any constant term):
  *    the plan evaluated on the Virasoro table against a direct sum over every multiset (m_0 up to

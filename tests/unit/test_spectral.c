@@ -1,4 +1,4 @@
-/* test_spectral.c - spectral curves with one simple branch point (src/spectral/spectral.h) on
+/* test_spectral.c - spectral curves with one simple branch point (src/engines/spectral/spectral.h) on
  * curves with known answers: the Airy curve, the Weil-Petersson (JT) curve and the (2, 2p+1)
  * minimal-model curves, each by both routes (intersection numbers and the recursion's residues).
  * Random curves are in test_spectral_routes.c.

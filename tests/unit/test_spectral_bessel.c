@@ -1,10 +1,10 @@
 /* test_spectral_bessel.c - Bessel-type spectral curves x = z^2/2, y_odd = sum_k y_k z^(2k-1)
- * (src/spectral/spectral.h, kind SP_CURVE_BESSEL), whose correlators insert Norbury's class Theta:
+ * (src/engines/spectral/spectral.h, kind SP_CURVE_BESSEL), whose correlators insert Norbury's class Theta:
  *   1. the Bessel curve y = 1/z: omega_{g,n} = (-1)^n prod (2d_i+1)!! <Theta | tau_d>_g
  *      (N. Do, P. Norbury, "Topological recursion on the Bessel curve", Commun. Number Theory
  *      Phys. 12 (2018) 53-73: the Bessel curve's correlators are the Brezin-Gross-Witten /
  *      Theta numbers; the sign (-1)^n is our kernel's, docs/conventions.md), with the Theta
- *      numbers from the KdV route of src/theta/ (the intersection route uses the Virasoro one),
+ *      numbers from the KdV route of src/engines/theta/ (the intersection route uses the Virasoro one),
  *      and the residue route against both;
  *   2. published values: int_{Mbar_{1,1}} Theta = 1/8 (P. Norbury, "A new cohomology class on the
  *      moduli space of curves", 2017) and the one-point numbers

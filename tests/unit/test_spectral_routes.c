@@ -1,5 +1,5 @@
 /* test_spectral_routes.c - property test: the two routes to omega_{g,n} of a spectral curve
- * (src/spectral/spectral.h) agree, the intersection numbers at the Kaufmann-Manin-Zagier shifted
+ * (src/engines/spectral/spectral.h) agree, the intersection numbers at the Kaufmann-Manin-Zagier shifted
  * times against the topological recursion's residues, on random curves:
  *   1. 2000 random rational curves (times PSIKAPPA_TEST_MULTIPLIER), y_0..y_K with K <= 5 and
  *      random (g, n) with 2g-2+n <= 6;

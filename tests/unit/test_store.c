@@ -1,4 +1,4 @@
-/* test_store.c - unit tests for the results store (src/store.h).
+/* test_store.c - unit tests for the results store (src/store/store.h).
  *
  * Every test works in a fresh temporary folder. Damage is made the way it happens in practice:
  * garbage bytes written over one page, a truncated file, rows edited behind the store's back with

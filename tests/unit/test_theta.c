@@ -1,4 +1,4 @@
-/* test_theta.c - Theta-psi numbers <Theta | tau_d>_g (src/theta/theta.h), both routes.
+/* test_theta.c - Theta-psi numbers <Theta | tau_d>_g (src/engines/theta/theta.h), both routes.
  *
  * 1. Published values, each by the Virasoro route and by the KdV route.
  * 2. Closed forms: the genus-one family and the one-point family (g <= 15).

@@ -1,5 +1,5 @@
 /* test_theta_kappa.c - kappa classes against Theta and the super volume coefficients
- * (src/theta/theta.h).
+ * (src/engines/theta/theta.h).
  *
  * 1. Property test: the set-partition pushforward against the time shift on random integrands,
  *    and both against a third computation written here, the forgetful recursion

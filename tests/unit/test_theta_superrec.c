@@ -1,4 +1,4 @@
-/* test_theta_superrec.c - the super volumes V^Theta_{g,n}(L) of src/theta/theta_volume.c against a
+/* test_theta_superrec.c - the super volumes V^Theta_{g,n}(L) of src/engines/theta/theta_volume.c against a
  * Mirzakhani-type recursion with the kernel of super hyperbolic geometry (property test; the
  * recursion is quoted from memory after D. Stanford, E. Witten, "JT gravity and the ensembles of
  * random matrix theory", 2019, and P. Norbury, "Enumerative geometry via the moduli space of super

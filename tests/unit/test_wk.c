@@ -1,4 +1,4 @@
-/* test_wk.c - unit tests for the psi-correlator engine (src/correlators/wk.h).
+/* test_wk.c - unit tests for the psi-correlator engine (src/engines/correlators/wk.h).
  *
  * Published values name their source; values recalled without a reference at hand are marked
  * "from memory".  String, dilaton, DVV, KdV and the genus-0 product formula are property tests

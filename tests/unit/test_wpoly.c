@@ -1,4 +1,4 @@
-/* test_wpoly.c - the few-point volume polynomials (src/volumes/wpoly.h) against the reduction,
+/* test_wpoly.c - the few-point volume polynomials (src/engines/volumes/wpoly.h) against the reduction,
  * a published polynomial, property tests and engine invariants.
  *
  * Notation: W_a = int psi^a kappa_1^{D-|a|} / (D-|a|)!, D = 3g-3+n, and the coefficient of

@@ -66,7 +66,7 @@ int cx_match_psi_kappa1(const cx *e, slong n, cx_monomial *m);
    (their values unspecified) for any other expression. */
 int cx_match_exp_linear(const cx *e, slong n, fmpq_mpoly_t factor, fmpq_mpoly_t c, fmpq_mpoly_struct *b);
 
-/* Whether e contains a Hodge class (lambda_j or ch_k): such integrands go to src/hodge/. */
+/* Whether e contains a Hodge class (lambda_j or ch_k): such integrands go to src/engines/hodge/. */
 int cx_has_hodge(const cx *e);
 /* The operands x0, x1, ..., xk of a left-nested chain ((x0 op x1) op ...) op xk of nodes of
    the given kind (sums and products built in loops have this shape), in order, so that

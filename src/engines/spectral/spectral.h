@@ -15,7 +15,7 @@
  *
  * Bessel-type curves (kind SP_CURVE_BESSEL) have a simple pole at the branch point instead:
  *     y_odd(z) = sum_{k=0}^{K} y_k z^{2k-1},  y_0 != 0,
- * and their correlators insert Norbury's class Theta (src/theta/theta.h):
+ * and their correlators insert Norbury's class Theta (src/engines/theta/theta.h):
  *     W_{g,n}[d] = (-1)^n y_0^{2-2g-n} prod_i (2d_i+1)!! int_{Mbar_{g,n}} Theta exp(sum_j s_j kappa_j) prod psi_i^{d_i},
  *     sum_k (2k-1)!! (y_k/y_0) u^k = exp(-sum_{j>=1} s_j u^j),
  * that is Theta-psi numbers at the times t_k = -p_k, p_k = (2k-1)!! y_k / y_0 (k >= 1), t_0 = 0;

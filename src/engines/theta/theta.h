@@ -7,7 +7,7 @@
  *     <Theta | tau_{d_1} ... tau_{d_n}>_g = int_{Mbar_{g,n}} Theta_{g,n} psi_1^{d_1} ... psi_n^{d_n}
  * vanish unless d_1 + ... + d_n = g-1.  Two independent routes compute them (theta_vir.c: the
  * Virasoro constraints of the Brezin-Gross-Witten tau function in DVV form; theta_kdv.c: the KdV
- * equation), each with its own memo table of the container of src/correlators/wk_memo.c.
+ * equation), each with its own memo table of the container of src/engines/correlators/wk_memo.c.
  * Both use the one geometric fact <Theta | tau_0 tau_S>_g = (2g-2+|S|) <Theta | tau_S>_g, which
  * follows from Theta_{g,n+1} = psi_{n+1} pi^* Theta_{g,n} (derivation in theta_key.c).
  *

@@ -2,7 +2,7 @@
  * key through the memo (with the tau_0 removal both routes rely on), and a sub-multiset odometer.
  * Not part of the public API.
  *
- * The memo (the container of src/correlators/wk_memo.c) maps a partition d (descending, no zeros)
+ * The memo (the container of src/engines/correlators/wk_memo.c) maps a partition d (descending, no zeros)
  * of g-1 to the integer
  *     X(d) = 2^(4g-1) prod_i (2 d_i + 1)!! <Theta | tau_d>_g ,
  * the same integer for keys with zeros (theta_key.c shows that tau_0 multiplies X by 2g-2+n).

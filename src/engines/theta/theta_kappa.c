@@ -17,7 +17,7 @@
  *     int Theta psi^d prod_j kappa_{b_j} = sum over set partitions P of (-1)^{m-|P|}
  *                                          <Theta | tau_d prod_{B in P} tau_{b_B}>_g .
  * With b = 0 this is the tau_0 equation, consistent with kappa_0 = 2g-2+n.  Equal kappa indices
- * are grouped as in src/correlators/pushforward.c: a multiset partition (blocks beta, vectors of
+ * are grouped as in src/engines/correlators/pushforward.c: a multiset partition (blocks beta, vectors of
  * counts per kappa index, listed in non-increasing lexicographic order) stands for
  * prod_j M_j! / (prod_blocks prod_j beta_j! * prod_{equal blocks} repetitions!) set partitions,
  * all of sign (-1)^(m - #blocks), so kappa_1^m costs one term per partition of m.
