@@ -9,7 +9,6 @@
 #include "diag.h"
 #include "eval.h"
 #include "integrate.h"
-#include "reduction_cost.h"
 #include "util.h"
 #include "verify_account.h"
 #include "failure.h"
@@ -56,7 +55,14 @@ static int integrate_table_ok_est(interp *I, const node *where, slong g, slong n
 int integrate_table_ok(interp *I, const node *where, slong g, slong n)
 {
     double est = wk_estimate_entries(g, n);
-    return integrate_table_ok_est(I, where, g, n, est) && reduction_seconds_ok(I, where, est, 0);
+    if (!integrate_table_ok_est(I, where, g, n, est))
+        return 0;
+    double sec = wk_estimate_seconds(est);
+    if (sec <= I->lim.max_seconds)
+        return 1;
+    diag_error(&where->loc, "this computation needs about %.3g s (%.3g correlator table entries), above the limit "
+                            "of %g s (raise it with --max-seconds S)", sec, est, I->lim.max_seconds);
+    return 0;
 }
 
 static const failure_words integrate_words[] = {

@@ -47,7 +47,7 @@ const char *reduction_cost_refusal(interp *I, const cpoly *P, char *msg, size_t 
     integrate_estimate e = {I, P->g, 0.0, P->n, 0};
     cpoly_foreach_top(P, integrate_estimate_term, &e);
     double entries = integrate_table_estimate(P->g, P->n, e.points, e.terms);
-    double secs = pf_estimate_seconds(P->g, e.terms);
+    double secs = pf_estimate_seconds(P->g, e.terms) + wk_estimate_seconds(entries);
     *seconds = e.table ? secs : 0.0;
     if (!e.table)
         return NULL;

@@ -62,6 +62,9 @@ int wk_table_correlator(fmpq_t res, wk_table *T, slong g, const slong *d, slong 
    multi-indices of genus g' <= g with n' <= n+g-g' points and degree 3g'-3+n' (see wk_estimate.c).
    Cheap (O((3g+n)(g+n)) flops); returns HUGE_VAL when the bound certainly exceeds 1e21, 0 if g<0 or n<0. */
 double wk_estimate_entries(slong g, slong n);
+/* Predicted seconds to fill `entries` table entries; with pf_estimate_seconds for the pushforward
+   sum, the one time model of the reduction. */
+double wk_estimate_seconds(double entries);
 
 /* What wk_closed_form found: no closed form applies, the degree does not match (the answer is 0
    however large g and n are), or a value from a closed formula. */
