@@ -81,8 +81,7 @@ hodge_ctx *hodge_lang_ctx(interp *I)
 }
 
 
-/* Total degree of the lambda and ch factors of a term. */
-static slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax)
+slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax)
 {
     slong s = 0;
     for (slong j = 1; j <= lmax; j++)

@@ -25,6 +25,9 @@ struct hodge_ctx *hodge_lang_ctx(interp *I);
    integrand with every lambda monomial written in ch classes.  Returns 0 after reporting an error. */
 int hodge_lang_explain(interp *I, const node *where, const cpoly *P);
 
+/* Total degree of the lambda and ch factors of a term (multiplicities lmult[1..lmax],
+   cmult[1..cmax]; either may be NULL with its max 0). */
+slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax);
 /* Releases the Hodge engine's memo (called by interp_clear). */
 void hodge_lang_clear(interp *I);
 

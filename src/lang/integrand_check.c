@@ -20,8 +20,7 @@
 /* Degrees listed in a warning before the list is shortened. */
 #define CHECK_MAX_LISTED 6
 
-/* 1 the first time `where` asks, so that an integral in a loop warns once. */
-static int check_first_time(interp *I, const node *where)
+int integrand_first_warning(interp *I, const node *where)
 {
     for (int i = 0; i < I->nwarned; i++)
         if (I->warned[i] == where)
@@ -59,7 +58,7 @@ static void check_list_degrees(strbuf *b, const unsigned char *has, slong cap, s
 static void check_warn_degrees(interp *I, const node *where, slong g, slong n, const unsigned char *has,
                                slong cap, slong maxdeg)
 {
-    if (!check_first_time(I, where))
+    if (!integrand_first_warning(I, where))
         return;
     strbuf b;
     strbuf_init(&b);
@@ -76,7 +75,7 @@ static void check_warn_degrees(interp *I, const node *where, slong g, slong n, c
 /* A number integrated over a space of positive dimension: 0, said once. */
 static void check_warn_number(interp *I, const node *where, slong g, slong n, const value *v)
 {
-    if (fmpq_mpoly_is_zero(v->num, I->ring.ctx) || !check_first_time(I, where))
+    if (fmpq_mpoly_is_zero(v->num, I->ring.ctx) || !integrand_first_warning(I, where))
         return;
     slong D = 3 * g - 3 + n;
     if (scalar_is_pi_only(v->num, &I->ring)) {
@@ -106,7 +105,7 @@ static const cx *check_variable_summand(interp *I, const cx *e, int depth)
 
 static void check_warn_variable(interp *I, const node *where, slong g, slong n, const cx *term)
 {
-    if (!check_first_time(I, where))
+    if (!integrand_first_warning(I, where))
         return;
     char *t = scalar_get_str(term->scalar, &I->ring);
     diag_warning(&where->loc, "the term %s of this integrand is a formal variable (degree 0), not a class: it "

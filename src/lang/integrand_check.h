@@ -9,4 +9,8 @@
    about a formal variable added to a class, which contributes 0. */
 int integrand_is_zero(interp *I, const node *where, slong g, slong n, const value *integrand);
 
+/* 1 the first time `where` asks, so that an integral in a loop warns once (the list every
+   warning about an integral shares). */
+int integrand_first_warning(interp *I, const node *where);
+
 #endif

@@ -23,23 +23,12 @@ typedef struct {
     route_check *check;     /* NULL: the operator; else Mumford's formula, counting its reach */
 } hodge_run;
 
-/* Total degree of the lambda and ch factors of a term. */
-static slong hodge_route_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax)
-{
-    slong s = 0;
-    for (slong j = 1; j <= lmax; j++)
-        s += j * lmult[j];
-    for (slong k = 1; k <= cmax; k++)
-        s += k * cmult[k];
-    return s;
-}
-
 static int hodge_route_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                                      const slong *lmult, slong lmax, const slong *cmult, slong cmax,
                                      const fmpq_mpoly_t coeff)
 {
     hodge_run *R = data;
-    slong kdeg = 0, hdeg = hodge_route_degree(lmult, lmax, cmult, cmax);
+    slong kdeg = 0, hdeg = hodge_lang_degree(lmult, lmax, cmult, cmax);
     (void)psi, (void)coeff;
     if (R->g == 0 && hdeg > 0)
         return 0;               /* E = 0 in genus 0: no work */
@@ -58,7 +47,7 @@ static int hodge_route_term(void *data, const slong *psi, slong n, const slong *
                             const slong *lmult, slong lmax, const slong *cmult, slong cmax, const fmpq_mpoly_t coeff)
 {
     hodge_run *R = data;
-    if (R->g == 0 && hodge_route_degree(lmult, lmax, cmult, cmax) > 0)
+    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0)
         return WK_OK;           /* E = 0 in genus 0 */
     fmpq_t v;
     fmpq_init(v);

@@ -23,6 +23,7 @@
 #include "verify_account.h"
 #include "util.h"
 #include "integrate.h"
+#include "integrand_check.h"
 
 #define THETA_WALK_MAX_DEPTH 4000
 
@@ -179,23 +180,11 @@ int theta_each_term(const cx *e, theta_term_visit fn, void *data)
     return ok;
 }
 
-/* 1 the first time `where` asks (the list the integrand warnings share), so that an integral in
-   a loop warns once. */
-static int theta_first_time(interp *I, const node *where)
-{
-    for (int i = 0; i < I->nwarned; i++)
-        if (I->warned[i] == where)
-            return 0;
-    I->warned = xrealloc(I->warned, (I->nwarned + 1) * sizeof(const node *));
-    I->warned[I->nwarned++] = where;
-    return 1;
-}
-
 /* Says once why an integral with Theta is 0 (genus 0, Theta^2, no cofactor of degree g-1): the
    answer is right, but the question was probably not the one meant. */
 void theta_warn_zero(interp *I, const node *where, slong g, slong n, int why)
 {
-    if (why == 0 || !theta_first_time(I, where))
+    if (why == 0 || !integrand_first_warning(I, where))
         return;
     if (why & THETA_ZERO_GENUS0)
         diag_warning(&where->loc, "Theta is zero on Mbar_{0,%ld} (it vanishes in genus 0): the integral is 0",
