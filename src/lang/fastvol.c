@@ -264,22 +264,6 @@ fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slo
     return NULL;
 }
 
-/* With --verify: the reduction's polynomial, if within its limits, must be
-   the same. Returns fast, or NULL after reporting a disagreement. */
-static value *fastvol_poly_verify(interp *I, const node *where, slong g, slong n, double terms, value *fast)
-{
-    if (!I->verify)
-        return fast;
-    if (terms > I->lim.max_terms)
-        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TERMS);
-    if (wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table)
-        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TABLE);
-    verify_second_begin(I);
-    value *slow = integrate_volume_by_reduction(I, where, g, n);
-    verify_second_end(I);
-    return integrate_compare_routes(I, where, slow, fast);
-}
-
 /* Whether the polynomial engine should take all coefficients of a few-point volume on
    Mbar_{g,n}, the reduction needing `terms` correlator terms: when forced, when the
    reduction would be refused, or for one point once the engine is faster. */
@@ -287,54 +271,5 @@ int fastvol_poly_wanted(interp *I, slong g, slong n, double terms)
 {
     int refused = wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table;
     return I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS);
-}
-
-/* V_{g,n}(L) = int exp(2 pi^2 kappa_1 + sum_i L_i^2 psi_i / 2) from the coefficients w,
-   printed term by term. Returns a new value. */
-static value *fastvol_volume_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
-                                 const int *vars)
-{
-    fmpq_mpoly_t c;
-    fmpq_mpoly_struct b[WPOLY_MAX_POINTS];
-    fmpq_mpoly_init(c, I->ring.ctx);
-    scalar_set_gen(c, &I->ring, SCALAR_PI);
-    fmpq_mpoly_mul(c, c, c, I->ring.ctx);
-    fmpq_mpoly_scalar_mul_si(c, c, 2, I->ring.ctx);
-    for (slong i = 0; i < n; i++) {
-        fmpq_mpoly_init(b + i, I->ring.ctx);
-        scalar_set_gen(b + i, &I->ring, vars[i]);
-        fmpq_mpoly_mul(b + i, b + i, b + i, I->ring.ctx);
-        fmpq_mpoly_scalar_div_si(b + i, b + i, 2, I->ring.ctx);
-    }
-    value *r = fastvol_exp_sum(I, w, idx, nidx, n, D, c, b);
-    r->termwise = 1;
-    for (slong i = 0; i < n; i++)
-        fmpq_mpoly_clear(b + i, I->ring.ctx);
-    fmpq_mpoly_clear(c, I->ring.ctx);
-    return r;
-}
-
-value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled)
-{
-    *handled = 0;
-    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
-        return NULL;
-    slong nidx = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n;
-    slong *idx = xmalloc((size_t)(nidx * n) * sizeof(slong));
-    wpoly_indices(idx, g, n);
-    double terms = fastvol_poly_terms(g, n, idx, nidx);
-    value *r = NULL;
-    int vars[WPOLY_MAX_POINTS];
-    if (fastvol_poly_wanted(I, g, n, terms)) {
-        *handled = 1;
-        fmpq *w = integrate_declare_lengths(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
-        if (w) {
-            r = fastvol_volume_sum(I, w, idx, nidx, n, D, vars);
-            _fmpq_vec_clear(w, nidx);
-            r = fastvol_poly_verify(I, where, g, n, terms, r);
-        }
-    }
-    free(idx);
-    return r;
 }
 

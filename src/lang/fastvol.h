@@ -35,8 +35,4 @@ value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, s
 /* Reports a failure of either volume engine in words (codes of wpvol.h). */
 void fastvol_report(const node *where, int rc);
 
-/* V_{g,n}(L) by the polynomial engine when the reduction would be large (or route_volumes is
-   set): sets *handled when it took it (the result is then NULL after an error). */
-value *fastvol_try_polynomial(interp *I, const node *where, slong g, slong n, int *handled);
-
 #endif

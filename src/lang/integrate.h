@@ -12,15 +12,9 @@ int integrate_explain(interp *I, const node *where, slong g, slong n, const valu
 /* V_{g,n}(L_1..L_n) in Mirzakhani's normalisation, declaring L_1..L_n: by the volume engine
    when it should take it, else by the reduction. */
 value *integrate_volume(interp *I, const node *where, slong g, slong n);
-/* The same by the reduction alone (the check of the volume engine's polynomials). */
-value *integrate_volume_by_reduction(interp *I, const node *where, slong g, slong n);
 /* Declares the formal variables L_1..L_n, their ring indices into vars[0..n);
    returns 0 after reporting an error at where. */
 int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars);
-/* --verify of a value computed outside the router: compares the reference result slow (NULL:
-   out of reach, nothing to compare) with fast. Takes both references; returns fast, or NULL
-   after reporting. */
-value *integrate_compare_routes(interp *I, const node *where, value *slow, value *fast);
 /* <tau_d>_g with the same limits and messages as integrals. */
 value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n);
 

@@ -3,12 +3,17 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <flint/fmpq_vec.h>
+
+#include "correlators/wk.h"
 #include "diag.h"
 #include "fastvol.h"
+#include "verify_account.h"
 #include "integrate.h"
 #include "progress.h"
 #include "route_reduction.h"
 #include "util.h"
+#include "volumes/wpoly.h"
 #include "verify_account.h"
 
 /* Coefficient of L^{2 alpha} pi^{2(D-m)} in V_{g,n}(L), m = |alpha|:
@@ -118,6 +123,74 @@ int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars)
     return 1;
 }
 
+static value *volume_reference(interp *I, const node *where, slong g, slong n);
+static value *volume_compare(interp *I, const node *where, value *slow, value *fast);
+
+/* With --verify: the reduction's polynomial, if within its limits, must be
+   the same. Returns fast, or NULL after reporting a disagreement. */
+static value *volume_engine_verify(interp *I, const node *where, slong g, slong n, double terms, value *fast)
+{
+    if (!I->verify)
+        return fast;
+    if (terms > I->lim.max_terms)
+        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TERMS);
+    if (wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table)
+        return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TABLE);
+    verify_second_begin(I);
+    value *slow = volume_reference(I, where, g, n);
+    verify_second_end(I);
+    return volume_compare(I, where, slow, fast);
+}
+
+/* V_{g,n}(L) = int exp(2 pi^2 kappa_1 + sum_i L_i^2 psi_i / 2) from the coefficients w,
+   printed term by term. Returns a new value. */
+static value *volume_engine_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
+                                 const int *vars)
+{
+    fmpq_mpoly_t c;
+    fmpq_mpoly_struct b[WPOLY_MAX_POINTS];
+    fmpq_mpoly_init(c, I->ring.ctx);
+    scalar_set_gen(c, &I->ring, SCALAR_PI);
+    fmpq_mpoly_mul(c, c, c, I->ring.ctx);
+    fmpq_mpoly_scalar_mul_si(c, c, 2, I->ring.ctx);
+    for (slong i = 0; i < n; i++) {
+        fmpq_mpoly_init(b + i, I->ring.ctx);
+        scalar_set_gen(b + i, &I->ring, vars[i]);
+        fmpq_mpoly_mul(b + i, b + i, b + i, I->ring.ctx);
+        fmpq_mpoly_scalar_div_si(b + i, b + i, 2, I->ring.ctx);
+    }
+    value *r = fastvol_exp_sum(I, w, idx, nidx, n, D, c, b);
+    r->termwise = 1;
+    for (slong i = 0; i < n; i++)
+        fmpq_mpoly_clear(b + i, I->ring.ctx);
+    fmpq_mpoly_clear(c, I->ring.ctx);
+    return r;
+}
+
+static value *volume_by_engine(interp *I, const node *where, slong g, slong n, int *handled)
+{
+    *handled = 0;
+    if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
+        return NULL;
+    slong nidx = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n;
+    slong *idx = xmalloc((size_t)(nidx * n) * sizeof(slong));
+    wpoly_indices(idx, g, n);
+    double terms = fastvol_poly_terms(g, n, idx, nidx);
+    value *r = NULL;
+    int vars[WPOLY_MAX_POINTS];
+    if (fastvol_poly_wanted(I, g, n, terms)) {
+        *handled = 1;
+        fmpq *w = integrate_declare_lengths(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
+        if (w) {
+            r = volume_engine_sum(I, w, idx, nidx, n, D, vars);
+            _fmpq_vec_clear(w, nidx);
+            r = volume_engine_verify(I, where, g, n, terms, r);
+        }
+    }
+    free(idx);
+    return r;
+}
+
 /* Whether V_{g,n}(L) has few enough terms to be written out; reports when not. */
 static int volume_size_ok(interp *I, const node *where, slong g, slong n)
 {
@@ -170,7 +243,7 @@ static value *volume_by_reduction(interp *I, const node *where, slong g, slong n
     return r;
 }
 
-value *integrate_volume_by_reduction(interp *I, const node *where, slong g, slong n)
+static value *volume_reference(interp *I, const node *where, slong g, slong n)
 {
     if (!integrate_space_ok(I, where, g, n) || !volume_size_ok(I, where, g, n))
         return NULL;
@@ -182,7 +255,7 @@ value *integrate_volume(interp *I, const node *where, slong g, slong n)
     if (!integrate_space_ok(I, where, g, n) || !volume_size_ok(I, where, g, n))
         return NULL;
     int handled = 0;
-    value *fast = n < SCALAR_MAX_VARS ? fastvol_try_polynomial(I, where, g, n, &handled) : NULL;
+    value *fast = n < SCALAR_MAX_VARS ? volume_by_engine(I, where, g, n, &handled) : NULL;
     if (handled || n > SCALAR_MAX_VARS - 1)
         return fast;
     value *r = volume_by_reduction(I, where, g, n);
@@ -191,7 +264,7 @@ value *integrate_volume(interp *I, const node *where, slong g, slong n)
     return r;
 }
 
-value *integrate_compare_routes(interp *I, const node *where, value *slow, value *fast)
+static value *volume_compare(interp *I, const node *where, value *slow, value *fast)
 {
     if (!slow)
         return fast;
