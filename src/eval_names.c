@@ -7,6 +7,7 @@
 #include "diag.h"
 #include "hodge_lang.h"
 #include "interp.h"
+#include "strata_lang.h"
 #include "unavailable.h"
 #include "util.h"
 
@@ -126,6 +127,8 @@ value *eval_subscript(interp *I, scope *s, const node *n)
         return names_volume(I, s, n);
     value *hodge;
     if (!b && hodge_lang_subscript(I, s, n, &hodge))
+        return hodge;
+    if (!b && strata_lang_subscript(I, s, n, &hodge))
         return hodge;
     char *stem = xasprintf("%s_", n->text);
     int reserved = names_check_reserved(&n->loc, stem);

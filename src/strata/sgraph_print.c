@@ -1,5 +1,5 @@
 /* sgraph_print.c - the printed form of a stable graph: vertices numbered from 1 in canonical
- * order, each as g<genus>{<legs>}, then the edges as v-w (a loop is v-v), e.g. the graph of
+ * order, each as g<genus>{<legs>} (no braces without legs), then the edges as v-w (a loop is v-v), e.g. the graph of
  * Mbar_{1,2} with two vertices joined by two edges: [g0{1} g0{2} | 1-2 1-2].
  */
 #include <stdio.h>
@@ -23,15 +23,16 @@ slong sgraph_snprint(char *buf, slong sz, const sgraph *G)
     put(buf, sz, &len, "[");
     for (int v = 0; v < G->nv; v++) {
         int first = 1;
-        snprintf(t, sizeof t, "%sg%d{", v ? " " : "", G->gv[v]);
+        snprintf(t, sizeof t, "%sg%d", v ? " " : "", G->gv[v]);
         put(buf, sz, &len, t);
         for (int i = 0; i < G->n; i++)
             if (G->legv[i] == v) {
-                snprintf(t, sizeof t, "%s%d", first ? "" : ",", i + 1);
+                snprintf(t, sizeof t, "%s%d", first ? "{" : ",", i + 1);
                 put(buf, sz, &len, t);
                 first = 0;
             }
-        put(buf, sz, &len, "}");
+        if (!first)
+            put(buf, sz, &len, "}");
     }
     if (G->ne > 0)
         put(buf, sz, &len, " |");

@@ -1,0 +1,12 @@
+/* The language's bridge to the stable-graph engine (src/strata/): stablegraphs_{g,n},
+   stablegraphs_{g,n,k}, graphcount_{g,n}, mvvolume_{g,n}, multicurves_{g,n} (strata_lang.c). */
+#ifndef PSIKAPPA_STRATA_LANG_H
+#define PSIKAPPA_STRATA_LANG_H
+
+#include "interp.h"
+
+/* When n is one of the names above with its subscripts, sets *out to the value (NULL after an
+   error reported at n) and returns 1; returns 0 for any other name. */
+int strata_lang_subscript(interp *I, scope *s, const node *n, value **out);
+
+#endif
