@@ -49,8 +49,7 @@ static value *sl_engine_error(const node *n, int rc, int g, int np)
                                 "%d legs, %d edges)", g, np, SG_MAX_V, SG_MAX_N, SG_MAX_E));
 }
 
-/* The graphs of (g, n) (k >= 0: with k edges) into L, after the checks; 0 after an error at n. */
-static int sl_graphs(interp *I, const node *n, int g, int np, int k, sg_list *L)
+int strata_lang_graphs(interp *I, const node *n, int g, int np, int k, sg_list *L)
 {
     double est = sg_estimate_count(g, np), lim = I->lim.max_table / STRATA_TABLE_PER_GRAPH;
     if (est > lim) {
@@ -209,7 +208,7 @@ int strata_lang_subscript(interp *I, scope *s, const node *n, value **out)
     slong g, np, k;
     sg_list L;
     *out = NULL;
-    if (!sl_subscripts(I, s, n, kind, &g, &np, &k) || !sl_graphs(I, n, (int) g, (int) np, (int) k, &L))
+    if (!sl_subscripts(I, s, n, kind, &g, &np, &k) || !strata_lang_graphs(I, n, (int) g, (int) np, (int) k, &L))
         return 1;
     if (kind == SL_GRAPHS)
         *out = sl_list_of_graphs(I, &L);

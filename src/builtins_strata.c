@@ -1,0 +1,188 @@
+/* builtins_strata.c - stratumint(g, n, B, C): int_{Mbar_{g,n}} [B] * C for a boundary class B and
+ * a class expression C in psi and kappa (or a number).  B is either
+ *   k                       the k-th graph of stablegraphs_{g,n} (1-based): its stratum class
+ *                           (1/|Aut|) xi_*(1), or
+ *   [D_1, ..., D_m]         the product of boundary divisors, each "irr" (delta_irr) or
+ *                           [h, [legs]] (delta_{h,S}, S the legs on the genus-h side),
+ * with the conventions of docs/conventions.md ("Boundary strata").  Products of divisors are
+ * pulled back one at a time with the excess term (src/strata/sgint.h).
+ */
+#include <stdlib.h>
+#include <string.h>
+#include <flint/fmpq.h>
+#include <flint/fmpq_mpoly.h>
+
+#include "builtins.h"
+#include "class_expand.h"
+#include "classes/cpoly.h"
+#include "diag.h"
+#include "strata/sgint.h"
+#include "strata_lang.h"
+#include "util.h"
+
+static value *bst_fail(const node *at, char *msg)
+{
+    diag_error(&at->loc, "%s", msg);
+    free(msg);
+    return NULL;
+}
+
+/* Reads one divisor ("irr" or [h, [legs]]) of Mbar_{g,n}; 0 after an error at `at`. */
+static int bst_divisor(interp *I, const node *at, const value *v, slong g, slong n, sg_divisor *D)
+{
+    memset(D, 0, sizeof *D);
+    if (v->kind == V_STR && strcmp(v->str, "irr") == 0) {
+        D->irr = 1;
+        if (g >= 1)
+            return 1;
+        bst_fail(at, xasprintf("Mbar_{0,%ld} has no divisor delta_irr (it needs genus >= 1)", (long) n));
+        return 0;
+    }
+    slong h;
+    if (v->kind != V_LIST || v->len != 2 || v->items[1]->kind != V_LIST || v->items[0]->kind != V_NUM
+        || !scalar_get_slong(&h, v->items[0]->num, &I->ring)) {
+        bst_fail(at, xasprintf("a boundary divisor is \"irr\" or [h, [legs]], e.g. [1, [1, 2]] for delta_{1,{1,2}}"));
+        return 0;
+    }
+    const value *S = v->items[1];
+    int ns = 0;
+    D->h = (int) h;
+    for (slong i = 0; i < S->len; i++) {
+        slong leg;
+        if (S->items[i]->kind != V_NUM || !scalar_get_slong(&leg, S->items[i]->num, &I->ring) || leg < 1 || leg > n
+            || (D->S >> (leg - 1) & 1)) {
+            bst_fail(at, xasprintf("the legs of a divisor of Mbar_{%ld,%ld} are distinct integers in 1..%ld", (long) g,
+                                   (long) n, (long) n));
+            return 0;
+        }
+        D->S |= 1UL << (leg - 1);
+        ns++;
+    }
+    if (h < 0 || h > g || 2 * h - 1 + ns <= 0 || 2 * (g - h) - 1 + (n - ns) <= 0) {
+        bst_fail(at, xasprintf("delta_{%ld,S} with %d legs on the genus-%ld side does not exist on Mbar_{%ld,%ld} "
+                               "(both sides must be stable)", (long) h, ns, (long) h, (long) g, (long) n));
+        return 0;
+    }
+    return 1;
+}
+
+/* L = the class B (argument 2) on Mbar_{g,n}, *codim its degree; 0 after an error. */
+static int bst_boundary(interp *I, const node *call, value *B, slong g, slong n, sg_terms *L, slong *codim)
+{
+    const node *at = call->list->items[2];
+    sgraph G;
+    if (B->kind == V_NUM) {
+        slong k;
+        sg_list all;
+        if (!scalar_get_slong(&k, B->num, &I->ring) || k < 1) {
+            bst_fail(at, xasprintf("expected a graph number k >= 1 (the k-th of stablegraphs_{g,n}) or a list of divisors"));
+            return 0;
+        }
+        if (!strata_lang_graphs(I, at, (int) g, (int) n, -1, &all))
+            return 0;
+        if (k > all.len) {
+            bst_fail(at, xasprintf("Mbar_{%ld,%ld} has %ld stable graphs, not %ld", (long) g, (long) n, (long) all.len,
+                                   (long) k));
+            sg_list_clear(&all);
+            return 0;
+        }
+        G = all.gr[k - 1];
+        sg_list_clear(&all);
+        *codim = G.ne;
+        return sg_terms_push_stratum(L, &G) == SG_OK;
+    }
+    if (B->kind != V_LIST || B->len == 0) {
+        bst_fail(at, xasprintf("expected a graph number or a nonempty list of boundary divisors"));
+        return 0;
+    }
+    *codim = B->len;
+    for (slong i = 0; i < B->len; i++) {
+        sg_divisor D;
+        if (!bst_divisor(I, at, B->items[i], g, n, &D))
+            return 0;
+        int rc;
+        if (i == 0) {
+            sg_divisor_graph(&G, (int) g, (int) n, &D);
+            rc = sg_terms_push_stratum(L, &G);
+        } else {
+            sg_terms P;
+            sg_terms_init(&P);
+            rc = sg_terms_times_divisor(&P, L, &D, 0);
+            sg_terms_clear(L);
+            *L = P;
+        }
+        if (rc != SG_OK) {
+            bst_fail(at, xasprintf("this product of divisors is beyond the stable-graph engine's limits"));
+            return 0;
+        }
+    }
+    return 1;
+}
+
+typedef struct {
+    interp *I;
+    const sg_terms *L;
+    fmpq_mpoly_struct *acc;
+    int rc;
+} bst_run;
+
+static int bst_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax, const fmpq_mpoly_t coeff)
+{
+    bst_run *R = data;
+    fmpq_t x;
+    fmpq_mpoly_t t;
+    (void) n;
+    if (kmax > SG_KMAX)
+        return R->rc = SG_LIMIT;
+    fmpq_init(x);
+    fmpq_mpoly_init(t, R->I->ring.ctx);
+    R->rc = sg_terms_integral(x, R->I->wk, R->L, psi, kmult, (int) kmax);
+    fmpq_mpoly_scalar_mul_fmpq(t, coeff, x, R->I->ring.ctx);
+    fmpq_mpoly_add(R->acc, R->acc, t, R->I->ring.ctx);
+    fmpq_clear(x);
+    fmpq_mpoly_clear(t, R->I->ring.ctx);
+    return R->rc;
+}
+
+static value *bst_stratumint(interp *I, const node *call, value **args)
+{
+    slong g, n, codim = 0;
+    if (!builtin_get_slong(I, call, args, 0, 0, 1000, &g) || !builtin_get_slong(I, call, args, 1, 0, SG_MAX_N, &n))
+        return NULL;
+    if (2 * g - 2 + n <= 0 || 3 * g - 3 + n > SG_MAX_E || 2 * g - 2 + n > SG_MAX_V)
+        return bst_fail(call, xasprintf(2 * g - 2 + n <= 0 ? "Mbar_{%ld,%ld} is not stable (2g-2+n must be positive)"
+                                                           : "Mbar_{%ld,%ld} is too large for the stable-graph engine",
+                                        (long) g, (long) n));
+    if (args[3]->kind != V_CLASS && args[3]->kind != V_NUM)
+        return bst_fail(call->list->items[3], xasprintf("expected a class expression in psi and kappa, got a %s",
+                                                        value_kind_name(args[3])));
+    sg_terms L;
+    sg_terms_init(&L);
+    value *r = NULL;
+    if (bst_boundary(I, call, args[2], g, n, &L, &codim)) {
+        r = value_new_num(&I->ring);
+        slong dim = 3 * g - 3 + n;
+        if (codim <= dim) {
+            cpoly P;
+            cx *c = value_to_class(args[3]);
+            cpoly_init_degree(&P, g, n, dim - codim, I->lim.max_class_terms, I->ring.ctx);
+            bst_run R = {I, &L, r->num, SG_OK};
+            if (!class_expand_reported(&P, call->list->items[3], c) || cpoly_foreach_top(&P, bst_term, &R) != 0) {
+                if (R.rc != SG_OK)
+                    diag_error(&call->loc, "the vertex integrals of this stratum are beyond the engine's limits");
+                value_release(r);
+                r = NULL;
+            }
+            cx_release(c);
+            cpoly_clear(&P);
+        }
+    }
+    sg_terms_clear(&L);
+    return r;
+}
+
+const builtin builtins_strata[] = {
+    {"stratumint", 4, bst_stratumint,
+     "stratumint(g, n, B, C): int_{Mbar_{g,n}} [B] C, B a graph number or a list of divisors \"irr\" / [h, [legs]]"},
+    {NULL, 0, NULL, NULL},
+};
