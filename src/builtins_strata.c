@@ -19,6 +19,7 @@
 #include "strata/sgint.h"
 #include "strata_lang.h"
 #include "util.h"
+#include "verify_account.h"
 
 static value *bst_fail(const node *at, char *msg)
 {
@@ -67,7 +68,8 @@ static int bst_divisor(interp *I, const node *at, const value *v, slong g, slong
 }
 
 /* L = the class B (argument 2) on Mbar_{g,n}, *codim its degree; 0 after an error. */
-static int bst_boundary(interp *I, const node *call, value *B, slong g, slong n, sg_terms *L, slong *codim)
+static int bst_boundary(interp *I, const node *call, value *B, slong g, slong n, sg_terms *L, slong *codim,
+                        int reverse)
 {
     const node *at = call->list->items[2];
     sgraph G;
@@ -96,12 +98,13 @@ static int bst_boundary(interp *I, const node *call, value *B, slong g, slong n,
         return 0;
     }
     *codim = B->len;
-    for (slong i = 0; i < B->len; i++) {
+    for (slong j = 0; j < B->len; j++) {
+        slong i = reverse ? B->len - 1 - j : j;
         sg_divisor D;
         if (!bst_divisor(I, at, B->items[i], g, n, &D))
             return 0;
         int rc;
-        if (i == 0) {
+        if (j == 0) {
             sg_divisor_graph(&G, (int) g, (int) n, &D);
             rc = sg_terms_push_stratum(L, &G);
         } else {
@@ -144,22 +147,14 @@ static int bst_term(void *data, const slong *psi, slong n, const slong *kmult, s
     return R->rc;
 }
 
-static value *bst_stratumint(interp *I, const node *call, value **args)
+/* int [B] C with the divisors of B multiplied in the given order, or NULL after an error. */
+static value *bst_compute(interp *I, const node *call, value **args, slong g, slong n, int reverse)
 {
-    slong g, n, codim = 0;
-    if (!builtin_get_slong(I, call, args, 0, 0, 1000, &g) || !builtin_get_slong(I, call, args, 1, 0, SG_MAX_N, &n))
-        return NULL;
-    if (2 * g - 2 + n <= 0 || 3 * g - 3 + n > SG_MAX_E || 2 * g - 2 + n > SG_MAX_V)
-        return bst_fail(call, xasprintf(2 * g - 2 + n <= 0 ? "Mbar_{%ld,%ld} is not stable (2g-2+n must be positive)"
-                                                           : "Mbar_{%ld,%ld} is too large for the stable-graph engine",
-                                        (long) g, (long) n));
-    if (args[3]->kind != V_CLASS && args[3]->kind != V_NUM)
-        return bst_fail(call->list->items[3], xasprintf("expected a class expression in psi and kappa, got a %s",
-                                                        value_kind_name(args[3])));
+    slong codim = 0;
     sg_terms L;
     sg_terms_init(&L);
     value *r = NULL;
-    if (bst_boundary(I, call, args[2], g, n, &L, &codim)) {
+    if (bst_boundary(I, call, args[2], g, n, &L, &codim, reverse)) {
         r = value_new_num(&I->ring);
         slong dim = 3 * g - 3 + n;
         if (codim <= dim) {
@@ -178,6 +173,49 @@ static value *bst_stratumint(interp *I, const node *call, value **args)
         }
     }
     sg_terms_clear(&L);
+    return r;
+}
+
+/* --verify: a product of two or more divisors again with the factors pulled back in the
+   reverse order (other vertex degenerations and excess terms at every step), compared. */
+static value *bst_verify(interp *I, const node *call, value **args, slong g, slong n, value *r)
+{
+    if (args[2]->kind != V_LIST || args[2]->len < 2)
+        return verify_unchecked_value(I, call, r, "no second route for a single stratum or divisor");
+    verify_second_begin(I);
+    value *s = bst_compute(I, call, args, g, n, 1);
+    verify_second_end(I);
+    if (s == NULL) {
+        value_release(r);
+        return NULL;
+    }
+    int same = fmpq_mpoly_equal(r->num, s->num, I->ring.ctx);
+    value_release(s);
+    if (!same) {
+        value_release(r);
+        diag_error(&call->loc, "verification failed: the product of divisors differs when taken in the reverse "
+                               "order (please report this input)");
+        return NULL;
+    }
+    verify_checked(I, VERIFY_VALUE, 1);
+    return r;
+}
+
+static value *bst_stratumint(interp *I, const node *call, value **args)
+{
+    slong g, n;
+    if (!builtin_get_slong(I, call, args, 0, 0, 1000, &g) || !builtin_get_slong(I, call, args, 1, 0, SG_MAX_N, &n))
+        return NULL;
+    if (2 * g - 2 + n <= 0 || 3 * g - 3 + n > SG_MAX_E || 2 * g - 2 + n > SG_MAX_V)
+        return bst_fail(call, xasprintf(2 * g - 2 + n <= 0 ? "Mbar_{%ld,%ld} is not stable (2g-2+n must be positive)"
+                                                           : "Mbar_{%ld,%ld} is too large for the stable-graph engine",
+                                        (long) g, (long) n));
+    if (args[3]->kind != V_CLASS && args[3]->kind != V_NUM)
+        return bst_fail(call->list->items[3], xasprintf("expected a class expression in psi and kappa, got a %s",
+                                                        value_kind_name(args[3])));
+    value *r = bst_compute(I, call, args, g, n, 0);
+    if (r != NULL && I->verify)
+        r = bst_verify(I, call, args, g, n, r);
     return r;
 }
 
