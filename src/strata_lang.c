@@ -3,7 +3,9 @@
  *   stablegraphs_{g,n,k}    those with k edges
  *   graphcount_{g,n}        [number with 0 edges, 1 edge, ..., 3g-3+n edges]
  *   mvvolume_{g,n}          the Masur-Veech volume Vol Q_{g,n} (a rational times pi^{6g-6+2n})
- *   multicurves_{g,n}       per graph with edges: [graph, edges, |Aut|, Vol(Gamma), Vol(Gamma)/Vol Q]
+ *   multicurves_{g,n}       per graph with edges: [graph, edges, |Aut|, Vol(Gamma), Vol(Gamma)/Vol Q,
+ *                           primitive part], the last proportional to Mirzakhani's frequency of the
+ *                           multicurve with all weights 1 (mvvol.h)
  * Requests whose estimated number of graphs exceeds --max-table / 30 (about 30 table entries'
  * worth of memory per graph) are refused before any work.
  */
@@ -114,14 +116,14 @@ static value *sl_volumes(interp *I, const node *n, const sg_list *L, int g, int 
 {
     mv_source src = {I->wk, NULL};
     slong e = 6 * g - 6 + 2 * np, rows = 0;
-    fmpq *vol = _fmpq_vec_init(L->len);
+    fmpq *vol = _fmpq_vec_init(L->len), *prim = _fmpq_vec_init(L->len);
     fmpq_t total, share;
     fmpq_init(total);
     fmpq_init(share);
     value *r = NULL;
     int rc = SG_OK;
     for (slong i = 0; i < L->len && rc == SG_OK; i++) {
-        rc = mv_graph(vol + i, NULL, &L->gr[i], &src);
+        rc = mv_graph(vol + i, prim + i, &L->gr[i], &src);
         fmpq_add(total, total, vol + i);
         rows += L->gr[i].ne > 0;
         if (cancel_flag)
@@ -140,7 +142,7 @@ static value *sl_volumes(interp *I, const node *n, const sg_list *L, int g, int 
             fmpz_t aut;
             fmpz_init(aut);
             sgraph_aut(aut, &L->gr[i]);
-            value *row = value_new_list(5, &I->ring);
+            value *row = value_new_list(6, &I->ring);
             row->items[0] = sl_graph_str(I, &L->gr[i]);
             row->items[1] = value_new_si(&I->ring, L->gr[i].ne);
             fmpq_set_fmpz_frac(share, aut, (fmpz[]){1});
@@ -148,11 +150,13 @@ static value *sl_volumes(interp *I, const node *n, const sg_list *L, int g, int 
             row->items[3] = sl_pi_value(I, vol + i, e);
             fmpq_div(share, vol + i, total);
             row->items[4] = value_new_fmpq(&I->ring, share);
+            row->items[5] = value_new_fmpq(&I->ring, prim + i);
             r->items[rows++] = row;
             fmpz_clear(aut);
         }
     }
     _fmpq_vec_clear(vol, L->len);
+    _fmpq_vec_clear(prim, L->len);
     fmpq_clear(total);
     fmpq_clear(share);
     return r;
