@@ -11,11 +11,13 @@
 #include <string.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
+#include <flint/fmpq_vec.h>
 
 #include "builtins.h"
 #include "class_expand.h"
 #include "classes/cpoly.h"
 #include "diag.h"
+#include "strata/mccount.h"
 #include "strata/sgint.h"
 #include "strata_lang.h"
 #include "util.h"
@@ -219,8 +221,63 @@ static value *bst_stratumint(interp *I, const node *call, value **args)
     return r;
 }
 
+/* multicurvepoly(g, n, k, x): P_Gamma(x) of mccount.h for the k-th graph of stablegraphs_{g,n}. */
+static value *bst_multicurvepoly(interp *I, const node *call, value **args)
+{
+    slong g, n, k, var;
+    sg_list all;
+    if (!builtin_get_slong(I, call, args, 0, 0, 1000, &g) || !builtin_get_slong(I, call, args, 1, 0, SG_MAX_N, &n)
+        || !builtin_get_slong(I, call, args, 2, 1, WORD_MAX, &k) || (var = builtin_get_var(I, call, args, 3)) < 0)
+        return NULL;
+    if (2 * g - 2 + n <= 0 || 3 * g - 3 + n > SG_MAX_E || 2 * g - 2 + n > SG_MAX_V)
+        return bst_fail(call, xasprintf("Mbar_{%ld,%ld} is not stable or too large for the stable-graph engine",
+                                        (long) g, (long) n));
+    if (!strata_lang_graphs(I, call->list->items[2], (int) g, (int) n, -1, &all))
+        return NULL;
+    if (k > all.len || all.gr[k - 1].ne == 0) {
+        value *r = bst_fail(call->list->items[2], k > all.len
+            ? xasprintf("Mbar_{%ld,%ld} has %ld stable graphs, not %ld", (long) g, (long) n, (long) all.len, (long) k)
+            : xasprintf("graph %ld of Mbar_{%ld,%ld} has no edge: it is not the dual graph of a multicurve", (long) k,
+                        (long) g, (long) n));
+        sg_list_clear(&all);
+        return r;
+    }
+    slong dim = 3 * g - 3 + n;
+    fmpq *coef = _fmpq_vec_init(dim + 1);
+    value *r = NULL;
+    if (mc_count_poly(coef, &all.gr[k - 1], I->wk) != SG_OK)
+        diag_error(&call->loc, "the vertex integrals of this multicurve are beyond the engine's limits");
+    else {
+        fmpq_mpoly_t x, p, t;
+        fmpq_mpoly_init(x, I->ring.ctx);
+        fmpq_mpoly_init(p, I->ring.ctx);
+        fmpq_mpoly_init(t, I->ring.ctx);
+        scalar_set_gen(x, &I->ring, (int) var);
+        scalar_set_gen(p, &I->ring, SCALAR_PI);
+        r = value_new_num(&I->ring);
+        for (slong j = 0; j <= dim; j++) {
+            fmpq_mpoly_t u;
+            fmpq_mpoly_init(u, I->ring.ctx);
+            fmpq_mpoly_pow_ui(t, x, (ulong) (2 * dim - 2 * j), I->ring.ctx);
+            fmpq_mpoly_pow_ui(u, p, (ulong) (2 * j), I->ring.ctx);
+            fmpq_mpoly_mul(t, t, u, I->ring.ctx);
+            fmpq_mpoly_scalar_mul_fmpq(t, t, coef + j, I->ring.ctx);
+            fmpq_mpoly_add(r->num, r->num, t, I->ring.ctx);
+            fmpq_mpoly_clear(u, I->ring.ctx);
+        }
+        fmpq_mpoly_clear(x, I->ring.ctx);
+        fmpq_mpoly_clear(p, I->ring.ctx);
+        fmpq_mpoly_clear(t, I->ring.ctx);
+    }
+    _fmpq_vec_clear(coef, dim + 1);
+    sg_list_clear(&all);
+    return r;
+}
+
 const builtin builtins_strata[] = {
     {"stratumint", 4, bst_stratumint,
      "stratumint(g, n, B, C): int_{Mbar_{g,n}} [B] C, B a graph number or a list of divisors \"irr\" / [h, [legs]]"},
+    {"multicurvepoly", 4, bst_multicurvepoly,
+     "multicurvepoly(g, n, k, x): the integrated counting polynomial of the multicurve with the k-th graph of stablegraphs_{g,n}"},
     {NULL, 0, NULL, NULL},
 };

@@ -3,7 +3,9 @@
  * simple closed geodesics.
  */
 #include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 
+#include "strata/mccount.h"
 #include "strata/mvvol.h"
 #include "unit.h"
 
@@ -88,6 +90,71 @@ int main(void)
         UNIT_CHECK(&rep, fmpq_equal_si(r, 48), "primitive frequency ratio 48");
         sg_list_clear(&L);
         fmpq_clear(v), fmpq_clear(p), fmpq_clear(nonsep), fmpq_clear(sep), fmpq_clear(r), fmpq_clear(pn), fmpq_clear(ps);
+    }
+    /* The counting polynomials (Weil-Petersson volumes of the cut surface by the pushforward)
+       against the primitive parts (DVV correlators in N_{g,n}): both are Y of the top-degree
+       parts, so prim / (leading coefficient) = c_{g,n} 2^{3-2g-n} (6g-6+2n)! for every graph
+       (property test; the powers of 2 of N_{g,n} and of V^top cancel up to 2^{|V|}, which
+       1/2^{|V|-1} takes back). */
+    for (int g = 0; g <= 3; g++)
+        for (int n = 0; 3 * g - 3 + n <= 6; n++) {
+            sg_list L;
+            int dim = 3 * g - 3 + n;
+            if (2 * g - 2 + n <= 0 || dim < 1 || sg_estimate_count(g, n) > 2e4)
+                continue;
+            fmpq *coef = _fmpq_vec_init(dim + 1);
+            fmpq_t prim, want, r;
+            fmpz_t f;
+            fmpq_init(prim), fmpq_init(want), fmpq_init(r), fmpz_init(f);
+            fmpz_fac_ui(f, (ulong) (4 * g - 4 + n));            /* c_{g,n} 2^{3-2g-n} (6g-6+2n)! */
+            fmpz_mul_2exp(f, f, (ulong) (6 * g - 5 + 2 * n + 3 - 2 * g - n));
+            fmpq_set_fmpz_frac(want, f, (fmpz[]){1});
+            fmpz_fac_ui(f, (ulong) (6 * g - 7 + 2 * n));
+            fmpq_div_fmpz(want, want, f);
+            fmpz_fac_ui(f, (ulong) (6 * g - 6 + 2 * n));
+            fmpq_mul_fmpz(want, want, f);
+            sg_list_init(&L);
+            sg_enumerate(&L, g, n, -1, 0, NULL);
+            int good = 1;
+            for (slong i = 0; i < L.len; i++) {
+                if (L.gr[i].ne == 0)
+                    continue;
+                mv_graph(NULL, prim, &L.gr[i], &dvv);
+                mc_count_poly(coef, &L.gr[i], T);
+                fmpq_div(r, prim, coef + 0);
+                good &= fmpq_equal(r, want);
+            }
+            UNIT_CHECK(&rep, good && L.len > 1, "Mbar_{%d,%d}: counting polynomials against primitive parts", g, n);
+            sg_list_clear(&L);
+            _fmpq_vec_clear(coef, dim + 1);
+            fmpq_clear(prim), fmpq_clear(want), fmpq_clear(r), fmpz_clear(f);
+        }
+
+    /* Genus two, non-separating curve: (1/2) int_0^L x V_{1,2}(x, x) dx with Mirzakhani's
+       V_{1,2}(a, b) = (4pi^2 + a^2 + b^2)(12pi^2 + a^2 + b^2)/192 (Invent. Math. 2007 table;
+       from memory) is (L^6 + 12 pi^2 L^4 + 36 pi^4 L^2)/576 (by hand) */
+    {
+        sg_list L;
+        fmpq coef[4];
+        static const long num[4] = {1, 12, 36, 0};
+        sg_list_init(&L);
+        sg_enumerate(&L, 2, 0, 1, 0, NULL);
+        for (int j = 0; j < 4; j++)
+            fmpq_init(coef + j);
+        for (slong i = 0; i < L.len; i++)
+            if (L.gr[i].nv == 1) {
+                mc_count_poly(coef, &L.gr[i], T);
+                for (int j = 0; j < 4; j++) {
+                    fmpq_t w;
+                    fmpq_init(w);
+                    fmpq_set_si(w, num[j], 576);
+                    UNIT_CHECK(&rep, fmpq_equal(coef + j, w), "genus 2 non-separating count, pi^%d", 2 * j);
+                    fmpq_clear(w);
+                }
+            }
+        for (int j = 0; j < 4; j++)
+            fmpq_clear(coef + j);
+        sg_list_clear(&L);
     }
     wk_table_free(T);
     wk_kdv_table_free(K);
