@@ -17,10 +17,12 @@
 
 #include "cancel.h"
 #include "diag.h"
+#include "correlators/wk_kdv.h"
 #include "strata/mvvol.h"
 #include "strata/sgraph.h"
 #include "strata_lang.h"
 #include "util.h"
+#include "verify_account.h"
 
 #define STRATA_TABLE_PER_GRAPH 30.0
 
@@ -111,6 +113,36 @@ static value *sl_counts(interp *I, const sg_list *L, int dim)
     return r;
 }
 
+/* --verify for mvvolume_{g,n}: every graph again with the correlators of the KdV recursion
+   (its own table) in place of DVV; r is returned, or NULL (released) after a failure. */
+static value *sl_verify_volume(interp *I, const node *n, const sg_list *L, const fmpq_t total, value *r)
+{
+    if (I->wk_kdv == NULL) {
+        I->wk_kdv = wk_kdv_table_new();
+        if (I->wk_kdv == NULL)
+            return verify_unchecked_value(I, n, r, "out of memory for the KdV recursion's table");
+        wk_kdv_table_set_cancel(I->wk_kdv, &cancel_flag);
+        wk_kdv_table_set_limit(I->wk_kdv, I->lim.max_table > 1e15 ? (slong) 1e15 : (slong) I->lim.max_table);
+    }
+    mv_source kdv = {NULL, I->wk_kdv};
+    fmpq_t second;
+    fmpq_init(second);
+    verify_second_begin(I);
+    int rc = mv_volume_of(second, L, &kdv, &cancel_flag);
+    verify_second_end(I);
+    int same = rc == SG_OK && fmpq_equal(second, total);
+    fmpq_clear(second);
+    if (rc != SG_OK)
+        return verify_unchecked_value(I, n, r, "the KdV recursion stopped (limits)");
+    if (!same) {
+        value_release(r);
+        diag_error(&n->loc, "verification failed: the volume with KdV correlators differs (please report this input)");
+        return NULL;
+    }
+    verify_checked(I, VERIFY_VALUE, 1);
+    return r;
+}
+
 /* Vol Q_{g,n} (volume = 1) or the table of multicurves, from the graphs L. */
 static value *sl_volumes(interp *I, const node *n, const sg_list *L, int g, int np, int table)
 {
@@ -131,8 +163,11 @@ static value *sl_volumes(interp *I, const node *n, const sg_list *L, int g, int 
     }
     if (rc != SG_OK)
         sl_engine_error(n, rc, g, np);
-    else if (!table)
+    else if (!table) {
         r = sl_pi_value(I, total, e);
+        if (I->verify)
+            r = sl_verify_volume(I, n, L, total, r);
+    }
     else {
         r = value_new_list(rows, &I->ring);
         rows = 0;

@@ -4,6 +4,7 @@
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
 
+#include "correlators/kappashift.h"
 #include "correlators/pushforward.h"
 #include "sgint.h"
 
@@ -116,6 +117,7 @@ typedef struct {
     slong kv[SG_MAX_V][SG_KMAX + 1];   /* kappa multiplicities at each vertex, being shared out */
     fmpq_t sum;
     int rc;
+    int shift;                         /* vertex integrals by the time shift */
 } int_state;
 
 /* Adds coeff * prod_v (vertex integral) for the current sharing of the kappa factors. */
@@ -132,7 +134,8 @@ static void int_leaf(int_state *S, const fmpz_t coeff)
         for (int h = 0; h < D->nh; h++)
             if (D->vert[h] == v)
                 d[nv++] = D->pe[h] + (h < D->n && S->a != NULL ? S->a[h] : 0);
-        int st = pf_integral(x, S->T, D->gv[v], d, nv, S->kv[v], S->kmax);
+        int st = S->shift ? ks_integral(x, S->T, D->gv[v], d, nv, S->kv[v], S->kmax, NULL)
+                          : pf_integral(x, S->T, D->gv[v], d, nv, S->kv[v], S->kmax);
         if (st != WK_OK) {
             S->rc = st == WK_CANCELLED ? SG_CANCELLED : SG_LIMIT;
             break;
@@ -172,7 +175,8 @@ static void int_share(int_state *S, int j, int v, slong rest, const fmpz_t coeff
     fmpz_clear(c);
 }
 
-int sg_dec_integral(fmpq_t res, wk_table *T, const sg_dec *D, const slong *a, const slong *kmult, int kmax)
+static int dec_integral(fmpq_t res, wk_table *T, const sg_dec *D, const slong *a, const slong *kmult, int kmax,
+                        int shift)
 {
     int_state S;
     static const slong none[1] = {0};
@@ -181,7 +185,7 @@ int sg_dec_integral(fmpq_t res, wk_table *T, const sg_dec *D, const slong *a, co
     if (kmax < 0 || kmax > SG_KMAX)
         return SG_BADARG;
     memset(&S, 0, sizeof S);
-    S.T = T, S.D = D, S.a = a, S.kmult = kmult, S.kmax = kmax;
+    S.T = T, S.D = D, S.a = a, S.kmult = kmult, S.kmax = kmax, S.shift = shift;
     for (int v = 0; v < D->nv; v++)
         for (int j = 1; j <= kmax; j++)
             S.kv[v][j] = D->kap[v][j];
@@ -204,13 +208,19 @@ int sg_dec_integral(fmpq_t res, wk_table *T, const sg_dec *D, const slong *a, co
     return S.rc;
 }
 
-int sg_terms_integral(fmpq_t res, wk_table *T, const sg_terms *L, const slong *a, const slong *kmult, int kmax)
+int sg_dec_integral(fmpq_t res, wk_table *T, const sg_dec *D, const slong *a, const slong *kmult, int kmax)
+{
+    return dec_integral(res, T, D, a, kmult, kmax, 0);
+}
+
+static int terms_integral(fmpq_t res, wk_table *T, const sg_terms *L, const slong *a, const slong *kmult, int kmax,
+                          int shift)
 {
     fmpq_t x;
     fmpq_init(x);
     fmpq_zero(res);
     for (slong i = 0; i < L->len; i++) {
-        int rc = sg_dec_integral(x, T, &L->t[i].d, a, kmult, kmax);
+        int rc = dec_integral(x, T, &L->t[i].d, a, kmult, kmax, shift);
         if (rc != SG_OK) {
             fmpq_zero(res);
             fmpq_clear(x);
@@ -220,6 +230,16 @@ int sg_terms_integral(fmpq_t res, wk_table *T, const sg_terms *L, const slong *a
     }
     fmpq_clear(x);
     return SG_OK;
+}
+
+int sg_terms_integral(fmpq_t res, wk_table *T, const sg_terms *L, const slong *a, const slong *kmult, int kmax)
+{
+    return terms_integral(res, T, L, a, kmult, kmax, 0);
+}
+
+int sg_terms_integral_shift(fmpq_t res, wk_table *T, const sg_terms *L, const slong *a, const slong *kmult, int kmax)
+{
+    return terms_integral(res, T, L, a, kmult, kmax, 1);
 }
 
 /* ---- products with a divisor ---- */

@@ -85,6 +85,10 @@ int sg_dec_integral(fmpq_t res, wk_table *T, const sg_dec *D, const slong *a, co
 /* res = sum of coeff * sg_dec_integral over the terms of L. */
 int sg_terms_integral(fmpq_t res, wk_table *T, const sg_terms *L, const slong *a, const slong *kmult, int kmax);
 
+/* The same with every vertex integral by the Kaufmann-Manin-Zagier time shift (kappashift.h)
+   instead of the set-partition pushforward: the second route of --verify. */
+int sg_terms_integral_shift(fmpq_t res, wk_table *T, const sg_terms *L, const slong *a, const slong *kmult, int kmax);
+
 #ifdef __cplusplus
 }
 #endif
