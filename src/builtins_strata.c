@@ -4,6 +4,7 @@
  *                           (1/|Aut|) xi_*(1), or
  *   [D_1, ..., D_m]         the product of boundary divisors, each "irr" (delta_irr) or
  *                           [h, [legs]] (delta_{h,S}, S the legs on the genus-h side),
+ *   [k, D_1, ..., D_m]      the stratum of the k-th graph times those divisors,
  * with the conventions of docs/conventions.md ("Boundary strata").  Products of divisors are
  * pulled back one at a time with the excess term (src/strata/sgint.h).
  */
@@ -69,40 +70,54 @@ static int bst_divisor(interp *I, const node *at, const value *v, slong g, slong
     return 1;
 }
 
-/* L = the class B (argument 2) on Mbar_{g,n}, *codim its degree; 0 after an error. */
+/* L = the stratum of the k-th graph (value v) of Mbar_{g,n}, *codim its edges; 0 after an error. */
+static int bst_graph(interp *I, const node *at, const value *v, slong g, slong n, sg_terms *L, slong *codim)
+{
+    slong k;
+    sg_list all;
+    if (v->kind != V_NUM || !scalar_get_slong(&k, v->num, &I->ring) || k < 1) {
+        bst_fail(at, xasprintf("expected a graph number k >= 1 (the k-th of stablegraphs_{g,n}) or a list of divisors"));
+        return 0;
+    }
+    if (!strata_lang_graphs(I, at, (int) g, (int) n, -1, &all))
+        return 0;
+    if (k > all.len) {
+        bst_fail(at, xasprintf("Mbar_{%ld,%ld} has %ld stable graphs, not %ld", (long) g, (long) n, (long) all.len,
+                               (long) k));
+        sg_list_clear(&all);
+        return 0;
+    }
+    *codim = all.gr[k - 1].ne;
+    int rc = sg_terms_push_stratum(L, &all.gr[k - 1]);
+    sg_list_clear(&all);
+    return rc == SG_OK;
+}
+
+/* L = the class B (argument 2) on Mbar_{g,n}, *codim its degree; 0 after an error.  B is a graph
+   number, or a list of divisors optionally led by a graph number; `reverse` multiplies the
+   divisors in the reverse order (the graph, when given, stays first). */
 static int bst_boundary(interp *I, const node *call, value *B, slong g, slong n, sg_terms *L, slong *codim,
                         int reverse)
 {
     const node *at = call->list->items[2];
-    sgraph G;
-    if (B->kind == V_NUM) {
-        slong k;
-        sg_list all;
-        if (!scalar_get_slong(&k, B->num, &I->ring) || k < 1) {
-            bst_fail(at, xasprintf("expected a graph number k >= 1 (the k-th of stablegraphs_{g,n}) or a list of divisors"));
-            return 0;
-        }
-        if (!strata_lang_graphs(I, at, (int) g, (int) n, -1, &all))
-            return 0;
-        if (k > all.len) {
-            bst_fail(at, xasprintf("Mbar_{%ld,%ld} has %ld stable graphs, not %ld", (long) g, (long) n, (long) all.len,
-                                   (long) k));
-            sg_list_clear(&all);
-            return 0;
-        }
-        G = all.gr[k - 1];
-        sg_list_clear(&all);
-        *codim = G.ne;
-        return sg_terms_push_stratum(L, &G) == SG_OK;
-    }
+    if (B->kind == V_NUM)
+        return bst_graph(I, at, B, g, n, L, codim);
     if (B->kind != V_LIST || B->len == 0) {
         bst_fail(at, xasprintf("expected a graph number or a nonempty list of boundary divisors"));
         return 0;
     }
-    *codim = B->len;
-    for (slong j = 0; j < B->len; j++) {
-        slong i = reverse ? B->len - 1 - j : j;
+    slong first = 0;
+    *codim = 0;
+    if (B->items[0]->kind == V_NUM) {
+        if (!bst_graph(I, at, B->items[0], g, n, L, codim))
+            return 0;
+        first = 1;
+    }
+    *codim += B->len - first;
+    for (slong j = first; j < B->len; j++) {
+        slong i = reverse ? B->len - 1 - (j - first) : j;
         sg_divisor D;
+        sgraph G;
         if (!bst_divisor(I, at, B->items[i], g, n, &D))
             return 0;
         int rc;
