@@ -78,6 +78,10 @@ int sg_divisor_graph(sgraph *G, int g, int n, const sg_divisor *D);
    classes at a vertex (pull-backs of vertex kappas are not shared out here). */
 int sg_terms_times_divisor(sg_terms *out, const sg_terms *L, const sg_divisor *D, slong max_graphs);
 
+/* out = [A] . [B] by the generic-graph rule of Graber-Pandharipande (sgprod.c), independent of
+   sg_terms_times_divisor; out is emptied first.  SG_BADARG when the types differ. */
+int sg_terms_product_graphs(sg_terms *out, const sgraph *A, const sgraph *B, slong max_graphs);
+
 /* res = int_{prod Mbar_v} xi^*(prod psi_i^{a_i} prod_j kappa_j^{kmult[j]}) * alpha, without any
    1/|Aut| (a may be NULL: no psi; kmult[0] ignored, kmax <= SG_KMAX). */
 int sg_dec_integral(fmpq_t res, wk_table *T, const sg_dec *D, const slong *a, const slong *kmult, int kmax);

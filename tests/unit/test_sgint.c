@@ -165,6 +165,56 @@ static int check_commute(unit_report *rep, int g, int n)
     return nonzero;
 }
 
+/* The generic-graph product [D] . [B] (Graber-Pandharipande) against the pull-back D . [B] for
+   every divisor D and every graph B of Mbar_{g,n}, integrated against psi_1^e kappa_1^{r-e};
+   returns the number of nonzero comparisons. */
+static int check_products(unit_report *rep, int g, int n)
+{
+    sg_list Ds, Bs;
+    int dim = 3 * g - 3 + n, nonzero = 0;
+    sg_list_init(&Ds);
+    sg_list_init(&Bs);
+    sg_enumerate(&Ds, g, n, 1, 0, NULL);
+    sg_enumerate(&Bs, g, n, -1, 0, NULL);
+    for (slong a = 0; a < Ds.len; a++)
+        for (slong b = 0; b < Bs.len; b++) {
+            int r = dim - 1 - Bs.gr[b].ne;
+            if (r < 0)
+                continue;
+            sg_divisor D = divisor_of(&Ds.gr[a]);
+            sg_terms B, P, Q;
+            sg_terms_init(&B);
+            sg_terms_init(&P);
+            sg_terms_init(&Q);
+            sg_terms_push_stratum(&B, &Bs.gr[b]);
+            sg_terms_times_divisor(&P, &B, &D, 0);
+            int rc = sg_terms_product_graphs(&Q, &Ds.gr[a], &Bs.gr[b], 0);
+            for (int e = 0; e <= r && rc == SG_OK; e++) {
+                slong psi[SG_MAX_N] = {0}, k[2] = {0, r - e};
+                fmpq_t x, y;
+                if (n == 0 && e > 0)
+                    break;
+                psi[0] = e;
+                fmpq_init(x);
+                fmpq_init(y);
+                sg_terms_integral(x, T, &P, psi, k, 1);
+                sg_terms_integral(y, T, &Q, psi, k, 1);
+                UNIT_CHECK(rep, fmpq_equal(x, y), "Mbar_{%d,%d}: divisor %ld times graph %ld, psi_1^%d kappa_1^%d", g, n,
+                           (long) a, (long) b, e, r - e);
+                nonzero += !fmpq_is_zero(x);
+                fmpq_clear(x);
+                fmpq_clear(y);
+            }
+            UNIT_CHECK(rep, rc == SG_OK, "generic-graph product failed");
+            sg_terms_clear(&B);
+            sg_terms_clear(&P);
+            sg_terms_clear(&Q);
+        }
+    sg_list_clear(&Ds);
+    sg_list_clear(&Bs);
+    return nonzero;
+}
+
 int main(void)
 {
     unit_report rep = {0, 0};
@@ -245,6 +295,16 @@ int main(void)
         nz += check_commute(&rep, 3, 0);
         UNIT_CHECK(&rep, nz > 20, "commutation checks met only %d nonzero products", nz);
         printf("divisor products commuting: %d nonzero\n", nz);
+        nz = 0;
+        nz += check_products(&rep, 0, 5);
+        nz += check_products(&rep, 0, 6);
+        nz += check_products(&rep, 1, 2);
+        nz += check_products(&rep, 1, 3);
+        nz += check_products(&rep, 2, 0);
+        nz += check_products(&rep, 2, 1);
+        nz += check_products(&rep, 3, 0);
+        UNIT_CHECK(&rep, nz > 50, "generic-graph products met only %d nonzero values", nz);
+        printf("generic-graph products against pull-backs: %d nonzero\n", nz);
     }
 
     for (int i = 0; i < 8; i++)
