@@ -5,6 +5,7 @@
  *   [D_1, ..., D_m]         the product of boundary divisors, each "irr" (delta_irr) or
  *                           [h, [legs]] (delta_{h,S}, S the legs on the genus-h side),
  *   [k, D_1, ..., D_m]      the stratum of the k-th graph times those divisors,
+ *   [k1, k2]                the product of two strata, by the generic-graph rule (sgprod.c),
  * with the conventions of docs/conventions.md ("Boundary strata").  Products of divisors are
  * pulled back one at a time with the excess term (src/strata/sgint.h).
  */
@@ -71,7 +72,8 @@ static int bst_divisor(interp *I, const node *at, const value *v, slong g, slong
 }
 
 /* L = the stratum of the k-th graph (value v) of Mbar_{g,n}, *codim its edges; 0 after an error. */
-static int bst_graph(interp *I, const node *at, const value *v, slong g, slong n, sg_terms *L, slong *codim)
+static int bst_graph(interp *I, const node *at, const value *v, slong g, slong n, sg_terms *L, slong *codim,
+                     sgraph *out)
 {
     slong k;
     sg_list all;
@@ -88,8 +90,41 @@ static int bst_graph(interp *I, const node *at, const value *v, slong g, slong n
         return 0;
     }
     *codim = all.gr[k - 1].ne;
-    int rc = sg_terms_push_stratum(L, &all.gr[k - 1]);
+    if (out != NULL)
+        *out = all.gr[k - 1];
+    int rc = L != NULL ? sg_terms_push_stratum(L, &all.gr[k - 1]) : SG_OK;
     sg_list_clear(&all);
+    return rc == SG_OK;
+}
+
+/* L = [A] . [B] for B = [k1, k2], two graph numbers: by the generic-graph rule, or (second
+   route) by the pull-back of a divisor when one of the two has one edge, else the rule with the
+   factors exchanged. */
+static int bst_two_graphs(interp *I, const node *at, value *B, slong g, slong n, sg_terms *L, slong *codim,
+                          int second)
+{
+    sgraph A, C;
+    slong ca, cb;
+    if (!bst_graph(I, at, B->items[0], g, n, NULL, &ca, &A) || !bst_graph(I, at, B->items[1], g, n, NULL, &cb, &C))
+        return 0;
+    *codim = ca + cb;
+    int rc;
+    if (second && (A.ne == 1 || C.ne == 1)) {
+        const sgraph *D = A.ne == 1 ? &A : &C, *other = A.ne == 1 ? &C : &A;
+        sg_divisor d = {D->nv == 1, D->gv[0], 0};
+        for (int i = 0; i < D->n && D->nv == 2; i++)
+            if (D->legv[i] == 0)
+                d.S |= 1UL << i;
+        sg_terms O;
+        sg_terms_init(&O);
+        rc = sg_terms_push_stratum(&O, other);
+        if (rc == SG_OK)
+            rc = sg_terms_times_divisor(L, &O, &d, 0);
+        sg_terms_clear(&O);
+    } else
+        rc = second ? sg_terms_product_graphs(L, &C, &A, 0) : sg_terms_product_graphs(L, &A, &C, 0);
+    if (rc != SG_OK)
+        bst_fail(at, xasprintf("this product of strata is beyond the stable-graph engine's limits"));
     return rc == SG_OK;
 }
 
@@ -101,15 +136,17 @@ static int bst_boundary(interp *I, const node *call, value *B, slong g, slong n,
 {
     const node *at = call->list->items[2];
     if (B->kind == V_NUM)
-        return bst_graph(I, at, B, g, n, L, codim);
+        return bst_graph(I, at, B, g, n, L, codim, NULL);
     if (B->kind != V_LIST || B->len == 0) {
         bst_fail(at, xasprintf("expected a graph number or a nonempty list of boundary divisors"));
         return 0;
     }
     slong first = 0;
     *codim = 0;
+    if (B->len == 2 && B->items[0]->kind == V_NUM && B->items[1]->kind == V_NUM)
+        return bst_two_graphs(I, at, B, g, n, L, codim, reverse);
     if (B->items[0]->kind == V_NUM) {
-        if (!bst_graph(I, at, B->items[0], g, n, L, codim))
+        if (!bst_graph(I, at, B->items[0], g, n, L, codim, NULL))
             return 0;
         first = 1;
     }
