@@ -209,6 +209,11 @@ static int sl_subscripts(interp *I, scope *s, const node *n, sl_kind kind, slong
     }
     if (!eval_slong(I, s, n->list->items[0], "genus", 0, g) || !eval_slong(I, s, n->list->items[1], "number of legs", 0, np))
         return 0;
+    if (*g > 1000 || *np > 1000) {
+        sl_fail(n, xasprintf("Mbar_{%ld,%ld} is too large for the stable-graph engine (at most %d legs, %d edges, "
+                             "%d vertices)", (long) *g, (long) *np, SG_MAX_N, SG_MAX_E, SG_MAX_V));
+        return 0;
+    }
     if (2 * *g - 2 + *np <= 0) {
         sl_fail(n, xasprintf("Mbar_{%ld,%ld} is not stable (2g-2+n must be positive)", (long) *g, (long) *np));
         return 0;
