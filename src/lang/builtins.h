@@ -19,6 +19,7 @@ extern const builtin builtins_core[];    /* builtins.c, ends with a NULL name */
 extern const builtin builtins_series[];  /* builtins_series.c */
 extern const builtin builtins_toolkit[]; /* toolkit.c: sequences, extrapolation, recognition, plots */
 extern const builtin builtins_spectral[]; /* builtins_spectral.c: spectral curves, sin/cos/sinh/cosh */
+extern const builtin builtins_strata[];   /* builtins_strata.c: integrals against boundary strata */
 /* explain of a spectral-curve call (builtins_spectral.c): 1 when name is one, see spectral_explain. */
 int spectral_explains(scope *s, const char *name);
 /* Prints the dictionary of omega/curve_volume/omega_coeff call; 0 after an error. */

@@ -9,6 +9,7 @@
 #include "hodge_lang.h"
 #include "interp.h"
 #include "theta_lang.h"
+#include "strata_lang.h"
 #include "unavailable.h"
 #include "util.h"
 #include "integrate.h"
@@ -131,6 +132,8 @@ value *eval_subscript(interp *I, scope *s, const node *n)
         return names_volume(I, s, n, n->text[1] != '\0');
     value *hodge;
     if (!b && hodge_lang_subscript(I, s, n, &hodge))
+        return hodge;
+    if (!b && strata_lang_subscript(I, s, n, &hodge))
         return hodge;
     char *stem = xasprintf("%s_", n->text);
     int reserved = names_check_reserved(&n->loc, stem);
