@@ -1,3 +1,4 @@
+#include "hash.h"
 #include "keymap.h"
 
 #include <stdlib.h>
@@ -22,18 +23,10 @@ void keymap_clear(keymap *M)
     memset(M, 0, sizeof(keymap));
 }
 
-static ulong keymap_hash(const slong *key, slong n)
-{
-    ulong h = 1469598103934665603UL ^ (ulong)n;
-    for (slong i = 0; i < n; i++)
-        h = (h ^ (ulong)key[i]) * 1099511628211UL;
-    return h ^ (h >> 29);
-}
-
 static slong keymap_slot(const keymap *M, const slong *key, slong n)
 {
     ulong mask = (ulong)M->nslots - 1;
-    ulong s = keymap_hash(key, n) & mask;
+    ulong s = hash_slongs(key, n) & mask;
     while (M->keys[s] && (M->keys[s][0] != n || memcmp(M->keys[s] + 1, key, n * sizeof(slong)) != 0))
         s = (s + 1) & mask;
     return (slong)s;

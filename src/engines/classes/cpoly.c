@@ -1,3 +1,4 @@
+#include "hash.h"
 #include "cpoly.h"
 
 #include <stdatomic.h>
@@ -76,10 +77,7 @@ static const cpoly_exp *cpoly_term_exps(const cpoly *P, slong i)
 
 static ulong cpoly_hash(const cpoly_exp *e, slong nexp)
 {
-    ulong h = 1469598103934665603UL;
-    for (slong i = 0; i < nexp; i++)
-        h = (h ^ e[i]) * 1099511628211UL;
-    return h;
+    return hash_bytes((const unsigned char *)e, (size_t)nexp * sizeof(cpoly_exp));
 }
 
 static void cpoly_rehash(cpoly *P, slong nslots)

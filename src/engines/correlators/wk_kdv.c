@@ -45,24 +45,10 @@
 #include <stdlib.h>
 #include <string.h>
 #include <flint/fmpz.h>
+#include "hash.h"
 #include "util.h"
 #include "wk_kdv.h"
-
-typedef struct {
-    ulong hash;
-    slong off, n;       /* key = pool[off .. off+n-1] */
-} kdv_entry;
-
-struct wk_kdv_table {
-    slong limit;                    /* maximum entries, 0 = unlimited */
-    atomic_int *cancel;  /* polled before each new entry; not owned */
-    slong nest, max_nest;           /* current and deepest recursion nesting */
-    slong len, alloc;
-    kdv_entry *ent;
-    fmpq *val;
-    slong *slot, nslots;            /* open addressing, -1 = empty; nslots a power of two >= 2 len */
-    slong *pool, pool_len, pool_alloc;
-};
+#include "wk_kdv_internal.h"
 
 /* Working data of one KdV step for X = <tau_a tau_M>_g (M sorted descending, entries >= 2).
    The arrays share one heap block owned by the step, so recursion frames stay small. */
@@ -140,115 +126,6 @@ slong wk_kdv_table_entries(const wk_kdv_table *T)
 slong wk_kdv_table_max_nest(const wk_kdv_table *T)
 {
     return T == NULL ? 0 : T->max_nest;
-}
-
-/* Hash of a key (FNV-style mixing with a 64-bit finaliser).
-   Equal keys give equal hashes. */
-static ulong kdv_memo_hash(const slong *key, slong n)
-{
-    unsigned long long h = 1469598103934665603ULL + (unsigned long long) n;
-    slong i;
-    for (i = 0; i < n; i++) {
-        h ^= (unsigned long long) key[i];
-        h *= 1099511628211ULL;
-        h ^= h >> 29;
-    }
-    h *= 0xff51afd7ed558ccdULL;
-    h ^= h >> 33;
-    return (ulong) h;
-}
-
-/* Index of the entry with this key, or -1 when it is absent.
-   The table is at most half full, so an empty slot always ends the probe. */
-static slong kdv_memo_find(const wk_kdv_table *T, const slong *key, slong n, ulong h)
-{
-    slong mask = T->nslots - 1, s = (slong) (h & (ulong) mask);
-    while (T->slot[s] >= 0) {
-        const kdv_entry *e = T->ent + T->slot[s];
-        if (e->hash == h && e->n == n && memcmp(T->pool + e->off, key, (size_t) n * sizeof(slong)) == 0)
-            return T->slot[s];
-        s = (s + 1) & mask;
-    }
-    return -1;
-}
-
-/* Doubles the slot array and reinserts every entry.
-   WK_LIMIT when memory is exhausted (the table is then unchanged). */
-static int kdv_memo_grow_slots(wk_kdv_table *T)
-{
-    slong ns = 2 * T->nslots, mask = ns - 1, i, s;
-    slong *slot = malloc((size_t) ns * sizeof(slong));
-    if (slot == NULL)
-        return WK_LIMIT;
-    for (i = 0; i < ns; i++)
-        slot[i] = -1;
-    for (i = 0; i < T->len; i++) {
-        for (s = (slong) (T->ent[i].hash & (ulong) mask); slot[s] >= 0; s = (s + 1) & mask)
-            ;
-        slot[s] = i;
-    }
-    free(T->slot);
-    T->slot = slot;
-    T->nslots = ns;
-    return WK_OK;
-}
-
-/* Makes room for one more entry and n more key slongs (new fmpq are initialised to zero).
-   WK_LIMIT when memory is exhausted; moving fmpq structs with realloc is safe. */
-static int kdv_memo_reserve(wk_kdv_table *T, slong n)
-{
-    if (T->len == T->alloc) {
-        slong na = T->alloc < 64 ? 64 : 2 * T->alloc, i;
-        kdv_entry *ent = realloc(T->ent, (size_t) na * sizeof(kdv_entry));
-        fmpq *val;
-        if (ent == NULL)
-            return WK_LIMIT;
-        T->ent = ent;
-        val = realloc(T->val, (size_t) na * sizeof(fmpq));
-        if (val == NULL)
-            return WK_LIMIT;
-        for (i = T->alloc; i < na; i++)
-            fmpq_init(val + i);
-        T->val = val;
-        T->alloc = na;
-    }
-    if (T->pool_len + n > T->pool_alloc) {
-        slong na = T->pool_alloc < 256 ? 256 : 2 * T->pool_alloc;
-        slong *pool;
-        while (na < T->pool_len + n)
-            na *= 2;
-        pool = realloc(T->pool, (size_t) na * sizeof(slong));
-        if (pool == NULL)
-            return WK_LIMIT;
-        T->pool = pool;
-        T->pool_alloc = na;
-    }
-    return WK_OK;
-}
-
-/* Stores key -> x (copied).
-   WK_LIMIT when the entry limit is reached or memory runs out; nothing is stored then. */
-static int kdv_memo_insert(wk_kdv_table *T, const slong *key, slong n, ulong h, const fmpq_t x)
-{
-    slong mask, s;
-    if (T->limit > 0 && T->len >= T->limit)
-        return WK_LIMIT;
-    if (2 * (T->len + 1) > T->nslots && kdv_memo_grow_slots(T) != WK_OK)
-        return WK_LIMIT;
-    if (kdv_memo_reserve(T, n) != WK_OK)
-        return WK_LIMIT;
-    if (n > 0)
-        memcpy(T->pool + T->pool_len, key, (size_t) n * sizeof(slong));
-    T->ent[T->len].hash = h;
-    T->ent[T->len].off = T->pool_len;
-    T->ent[T->len].n = n;
-    fmpq_set(T->val + T->len, x);
-    T->pool_len += n;
-    mask = T->nslots - 1;
-    for (s = (slong) (h & (ulong) mask); T->slot[s] >= 0; s = (s + 1) & mask)
-        ;
-    T->slot[s] = T->len++;
-    return WK_OK;
 }
 
 /* Sorts key[0..n-1] into descending order in place.
@@ -558,7 +435,7 @@ static int kdv_eval(wk_kdv_table *T, const slong *key, slong n, fmpq_t out)
     fmpq_zero(out);
     if (g < 0)
         return WK_OK;
-    h = kdv_memo_hash(key, n);
+    h = hash_slongs(key, n);
     idx = kdv_memo_find(T, key, n, h);
     if (idx >= 0) {
         fmpq_set(out, T->val + idx);

@@ -1,22 +1,13 @@
 /* wk_memo.c - the open-addressing hash table behind wk_table (keys are slong arrays). */
 #include <stdlib.h>
 #include <string.h>
+#include "hash.h"
 #include "wk_internal.h"
 
-/* Hash of a key of length n.
-   Mixes every entry with a multiply-xorshift step, then applies a 64-bit finaliser. */
+/* Hash of a key of length n (the hash every table of the project uses). */
 ulong wk_memo_hash(const slong *key, slong n)
 {
-    unsigned long long h = 0x9e3779b97f4a7c15ULL ^ (unsigned long long) n;
-    slong i;
-    for (i = 0; i < n; i++) {
-        h ^= (unsigned long long) key[i] + 0x632be59bd9b4e019ULL + (h << 6) + (h >> 2);
-        h *= 0xbf58476d1ce4e5b9ULL;
-    }
-    h ^= h >> 31;
-    h *= 0x94d049bb133111ebULL;
-    h ^= h >> 29;
-    return (ulong) h;
+    return hash_slongs(key, n);
 }
 
 /* Index of the entry with this key, or -1 if absent.

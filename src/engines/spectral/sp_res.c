@@ -30,6 +30,7 @@
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
+#include "hash.h"
 #include "spectral.h"
 
 typedef struct {
@@ -52,11 +53,7 @@ static int res_get(sp_res *S, slong g, const slong *d, slong n, const fmpq_mpoly
 /* Hash of a key (length, g, d...). */
 static ulong res_hash(const slong *key)
 {
-    ulong h = 1469598103934665603UL;
-    slong i;
-    for (i = 0; i <= key[0]; i++)
-        h = (h ^ (ulong) key[i]) * 1099511628211UL;
-    return h;
+    return hash_slongs(key, key[0] + 1);
 }
 
 /* Slot of key: where it is stored, or the free slot where it would go. */

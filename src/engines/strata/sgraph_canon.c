@@ -9,6 +9,7 @@
 #include <string.h>
 #include <flint/fmpz.h>
 
+#include "hash.h"
 #include "sgraph.h"
 
 #define SIG_LEN (4 + 2 * SG_MAX_V)
@@ -287,10 +288,7 @@ void sg_list_clear(sg_list *L)
 
 static ulong key_hash(const unsigned char *key)
 {
-    ulong h = 1469598103934665603UL;
-    for (int k = 0; k < SG_KEY_BYTES; k++)
-        h = (h ^ key[k]) * 1099511628211UL;
-    return h;
+    return hash_bytes(key, SG_KEY_BYTES);
 }
 
 /* Slot of key: where it is, or the empty slot where it would go. */
