@@ -38,18 +38,13 @@ typedef struct {
    Returns NULL if memory is exhausted; the caller owns the result. */
 wk_table *wk_table_new(void)
 {
-    slong i;
     wk_table *T = calloc(1, sizeof(wk_table));
     if (T == NULL)
         return NULL;
-    T->nslots = 64;
-    T->slot = malloc((size_t) T->nslots * sizeof(slong));
-    if (T->slot == NULL) {
+    if (!keyset_init(&T->keys)) {
         free(T);
         return NULL;
     }
-    for (i = 0; i < T->nslots; i++)
-        T->slot[i] = -1;
     return T;
 }
 
@@ -57,15 +52,12 @@ wk_table *wk_table_new(void)
    NULL is accepted so that cleanup paths need no special case. */
 void wk_table_free(wk_table *T)
 {
-    slong i;
     if (T == NULL)
         return;
-    for (i = 0; i < T->alloc; i++)
+    for (slong i = 0; i < T->alloc; i++)
         fmpz_clear(T->val + i);
     free(T->val);
-    free(T->ent);
-    free(T->slot);
-    free(T->pool);
+    keyset_clear(&T->keys);
     free(T);
 }
 
@@ -92,7 +84,7 @@ void wk_table_set_cancel(wk_table *T, atomic_int *flag)
 
 slong wk_table_entries(const wk_table *T)
 {
-    return T == NULL ? 0 : T->len;
+    return T == NULL ? 0 : T->keys.len;
 }
 
 /* Merges two descending arrays A (na) and B (nb) into out (na+nb entries), descending.

@@ -4,31 +4,22 @@
  * The memo maps a sorted (descending) multi-index d[0..n-1] to the integer
  *     X(d) = 2^(4g+n-2) * prod_i (2 d_i + 1)!! * <tau_d>_g ,
  * where g is implied by the degree (sum d_i = 3g-3+n).  wk.c explains why X is an integer.
- * Ownership: the table owns the key pool and the fmpz values; entry indices stay valid for the
+ * Ownership: the table owns its keys and the fmpz values; entry indices stay valid for the
  * table's lifetime, but pointers into pool/val do not (arrays are reallocated when they grow).
  */
 #ifndef PSIKAPPA_CORRELATORS_WK_INTERNAL_H
 #define PSIKAPPA_CORRELATORS_WK_INTERNAL_H
 
 #include <stdatomic.h>
+#include "keyset.h"
 #include "wk.h"
-
-typedef struct {
-    ulong hash;   /* full hash of the key, to skip most key comparisons */
-    slong off;    /* start of the key inside the pool */
-    slong n;      /* key length */
-} wk_entry;
 
 struct wk_table {
     slong limit;               /* maximum number of entries, 0 = unlimited */
-    atomic_int *cancel;  /* polled before each new entry; not owned */
-    slong len, alloc;          /* entries in use / allocated in ent and val */
-    wk_entry *ent;
+    atomic_int *cancel;        /* polled before each new entry; not owned */
+    keyset keys;               /* the keys (support/keyset.h); entry i is keys index i */
     fmpz *val;                 /* val[i] = X of entry i */
-    slong *slot;               /* open addressing: -1 = empty, otherwise an entry index */
-    slong nslots;              /* a power of two, kept >= 2*len */
-    slong *pool;               /* all keys, concatenated */
-    slong pool_len, pool_alloc;
+    slong alloc;               /* fmpz allocated (and initialised) in val */
 };
 
 /* Hash of a key of length n.

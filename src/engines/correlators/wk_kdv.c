@@ -67,18 +67,13 @@ static int kdv_eval(wk_kdv_table *T, const slong *key, slong n, fmpq_t out);
    Returns NULL if memory is exhausted; the caller owns the result. */
 wk_kdv_table *wk_kdv_table_new(void)
 {
-    slong i;
     wk_kdv_table *T = calloc(1, sizeof(wk_kdv_table));
     if (T == NULL)
         return NULL;
-    T->nslots = 64;
-    T->slot = malloc((size_t) T->nslots * sizeof(slong));
-    if (T->slot == NULL) {
+    if (!keyset_init(&T->keys)) {
         free(T);
         return NULL;
     }
-    for (i = 0; i < T->nslots; i++)
-        T->slot[i] = -1;
     return T;
 }
 
@@ -86,15 +81,12 @@ wk_kdv_table *wk_kdv_table_new(void)
    NULL is accepted so that cleanup paths need no special case. */
 void wk_kdv_table_free(wk_kdv_table *T)
 {
-    slong i;
     if (T == NULL)
         return;
-    for (i = 0; i < T->alloc; i++)
+    for (slong i = 0; i < T->alloc; i++)
         fmpq_clear(T->val + i);
     free(T->val);
-    free(T->ent);
-    free(T->slot);
-    free(T->pool);
+    keyset_clear(&T->keys);
     free(T);
 }
 
@@ -118,7 +110,7 @@ void wk_kdv_table_set_cancel(wk_kdv_table *T, atomic_int *flag)
    0 for NULL so that callers can report sizes unconditionally. */
 slong wk_kdv_table_entries(const wk_kdv_table *T)
 {
-    return T == NULL ? 0 : T->len;
+    return T == NULL ? 0 : T->keys.len;
 }
 
 /* Deepest nesting reached since the table was created.
