@@ -61,7 +61,7 @@ static int bsp_read_x(interp *I, const node *call, const value *x, slong *z, fmp
         fmpq_mpoly_get_term_exp_ui(e, x->num, 0, I->ring.ctx);
         for (v = 0; v < SCALAR_MAX_VARS; v++)
             if (e[v] != 0)
-                found = (found == -1 && e[v] == 2 && v != SCALAR_PI) ? v : -2;
+                found = (found == -1 && e[v] == 2 && v < SCALAR_PINV) ? v : -2;
         if (found >= 0) {
             fmpq_mpoly_get_term_coeff_fmpq(c, x->num, 0, I->ring.ctx);
             *z = found;

@@ -148,7 +148,7 @@ static int exec_var_one(interp *I, scope *s, const node *d, const char *name)
         return 0;
     int idx = scalar_ring_declare(&I->ring, name);
     if (idx < 0) {
-        diag_error(&d->loc, "too many formal variables (at most %d)", SCALAR_MAX_VARS - 1);
+        diag_error(&d->loc, "too many formal variables (at most %d)", SCALAR_MAX_DECLARED);
         return 0;
     }
     value *v = value_new_num(&I->ring);
@@ -167,9 +167,9 @@ static int exec_var_family(interp *I, scope *s, const node *d)
     free(stem);
     if (reserved)
         return 0;
-    if (hi - lo + 1 > SCALAR_MAX_VARS - 1 - I->ring.nvars) {
+    if (hi - lo + 1 > SCALAR_MAX_DECLARED - I->ring.nvars) {
         diag_error(&d->loc, "declaring %ld variables would pass the limit of %d formal variables",
-                   (long)(hi - lo + 1), SCALAR_MAX_VARS - 1);
+                   (long)(hi - lo + 1), SCALAR_MAX_DECLARED);
         return 0;
     }
     for (slong i = lo; i <= hi; i++) {

@@ -49,8 +49,8 @@ static const value *toolkit_get_numlist(const node *call, value **args, int i, s
     return v;
 }
 
-/* ratios(xs): [x_2/x_1, x_3/x_2, ...], exact. Items with pi or variables
-   are divided only when the quotient is again a polynomial. */
+/* ratios(xs): [x_2/x_1, x_3/x_2, ...], exact. Powers of pi divide always;
+   items with variables are divided only when the quotient is again a polynomial. */
 static value *toolkit_ratios(interp *I, const node *call, value **args)
 {
     const value *xs = toolkit_get_numlist(call, args, 0, 1);
@@ -65,8 +65,8 @@ static value *toolkit_ratios(interp *I, const node *call, value **args)
             msg = xasprintf("xs[%ld] is zero, so xs[%ld]/xs[%ld] is undefined", (long)(i + 1), (long)(i + 2),
                             (long)(i + 1));
         r->items[i] = value_new_num(&I->ring);
-        if (!msg && !fmpq_mpoly_divides(r->items[i]->num, a, b, I->ring.ctx))
-            msg = xasprintf("xs[%ld]/xs[%ld] is not a polynomial in pi and the variables", (long)(i + 2),
+        if (!msg && !scalar_div(r->items[i]->num, a, b, &I->ring))
+            msg = xasprintf("xs[%ld]/xs[%ld] is not a polynomial in the variables (Laurent in pi)", (long)(i + 2),
                             (long)(i + 1));
         if (msg) {
             builtin_fail_at(call, 0, msg);
