@@ -4,6 +4,7 @@
 #include <stdlib.h>
 
 #include "builtins.h"
+#include "real_funcs.h"
 #include "diag.h"
 #include "series_ops.h"
 #include "util.h"
@@ -166,6 +167,8 @@ static value *bs_revert(interp *I, const node *call, value **args)
 
 static value *bs_log(interp *I, const node *call, value **args)
 {
+    if (real_applies(I, args[0]))   /* a number or a real: the natural logarithm */
+        return real_unary(I, call, RF_LOG, args[0]);
     return bs_unary(I, call, args, 1);
 }
 

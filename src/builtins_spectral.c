@@ -17,12 +17,16 @@
 #include "volumes/wpoly.h"
 #include "util.h"
 #include "builtins_spectral.h"
+#include "real_funcs.h"
 #include "verify_account.h"
 
 static value *bsp_trig(interp *I, const node *call, value **args, int which, const char *name)
 {
     if (args[0]->kind == V_NUM && fmpq_mpoly_is_zero(args[0]->num, I->ring.ctx))
         return value_new_si(&I->ring, which == TS_COS || which == TS_COSH);
+    if (real_applies(I, args[0]))   /* a number or a real: the function's real value */
+        return real_unary(I, call, which == TS_SIN ? RF_SIN : which == TS_COS ? RF_COS
+                                 : which == TS_SINH ? RF_SINH : RF_COSH, args[0]);
     if (args[0]->kind != V_SERIES) {
         char *msg = xasprintf("%s() takes a series with zero constant term, e.g. %s(series(2*pi*z, z, 41))",
                               name, name);

@@ -346,6 +346,9 @@ static value *eval_binop(interp *I, scope *s, const node *n)
 /* Compares two scalars; ordering needs rational constants. Returns -2 on error. */
 static int eval_compare_values(interp *I, const node *n, const value *a, const value *b)
 {
+    if ((a->kind == V_REAL && (b->kind == V_REAL || b->kind == V_NUM))
+        || (b->kind == V_REAL && a->kind == V_NUM))
+        return real_compare(I, n, a, b);
     if (a->kind != V_NUM || b->kind != V_NUM) {
         eval_fail(n, "only numbers can be compared");
         return -2;

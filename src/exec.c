@@ -38,6 +38,7 @@ void interp_init(interp *I)
     I->out = sink_stream(&I->sink) ? sink_stream(&I->sink) : stdout;
     I->style.fmt = OUT_EXACT;
     I->style.digits = 20;
+    I->real_digits = 30;
 }
 
 void interp_clear(interp *I)
@@ -323,6 +324,8 @@ static int exec_stmt_kind(interp *I, scope *s, const node *n)
         return exec_table(I, s, n);
     case S_OUTPUT:
         return exec_output(I, s, n);
+    case S_PRECISION:
+        return exec_precision(I, s, n);
     case S_EXPR:
         if (I->explain_all && n->a->kind == N_INTEGRAL) {
             node e = *n;

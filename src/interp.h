@@ -38,6 +38,7 @@ typedef struct interp {
     int depth;               /* current user-function call depth */
     double list_outer;       /* values that the seq lists being built hold per item of a new one (1 outside seq) */
     int explain_all;         /* print the reduction of every integral */
+    slong real_digits;       /* working precision (decimal digits) of reals made by functions (precision D) */
     out_style style;
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
     slong wpv_G, wpv_N;
@@ -102,9 +103,10 @@ void results_save(interp *I, const results_question *q, const fmpq_mpoly_t value
 double results_clock(void);
 void results_close(interp *I);
 
-/* table_{...} E and output FORMAT [digits] (exec_table.c). */
+/* table_{...} E, output FORMAT [digits] and precision DIGITS (exec_table.c). */
 int exec_table(interp *I, scope *s, const node *n);
 int exec_output(interp *I, scope *s, const node *n);
+int exec_precision(interp *I, scope *s, const node *n);
 
 /* load "file" (load.c). */
 int exec_load(interp *I, const node *n);
