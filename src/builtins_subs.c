@@ -185,7 +185,80 @@ static value *builtin_coefficients(interp *I, const node *call, value **args)
     return r;
 }
 
+/* The transforms of a polynomial P in b, term by term (R[j] the coefficient of b^j):
+   gauss (kind 0): b^(2k) -> 4^k k! t^k, i.e. (1/(2t)) int_0^inf b P(b) e^(-b^2/(4t)) db;
+   resolvent (kind 1): b^j -> (j+1)! t^(j+2), i.e. int_0^inf b P(b) e^(-b z) db with t = 1/z. */
+static value *transform_apply(interp *I, const node *call, value **args, int kind)
+{
+    const char *name = kind == 0 ? "gauss_transform" : "resolvent_transform";
+    if (args[0]->kind != V_NUM) {
+        char *msg = xasprintf("%s() takes a number or a polynomial", name);
+        builtin_fail_at(call, 0, msg);
+        free(msg);
+        return NULL;
+    }
+    slong b = builtin_get_var(I, call, args, 1), t = b < 0 ? -1 : builtin_get_var(I, call, args, 2);
+    if (t < 0)
+        return NULL;
+    if (t == b || fmpq_mpoly_degree_si(args[0]->num, t, I->ring.ctx) > 0)
+        return builtin_fail_at(call, 2, "the new variable must be another one, absent from the polynomial");
+    ulong a[SCALAR_MAX_VARS] = {0};
+    a[b] = 1;
+    fmpq_mpoly_struct *R;
+    slong parts = subs_split(I, args[0]->num, a, &R);
+    value *r = value_new_num(&I->ring);
+    fmpq_mpoly_t m;
+    fmpz_t c, f;
+    fmpq_mpoly_init(m, I->ring.ctx);
+    fmpz_init(c);
+    fmpz_init(f);
+    for (slong j = 0; j < parts && r; j++) {
+        if (fmpq_mpoly_is_zero(R + j, I->ring.ctx))
+            continue;
+        if (kind == 0 && j % 2) {
+            value_release(r);
+            r = builtin_fail_at(call, 0, "gauss_transform() needs a polynomial even in its variable (V_{g,n} is)");
+            break;
+        }
+        ulong e[SCALAR_MAX_VARS] = {0};
+        e[t] = kind == 0 ? (ulong)j / 2 : (ulong)j + 2;
+        if (kind == 0) {
+            fmpz_fac_ui(f, (ulong)j / 2);
+            fmpz_one(c);
+            fmpz_mul_2exp(c, c, (ulong)j);   /* 4^k = 2^(2k) = 2^j */
+            fmpz_mul(c, c, f);
+        } else {
+            fmpz_fac_ui(c, (ulong)j + 1);
+        }
+        fmpq_t q;
+        fmpq_init(q);
+        fmpz_set(fmpq_numref(q), c);
+        fmpq_mpoly_zero(m, I->ring.ctx);
+        fmpq_mpoly_set_coeff_fmpq_ui(m, q, e, I->ring.ctx);
+        fmpq_clear(q);
+        fmpq_mpoly_mul(m, m, R + j, I->ring.ctx);
+        fmpq_mpoly_add(r->num, r->num, m, I->ring.ctx);
+    }
+    fmpq_mpoly_clear(m, I->ring.ctx);
+    fmpz_clear(c);
+    fmpz_clear(f);
+    subs_free_parts(I, R, parts);
+    return r;
+}
+
+static value *builtin_gauss(interp *I, const node *call, value **args)
+{
+    return transform_apply(I, call, args, 0);
+}
+
+static value *builtin_resolvent(interp *I, const node *call, value **args)
+{
+    return transform_apply(I, call, args, 1);
+}
+
 const builtin builtins_subs[] = {
+    {"gauss_transform", 3, builtin_gauss, "gauss_transform(P, b, t): b^(2k) -> 4^k k! t^k, (1/2t) int_0^inf b P e^(-b^2/4t) db"},
+    {"resolvent_transform", 3, builtin_resolvent, "resolvent_transform(P, b, u): b^j -> (j+1)! u^(j+2), int_0^inf b P e^(-bz) db at u = 1/z"},
     {"subs", 3, builtin_subs, "subs(P, m, v): P with the variable or monomial m (L_1, L_1^2) replaced by v"},
     {"degree", 2, builtin_degree, "degree(P, x): the degree of P in x (-1 for 0)"},
     {"coefficients", 2, builtin_coefficients, "coefficients(P, x): [c_0, ..., c_d] with P = sum c_k x^k"},
