@@ -114,7 +114,7 @@ static value *names_volume(interp *I, scope *s, const node *n)
     if (!names_volume_index(I, s, n->list->items[0], "genus", &g)
         || !names_volume_index(I, s, n->list->items[1], "number of points", &npts))
         return NULL;
-    return integrate_volume(I, n, g, npts);
+    return volume_cached(I, n, g, npts);
 }
 
 value *eval_subscript(interp *I, scope *s, const node *n)

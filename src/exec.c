@@ -50,6 +50,7 @@ void interp_clear(interp *I)
     hodge_lang_clear(I);
     keymap_clear(&I->integrals);
     fastvol_clear(I);
+    volume_cache_clear(I);
     results_close(I);
     verify_account_free(I);
     free(I->store_path);

@@ -38,6 +38,7 @@ typedef struct interp {
     int depth;               /* current user-function call depth */
     double list_outer;       /* values that the seq lists being built hold per item of a new one (1 outside seq) */
     int explain_all;         /* print the reduction of every integral */
+    struct volume_cache *volcache; /* volume polynomials asked so far (volume_cache.c) */
     slong real_digits;       /* working precision (decimal digits) of reals made by functions (precision D) */
     out_style style;
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
@@ -141,6 +142,9 @@ value *integrate_value(interp *I, const node *where, slong g, slong n, const val
 int integrate_explain(interp *I, const node *where, slong g, slong n, const value *integrand);
 /* V_{g,n}(L_1..L_n) in Mirzakhani's normalisation, declaring L_1..L_n. */
 value *integrate_volume(interp *I, const node *where, slong g, slong n);
+/* The same, kept for the run and in the results store (volume_cache.c); new reference. */
+value *volume_cached(interp *I, const node *where, slong g, slong n);
+void volume_cache_clear(interp *I);
 /* Declares the formal variables L_1..L_n, their ring indices into vars[0..n);
    returns 0 after reporting an error at where. */
 int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars);
