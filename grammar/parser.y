@@ -86,6 +86,7 @@ static node *parser_compare(srcloc at, srcloc left, srcloc op, int cmp, node *a,
 %token <text> SUBNAME "name_{"
 %token LET "'let'" FOR "'for'" IN "'in'" VAR "'var'" PRINT "'print'"
 %token EXPLAIN "'explain'" IF "'if'" THEN "'then'" ELSE "'else'"
+%token PRECISION "'precision'"
 %token LOAD "'load'" OUTPUT "'output'" WITH "'with'" ORDER "'order'" PI "'pi'"
 %token INT_SUB "'int_{'" SUM_SUB "'sum_{'" PROD_SUB "'prod_{'" SEQ_SUB "'seq_{'"
 %token TABLE_SUB "'table_{'" F_SUB "'F_{'" PSI_SUB "'psi_{'" KAPPA_SUB "'kappa_{'"
@@ -143,6 +144,7 @@ stmt
                                                                "(decimal and latex may add a number of digits)"); YYERROR; }
     | OUTPUT NAME                            { $$ = ast_text(S_OUTPUT, @$, $2); }
     | OUTPUT NAME expr                       { $$ = ast_text(S_OUTPUT, @$, $2); $$->a = $3; }
+    | PRECISION expr                         { $$ = ast_unary(S_PRECISION, @$, $2); }
     | expr                                   { $$ = ast_unary(S_EXPR, @$, $1); }
     ;
 

@@ -175,6 +175,11 @@ static int out_latex_put_monomial(strbuf *b, const fmpq_mpoly_t p, slong i, cons
             continue;
         if (any)
             strbuf_putc(b, ' ');
+        any = 1;
+        if (v == SCALAR_PINV) {
+            strbuf_printf(b, "\\pi^{-%lu}", exp[v]);
+            continue;
+        }
         out_latex_put_name(b, R->names[v] ? R->names[v] : "?");
         if (exp[v] > 1)
             strbuf_printf(b, "^{%lu}", exp[v]);
@@ -463,7 +468,7 @@ static const char *out_first_variable(const fmpq_mpoly_t p, const scalar_ring *R
 {
     slong deg[SCALAR_MAX_VARS];
     fmpq_mpoly_degrees_si(deg, p, R->ctx);
-    for (int i = 0; i < SCALAR_PI; i++)
+    for (int i = 0; i < SCALAR_PINV; i++)
         if (deg[i] > 0 && R->names[i])
             return R->names[i];
     return "a formal variable";

@@ -5,6 +5,7 @@
 
 #include "builtins.h"
 #include "real_ops.h"
+#include "real_funcs.h"
 #include "theta_lang.h"
 #include "diag.h"
 #include "series_ops.h"
@@ -49,15 +50,17 @@ static value *builtin_exp(interp *I, const node *call, value **args)
         series_report(call, rc, "exp");
         return NULL;
     }
+    if (real_applies(I, args[0]))
+        return real_unary(I, call, RF_EXP, args[0]);
     if (args[0]->kind != V_NUM) {
-        char *msg = xasprintf("exp() takes a class expression or a power series, got a %s", value_kind_name(args[0]));
+        char *msg = xasprintf("exp() takes a class expression, a power series or a number, got a %s",
+                              value_kind_name(args[0]));
         builtin_fail(call->list->items[0], msg);
         free(msg);
         return NULL;
     }
-    if (fmpq_mpoly_is_zero(args[0]->num, I->ring.ctx))
-        return value_new_si(&I->ring, 1);
-    return builtin_fail(call, "exp() of a nonzero number has no exact value (exp is meant for classes)");
+    return builtin_fail(call, "exp() of a polynomial in formal variables has no value here (substitute numbers "
+                              "first with subs, or make it a series with series(P, x, N))");
 }
 
 /* What argument v is, for "expected an integer, got ...": the number
@@ -225,7 +228,8 @@ const builtin builtins_core[] = {
 
 static const builtin *builtin_find(const char *name)
 {
-    const builtin *tables[] = {builtins_core, builtins_series, builtins_toolkit, builtins_spectral, builtins_strata};
+    const builtin *tables[] = {builtins_core, builtins_series, builtins_toolkit, builtins_spectral, builtins_strata,
+                               builtins_real, builtins_subs};
     for (size_t t = 0; t < sizeof tables / sizeof tables[0]; t++)
         for (const builtin *b = tables[t]; b->name; b++)
             if (strcmp(b->name, name) == 0)

@@ -20,6 +20,11 @@ extern const builtin builtins_series[];  /* builtins_series.c */
 extern const builtin builtins_toolkit[]; /* toolkit.c: sequences, extrapolation, recognition, plots */
 extern const builtin builtins_spectral[]; /* builtins_spectral.c: spectral curves, sin/cos/sinh/cosh */
 extern const builtin builtins_strata[];   /* builtins_strata.c: integrals against boundary strata */
+extern const builtin builtins_real[];    /* real_funcs.c: sqrt, gamma, zeta, besselj, numeric */
+extern const builtin builtins_subs[];     /* builtins_subs.c: subs, degree, coefficients */
+/* P (a number) with the monomial of exponents a replaced by v (number or real); new reference or NULL
+   after reporting at call (builtins_subs.c). */
+value *subs_apply(interp *I, const node *call, const value *p, const ulong *a, const value *v);
 /* explain of a spectral-curve call (builtins_spectral.c): 1 when name is one, see spectral_explain. */
 int spectral_explains(scope *s, const char *name);
 /* Prints the dictionary of omega/curve_volume/omega_coeff call; 0 after an error. */

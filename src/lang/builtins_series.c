@@ -4,6 +4,7 @@
 #include <stdlib.h>
 
 #include "builtins.h"
+#include "real_funcs.h"
 #include "diag.h"
 #include "series_ops.h"
 #include "util.h"
@@ -166,6 +167,8 @@ static value *bs_revert(interp *I, const node *call, value **args)
 
 static value *bs_log(interp *I, const node *call, value **args)
 {
+    if (real_applies(I, args[0]))   /* a number or a real: the natural logarithm */
+        return real_unary(I, call, RF_LOG, args[0]);
     return bs_unary(I, call, args, 1);
 }
 
@@ -176,8 +179,16 @@ static value *bs_at(interp *I, const node *call, value **args)
     value *r = NULL;
     if (!series_arg(I, call, args, 0))
         ;
-    else if (args[1]->kind != V_NUM || !scalar_get_fmpq(x0, args[1]->num, &I->ring))
-        builtin_fail_at(call, 1, "expected a rational number (a decimal such as 0.1 is exact)");
+    else if (args[1]->kind == V_REAL || (args[1]->kind == V_NUM && !scalar_get_fmpq(x0, args[1]->num, &I->ring))) {
+        /* a polynomial, a number in pi or a real: substitute into the known terms */
+        value *p = value_new_num(&I->ring);
+        ulong a[SCALAR_MAX_VARS] = {0};
+        a[args[0]->ser->var] = 1;
+        fmpq_mpoly_set(p->num, args[0]->ser->p, I->ring.ctx);
+        r = subs_apply(I, call, p, a, args[1]);
+        value_release(p);
+    } else if (args[1]->kind != V_NUM)
+        builtin_fail_at(call, 1, "expected a number, a polynomial or a real");
     else {
         r = value_new_num(&I->ring);
         tseries_eval_fmpq(r->num, args[0]->ser, x0, I->ring.ctx);

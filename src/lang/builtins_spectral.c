@@ -19,6 +19,7 @@
 #include "volumes/wpoly.h"
 #include "util.h"
 #include "builtins_spectral.h"
+#include "real_funcs.h"
 #include "verify_account.h"
 #include "integrate.h"
 
@@ -26,6 +27,9 @@ static value *bsp_trig(interp *I, const node *call, value **args, int which, con
 {
     if (args[0]->kind == V_NUM && fmpq_mpoly_is_zero(args[0]->num, I->ring.ctx))
         return value_new_si(&I->ring, which == TS_COS || which == TS_COSH);
+    if (real_applies(I, args[0]))   /* a number or a real: the function's real value */
+        return real_unary(I, call, which == TS_SIN ? RF_SIN : which == TS_COS ? RF_COS
+                                 : which == TS_SINH ? RF_SINH : RF_COSH, args[0]);
     if (args[0]->kind != V_SERIES) {
         char *msg = xasprintf("%s() takes a series with zero constant term, e.g. %s(series(2*pi*z, z, 41))",
                               name, name);
@@ -64,7 +68,7 @@ int bsp_read_x(interp *I, const node *call, const value *x, slong *z, fmpq_t c)
         fmpq_mpoly_get_term_exp_ui(e, x->num, 0, I->ring.ctx);
         for (v = 0; v < SCALAR_MAX_VARS; v++)
             if (e[v] != 0)
-                found = (found == -1 && e[v] == 2 && v != SCALAR_PI) ? v : -2;
+                found = (found == -1 && e[v] == 2 && v < SCALAR_PINV) ? v : -2;
         if (found >= 0) {
             fmpq_mpoly_get_term_coeff_fmpq(c, x->num, 0, I->ring.ctx);
             *z = found;

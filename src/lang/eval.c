@@ -213,6 +213,7 @@ static value *eval_pow_num(interp *I, const node *n, const value *a, slong e)
     value *r = value_new_num(&I->ring);
     if (e >= 0) {
         fmpq_mpoly_pow_ui(r->num, a->num, (ulong)e, I->ring.ctx);
+        scalar_normalise(r->num, &I->ring);
         return r;
     }
     fmpq_t q;
@@ -222,6 +223,15 @@ static value *eval_pow_num(interp *I, const node *n, const value *a, slong e)
         fmpq_inv(q, q);
         fmpq_pow_si(q, q, -e);
         fmpq_mpoly_set_fmpq(r->num, q, I->ring.ctx);
+    } else if (scalar_is_unit(a->num, &I->ring)) {
+        /* a rational times a power of pi: its inverse is in the ring */
+        fmpq_mpoly_t one;
+        fmpq_mpoly_init(one, I->ring.ctx);
+        fmpq_mpoly_one(one, I->ring.ctx);
+        ok = scalar_div(one, one, a->num, &I->ring);
+        fmpq_mpoly_pow_ui(r->num, one, (ulong)-e, I->ring.ctx);
+        scalar_normalise(r->num, &I->ring);
+        fmpq_mpoly_clear(one, I->ring.ctx);
     }
     fmpq_clear(q);
     if (ok)
@@ -229,7 +239,8 @@ static value *eval_pow_num(interp *I, const node *n, const value *a, slong e)
     value_release(r);
     return eval_fail(n, fmpq_mpoly_is_zero(a->num, I->ring.ctx)
                             ? "division by zero: 0 to a negative power"
-                            : "a polynomial to a negative power is not a polynomial");
+                            : "a polynomial to a negative power is not a polynomial (only a number "
+                              "times a power of pi is invertible)");
 }
 
 static value *eval_pow(interp *I, scope *s, const node *n, value *a)
@@ -248,24 +259,19 @@ static value *eval_pow(interp *I, scope *s, const node *n, value *a)
     return value_new_class(cx_pow(value_to_class(a), e, n), &I->ring);
 }
 
-/* Exact division of scalars; a non-constant divisor must divide exactly. */
+/* Exact division of scalars: by a number times a power of pi always (values
+   are Laurent polynomials in pi), by anything else only when it divides exactly. */
 static value *eval_div_num(interp *I, const node *n, const value *a, const value *b)
 {
     if (fmpq_mpoly_is_zero(b->num, I->ring.ctx))
         return eval_fail(n, "division by zero");
     value *r = value_new_num(&I->ring);
-    fmpq_t q;
-    fmpq_init(q);
-    int ok = 1;
-    if (scalar_get_fmpq(q, b->num, &I->ring))
-        fmpq_mpoly_scalar_div_fmpq(r->num, a->num, q, I->ring.ctx);
-    else
-        ok = fmpq_mpoly_divides(r->num, a->num, b->num, I->ring.ctx);
-    fmpq_clear(q);
-    if (ok)
+    if (scalar_div(r->num, a->num, b->num, &I->ring))
         return r;
     value_release(r);
-    return eval_fail(n, "the divisor does not divide exactly (values are polynomials, not rational functions)");
+    return eval_fail(n, "the divisor does not divide exactly (values are polynomials in the variables, Laurent "
+                        "in pi: only a number times a power of pi can always be divided by; there are no "
+                        "rational functions)");
 }
 
 static value *eval_arith_num(interp *I, const node *n, const value *a, const value *b)
@@ -279,6 +285,7 @@ static value *eval_arith_num(interp *I, const node *n, const value *a, const val
         fmpq_mpoly_sub(r->num, a->num, b->num, I->ring.ctx);
     else
         fmpq_mpoly_mul(r->num, a->num, b->num, I->ring.ctx);
+    scalar_normalise(r->num, &I->ring);
     return r;
 }
 
@@ -337,6 +344,9 @@ static value *eval_binop(interp *I, scope *s, const node *n)
 /* Compares two scalars; ordering needs rational constants. Returns -2 on error. */
 static int eval_compare_values(interp *I, const node *n, const value *a, const value *b)
 {
+    if ((a->kind == V_REAL && (b->kind == V_REAL || b->kind == V_NUM))
+        || (b->kind == V_REAL && a->kind == V_NUM))
+        return real_compare(I, n, a, b);
     if (a->kind != V_NUM || b->kind != V_NUM) {
         eval_fail(n, "only numbers can be compared");
         return -2;
@@ -652,6 +662,15 @@ static value *eval_call(interp *I, scope *s, const node *n)
     return NULL;
 }
 
+/* Cancels pi * (1/pi) in a number made by a builtin, an integral or a sum
+   (their products of coefficients do not know about 1/pi); v may be NULL. */
+static value *eval_tidy(interp *I, value *v)
+{
+    if (v && v->kind == V_NUM)
+        scalar_normalise(v->num, &I->ring);
+    return v;
+}
+
 value *eval_expr(interp *I, scope *s, const node *n)
 {
     if (util_stack_exhausted())
@@ -676,7 +695,7 @@ value *eval_expr(interp *I, scope *s, const node *n)
     case N_SUBSCRIPT:
         return eval_subscript(I, s, n);
     case N_CALL:
-        return eval_call(I, s, n);
+        return eval_tidy(I, eval_call(I, s, n));
     case N_PSI:
     case N_KAPPA:
         return eval_class_gen(I, s, n);
@@ -691,13 +710,13 @@ value *eval_expr(interp *I, scope *s, const node *n)
     case N_FACTORIAL:
         return eval_factorial(I, s, n);
     case N_INTEGRAL:
-        return eval_integral(I, s, n);
+        return eval_tidy(I, eval_integral(I, s, n));
     case N_IF:
         return eval_if(I, s, n);
     case N_LOGIC:
         return eval_logic(I, s, n);
     case N_SUM:
-        return eval_sum(I, s, n);
+        return eval_tidy(I, eval_sum(I, s, n));
     case N_SPEC:
         return specialise_value(I, s, n);
     case N_LIST:

@@ -120,7 +120,7 @@ static value *names_volume(interp *I, scope *s, const node *n, int theta)
     if (!names_volume_index(I, s, n->list->items[0], "genus", &g)
         || !names_volume_index(I, s, n->list->items[1], "number of points", &npts))
         return NULL;
-    return theta ? theta_supervolume_value(I, n, g, npts) : integrate_volume(I, n, g, npts);
+    return theta ? theta_supervolume_value(I, n, g, npts) : volume_cached(I, n, g, npts);
 }
 
 value *eval_subscript(interp *I, scope *s, const node *n)

@@ -45,6 +45,7 @@ void interp_init(interp *I)
     I->out = sink_stream(&I->sink) ? sink_stream(&I->sink) : stdout;
     I->style.fmt = OUT_EXACT;
     I->style.digits = 20;
+    I->real_digits = 30;
 }
 
 void interp_clear(interp *I)
@@ -56,6 +57,7 @@ void interp_clear(interp *I)
     hodge_lang_clear(I);
     keymap_clear(&I->integrals);
     fastvol_clear(I);
+    volume_cache_clear(I);
     results_close(I);
     verify_account_free(I);
     free(I->store_path);
@@ -155,7 +157,7 @@ static int exec_var_one(interp *I, scope *s, const node *d, const char *name)
         return 0;
     int idx = scalar_ring_declare(&I->ring, name);
     if (idx < 0) {
-        diag_error(&d->loc, "too many formal variables (at most %d)", SCALAR_MAX_VARS - 1);
+        diag_error(&d->loc, "too many formal variables (at most %d)", SCALAR_MAX_DECLARED);
         return 0;
     }
     value *v = value_new_num(&I->ring);
@@ -174,9 +176,9 @@ static int exec_var_family(interp *I, scope *s, const node *d)
     free(stem);
     if (reserved)
         return 0;
-    if (hi - lo + 1 > SCALAR_MAX_VARS - 1 - I->ring.nvars) {
+    if (hi - lo + 1 > SCALAR_MAX_DECLARED - I->ring.nvars) {
         diag_error(&d->loc, "declaring %ld variables would pass the limit of %d formal variables",
-                   (long)(hi - lo + 1), SCALAR_MAX_VARS - 1);
+                   (long)(hi - lo + 1), SCALAR_MAX_DECLARED);
         return 0;
     }
     for (slong i = lo; i <= hi; i++) {
@@ -330,6 +332,8 @@ static int exec_stmt_kind(interp *I, scope *s, const node *n)
         return exec_table(I, s, n);
     case S_OUTPUT:
         return exec_output(I, s, n);
+    case S_PRECISION:
+        return exec_precision(I, s, n);
     case S_EXPR:
         if (I->explain_all && n->a->kind == N_INTEGRAL) {
             node e = *n;

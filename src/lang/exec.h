@@ -4,9 +4,10 @@
 
 #include "interp.h"
 
-/* table_{...} E and output FORMAT [digits] (exec_table.c). */
+/* table_{...} E, output FORMAT [digits] and precision DIGITS (exec_table.c). */
 int exec_table(interp *I, scope *s, const node *n);
 int exec_output(interp *I, scope *s, const node *n);
+int exec_precision(interp *I, scope *s, const node *n);
 
 /* load "file" (load.c). */
 int exec_load(interp *I, const node *n);

@@ -34,6 +34,19 @@ int exec_output(interp *I, scope *s, const node *n)
     return 1;
 }
 
+int exec_precision(interp *I, scope *s, const node *n)
+{
+    slong digits;
+    if (!eval_slong(I, s, n->a, "number of digits", 1, &digits))
+        return 0;
+    if (digits > 100000) {   /* as decimal(): more would take minutes per function */
+        diag_error(&n->a->loc, "at most 100000 digits");
+        return 0;
+    }
+    I->real_digits = digits;
+    return 1;
+}
+
 typedef struct {
     slong nranges;
     const char **names;

@@ -12,6 +12,9 @@ int integrate_explain(interp *I, const node *where, slong g, slong n, const valu
 /* V_{g,n}(L_1..L_n) in Mirzakhani's normalisation, declaring L_1..L_n: by the volume engine
    when it should take it, else by the reduction. */
 value *integrate_volume(interp *I, const node *where, slong g, slong n);
+/* The same, kept for the run and in the results store (volume_cache.c); new reference. */
+value *volume_cached(interp *I, const node *where, slong g, slong n);
+void volume_cache_clear(interp *I);
 /* Declares the formal variables L_1..L_n, their ring indices into vars[0..n);
    returns 0 after reporting an error at where. */
 int integrate_declare_lengths(interp *I, const node *where, slong n, int *vars);

@@ -38,6 +38,8 @@ typedef struct interp {
     int depth;               /* current user-function call depth */
     double list_outer;       /* values that the seq lists being built hold per item of a new one (1 outside seq) */
     int explain_all;         /* print the reduction of every integral */
+    struct volume_cache *volcache; /* volume polynomials asked so far (volume_cache.c) */
+    slong real_digits;       /* working precision (decimal digits) of reals made by functions (precision D) */
     out_style style;
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
     slong wpv_G, wpv_N;

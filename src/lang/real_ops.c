@@ -57,6 +57,28 @@ value *real_arith(interp *I, const node *n, int op, const value *a, const value 
     return r;
 }
 
+int real_compare(interp *I, const node *n, const value *a, const value *b)
+{
+    slong prec = a->kind == V_REAL ? real_prec(a->re) : real_prec(b->re);
+    arb_t x, y;
+    arb_init(x);
+    arb_init(y);
+    int c = -2;
+    if (real_operand(I, n, x, a, prec) && real_operand(I, n, y, b, prec)) {
+        if (arb_lt(x, y))
+            c = -1;
+        else if (arb_gt(x, y))
+            c = 1;
+        else if (arb_is_exact(x) && arb_equal(x, y))
+            c = 0;
+        else
+            diag_error(&n->loc, "the order of these reals is not decided at their precision (their balls overlap)");
+    }
+    arb_clear(x);
+    arb_clear(y);
+    return c;
+}
+
 value *real_pow(interp *I, const node *n, const value *a, slong e)
 {
     if (e < 0 && arb_contains_zero(a->re)) {

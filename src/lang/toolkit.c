@@ -19,6 +19,11 @@ value *toolkit_recognise(interp *I, const node *call, value **args);
 value *toolkit_j0_zero(interp *I, const node *call, value **args);
 value *toolkit_j1(interp *I, const node *call, value **args);
 value *toolkit_mz_constant(interp *I, const node *call, value **args);
+/* toolkit_real.c: the same on lists holding reals or decimal strings */
+int toolkit_list_is_real(const value *xs);
+value *toolkit_real_step(interp *I, const node *call, const value *xs, int op);
+value *toolkit_real_richardson(interp *I, const node *call, const value *xs, slong k, slong n0);
+value *toolkit_real_fitexp(interp *I, const node *call, const value *xs, slong K, slong first, slong n_first);
 /* toolkit_svg.c */
 value *toolkit_svgplot(interp *I, const node *call, value **args);
 
@@ -51,10 +56,12 @@ static const value *toolkit_get_numlist(const node *call, value **args, int i, s
     return v;
 }
 
-/* ratios(xs): [x_2/x_1, x_3/x_2, ...], exact. Items with pi or variables
-   are divided only when the quotient is again a polynomial. */
+/* ratios(xs): [x_2/x_1, x_3/x_2, ...], exact. Powers of pi divide always;
+   items with variables are divided only when the quotient is again a polynomial. */
 static value *toolkit_ratios(interp *I, const node *call, value **args)
 {
+    if (toolkit_list_is_real(args[0]))
+        return toolkit_real_step(I, call, args[0], 0);
     const value *xs = toolkit_get_numlist(call, args, 0, 1);
     if (!xs)
         return NULL;
@@ -67,8 +74,8 @@ static value *toolkit_ratios(interp *I, const node *call, value **args)
             msg = xasprintf("xs[%ld] is zero, so xs[%ld]/xs[%ld] is undefined", (long)(i + 1), (long)(i + 2),
                             (long)(i + 1));
         r->items[i] = value_new_num(&I->ring);
-        if (!msg && !fmpq_mpoly_divides(r->items[i]->num, a, b, I->ring.ctx))
-            msg = xasprintf("xs[%ld]/xs[%ld] is not a polynomial in pi and the variables", (long)(i + 2),
+        if (!msg && !scalar_div(r->items[i]->num, a, b, &I->ring))
+            msg = xasprintf("xs[%ld]/xs[%ld] is not a polynomial in the variables (Laurent in pi)", (long)(i + 2),
                             (long)(i + 1));
         if (msg) {
             builtin_fail_at(call, 0, msg);
@@ -83,6 +90,8 @@ static value *toolkit_ratios(interp *I, const node *call, value **args)
 /* diffs(xs): [x_2 - x_1, x_3 - x_2, ...], exact for any numbers. */
 static value *toolkit_diffs(interp *I, const node *call, value **args)
 {
+    if (toolkit_list_is_real(args[0]))
+        return toolkit_real_step(I, call, args[0], 1);
     const value *xs = toolkit_get_numlist(call, args, 0, 1);
     if (!xs)
         return NULL;
@@ -147,7 +156,8 @@ static void toolkit_richardson_row(fmpq_mpoly_t r, const value *xs, slong i, slo
 static value *toolkit_richardson(interp *I, const node *call, value **args)
 {
     slong k, n0;
-    const value *xs = toolkit_get_numlist(call, args, 0, 1);
+    int real = toolkit_list_is_real(args[0]);
+    const value *xs = real ? args[0] : toolkit_get_numlist(call, args, 0, 1);
     if (!xs || !toolkit_get_order_start(I, call, args, 1, 0, &k, 2, &n0))
         return NULL;
     if (xs->len <= k) {
@@ -157,6 +167,8 @@ static value *toolkit_richardson(interp *I, const node *call, value **args)
         free(msg);
         return NULL;
     }
+    if (real)
+        return toolkit_real_richardson(I, call, xs, k, n0);
     value *r = value_new_list(xs->len - k, &I->ring);
     fmpz *P = _fmpz_vec_init(xs->len), *B = _fmpz_vec_init(k + 1);
     fmpz_t kfac;
@@ -268,7 +280,8 @@ static int toolkit_fit_solve(value *r, const value *xs, slong first, slong n_fir
 static value *toolkit_fitexp(interp *I, const node *call, value **args)
 {
     slong K, n0;
-    const value *xs = toolkit_get_numlist(call, args, 0, 1);
+    int real = toolkit_list_is_real(args[0]);
+    const value *xs = real ? args[0] : toolkit_get_numlist(call, args, 0, 1);
     if (!xs || !toolkit_get_order_start(I, call, args, 2, 1, &K, 1, &n0))
         return NULL;
     if (xs->len < K) {
@@ -279,6 +292,8 @@ static value *toolkit_fitexp(interp *I, const node *call, value **args)
         return NULL;
     }
     slong first = xs->len - K; /* 0-based position of the first sampled term */
+    if (real)
+        return toolkit_real_fitexp(I, call, xs, K, first, n0 + first);
     value *r = value_new_list(K, &I->ring);
     if (toolkit_fit_solve(r, xs, first, n0 + first, &I->ring))
         return r;

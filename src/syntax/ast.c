@@ -111,7 +111,7 @@ static const char *ast_kind_name(node_kind k)
         "number", "string", "pi", "name", "indexed", "subscript", "call", "psi", "kappa",
         "correlator", "insert", "neg", "binop", "compare", "factorial",
         "integral", "if", "sum", "specialisation", "list", "logic", "range", "rule", "let", "assign", "def", "for", "print", "var", "vardecl",
-        "explain", "if", "table", "load", "output", "expr"};
+        "explain", "if", "table", "load", "output", "precision", "expr"};
     return names[k];
 }
 

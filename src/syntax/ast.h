@@ -45,6 +45,7 @@ typedef enum {
     S_TABLE,    /* table_{list of N_RANGE} a */
     S_LOAD,     /* load "text" */
     S_OUTPUT,   /* output text [a] */
+    S_PRECISION, /* precision a: working digits of reals */
     S_EXPR      /* a */
 } node_kind;
 

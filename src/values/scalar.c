@@ -11,6 +11,7 @@ void scalar_ring_init(scalar_ring *R)
     fmpq_mpoly_ctx_init(R->ctx, SCALAR_MAX_VARS, ORD_DEGLEX);
     memset(R->names, 0, sizeof R->names);
     R->names[SCALAR_PI] = xstrdup("pi");
+    R->names[SCALAR_PINV] = xstrdup("1/pi");   /* the serial form's name; printing shows pi^-k */
     R->nvars = 0;
 }
 
@@ -26,7 +27,7 @@ int scalar_ring_declare(scalar_ring *R, const char *name)
     for (int i = 0; i < R->nvars; i++)
         if (strcmp(R->names[i], name) == 0)
             return i;
-    if (R->nvars >= SCALAR_MAX_VARS - 1)
+    if (R->nvars >= SCALAR_MAX_DECLARED)
         return -1;
     R->names[R->nvars] = xstrdup(name);
     return R->nvars++;
@@ -62,7 +63,7 @@ int scalar_is_pi_only(const fmpq_mpoly_t p, const scalar_ring *R)
     if (fmpq_mpoly_is_zero(p, R->ctx))
         return 1;
     fmpq_mpoly_degrees_si(deg, p, R->ctx);
-    for (int i = 0; i < SCALAR_PI; i++)
+    for (int i = 0; i < SCALAR_PINV; i++)
         if (deg[i] > 0)
             return 0;
     return 1;
@@ -79,6 +80,10 @@ char *scalar_monomial_str(const fmpq_mpoly_t p, slong i, const scalar_ring *R)
             continue;
         if (b.len > 0)
             strbuf_putc(&b, '*');
+        if (v == SCALAR_PINV) {
+            strbuf_printf(&b, "pi^-%lu", exp[v]);
+            continue;
+        }
         strbuf_puts(&b, R->names[v] ? R->names[v] : "?");
         if (exp[v] > 1)
             strbuf_printf(&b, "^%lu", exp[v]);
@@ -164,6 +169,45 @@ char *scalar_get_str_termwise(const fmpq_mpoly_t p, const scalar_ring *R)
     return scalar_join_terms(p, R, scalar_get_str);
 }
 
+/* p with negative powers of pi, over the common denominator d*pi^k:
+   1/pi, 3/(4*pi^2), (L_1^2 + 4*pi^2)/(48*pi^2). */
+static char *scalar_get_str_laurent(const fmpq_mpoly_t p, const scalar_ring *R)
+{
+    fmpq_mpoly_t q;
+    fmpq_mpoly_init(q, R->ctx);
+    fmpq_mpoly_set(q, p, R->ctx);
+    scalar_normalise(q, R);
+    slong k = scalar_pinv_degree(q, R);
+    if (k == 0) {   /* only pi * (1/pi) pairs: a polynomial after all */
+        char *t = scalar_get_str(q, R);
+        fmpq_mpoly_clear(q, R->ctx);
+        return t;
+    }
+    scalar_mul_pi_pow(q, q, k, R);
+    strbuf b;
+    strbuf_init(&b);
+    fmpz_t d;
+    fmpz_init(d);
+    scalar_denominator(d, q, R);
+    int paren = fmpq_mpoly_length(q, R->ctx) > 1;
+    strbuf_puts(&b, paren ? "(" : "");
+    scalar_put_numerator(&b, q, d, R);
+    strbuf_puts(&b, paren ? ")/" : "/");
+    if (!fmpz_is_one(d)) {
+        strbuf_putc(&b, '(');
+        strbuf_put_fmpz(&b, d);
+        strbuf_putc(&b, '*');
+    }
+    strbuf_puts(&b, "pi");
+    if (k > 1)
+        strbuf_printf(&b, "^%ld", (long)k);
+    if (!fmpz_is_one(d))
+        strbuf_putc(&b, ')');
+    fmpz_clear(d);
+    fmpq_mpoly_clear(q, R->ctx);
+    return strbuf_take(&b);
+}
+
 char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R)
 {
     strbuf b;
@@ -171,6 +215,10 @@ char *scalar_get_str(const fmpq_mpoly_t p, const scalar_ring *R)
     slong len = fmpq_mpoly_length(p, R->ctx);
     if (len == 0)
         return strbuf_puts(&b, "0"), strbuf_take(&b);
+    if (scalar_pinv_degree(p, R) > 0) {
+        strbuf_clear(&b);
+        return scalar_get_str_laurent(p, R);
+    }
     fmpz_t d;
     fmpz_init(d);
     scalar_denominator(d, p, R);
@@ -216,7 +264,7 @@ static const char *scalar_read_factor(const char *s, ulong *exp, scalar_ring *R)
     if (!caret || (end && caret > end))
         return NULL;
     char *name = xasprintf("%.*s", (int)(caret - s), s);
-    int v = strcmp(name, "pi") == 0 ? SCALAR_PI : scalar_ring_declare(R, name);
+    int v = strcmp(name, "pi") == 0 ? SCALAR_PI : strcmp(name, "1/pi") == 0 ? SCALAR_PINV : scalar_ring_declare(R, name);
     free(name);
     char *after;
     unsigned long e = strtoul(caret + 1, &after, 10);

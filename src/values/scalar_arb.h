@@ -6,7 +6,7 @@
 #include "arb_compat.h"
 #include "scalar.h"
 
-/* r = p at precision prec; p must involve pi only (scalar_is_pi_only). */
+/* r = p at precision prec; p must involve pi and 1/pi only (scalar_is_pi_only). */
 void scalar_get_arb(arb_t r, const fmpq_mpoly_t p, const scalar_ring *R, slong prec);
 
 #endif
