@@ -185,10 +185,10 @@ static int volmpi_estimate(const volmpi_opts_t *o)
 
     wpvol_estimate_spread(&sec, &each, &root, &primes, o->G, o->N, o->estimate);
     wpvol_estimate(&sec1, &bytes1, o->G, o->N);
-    printf("model for g <= %ld, n <= %ld: %.0f primes; one core: %.3g s, %.3g MiB\n",
-           (long) o->G, (long) o->N, primes, sec1, bytes1 / 1048576.0);
-    printf("on %d processes: %.3g s wall, %.3g MiB per process, %.3g MiB more on rank 0\n",
-           o->estimate, sec, each / 1048576.0, root / 1048576.0);
+    printf("model for g <= %ld, n <= %ld: one core (threaded engine): %.3g s, %.3g MiB\n",
+           (long) o->G, (long) o->N, sec1, bytes1 / 1048576.0);
+    printf("on %d processes: %.0f primes, %.3g s wall, %.3g MiB per process, %.3g MiB more on "
+           "rank 0\n", o->estimate, primes, sec, each / 1048576.0, root / 1048576.0);
     return 0;
 }
 
