@@ -236,6 +236,65 @@ static void test_independence(void)
     _fmpq_vec_clear(d, nv);
 }
 
+/* A residue source for wpvol_table_combine that works prime by prime in reverse order (as a
+   distributed source gets shares back in any order); ctx points to {G, N, calls, fail_at}:
+   the call number fail_at (1-based, 0: never) fails with WPVOL_NOMEM. */
+typedef struct
+{
+    slong G, N, calls, fail_at;
+} combine_src_t;
+
+static int combine_src(void *ctx, ulong *res, const ulong *primes, slong count)
+{
+    combine_src_t *c = ctx;
+    slong i, nv = (c->G + 1) * (c->N + 1);
+
+    if (++c->calls == c->fail_at)
+        return WPVOL_NOMEM;
+    for (i = count - 1; i >= 0; i--)
+    {
+        int st = wpvol_table_residues(res + i * nv, c->G, c->N, primes + i, 1, 1);
+        if (st != WPVOL_OK)
+            return st;
+    }
+    return WPVOL_OK;
+}
+
+/* Property: the combination gives the threaded table whatever the residue source and its
+   width; a source's failure ends it with that status and a zero table; the residues refuse
+   what is not a suitable prime; the spread model scales with the processes. */
+static void test_combine_sources(void)
+{
+    slong G = 10, N = 4, nv = (G + 1) * (N + 1), used = 0, k;
+    fmpq *a = _fmpq_vec_init(nv), *b = _fmpq_vec_init(nv), *c = _fmpq_vec_init(nv);
+    combine_src_t src = {G, N, 0, 0};
+    ulong res[(10 + 1) * (4 + 1)], bad[2] = {UWORD(1099511627777), 101};   /* 257 * 4278255361 */
+    double s1, e1, r1, p1, s2, e2, r2, p2;
+    int st0 = wpvol_table_ex(a, G, N, 1, 62, 1, NULL), st1, st2, zero = 1;
+
+    st1 = wpvol_table_combine(b, G, N, combine_src, &src, 5, 62, 1, &used);
+    UNIT_CHECK(&rep, st0 == WPVOL_OK && st1 == WPVOL_OK && vec_equal(a, b, nv) && used >= 5,
+               "prime-by-prime source of width 5 gives the threaded table (%d %d, %ld primes)",
+               st0, st1, used);
+    src.calls = 0;
+    src.fail_at = 2;
+    fmpq_one(c + 5);
+    st2 = wpvol_table_combine(c, G, N, combine_src, &src, 1, 62, 1, NULL);
+    for (k = 0; k < nv; k++)
+        zero &= fmpq_is_zero(c + k);
+    UNIT_CHECK(&rep, st2 == WPVOL_NOMEM && zero, "a failing source ends the combination: %d", st2);
+    UNIT_CHECK(&rep, wpvol_table_residues(res, G, N, bad, 1, 1) == WPVOL_BADARG
+                     && wpvol_table_residues(res, G, N, bad + 1, 1, 1) == WPVOL_BADARG,
+               "a composite and a small prime are refused");
+    wpvol_estimate_spread(&s1, &e1, &r1, &p1, 50, 5, 1);
+    wpvol_estimate_spread(&s2, &e2, &r2, &p2, 50, 5, 2);
+    UNIT_CHECK(&rep, s2 < 0.6 * s1 && e1 == e2 && p1 >= 3 && p1 == p2,
+               "spread model: %.2f s on 1 process, %.2f s on 2", s1, s2);
+    _fmpq_vec_clear(a, nv);
+    _fmpq_vec_clear(b, nv);
+    _fmpq_vec_clear(c, nv);
+}
+
 /* Property: one prime, both product paths of the per-prime engine agree residue by residue,
    also where the truncation orders are largest (G = 20, N = 4 and G = 2, N = 60). */
 static void test_modp_paths(void)
@@ -353,6 +412,7 @@ int main(void)
     test_genus0_zograf();
     test_genus1_log();
     test_independence();
+    test_combine_sources();
     test_modp_paths();
     test_modp_guards();
     test_asymptotics();

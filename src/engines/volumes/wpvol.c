@@ -141,6 +141,26 @@ static int wpvol_batch_run(ulong *res, const ulong *primes, slong start, slong e
     return b.status;
 }
 
+/* See wpvol_internal.h: the threaded residue computation as a source of the driver. */
+int wpvol_job_residues(ulong *res, const ulong *primes, slong count, const wpvol_job_t *job,
+                       int threads)
+{
+    return count <= 0 ? WPVOL_OK : wpvol_batch_run(res, primes, 0, count, job, threads);
+}
+
+/* Source of the threaded driver: ctx is the job's thread count and job. */
+typedef struct
+{
+    const wpvol_job_t *job;
+    int threads;
+} wpvol_thread_src_t;
+
+static int wpvol_thread_residues(void *ctx, ulong *res, const ulong *primes, slong count)
+{
+    const wpvol_thread_src_t *t = ctx;
+    return wpvol_job_residues(res, primes, count, t->job, t->threads);
+}
+
 /* Appends primes to reach `count`, each below the previous one.  prime_bits in [20, 62]:
    primes 1 mod 2^k (k = min(28, prime_bits-8)) below 2^prime_bits, which allow the transform
    products; prime_bits = 63: consecutive primes above 2^62, which force the FLINT products.
@@ -373,10 +393,10 @@ static slong wpvol_first_batch(double bits, int threads, int prime_bits, slong m
 
 /* Main loop: batches of primes until every value is reconstructed and confirmed.  After a
    batch where every pending value has a candidate, the next batch only has to confirm them
-   (WPVOL_CONFIRM primes, rounded up to the threads); otherwise the modulus grows by 1/32
+   (WPVOL_CONFIRM primes, rounded up to the source's width); otherwise the modulus grows by 1/32
    (small steps: an overshoot costs whole primes, a round only a reconstruction pass).
    Returns WPVOL_OK or an error code. */
-static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong first)
+static int wpvol_run_loop(wpvol_drv_t *D, const wpvol_source_t *src, int prime_bits, slong first)
 {
     slong target = first;
     ulong *r;
@@ -395,7 +415,8 @@ static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong fir
         if (status != WPVOL_OK)
             break;
         D->res = r;
-        status = wpvol_batch_run(D->res, D->primes, start, target, D->job, threads);
+        status = src->residues(src->ctx, D->res + (size_t) start * (size_t) D->nv,
+                               D->primes + start, target - start);
         if (status != WPVOL_OK)
             break;
         for (i = start; i < target && status == WPVOL_OK; i++)
@@ -410,16 +431,16 @@ static int wpvol_run_loop(wpvol_drv_t *D, int threads, int prime_bits, slong fir
         if (pending == 0)
             break;
         if (uncand == 0)
-            target += FLINT_MAX((slong) threads, (slong) WPVOL_CONFIRM);
+            target += FLINT_MAX((slong) src->width, (slong) WPVOL_CONFIRM);
         else
-            target += FLINT_MAX((slong) threads, target / 32 + 1);
+            target += FLINT_MAX((slong) src->width, target / 32 + 1);
     }
     return status;
 }
 
 /* See wpvol_internal.h. */
-int wpvol_drive(fmpq *out, const wpvol_job_t *job, int threads, int prime_bits, slong min_primes,
-                slong *primes_used)
+int wpvol_drive_from(fmpq *out, const wpvol_job_t *job, const wpvol_source_t *src, int prime_bits,
+                     slong min_primes, slong *primes_used)
 {
     wpvol_drv_t D;
     int status;
@@ -429,8 +450,8 @@ int wpvol_drive(fmpq *out, const wpvol_job_t *job, int threads, int prime_bits, 
     if (wpvol_run_init(&D, job) != 0)
         status = WPVOL_NOMEM;
     else
-        status = wpvol_run_loop(&D, threads, prime_bits,
-                                wpvol_first_batch(job->first_bits, threads, prime_bits,
+        status = wpvol_run_loop(&D, src, prime_bits,
+                                wpvol_first_batch(job->first_bits, src->width, prime_bits,
                                                   min_primes));
     if (status == WPVOL_OK)
         wpvol_run_output(out, &D);
@@ -440,107 +461,17 @@ int wpvol_drive(fmpq *out, const wpvol_job_t *job, int threads, int prime_bits, 
     return status;
 }
 
-/* The table as a job of the driver: the values are int kappa_1^d = d! V_{g,n} (d = 3g-3+n),
-   whose denominators are much smaller than those of V_{g,n}. */
-typedef struct
+/* See wpvol_internal.h. */
+int wpvol_drive(fmpq *out, const wpvol_job_t *job, int threads, int prime_bits, slong min_primes,
+                slong *primes_used)
 {
-    slong G, N;
-} wpvol_tab_t;
+    wpvol_thread_src_t t;
+    wpvol_source_t src;
 
-static void *wpvol_tab_ws_new(const wpvol_job_t *job)
-{
-    const wpvol_tab_t *t = job->data;
-    return wpvol_ws_new(t->G, t->N);
-}
-
-static void wpvol_tab_ws_free(void *ws)
-{
-    wpvol_ws_free(ws);
-}
-
-/* Residues of d! V_{g,n} for one prime (V from wpvol_modp_run, then the factorial). */
-static int wpvol_tab_run(void *ws, ulong *res, nmod_t mod)
-{
-    const wpvol_ws_t *w = ws;
-    slong G, N, k;
-    int st;
-
-    if (ws == NULL)
-        return WPVOL_NOMEM;
-    st = wpvol_modp_run(ws, res, mod, 1);
-    G = wpvol_ws_genus(w);
-    N = wpvol_ws_points(w);
-    for (k = 0; st == WPVOL_OK && k < (G + 1) * (N + 1); k++)
-    {
-        slong g = k / (N + 1), n = k % (N + 1), d;
-        ulong f = 1;
-        for (d = 2; d <= 3 * g - 3 + n; d++)
-            f = nmod_mul(f, (ulong) d, mod);
-        res[k] = nmod_mul(res[k], f, mod);
-    }
-    return st;
-}
-
-/* Modelled modulus bits of value k, or -1 for the unstable (g, n) (value 0). */
-static double wpvol_tab_need(const wpvol_job_t *job, slong k)
-{
-    const wpvol_tab_t *t = job->data;
-    slong g = k / (t->N + 1), n = k % (t->N + 1);
-    return 2 * g - 2 + n <= 0 ? -1.0 : wpvol_estimate_need_bits(g, n);
-}
-
-static slong wpvol_tab_den(const wpvol_job_t *job, slong k)
-{
-    const wpvol_tab_t *t = job->data;
-    return (slong) wpvol_estimate_den_bits(k / (t->N + 1));
-}
-
-/* See wpvol.h. */
-int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slong min_primes,
-                   slong *primes_used)
-{
-    wpvol_tab_t tab;
-    wpvol_job_t job;
-    double sec, bytes;
-    slong k;
-    fmpz_t f;
-    int status;
-
-    if (primes_used != NULL)
-        *primes_used = 0;
-    if (out == NULL || G < 0 || N < 0 || threads < 1 || prime_bits < 20 || prime_bits > 63)
-        return WPVOL_BADARG;
-    for (k = 0; k < (G + 1) * (N + 1); k++)
-        fmpq_zero(out + k);
-    wpvol_estimate(&sec, &bytes, G, N);
-    if (sec > WPVOL_MAX_SECONDS || bytes > WPVOL_MAX_BYTES)
-        return WPVOL_LIMIT;
-    tab.G = G;
-    tab.N = N;
-    job.nv = (G + 1) * (N + 1);
-    job.ws_new = wpvol_tab_ws_new;
-    job.ws_free = wpvol_tab_ws_free;
-    job.run = wpvol_tab_run;
-    job.need_bits = wpvol_tab_need;
-    job.den_bits = wpvol_tab_den;
-    job.first_bits = wpvol_estimate_bits(G, N);
-    job.data = &tab;
-    status = wpvol_drive(out, &job, threads, prime_bits, min_primes, primes_used);
-    fmpz_init(f);
-    for (k = 0; status == WPVOL_OK && k < job.nv; k++)
-    {
-        slong g = k / (N + 1), n = k % (N + 1);
-        if (2 * g - 2 + n <= 0)
-            continue;
-        fmpz_fac_ui(f, (ulong) (3 * g - 3 + n));
-        fmpq_div_fmpz(out + k, out + k, f);
-    }
-    fmpz_clear(f);
-    return status;
-}
-
-/* See wpvol.h: 62-bit transform-friendly primes, first batch from the size model. */
-int wpvol_table(fmpq *out, slong G, slong N, int threads)
-{
-    return wpvol_table_ex(out, G, N, threads, 62, 1, NULL);
+    t.job = job;
+    t.threads = threads;
+    src.residues = wpvol_thread_residues;
+    src.ctx = &t;
+    src.width = threads;
+    return wpvol_drive_from(out, job, &src, prime_bits, min_primes, primes_used);
 }

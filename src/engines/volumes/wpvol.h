@@ -59,6 +59,44 @@ void wpvol_estimate(double *seconds, double *bytes, slong G, slong N);
 int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slong min_primes,
                    slong *primes_used);
 
+/* --- the table over a list of primes, for drivers outside this engine (other processes) ---
+   The engine computes the integers-over-small-denominators W_{g,n} = (3g-3+n)! V_{g,n} modulo
+   word-size primes and recovers them by Chinese remaindering and rational reconstruction, each
+   value confirmed by 2 primes not used to reconstruct it (docs/volumes-engine.md).  The two
+   halves are separate so that the residues can be computed anywhere: wpvol_table_ex is
+   wpvol_table_combine with wpvol_table_residues on threads as its source. */
+
+/* res[i*(G+1)*(N+1) + g*(N+1) + n] = W_{g,n} mod primes[i] for i < count, 0 <= g <= G,
+   0 <= n <= N (0 for unstable (g, n)), computed on `threads` threads.  The primes should be the
+   ones wpvol_table_combine asks for (any prime p >= 2^19 above the engine's bound is accepted;
+   a smaller bound is refused with WPVOL_BADARG).  res holds count*(G+1)*(N+1) words (owned by
+   the caller).  Returns WPVOL_OK, WPVOL_BADARG (bad sizes, a non-prime or too small prime),
+   WPVOL_NOMEM, WPVOL_INTERNAL or WPVOL_CANCELLED. */
+int wpvol_table_residues(ulong *res, slong G, slong N, const ulong *primes, slong count,
+                         int threads);
+
+/* A source of residues for wpvol_table_combine: fills res exactly as wpvol_table_residues
+   (G and N are those given to wpvol_table_combine) and returns WPVOL_OK or an error code, which
+   ends the combination with that code.  ctx is the caller's. */
+typedef int (*wpvol_residue_fn)(void *ctx, ulong *res, const ulong *primes, slong count);
+
+/* out[g*(N+1)+n] = V_{g,n} as wpvol_table_ex, asking `residues` for batches of primes (chosen
+   as in wpvol_table_ex; batches are rounded up to `width`, the number of primes the source
+   works on at once).  No time or memory limit is applied here (the work is the source's: see
+   wpvol_estimate_spread).  Returns WPVOL_OK, WPVOL_BADARG, WPVOL_NOMEM, WPVOL_LIMIT (more than
+   a million primes), WPVOL_CANCELLED or the source's error; on error out is all zero. */
+int wpvol_table_combine(fmpq *out, slong G, slong N, wpvol_residue_fn residues, void *ctx,
+                        int width, int prime_bits, slong min_primes, slong *primes_used);
+
+/* Model of wpvol_table_combine with `width` processes of one thread each (width >= 1): *seconds
+   of wall time (rounds of one prime per process, the first batch from the size model plus one
+   confirming round, then the combination on one process), *bytes_each of peak memory of every
+   process (one workspace), *bytes_root of the combining process in addition (residues, Chinese
+   remainders), *primes the modelled number of primes.  Derived from the same models as
+   wpvol_estimate (calibration there); all 0 for G < 0, N < 0 or width < 1.  Cheap. */
+void wpvol_estimate_spread(double *seconds, double *bytes_each, double *bytes_root,
+                           double *primes, slong G, slong N, int width);
+
 #ifdef __cplusplus
 }
 #endif

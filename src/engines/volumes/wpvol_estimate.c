@@ -95,29 +95,72 @@ static double wpvol_estimate_work(slong G, slong N)
     return w * 1.6e-9;
 }
 
+/* The parts of the models for the table up to (G, N), G, N >= 0: *work single-core seconds of
+   one prime, *ws bytes of one workspace, *nv values. */
+static void wpvol_estimate_parts(double *work, double *ws, double *nv, slong G, slong N)
+{
+    double L, T = 1.0;
+
+    L = (double) (N >= 1 ? 3 * G + N - 4 : 3 * G - 3) + 1.0;
+    L = L < 1.0 ? 1.0 : L;
+    if (G >= 2)
+        while (T < (3.0 * (double) G - 2.0) * (2.0 * L - 1.0))
+            T *= 2.0;
+    *nv = (double) (G + 1) * (double) (N + 1);
+    *ws = 8.0 * ((double) G * T                       /* cached transforms */
+                 + 1.5 * (double) G * (double) G * L  /* rows of B_h, h < G */
+                 + 3.0 * (3.0 * (double) G + 1.0) * L /* A, C, D of one genus */
+                 + 5.0 * T);                          /* product buffer, twiddle tables */
+    *work = wpvol_estimate_work(G, N);
+}
+
+/* Bytes of residues, Chinese remainders and candidates for nv values over `primes` primes. */
+static double wpvol_estimate_crt_bytes(double nv, double primes)
+{
+    return 8.0 * nv * primes + 3.0 * nv * 8.0 * primes;
+}
+
+/* Seconds of the Chinese remaindering (quadratic in the number of primes per value). */
+static double wpvol_estimate_crt_seconds(double nv, double primes)
+{
+    return 1.0e-9 * nv * primes * primes * 20.0;
+}
+
 /* See wpvol.h.  Seconds: primes (from the size model) times the per-prime work, plus the
-   Chinese remaindering (quadratic in the number of primes per value).  Bytes: one thread's
-   workspace (cached transforms, stored rows, buffers) plus residues and big integers. */
+   Chinese remaindering.  Bytes: one thread's workspace (cached transforms, stored rows,
+   buffers) plus residues and big integers. */
 void wpvol_estimate(double *seconds, double *bytes, slong G, slong N)
 {
-    double primes, L, T = 1.0, nv, ws;
+    double primes, work, ws, nv;
 
     *seconds = 0.0;
     *bytes = 0.0;
     if (G < 0 || N < 0)
         return;
     primes = wpvol_estimate_bits(G, N) / 61.0 + 3.0;
-    L = (double) (N >= 1 ? 3 * G + N - 4 : 3 * G - 3) + 1.0;
-    L = L < 1.0 ? 1.0 : L;
-    if (G >= 2)
-        while (T < (3.0 * (double) G - 2.0) * (2.0 * L - 1.0))
-            T *= 2.0;
-    nv = (double) (G + 1) * (double) (N + 1);
-    ws = 8.0 * ((double) G * T                       /* cached transforms */
-                + 1.5 * (double) G * (double) G * L  /* rows of B_h, h < G */
-                + 3.0 * (3.0 * (double) G + 1.0) * L /* A, C, D of one genus */
-                + 5.0 * T);                          /* product buffer, twiddle tables */
-    *bytes = ws + 8.0 * nv * primes                  /* residues */
-             + 3.0 * nv * 8.0 * primes;              /* CRT values and candidates */
-    *seconds = primes * wpvol_estimate_work(G, N) + 1.0e-9 * nv * primes * primes * 20.0;
+    wpvol_estimate_parts(&work, &ws, &nv, G, N);
+    *bytes = ws + wpvol_estimate_crt_bytes(nv, primes);
+    *seconds = primes * work + wpvol_estimate_crt_seconds(nv, primes);
+}
+
+/* See wpvol.h.  The driver's schedule with `width` primes at a time: a first batch of
+   max(bits/61 + 1, width) primes, then one confirming batch of max(width, 2) primes (if the
+   size model holds); each batch takes ceil(size/width) rounds of one prime per process. */
+void wpvol_estimate_spread(double *seconds, double *bytes_each, double *bytes_root,
+                           double *primes, slong G, slong N, int width)
+{
+    double first, confirm, rounds, work, ws, nv;
+
+    *seconds = *bytes_each = *bytes_root = *primes = 0.0;
+    if (G < 0 || N < 0 || width < 1)
+        return;
+    first = floor(wpvol_estimate_bits(G, N) / 61.0) + 1.0;
+    first = first > (double) width ? first : (double) width;
+    confirm = width > 2 ? (double) width : 2.0;
+    rounds = ceil(first / width) + ceil(confirm / width);
+    wpvol_estimate_parts(&work, &ws, &nv, G, N);
+    *primes = first + confirm;
+    *bytes_each = ws;
+    *bytes_root = wpvol_estimate_crt_bytes(nv, *primes);
+    *seconds = rounds * work + wpvol_estimate_crt_seconds(nv, *primes);
 }

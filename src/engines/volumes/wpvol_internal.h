@@ -202,6 +202,29 @@ typedef struct wpvol_job_struct
     const void *data;    /* the job's parameters (borrowed) */
 } wpvol_job_t;
 
+/* Where the driver gets the residues of a batch of primes: residues(ctx, res, primes, count)
+   fills res[i*nv + k] with value k of the job modulo primes[i], i < count, and returns WPVOL_OK
+   or an error code (which ends the run).  width is the number of primes the source works on at
+   once (threads, or processes times threads): batches are rounded up to it.  The threaded
+   driver's source is wpvol_job_residues; a distributed one sends the primes elsewhere. */
+typedef struct
+{
+    int (*residues)(void *ctx, ulong *res, const ulong *primes, slong count);
+    void *ctx;
+    int width;
+} wpvol_source_t;
+
+/* res[i*job->nv + k] = value k of job modulo primes[i] for i < count, on `threads` worker
+   threads (the calling thread works too; cancel flag polled between primes).  Returns WPVOL_OK
+   or the first error of job->run (WPVOL_NOMEM when a workspace cannot be made). */
+int wpvol_job_residues(ulong *res, const ulong *primes, slong count, const wpvol_job_t *job,
+                       int threads);
+
+/* As wpvol_drive, with the residues of every batch from src (the Chinese remaindering, rational
+   reconstruction and confirmation are the same code whatever the source). */
+int wpvol_drive_from(fmpq *out, const wpvol_job_t *job, const wpvol_source_t *src, int prime_bits,
+                     slong min_primes, slong *primes_used);
+
 /* out[0..nv) = the values of job (out initialised by the caller, untouched on error): primes
    as in wpvol_table_ex, residues combined by Chinese remaindering, rational reconstruction
    confirmed by 2 further primes, `threads` worker threads, cancel flag polled between primes.
