@@ -362,6 +362,9 @@ static void out_latex_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
     case CX_CH:
         strbuf_printf(b, "\\mathrm{ch}_{%ld}", (long)e->index);
         break;
+    case CX_BOUNDARY:
+        print_boundary(b, e, 1);
+        break;
     case CX_ADD:
         out_latex_put_sum(b, e, R);
         break;
