@@ -363,6 +363,7 @@ static void out_latex_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
         strbuf_printf(b, "\\mathrm{ch}_{%ld}", (long)e->index);
         break;
     case CX_BOUNDARY:
+    case CX_STRATUM:
         print_boundary(b, e, 1);
         break;
     case CX_ADD:

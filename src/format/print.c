@@ -64,6 +64,11 @@ static void print_chain(strbuf *b, const cx *e, const scalar_ring *R)
 
 void print_boundary(strbuf *b, const cx *e, int latex)
 {
+    if (e->kind == CX_STRATUM) {
+        strbuf_printf(b, latex ? "\\mathrm{stratum}_{%ld,%ld,%ld}" : "stratum_{%ld,%ld,%ld}", (long)e->graph[0],
+                      (long)e->graph[1], (long)e->graph[2]);
+        return;
+    }
     if (e->index == CX_BOUNDARY_IRR) {
         strbuf_puts(b, latex ? "\\delta_{\\mathrm{irr}}" : "delta_{irr}");
         return;
@@ -112,6 +117,7 @@ static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
         strbuf_printf(b, "ch_%ld", (long)e->index);
         break;
     case CX_BOUNDARY:
+    case CX_STRATUM:
         print_boundary(b, e, 0);
         break;
     case CX_ADD:

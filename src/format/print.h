@@ -14,7 +14,7 @@
 char *print_class(const cx *e, const scalar_ring *R);
 
 /* Appends a boundary divisor (CX_BOUNDARY): delta_{irr}, delta_{1}, delta_{0,[1,2]}, or with
-   latex \delta_{\mathrm{irr}}, \delta_{0,\{1,2\}}. */
+   latex \delta_{\mathrm{irr}}, \delta_{0,\{1,2\}}; or a stratum (CX_STRATUM), stratum_{g,n,k}. */
 void print_boundary(strbuf *b, const cx *e, int latex);
 
 /* The printers stop at the C-stack guard (util_stack_exhausted) and write

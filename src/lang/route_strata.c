@@ -60,23 +60,47 @@ static int strata_engine_error(integral *q, int rc)
     return 0;
 }
 
-/* L = the product of the divisors of t as decorated strata (the whole space when there is
-   none), in the sorted order or (reverse) the opposite one; 0 after reporting. */
+/* L = the strata of t (at most two: the whole space, one, or their product by the generic-graph
+   rule, exchanged when reverse) as decorated strata; *used = the number of t's factors taken. */
+static int strata_of_graphs(integral *q, const sc_term *t, sg_terms *L, int reverse, int *used)
+{
+    sgraph G[2];
+    int ns = 0, rc;
+    while (ns < t->nf && t->d[ns]->kind == CX_STRATUM)
+        ns++;
+    if (ns > 2) {
+        diag_error(&q->where->loc, "a product of more than two strata stratum_{g,n,k} is not supported (a stratum "
+                                   "times divisors is)");
+        return 0;
+    }
+    for (int i = 0; i < ns; i++)
+        if (!sc_stratum_graph(q->I, &G[i], q->where, q->g, q->n, t->d[i]))
+            return 0;
+    *used = ns;
+    if (ns == 2)
+        rc = reverse ? sg_terms_product_graphs(L, &G[1], &G[0], 0) : sg_terms_product_graphs(L, &G[0], &G[1], 0);
+    else {
+        if (ns == 0)
+            sgraph_trivial(&G[0], (int)q->g, (int)q->n);
+        rc = sg_terms_push_stratum(L, &G[0]);
+    }
+    return rc == SG_OK || strata_engine_error(q, rc);
+}
+
+/* L = the product of the factors of t as decorated strata: its strata, then its divisors one at
+   a time in the sorted order or (reverse) the opposite one; 0 after reporting. */
 static int strata_product(integral *q, const sc_term *t, sg_terms *L, int reverse)
 {
     sg_divisor D[SC_MAX_FACTORS];
-    for (int i = 0; i < t->nf; i++)
-        if (!sc_divisor_on(&D[reverse ? t->nf - 1 - i : i], q->where, q->g, q->n, t->d[i]))
+    int ns = 0, nd;
+    if (!strata_of_graphs(q, t, L, reverse, &ns))
+        return 0;
+    nd = t->nf - ns;
+    for (int i = 0; i < nd; i++)
+        if (!sc_divisor_on(&D[reverse ? nd - 1 - i : i], q->where, q->g, q->n, t->d[ns + i]))
             return 0;
-    sgraph G;
     int rc = SG_OK;
-    if (t->nf == 0)
-        sgraph_trivial(&G, (int)q->g, (int)q->n);
-    else
-        rc = sg_divisor_graph(&G, (int)q->g, (int)q->n, &D[0]);
-    if (rc == SG_OK)
-        rc = sg_terms_push_stratum(L, &G);
-    for (int i = 1; rc == SG_OK && i < t->nf; i++) {
+    for (int i = 0; rc == SG_OK && i < nd; i++) {
         sg_terms P;
         sg_terms_init(&P);
         rc = sg_terms_times_divisor(&P, L, &D[i], 0);
@@ -90,15 +114,17 @@ static int strata_product(integral *q, const sc_term *t, sg_terms *L, int revers
 static int strata_term(integral *q, const sc_term *t, fmpq_mpoly_struct *acc, int second, slong *nstrata)
 {
     interp *I = q->I;
-    slong dim = 3 * q->g - 3 + q->n;
+    slong dim = 3 * q->g - 3 + q->n, codim = 0;
+    for (int i = 0; i < t->nf; i++)
+        codim += t->d[i]->kind == CX_STRATUM ? t->d[i]->index : 1;
     sg_terms L;
     sg_terms_init(&L);
     int ok = strata_product(q, t, &L, second);
     if (nstrata)
         *nstrata = L.len;
-    if (ok && t->nf <= dim) {
+    if (ok && codim <= dim) {
         cpoly P;
-        cpoly_init_degree(&P, q->g, q->n, dim - t->nf, I->lim.max_class_terms, I->ring.ctx);
+        cpoly_init_degree(&P, q->g, q->n, dim - codim, I->lim.max_class_terms, I->ring.ctx);
         strata_run R = {q, &L, acc, SG_OK, second};
         ok = class_expand_reported(&P, q->where, t->rest);
         if (ok && cpoly_foreach_top(&P, strata_monomial, &R) != 0)

@@ -2,6 +2,7 @@
  *
  *   delta_{irr}, delta_irr   the divisor of irreducible nodal curves, (1/2) xi_*(1) for the
  *                            gluing map from Mbar_{g-1,n+2} (docs/conventions.md, "Boundary strata")
+ *   stratum_{g,n,k}          the stratum (1/|Aut|) xi_*(1) of the k-th graph of stablegraphs_{g,n}
  *   delta_{h,S}              the closure of curves with a separating node, a side of genus h
  *                            carrying the legs S (a list such as [1,2]) and the other side the
  *                            rest; delta_{h} is delta_{h,[]}
@@ -17,6 +18,7 @@
 #include "eval.h"
 #include "print.h"
 #include "strata_class.h"
+#include "strata_lang.h"
 #include "strbuf.h"
 #include "util.h"
 
@@ -59,8 +61,61 @@ static int sc_read_legs(interp *I, const node *at, const value *v, ulong *legs)
     return 1;
 }
 
+/* stratum_{g,n,k}: the graph is looked up at once (its codimension is the class's degree). */
+static void sc_read_stratum(interp *I, scope *s, const node *n, value **out)
+{
+    slong g, np, k;
+    sg_list L;
+    if (n->list->len != 3) {
+        sc_fail(n, xasprintf("stratum_{g,n,k} takes three subscripts: the space and the number k of the graph in "
+                             "stablegraphs_{g,n} (got %d)", n->list->len));
+        return;
+    }
+    if (!eval_slong(I, s, n->list->items[0], "genus", 0, &g) || !eval_slong(I, s, n->list->items[1], "number of legs", 0, &np)
+        || !eval_slong(I, s, n->list->items[2], "graph number", 1, &k))
+        return;
+    if (g > SC_MAX_GENUS || np > SG_MAX_N || 2 * g - 2 + np <= 0 || 3 * g - 3 + np > SG_MAX_E
+        || 2 * g - 2 + np > SG_MAX_V) {
+        sc_fail(n, xasprintf("Mbar_{%ld,%ld} is %s", (long)g, (long)np, 2 * g - 2 + np <= 0 ? "not stable (2g-2+n must "
+                             "be positive)" : "too large for the stable-graph engine"));
+        return;
+    }
+    if (!strata_lang_graphs(I, n, (int)g, (int)np, -1, &L))
+        return;
+    if (k > L.len)
+        sc_fail(n->list->items[2], xasprintf("Mbar_{%ld,%ld} has %ld stable graphs, not %ld", (long)g, (long)np,
+                                             (long)L.len, (long)k));
+    else
+        *out = value_new_class(cx_stratum(g, np, k, L.gr[k - 1].ne, I->ring.ctx, n), &I->ring);
+    sg_list_clear(&L);
+}
+
+int sc_stratum_graph(interp *I, sgraph *G, const node *where, slong g, slong n, const cx *st)
+{
+    const node *at = st->origin ? st->origin : where;
+    sg_list L;
+    if (st->graph[0] != g || st->graph[1] != n) {
+        sc_fail(at, xasprintf("stratum_{%ld,%ld,%ld} is a class of Mbar_{%ld,%ld}, not of Mbar_{%ld,%ld}",
+                              (long)st->graph[0], (long)st->graph[1], (long)st->graph[2], (long)st->graph[0],
+                              (long)st->graph[1], (long)g, (long)n));
+        return 0;
+    }
+    if (!strata_lang_graphs(I, at, (int)g, (int)n, -1, &L))
+        return 0;
+    int ok = st->graph[2] <= L.len;
+    if (ok)
+        *G = L.gr[st->graph[2] - 1];
+    sg_list_clear(&L);
+    return ok;
+}
+
 int strata_class_subscript(interp *I, scope *s, const node *n, value **out)
 {
+    if (strcmp(n->text, "stratum") == 0) {
+        *out = NULL;
+        sc_read_stratum(I, s, n, out);
+        return 1;
+    }
     if (strcmp(n->text, "delta") != 0)
         return 0;
     *out = NULL;
@@ -169,6 +224,11 @@ void sc_terms_clear(sc_terms *T)
 /* Order of divisors inside a term: irr first, then by genus and leg set. */
 static int sc_cmp(const cx *a, const cx *b)
 {
+    if (a->kind != b->kind)
+        return a->kind == CX_STRATUM ? -1 : 1;
+    for (int i = 0; a->kind == CX_STRATUM && i < 3; i++)
+        if (a->graph[i] != b->graph[i])
+            return a->graph[i] < b->graph[i] ? -1 : 1;
     if (a->index != b->index)
         return a->index < b->index ? -1 : 1;
     return a->legs < b->legs ? -1 : a->legs > b->legs;
@@ -309,6 +369,7 @@ static int sc_expand(sc_walk *W, sc_terms *T, const cx *e)
     int ok = 1;
     switch (e->kind) {
     case CX_BOUNDARY:
+    case CX_STRATUM:
         if (!sc_push(T, 1, &e, sc_one(e)))
             return sc_too_many(W);
         return 1;

@@ -1,5 +1,5 @@
-/* Boundary divisors as classes of the language (strata_class.c): the names delta_{irr} (also
-   delta_irr), delta_{h} and delta_{h,S}, their check on the space of an integral, and the
+/* Boundary divisors and strata as classes of the language (strata_class.c): the names
+   delta_{irr} (also delta_irr), delta_{h}, delta_{h,S} and stratum_{g,n,k}, their check on the space of an integral, and the
    expansion of an integrand into terms (product of boundary divisors) x (psi-kappa class) that
    the strata route (route_strata.c) integrates with the stable-graph engine. */
 #ifndef PSIKAPPA_STRATA_CLASS_H
@@ -21,7 +21,7 @@ int strata_class_in_value(const value *v);
 /* Products of more boundary divisors than this are beyond the engine (its edge limit). */
 #define SC_MAX_FACTORS SG_MAX_E
 
-/* One term of an expanded integrand: the divisors d[0..nf) (sorted, nodes of the integrand, not
+/* One term of an expanded integrand: the strata and then the divisors d[0..nf) (sorted, nodes of the integrand, not
    owned) times the boundary-free class rest (owned). */
 typedef struct {
     int nf;
@@ -44,6 +44,10 @@ void sc_terms_clear(sc_terms *T);
 #define SC_MAX_POWER 1000
 #define SC_MAX_TERMS 100000
 int sc_expand_integrand(sc_terms *T, const node *where, const cx *e, slong max_factors);
+
+/* The graph G of the stratum st (CX_STRATUM) after checking that it is a class of Mbar_{g,n}; 0
+   after reporting at st's node (or where). */
+int sc_stratum_graph(interp *I, sgraph *G, const node *where, slong g, slong n, const cx *st);
 
 /* The divisor d on Mbar_{g,n} as the engine's sg_divisor; 0 after reporting at d's node (or
    where) why it does not exist there. */

@@ -17,6 +17,7 @@ static const unavailable_entry unavailable_table[] = {
     {"ch_", 1, "the Chern character ch_k of the Hodge bundle", 1},
     {"delta", 0, "the total boundary divisor delta (the sum of delta_{irr} and the delta_{h,S})", 0},
     {"delta_", 1, "a boundary divisor, delta_{irr} or delta_{h,S}", 1},
+    {"stratum_", 1, "the stratum class stratum_{g,n,k} of a stable graph", 1},
     {"Theta_", 1, "the class Theta_{g,n}", 0},
     {"DR_", 1, "the double ramification cycle DR_g(a)", 0},
 };

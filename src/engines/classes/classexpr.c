@@ -51,6 +51,16 @@ cx *cx_boundary(slong h, ulong legs, const fmpq_mpoly_ctx_t ctx, const void *ori
     return e;
 }
 
+cx *cx_stratum(slong g, slong n, slong k, slong edges, const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_psi(edges, ctx, origin);
+    e->kind = CX_STRATUM;
+    e->graph[0] = g;
+    e->graph[1] = n;
+    e->graph[2] = k;
+    return e;
+}
+
 cx *cx_lambda(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin)
 {
     cx *e = cx_psi(j, ctx, origin);
@@ -180,7 +190,7 @@ slong cx_max_psi(const cx *e)
 int cx_has_boundary(const cx *e)
 {
     for (; e; e = e->a) {
-        if (e->kind == CX_BOUNDARY || cx_has_boundary(e->b))
+        if (e->kind == CX_BOUNDARY || e->kind == CX_STRATUM || cx_has_boundary(e->b))
             return 1;
     }
     return 0;
@@ -222,6 +232,7 @@ static slong cx_max_degree_at(const cx *e, int depth)
     case CX_KAPPA:
     case CX_LAMBDA:
     case CX_CH:
+    case CX_STRATUM:
         return e->index;
     case CX_ADD:
         return a > b ? a : b;
