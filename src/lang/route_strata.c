@@ -8,6 +8,7 @@
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
 
+#include "cancel.h"
 #include "class_expand.h"
 #include "classes/cpoly.h"
 #include "diag.h"
@@ -157,7 +158,7 @@ static value *strata_walk(integral *q, int second)
     if (sc_expand_integrand(&T, q->where, q->integrand->cls, 3 * q->g - 3 + q->n)) {
         r = value_new_num(&q->I->ring);
         for (slong i = 0; r && i < T.len; i++)
-            if (!strata_term(q, &T.t[i], r->num, second, NULL)) {
+            if ((cancel_flag && !strata_engine_error(q, SG_CANCELLED)) || !strata_term(q, &T.t[i], r->num, second, NULL)) {
                 value_release(r);
                 r = NULL;
             }

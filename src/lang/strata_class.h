@@ -42,7 +42,7 @@ void sc_terms_clear(sc_terms *T);
    reporting at where (or at the divisor responsible) what cannot be expanded: exp of a
    boundary class, a power above SC_MAX_POWER, more than SC_MAX_TERMS products. */
 #define SC_MAX_POWER 1000
-#define SC_MAX_TERMS 100000
+#define SC_MAX_TERMS 10000
 int sc_expand_integrand(sc_terms *T, const node *where, const cx *e, slong max_factors);
 
 /* The graph G of the stratum st (CX_STRATUM) after checking that it is a class of Mbar_{g,n}; 0
