@@ -290,6 +290,10 @@ void out_latex_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
     case CX_CH:
         strbuf_printf(b, "\\mathrm{ch}_{%ld}", (long)e->index);
         break;
+    case CX_BOUNDARY:
+    case CX_STRATUM:
+        print_boundary(b, e, 1);
+        break;
     case CX_ADD:
         out_latex_put_sum(b, e, R);
         break;

@@ -62,6 +62,31 @@ static void print_chain(strbuf *b, const cx *e, const scalar_ring *R)
     free(ops);
 }
 
+void print_boundary(strbuf *b, const cx *e, int latex)
+{
+    if (e->kind == CX_STRATUM) {
+        strbuf_printf(b, latex ? "\\mathrm{stratum}_{%ld,%ld,%ld}" : "stratum_{%ld,%ld,%ld}", (long)e->graph[0],
+                      (long)e->graph[1], (long)e->graph[2]);
+        return;
+    }
+    if (e->index == CX_BOUNDARY_IRR) {
+        strbuf_puts(b, latex ? "\\delta_{\\mathrm{irr}}" : "delta_{irr}");
+        return;
+    }
+    if (e->legs == 0) {           /* no leg on the genus-h side: delta_{h}, as on Mbar_g */
+        strbuf_printf(b, "%sdelta_{%ld}", latex ? "\\" : "", (long)e->index);
+        return;
+    }
+    strbuf_printf(b, latex ? "\\delta_{%ld,\\{" : "delta_{%ld,[", (long)e->index);
+    int first = 1;
+    for (int i = 0; i < 64; i++)
+        if (e->legs >> i & 1) {
+            strbuf_printf(b, first ? "%d" : ",%d", i + 1);
+            first = 0;
+        }
+    strbuf_puts(b, latex ? "\\}}" : "]}");
+}
+
 static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
 {
     char *s;
@@ -90,6 +115,10 @@ static void print_class_rec(strbuf *b, const cx *e, const scalar_ring *R)
         break;
     case CX_CH:
         strbuf_printf(b, "ch_%ld", (long)e->index);
+        break;
+    case CX_BOUNDARY:
+    case CX_STRATUM:
+        print_boundary(b, e, 0);
         break;
     case CX_ADD:
     case CX_MUL:

@@ -13,6 +13,10 @@
 /* e.g. exp(2*pi^2*kappa_1 + L_1^2/2*psi_1); the caller frees the result. */
 char *print_class(const cx *e, const scalar_ring *R);
 
+/* Appends a boundary divisor (CX_BOUNDARY): delta_{irr}, delta_{1}, delta_{0,[1,2]}, or with
+   latex \delta_{\mathrm{irr}}, \delta_{0,\{1,2\}}; or a stratum (CX_STRATUM), stratum_{g,n,k}. */
+void print_boundary(strbuf *b, const cx *e, int latex);
+
 /* The printers stop at the C-stack guard (util_stack_exhausted) and write
    "..." there; print_mark_too_deep records that, and print_take_too_deep
    returns whether it happened since the last call (and clears it), so that

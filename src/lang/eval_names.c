@@ -9,6 +9,7 @@
 #include "hodge_lang.h"
 #include "interp.h"
 #include "theta_lang.h"
+#include "strata_class.h"
 #include "strata_lang.h"
 #include "unavailable.h"
 #include "util.h"
@@ -44,6 +45,8 @@ value *eval_name(interp *I, scope *s, const node *n)
     if (b && b->kind == B_VALUE)
         return value_ref(b->val);
     if (!b && hodge_lang_name(I, n, &hodge))
+        return hodge;
+    if (!b && strata_class_name(I, n, &hodge))
         return hodge;
     if (!b && names_check_reserved(&n->loc, n->text))
         return NULL;
@@ -134,6 +137,8 @@ value *eval_subscript(interp *I, scope *s, const node *n)
     if (!b && hodge_lang_subscript(I, s, n, &hodge))
         return hodge;
     if (!b && strata_lang_subscript(I, s, n, &hodge))
+        return hodge;
+    if (!b && strata_class_subscript(I, s, n, &hodge))
         return hodge;
     char *stem = xasprintf("%s_", n->text);
     int reserved = names_check_reserved(&n->loc, stem);

@@ -4,6 +4,7 @@
 #include "diag.h"
 #include "hodge_lang.h"
 #include "route.h"
+#include "strata_class.h"
 #include "theta_lang.h"
 
 void integral_init(integral *q, interp *I, const node *where, slong g, slong n, const value *integrand)
@@ -13,7 +14,8 @@ void integral_init(integral *q, interp *I, const node *where, slong g, slong n, 
     q->g = g;
     q->n = n;
     q->integrand = integrand;
-    q->family = theta_in_value(integrand)      ? INTEGRAND_THETA
+    q->family = strata_class_in_value(integrand) ? INTEGRAND_STRATA
+                : theta_in_value(integrand)      ? INTEGRAND_THETA
                 : hodge_lang_applies(integrand) ? INTEGRAND_HODGE
                                                 : INTEGRAND_PSI_KAPPA;
     q->expanded = 0;

@@ -11,6 +11,7 @@
 #include "print.h"
 #include "route.h"
 #include "route_reduction.h"
+#include "strata_class.h"
 #include "strbuf.h"
 #include "theta_lang.h"
 #include "util.h"
@@ -125,14 +126,16 @@ int integrate_explain(interp *I, const node *where, slong g, slong n, const valu
 {
     if (!integrate_tree_ok(where, integrand))
         return 0;
-    if (theta_in_value(integrand))
+    if (theta_in_value(integrand) && !strata_class_in_value(integrand))
         return theta_explain(I, where, g, n, integrand);
     if (!integrate_space_ok(I, where, g, n))
         return 0;
     integral q;
     integral_init(&q, I, where, g, n, integrand);
     int ok;
-    if (q.family == INTEGRAND_HODGE)
+    if (q.family == INTEGRAND_STRATA)
+        ok = explain_cost_ok(&q, &route_strata) && strata_route_explain(&q);
+    else if (q.family == INTEGRAND_HODGE)
         ok = explain_cost_ok(&q, &route_hodge_operator) && hodge_lang_explain(I, where, integral_expansion(&q));
     else
         ok = explain_cost_ok(&q, &route_reduction) && explain_reduction(&q);

@@ -132,13 +132,22 @@ static int key_put_node(sha256_ctx *h, const key_ids *M, const cx *e, const scal
 {
     /* one name per cx_kind, in the enum's order: a kind added to classexpr.h
        without a name here fails the assertion below at compile time */
-    static const char *kinds[] = {"scalar", "psi", "kappa", "add", "mul", "pow", "exp", "lambda", "ch", "theta"};
-    _Static_assert(sizeof kinds / sizeof kinds[0] == CX_THETA + 1, "a class kind has no key name");
+    static const char *kinds[] = {"scalar", "psi", "kappa", "add", "mul", "pow", "exp", "lambda", "ch", "theta", "boundary", "stratum"};
+    _Static_assert(sizeof kinds / sizeof kinds[0] == CX_STRATUM + 1, "a class kind has no key name");
     sha256_update_field(h, kinds[e->kind]);
     switch (e->kind) {
     case CX_SCALAR:
         return results_key_scalar(h, e->scalar, R);
     case CX_THETA:
+        return 1;
+    case CX_BOUNDARY:
+        key_put_si(h, e->index);
+        key_put_si(h, (slong)(e->legs & 0xffffffffUL));
+        key_put_si(h, (slong)(e->legs >> 32));
+        return 1;
+    case CX_STRATUM:
+        for (int i = 0; i < 3; i++)
+            key_put_si(h, e->graph[i]);
         return 1;
     case CX_PSI:
     case CX_KAPPA:

@@ -13,7 +13,7 @@
 #include "volumes/wpoly.h"
 
 /* The class family of an integrand: which engines can integrate it at all. */
-typedef enum { INTEGRAND_PSI_KAPPA, INTEGRAND_HODGE, INTEGRAND_THETA } integrand_family;
+typedef enum { INTEGRAND_PSI_KAPPA, INTEGRAND_HODGE, INTEGRAND_THETA, INTEGRAND_STRATA } integrand_family;
 
 /* The forms the volume engine computes without expanding (route_volume.c). */
 typedef enum {
@@ -81,6 +81,13 @@ extern const route route_hodge_operator;  /* route_hodge.c */
 extern const route route_hodge_mumford;   /* route_hodge.c */
 extern const route route_theta;           /* route_theta.c */
 extern const route route_theta_shift;     /* route_theta.c */
+extern const route route_strata;          /* route_strata.c */
+extern const route route_strata_reverse;  /* route_strata.c */
+
+/* explain int_{g,n} ... for an integrand with boundary divisors: each product of divisors with
+   its number of strata, its psi-kappa cofactor and its share of the value (route_strata.c).
+   Returns 0 after reporting an error. */
+int strata_route_explain(integral *q);
 
 /* Recognises the forms of the volume engine in q->integrand; sets q->form (route_volume.c). */
 void volume_form_match(integral *q);

@@ -24,6 +24,7 @@ static const route *const router_table[] = {
     &route_reduction,
     &route_hodge_operator,
     &route_theta,
+    &route_strata,
 };
 #define ROUTER_ROUTES ((slong)(sizeof router_table / sizeof router_table[0]))
 

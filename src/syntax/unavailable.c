@@ -15,8 +15,9 @@ typedef struct {
 static const unavailable_entry unavailable_table[] = {
     {"lambda_", 1, "the Hodge class lambda_k (a Chern class of the Hodge bundle)", 1},
     {"ch_", 1, "the Chern character ch_k of the Hodge bundle", 1},
-    {"delta", 0, "the boundary divisor delta", 0},
-    {"delta_", 1, "a boundary class delta_...", 0},
+    {"delta", 0, "the total boundary divisor delta (the sum of delta_{irr} and the delta_{h,S})", 0},
+    {"delta_", 1, "a boundary divisor, delta_{irr} or delta_{h,S}", 1},
+    {"stratum_", 1, "the stratum class stratum_{g,n,k} of a stable graph", 1},
     {"Theta_", 1, "the class Theta_{g,n}", 0},
     {"DR_", 1, "the double ramification cycle DR_g(a)", 0},
 };

@@ -43,6 +43,24 @@ cx *cx_theta(const fmpq_mpoly_ctx_t ctx, const void *origin)
     return e;
 }
 
+cx *cx_boundary(slong h, ulong legs, const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_psi(h, ctx, origin);
+    e->kind = CX_BOUNDARY;
+    e->legs = legs;
+    return e;
+}
+
+cx *cx_stratum(slong g, slong n, slong k, slong edges, const fmpq_mpoly_ctx_t ctx, const void *origin)
+{
+    cx *e = cx_psi(edges, ctx, origin);
+    e->kind = CX_STRATUM;
+    e->graph[0] = g;
+    e->graph[1] = n;
+    e->graph[2] = k;
+    return e;
+}
+
 cx *cx_lambda(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin)
 {
     cx *e = cx_psi(j, ctx, origin);
@@ -169,6 +187,15 @@ slong cx_max_psi(const cx *e)
     return m;
 }
 
+int cx_has_boundary(const cx *e)
+{
+    for (; e; e = e->a) {
+        if (e->kind == CX_BOUNDARY || e->kind == CX_STRATUM || cx_has_boundary(e->b))
+            return 1;
+    }
+    return 0;
+}
+
 int cx_has_hodge(const cx *e)
 {
     for (; e; e = e->a) {
@@ -200,10 +227,12 @@ static slong cx_max_degree_at(const cx *e, int depth)
     slong a = e->a ? cx_max_degree_at(e->a, depth + 1) : 0, b = e->b ? cx_max_degree_at(e->b, depth + 1) : 0;
     switch (e->kind) {
     case CX_PSI:
+    case CX_BOUNDARY:
         return 1;
     case CX_KAPPA:
     case CX_LAMBDA:
     case CX_CH:
+    case CX_STRATUM:
         return e->index;
     case CX_ADD:
         return a > b ? a : b;

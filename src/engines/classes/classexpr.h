@@ -9,13 +9,20 @@
 #include <flint/fmpq_mpoly.h>
 
 /* CX_LAMBDA and CX_CH are the Chern classes lambda_j = c_j(E) and the Chern character components
-   ch_k(E) of the Hodge bundle E (index >= 0; docs/conventions.md, "The Hodge bundle"). */
-typedef enum { CX_SCALAR, CX_PSI, CX_KAPPA, CX_ADD, CX_MUL, CX_POW, CX_EXP, CX_LAMBDA, CX_CH, CX_THETA } cx_kind;
+   ch_k(E) of the Hodge bundle E (index >= 0; docs/conventions.md, "The Hodge bundle").
+   CX_BOUNDARY is a boundary divisor: delta_irr (index CX_BOUNDARY_IRR) or delta_{h,S} (index h,
+   legs the set S, bit i for leg i+1), read on the space int_{g,n} names (src/lang/strata_class.c).
+   CX_STRATUM is the stratum class of the k-th stable graph of Mbar_{g,n} (graph = {g, n, k},
+   index its codimension, the number of edges). */
+typedef enum { CX_SCALAR, CX_PSI, CX_KAPPA, CX_ADD, CX_MUL, CX_POW, CX_EXP, CX_LAMBDA, CX_CH, CX_THETA,
+               CX_BOUNDARY, CX_STRATUM } cx_kind;
 
 typedef struct cx {
     cx_kind kind;
     int refs;
-    slong index;                           /* psi/kappa index; exponent of CX_POW */
+    slong index;                           /* psi/kappa index; exponent of CX_POW; genus of CX_BOUNDARY */
+    ulong legs;                            /* CX_BOUNDARY: the leg set S, bit i for leg i+1 */
+    slong graph[3];                        /* CX_STRATUM: g, n and the graph number k (1-based) */
     fmpq_mpoly_t scalar;                   /* CX_SCALAR only */
     const fmpq_mpoly_ctx_struct *ctx;      /* ring of the scalars (not owned) */
     struct cx *a, *b;                      /* owned references */
@@ -29,6 +36,14 @@ cx *cx_psi(slong i, const fmpq_mpoly_ctx_t ctx, const void *origin);
 cx *cx_kappa(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin);
 /* Norbury's class Theta_{g,n} (degree 2g-2+n): only the Theta adaptor (theta_lang.c) integrates it. */
 cx *cx_theta(const fmpq_mpoly_ctx_t ctx, const void *origin);
+/* A boundary divisor of degree 1 (see CX_BOUNDARY): h = CX_BOUNDARY_IRR for delta_irr. Whether it
+   exists on Mbar_{g,n} is checked when the space is known. */
+#define CX_BOUNDARY_IRR (-1)
+cx *cx_boundary(slong h, ulong legs, const fmpq_mpoly_ctx_t ctx, const void *origin);
+/* The stratum of graph k of Mbar_{g,n}, of codimension `edges` (degree). */
+cx *cx_stratum(slong g, slong n, slong k, slong edges, const fmpq_mpoly_ctx_t ctx, const void *origin);
+/* Whether e contains a boundary divisor or stratum. */
+int cx_has_boundary(const cx *e);
 cx *cx_lambda(slong j, const fmpq_mpoly_ctx_t ctx, const void *origin);
 cx *cx_ch(slong k, const fmpq_mpoly_ctx_t ctx, const void *origin);
 cx *cx_add(cx *a, cx *b);

@@ -404,6 +404,10 @@ static int cpoly_expand_rec(cpoly *P, const cx *e, const cx **bad)
     case CX_LAMBDA:
     case CX_CH:
         return cpoly_expand_hodge(P, e, bad);
+    case CX_BOUNDARY:
+    case CX_STRATUM:      /* boundary factors are split off before expansion (strata_class.c) */
+        *bad = e;
+        return CPOLY_BOUNDARY;
     }
     return CPOLY_OK;
 }

@@ -35,7 +35,8 @@ typedef struct cpoly {
     const fmpq_mpoly_ctx_struct *ctx;
 } cpoly;
 
-enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG, CPOLY_THETA, CPOLY_HODGE, CPOLY_CANCELLED };
+enum { CPOLY_OK = 0, CPOLY_PSI_RANGE, CPOLY_EXP_CONSTANT, CPOLY_TOO_DEEP, CPOLY_TOO_BIG, CPOLY_THETA, CPOLY_HODGE, CPOLY_CANCELLED,
+       CPOLY_BOUNDARY };
 
 /* Makes cpoly_expand poll *flag (e.g. set by a signal handler) along long chains of sums and
    products and stop with CPOLY_CANCELLED once it is nonzero; NULL turns polling off. The

@@ -103,8 +103,8 @@ static int cxdeg_at(cxdeg_walk *W, const cx *e, unsigned char *r, int depth)
     if (depth > CXDEG_MAX_DEPTH || e->kind == CX_THETA)
         return 0;   /* Theta's degree 2g-2+n depends on the space: unknown here */
     if (e->kind == CX_SCALAR || e->kind == CX_PSI || e->kind == CX_KAPPA || e->kind == CX_LAMBDA
-        || e->kind == CX_CH) {
-        slong d = e->kind == CX_PSI ? 1 : e->kind == CX_SCALAR ? 0 : e->index;
+        || e->kind == CX_CH || e->kind == CX_BOUNDARY || e->kind == CX_STRATUM) {
+        slong d = e->kind == CX_PSI || e->kind == CX_BOUNDARY ? 1 : e->kind == CX_SCALAR ? 0 : e->index;
         if (e->kind != CX_SCALAR || !fmpq_mpoly_is_zero(e->scalar, e->ctx))
             r[d < cap ? d : cap] = 1;
         return 1;
