@@ -11,6 +11,7 @@
 #include "hodge_lang.h"
 #include "strbuf.h"
 #include "util.h"
+#include "verify_account.h"
 
 int hodge_lang_name(interp *I, const node *n, value **out)
 {
@@ -92,8 +93,14 @@ typedef struct {
     fmpq_mpoly_struct *res;
     double estimate;        /* largest state estimate over the terms */
     int mismatch;           /* --verify found a difference */
-    double compared;        /* terms the second route reached */
+    double checked;         /* --verify: terms the second route reached */
+    double unchecked;       /* --verify: terms out of the second route's reach */
+    const char *why;        /* the reason of the last unchecked term */
 } hodge_run;
+
+#define HODGE_WHY_GRR_LIMIT "Mumford's formula reached the memo limit of --max-table"
+#define HODGE_WHY_FP_TABLE "the Faber-Pandharipande operator's estimate is above --max-table"
+#define HODGE_WHY_FP_LIMIT "the Faber-Pandharipande operator reached the memo limit of --max-table"
 
 /* Total degree of the lambda and ch factors of a term. */
 static slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax)
@@ -106,51 +113,77 @@ static slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmul
     return s;
 }
 
+/* The memo states the operator route would need for a term (hodge_estimate_states). */
+static double hodge_lang_term_states(slong g, slong n, const slong *kmult, slong kmax, const slong *lmult, slong lmax,
+                                     const slong *cmult, slong cmax)
+{
+    slong kdeg = 0;
+    for (slong j = 1; j <= kmax; j++)
+        kdeg += kmult[j];
+    return hodge_estimate_states(g, n + kdeg, hodge_lang_degree(lmult, lmax, cmult, cmax));
+}
+
+/* Terms with a closed form (hodge_closed.c) need no memo and are left out of the estimate. */
 static int hodge_lang_estimate_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                                     const slong *lmult, slong lmax, const slong *cmult, slong cmax,
                                     const fmpq_mpoly_t coeff)
 {
     hodge_run *R = data;
-    slong kdeg = 0;
-    (void)psi, (void)coeff;
+    (void)coeff;
     if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0)
         return 0;               /* E = 0 in genus 0: no work */
-    for (slong j = 1; j <= kmax; j++)
-        kdeg += kmult[j];
-    double e = hodge_estimate_states(R->g, n + kdeg, hodge_lang_degree(lmult, lmax, cmult, cmax));
+    if (hodge_closed_kind(R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax) != HODGE_CLOSED_NONE)
+        return 0;
+    double e = hodge_lang_term_states(R->g, n, kmult, kmax, lmult, lmax, cmult, cmax);
     if (e > R->estimate)
         R->estimate = e;
     return 0;
 }
 
-/* One term by the operator route, and with --verify by Mumford's formula (out of reach: the
-   memo limit, nothing compared).  Adds coeff times the value to the result. */
+/* With --verify, w = the term by the route that did not give v: the operator after a closed form
+   (when its estimate is within --max-table), Mumford's formula after the operator; compares and
+   counts.  Returns WK_OK or WK_CANCELLED. */
+static int hodge_lang_second(hodge_run *R, const fmpq_t v, int closed, const slong *psi, slong n, const slong *kmult,
+                             slong kmax, const slong *lmult, slong lmax, const slong *cmult, slong cmax)
+{
+    int route = closed ? HODGE_ROUTE_FP : HODGE_ROUTE_GRR, st = WK_LIMIT;
+    const char *why = closed ? HODGE_WHY_FP_LIMIT : HODGE_WHY_GRR_LIMIT;
+    fmpq_t w;
+    fmpq_init(w);
+    if (closed && hodge_lang_term_states(R->g, n, kmult, kmax, lmult, lmax, cmult, cmax) > R->I->lim.max_table)
+        why = HODGE_WHY_FP_TABLE;
+    else
+        st = hodge_integral_lambda(w, R->H, route, R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax, 0);
+    if (st == WK_OK) {
+        R->checked++;
+        R->mismatch |= !fmpq_equal(v, w);
+    } else if (st != WK_CANCELLED) {
+        R->unchecked++;
+        R->why = why;
+        st = WK_OK;
+    }
+    fmpq_clear(w);
+    return st;
+}
+
+/* One term by its closed form, else by the operator route; with --verify also by a second route
+   (hodge_lang_second).  Adds coeff times the value to the result. */
 static int hodge_lang_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                            const slong *lmult, slong lmax, const slong *cmult, slong cmax,
                            const fmpq_mpoly_t coeff)
 {
     hodge_run *R = data;
-    fmpq_t v, w;
+    fmpq_t v;
     fmpq_mpoly_t t;
+    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0)
+        return WK_OK;           /* E = 0 in genus 0 */
     fmpq_init(v);
-    fmpq_init(w);
-    if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0) {
-        fmpq_clear(v);          /* E = 0 in genus 0 */
-        fmpq_clear(w);
-        return WK_OK;
-    }
-    int st = hodge_integral_lambda(v, R->H, HODGE_ROUTE_FP, R->g, psi, n, kmult, kmax, lmult, lmax, cmult,
-                                   cmax, 0);
-    if (st == WK_OK && R->I->verify) {
-        int s2 = hodge_integral_lambda(w, R->H, HODGE_ROUTE_GRR, R->g, psi, n, kmult, kmax, lmult, lmax,
-                                       cmult, cmax, 0);
-        if (s2 == WK_OK) {
-            R->compared++;
-            R->mismatch |= !fmpq_equal(v, w);
-        } else if (s2 == WK_CANCELLED) {
-            st = s2;
-        }
-    }
+    int closed = hodge_closed_kind(R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax) != HODGE_CLOSED_NONE;
+    int st = closed ? hodge_closed_integral(v, R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax)
+                    : hodge_integral_lambda(v, R->H, HODGE_ROUTE_FP, R->g, psi, n, kmult, kmax, lmult, lmax, cmult,
+                                            cmax, 0);
+    if (st == WK_OK && R->I->verify)
+        st = hodge_lang_second(R, v, closed, psi, n, kmult, kmax, lmult, lmax, cmult, cmax);
     if (st == WK_OK) {
         fmpq_mpoly_init(t, R->I->ring.ctx);
         fmpq_mpoly_scalar_mul_fmpq(t, coeff, v, R->I->ring.ctx);
@@ -158,7 +191,6 @@ static int hodge_lang_term(void *data, const slong *psi, slong n, const slong *k
         fmpq_mpoly_clear(t, R->I->ring.ctx);
     }
     fmpq_clear(v);
-    fmpq_clear(w);
     return st;
 }
 
@@ -177,7 +209,7 @@ static void hodge_lang_report(interp *I, const node *where, int st)
 /* Expands and refuses by estimate; returns 1 when P is ready to integrate. */
 static int hodge_lang_prepare(interp *I, const node *where, cpoly *P, const value *integrand)
 {
-    hodge_run R = {I, NULL, P->g, NULL, 0, 0, 0};
+    hodge_run R = {I, NULL, P->g, NULL, 0, 0, 0, 0, NULL};
     if (!hodge_lang_expand(P, where, integrand))
         return 0;
     cpoly_foreach_top_hodge(P, hodge_lang_estimate_term, &R);
@@ -194,24 +226,42 @@ static int hodge_lang_prepare(interp *I, const node *where, cpoly *P, const valu
     return 0;
 }
 
+/* The --verify account of one integral: its terms, and the value (checked when every term was).
+   Takes ownership of r; returns it, or NULL when --verify=strict refused an unchecked value. */
+static value *hodge_lang_account(interp *I, const node *where, const hodge_run *R, value *r)
+{
+    if (!I->verify)
+        return r;
+    verify_checked(I, VERIFY_MONOMIAL, R->checked);
+    if (R->unchecked > 0) {
+        verify_unchecked(I, NULL, VERIFY_MONOMIAL, R->unchecked, R->why);
+        return verify_unchecked_value(I, where, r, VERIFY_WHY_MONOMIALS);
+    }
+    verify_checked(I, VERIFY_VALUE, 1);
+    return r;
+}
+
 value *hodge_lang_integrate(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
     cpoly P;
     value *r = NULL;
     cpoly_init_hodge(&P, g, n, I->lim.max_class_terms, I->ring.ctx);
     if (hodge_lang_prepare(I, where, &P, integrand)) {
-        hodge_run R = {I, hodge_lang_ctx(I), g, NULL, 0, 0, 0};
+        hodge_run R = {I, hodge_lang_ctx(I), g, NULL, 0, 0, 0, 0, NULL};
         r = value_new_num(&I->ring);
         R.res = r->num;
         int st = R.H ? cpoly_foreach_top_hodge(&P, hodge_lang_term, &R) : WK_LIMIT;
         if (st != WK_OK || R.mismatch) {
             if (R.mismatch)
-                diag_error(&where->loc, "verification failed: the Faber-Pandharipande operator and Mumford's "
-                                        "formula disagree (please report this input)");
+                diag_error(&where->loc, "verification failed: the two routes for Hodge integrals (closed form or "
+                                        "Faber-Pandharipande operator, and the operator or Mumford's formula) "
+                                        "disagree (please report this input)");
             else
                 hodge_lang_report(I, where, st);
             value_release(r);
             r = NULL;
+        } else {
+            r = hodge_lang_account(I, where, &R, r);
         }
     }
     cpoly_clear(&P);

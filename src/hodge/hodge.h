@@ -82,6 +82,28 @@ int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const sl
                           const slong *kmult, slong kmax, const slong *lmult, slong lmax,
                           const slong *cmult, slong cmax, int expand_all);
 
+/* Closed forms (hodge_closed.c), no memo: which one an integrand is, if any. */
+enum { HODGE_CLOSED_NONE = 0, HODGE_CLOSED_TOP_PAIR = 1, HODGE_CLOSED_CUBED = 2 };
+
+/* res = int_{Mbar_{g,n}} prod psi_i^{a_i} lambda_g lambda_{g-1} for g >= 2, n >= 1, every a_i >= 1,
+   sum a_i = g-2+n (Getzler-Pandharipande; n = 1 Faber-Pandharipande).  WK_OK or WK_BADARG. */
+int hodge_closed_top_pair(fmpq_t res, slong g, const slong *a, slong n);
+
+/* res = int_{Mbar_g} lambda_{g-1}^3 for 2 <= g <= HODGE_MAX_INDEX (Faber-Pandharipande).
+   WK_OK or WK_BADARG. */
+int hodge_closed_lambda_cubed(fmpq_t res, slong g);
+
+/* HODGE_CLOSED_TOP_PAIR when the integrand (arguments as for hodge_integral_lambda) is
+   prod psi^a lambda_g lambda_{g-1} with all a_i >= 1 and no kappa or ch factor,
+   HODGE_CLOSED_CUBED when it is lambda_{g-1}^3 on Mbar_g, else HODGE_CLOSED_NONE. */
+int hodge_closed_kind(slong g, const slong *d, slong n, const slong *kmult, slong kmax, const slong *lmult,
+                      slong lmax, const slong *cmult, slong cmax);
+
+/* res = the integral by its closed form when hodge_closed_kind names one (WK_OK), else 0 and
+   WK_BADARG. */
+int hodge_closed_integral(fmpq_t res, slong g, const slong *d, slong n, const slong *kmult, slong kmax,
+                          const slong *lmult, slong lmax, const slong *cmult, slong cmax);
+
 /* A generous estimate of the memo states the operator route needs for an integral of total ch
    (or lambda) degree cdeg on Mbar_{g,n} (hodge_lambda.c): (g+1) p(3g-3+n) times the largest
    number of sub-multisets of odd ch indices of sum cdeg; HUGE_VAL beyond 1e18.  Used to refuse
