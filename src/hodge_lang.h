@@ -4,6 +4,7 @@
 #define PSIKAPPA_HODGE_LANG_H
 
 #include "interp.h"
+#include "classes/cpoly.h"
 
 /* When n is the name lambda_J or ch_K (J, K decimal), sets *out to the class (NULL after an
    error at n) and returns 1; returns 0 for any other name. */
@@ -21,9 +22,17 @@ int hodge_lang_applies(const value *integrand);
    Returns a new value, or NULL after reporting an error at where. */
 value *hodge_lang_integrate(interp *I, const node *where, slong g, slong n, const value *integrand);
 
-/* explain for such an integral: the source line and the integrand with every lambda monomial
-   written in ch classes.  Returns 0 after reporting an error. */
+/* explain for such an integral (hodge_lang_explain.c): the source line, the integrand with every
+   lambda monomial written in ch classes, the steps of Mumford's formula with their Bernoulli
+   weights and the psi-kappa integrals they end in.  Returns 0 after reporting an error. */
 int hodge_lang_explain(interp *I, const node *where, slong g, slong n, const value *integrand);
+
+/* Shared with hodge_lang_explain.c: the engine context (created on first use; NULL when memory
+   is exhausted), the report of an engine status at where, and the expansion of an integrand
+   into P with the refusal by estimate (1 when P is ready). */
+struct hodge_ctx *hodge_lang_ctx(interp *I);
+void hodge_lang_report(interp *I, const node *where, int st);
+int hodge_lang_prepare(interp *I, const node *where, cpoly *P, const value *integrand);
 
 /* Releases the Hodge engine's memo (called by interp_clear). */
 void hodge_lang_clear(interp *I);
