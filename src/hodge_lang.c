@@ -242,6 +242,40 @@ static value *hodge_lang_account(interp *I, const node *where, const hodge_run *
     return r;
 }
 
+/* The first lambda_j with j > g in e, or in genus 0 the first lambda_j or ch_k of positive index
+   (E = 0): a class that is zero on the space.  Walks along a, recursing on b, depth-limited. */
+static const cx *hodge_lang_zero_class(const cx *e, slong g, int depth)
+{
+    if (depth > 4000 || util_stack_exhausted())
+        return NULL;
+    for (; e; e = e->a) {
+        if ((e->kind == CX_LAMBDA && e->index > g) || (g == 0 && e->kind == CX_CH && e->index > 0))
+            return e;
+        const cx *f = e->b ? hodge_lang_zero_class(e->b, g, depth + 1) : NULL;
+        if (f != NULL)
+            return f;
+    }
+    return NULL;
+}
+
+/* A warning when an integral came out 0 and its integrand holds a class that is zero on the space
+   (lambda_j above the rank, or a Hodge class in genus 0): the likely slip is the index or the genus. */
+static void hodge_lang_warn_zero(interp *I, const node *where, slong g, slong n, const value *integrand,
+                                 const value *r)
+{
+    const cx *z = fmpq_mpoly_is_zero(r->num, I->ring.ctx) ? hodge_lang_zero_class(integrand->cls, g, 0) : NULL;
+    if (z == NULL)
+        return;
+    const node *at = z->origin != NULL ? z->origin : where;
+    const char *name = z->kind == CX_LAMBDA ? "lambda" : "ch";
+    if (g == 0)
+        diag_warning(&at->loc, "%s_%ld is the zero class on Mbar_{0,%ld} (the Hodge bundle is 0 in genus 0): the "
+                               "integral is 0", name, (long)z->index, (long)n);
+    else
+        diag_warning(&at->loc, "lambda_%ld is the zero class on Mbar_{%ld,%ld} (the Hodge bundle has rank %ld): the "
+                               "integral is 0", (long)z->index, (long)g, (long)n, (long)g);
+}
+
 value *hodge_lang_integrate(interp *I, const node *where, slong g, slong n, const value *integrand)
 {
     cpoly P;
@@ -262,6 +296,7 @@ value *hodge_lang_integrate(interp *I, const node *where, slong g, slong n, cons
             value_release(r);
             r = NULL;
         } else {
+            hodge_lang_warn_zero(I, where, g, n, integrand, r);
             r = hodge_lang_account(I, where, &R, r);
         }
     }

@@ -75,9 +75,9 @@ int hodge_integral(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d,
 int hodge_lambda_ch_poly(fmpq_mpoly_t P, const slong *lmult, slong lmax, const fmpq_mpoly_ctx_t R);
 
 /* res = int_{Mbar_{g,n}} prod psi^d prod kappa^kmult prod_{j} lambda_j^{lmult[j]} prod_k ch_k^{cmult[k]}
-   by the given route: lambda_j with j > g makes the integral 0 (E has rank g) unless
-   expand_all is nonzero, when every lambda is expanded into ch classes (tests use this to
-   check the vanishing).  Status codes as for hodge_integral. */
+   by the given route: lambda_j with j > g makes the integral 0 (E has rank g), and so does
+   lambda_g^2 (Mumford's relation), unless expand_all is nonzero, when every lambda is expanded
+   into ch classes (tests use this to check the vanishing).  Status codes as for hodge_integral. */
 int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
                           const slong *kmult, slong kmax, const slong *lmult, slong lmax,
                           const slong *cmult, slong cmax, int expand_all);
