@@ -168,7 +168,7 @@ static void hodge_sum_print(FILE *out, const hodge_sum *S, const node *where)
    (g, n, d descending, kmax, km[1..kmax], cmax, cm[1..cmax]), index by keymap. */
 typedef struct {
     slong len, cap;
-    slong **keys, *klen;
+    slong **keys;
     keymap index;                      /* key -> position */
 } hx_states;
 
@@ -233,14 +233,13 @@ static slong hx_state(hx_states *S, const hodge_mono *M)
     if (S->len == S->cap) {
         S->cap = S->cap ? 2 * S->cap : 16;
         S->keys = xrealloc(S->keys, (size_t)S->cap * sizeof(slong *));
-        S->klen = xrealloc(S->klen, (size_t)S->cap * sizeof(slong));
     }
     fmpq_t pos;
     fmpq_init(pos);
     fmpq_set_si(pos, S->len, 1);
     keymap_set(&S->index, k, len, pos);
     fmpq_clear(pos);
-    S->keys[S->len] = k, S->klen[S->len] = len;
+    S->keys[S->len] = k;
     return S->len++;
 }
 
@@ -403,7 +402,7 @@ static int hx_print_leaves(FILE *out, hodge_ctx *H, const hx_states *S)
 /* The walk from the monomials of the ch sum: each state with ch factors once, breadth first. */
 static int hx_walk(FILE *out, hodge_ctx *H, const hodge_sum *Sum)
 {
-    hx_states S = {0, 0, NULL, NULL, {0, 0, NULL, NULL}};
+    hx_states S = {0, 0, NULL, {0, 0, NULL, NULL}};
     slong D = Sum->D, steps = 0, i;
     slong *km = xcalloc((size_t)(2 * D + 2), sizeof(slong)), *cm = km + D + 1;
     int st = WK_OK;
@@ -429,7 +428,6 @@ static int hx_walk(FILE *out, hodge_ctx *H, const hodge_sum *Sum)
     for (slong j = 0; j < S.len; j++)
         free(S.keys[j]);
     free(S.keys);
-    free(S.klen);
     keymap_clear(&S.index);
     free(km);
     return st;
