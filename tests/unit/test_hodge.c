@@ -523,7 +523,7 @@ int main(void)
     test_lambda_g(H, HODGE_ROUTE_GRR, 5, 2, 3);
     /* with PSIKAPPA_TEST_MULTIPLIER >= 4 the operator route goes three genera further and Mumford's
        formula one (minutes); with >= 16 the operator reaches genus 15 and Mumford's formula 12
-       (measured alone: 200 s CPU for the operator at genus 15, 42 s for Mumford's formula at 12) */
+       (the whole test then took 211 s CPU, 240 MB) */
     long mult = unit_iterations(10);
     slong more = mult >= 160 ? 5 : mult >= 40 ? 3 : 0;
     test_lambda_gg1(H, HODGE_ROUTE_FP, 10 + more, 0, 1);
