@@ -1,13 +1,19 @@
-/* bench_hodge.c - the two Hodge routes of src/engines/hodge/hodge.h side by side: every
+/* bench_hodge.c - the Hodge routes of src/engines/hodge/hodge.h side by side: every
  * int_{Mbar_{g,1}} psi_1^a lambda_j lambda_k with 0 <= j <= k <= g and a = 3g-2-j-k >= 0, for
- * g = 1..G, by the Faber-Pandharipande operator (FP) and by Mumford's formula with the pushforward
- * reduction (GRR); one child process per genus and route, each with fresh tables.
+ * g = 1..G, by the Faber-Pandharipande operator (FP), by Mumford's formula with the pushforward
+ * reduction (GRR), and as int_{g,1} computes them (AUTO: the closed form for lambda_g lambda_{g-1},
+ * the operator for the rest); one child process per genus and route, each with fresh tables.
+ * Then the closed form of lambda_g lambda_{g-1} psi_1^{g-1} and of lambda_{g-1}^3 alone for
+ * g = 2..50 (no table: one call each).
  *
  * Usage:  bench_hodge [G [BUDGET_S [GMIN]]]   (defaults 12, 120 seconds per child, 1): genera
  *         GMIN..G
  * Columns: g, integrals, route, wall s, CPU s, peak MiB, memo states, checksum of the values
- * (equal results, equal sums), then the CPU ratio GRR/FP.  A route stopped by the budget is not
- * run for larger genera.
+ * (equal results, equal sums), the slowest single integral (CPU s) and its (j, k); then the CPU
+ * ratio GRR/FP.  FP and GRR keep their tables from one integral to the next (the slowest is the
+ * extra cost in that order); AUTO computes each integral with fresh tables, as int_{g,1} in a new
+ * process does, and its states column is the most one integral needed.  A route stopped by
+ * the budget is not run for larger genera.
  */
 #include <stdio.h>
 #include <stdlib.h>
@@ -33,11 +39,31 @@ static slong bh_count(slong g)
     return c;
 }
 
-/* All integrals of genus g by the route into v (in the order of bh_count); 0 on success. */
-static int bh_compute(fmpq *v, hodge_ctx *H, slong g, int route)
+#define BH_AUTO 2
+static const char *bh_route_name[3] = {"GRR", "FP", "AUTO"};
+
+/* The slowest integral of a run: CPU seconds and its lambda indices. */
+typedef struct {
+    double cpu;
+    slong j, k;
+    slong states;                   /* AUTO: the most memo states of one integral */
+} bh_slowest;
+
+/* One integral by the route; BH_AUTO as int_{g,1} does (closed form, else the operator). */
+static int bh_integral(fmpq_t v, hodge_ctx *H, int route, slong g, slong a, const slong *lm)
+{
+    if (route == BH_AUTO && hodge_closed_kind(g, &a, 1, NULL, 0, lm, g, NULL, 0) != HODGE_CLOSED_NONE)
+        return hodge_closed_integral(v, g, &a, 1, NULL, 0, lm, g, NULL, 0);
+    return hodge_integral_lambda(v, H, route == BH_AUTO ? HODGE_ROUTE_FP : route, g, &a, 1, NULL, 0, lm, g, NULL,
+                                 0, 0);
+}
+
+/* All integrals of genus g by the route into v (in the order of bh_count), timing each; 0 on success. */
+static int bh_compute(fmpq *v, hodge_ctx *H, slong g, int route, bh_slowest *slow)
 {
     slong i = 0, lm[64];
     int st = WK_OK;
+    slow->cpu = -1.0;
     for (slong j = 0; j <= g && st == WK_OK; j++)
         for (slong k = j; k <= g && st == WK_OK; k++) {
             slong a = 3 * g - 2 - j - k;
@@ -46,7 +72,21 @@ static int bh_compute(fmpq *v, hodge_ctx *H, slong g, int route)
             for (slong t = 0; t <= g; t++)
                 lm[t] = 0;
             lm[j] += j > 0, lm[k] += k > 0;
-            st = hodge_integral_lambda(v + i++, H, route, g, &a, 1, NULL, 0, lm, g, NULL, 0, 0);
+            double c0 = bench_cpu_used();
+            if (route == BH_AUTO) {         /* fresh tables: one integral as a new process runs it */
+                wk_table *T = wk_table_new();
+                hodge_ctx *H1 = hodge_new(T);
+                st = bh_integral(v + i++, H1, route, g, a, lm);
+                if (hodge_entries(H1, HODGE_ROUTE_FP) > slow->states)
+                    slow->states = hodge_entries(H1, HODGE_ROUTE_FP);
+                hodge_free(H1);
+                wk_table_free(T);
+            } else {
+                st = bh_integral(v + i++, H, route, g, a, lm);
+            }
+            double c = bench_cpu_used() - c0;
+            if (c > slow->cpu)
+                slow->cpu = c, slow->j = j, slow->k = k;
         }
     return st != WK_OK;
 }
@@ -61,14 +101,16 @@ static int bh_run(void *arg, FILE *out)
     hodge_ctx *H = hodge_new(T);
     bench_timer t;
     bench_usage u;
+    bh_slowest slow = {0.0, 0, 0, 0};
     bench_timer_start(&t);
-    int st = bh_compute(v, H, c->g, c->route);
+    int st = bh_compute(v, H, c->g, c->route, &slow);
     u.wall = bench_timer_wall(&t);
     u.cpu = bench_timer_cpu(&t);
     u.mib = bench_peak_mib();
-    printf("%3ld %5ld %-4s %9.3f %9.3f %8.1f %9ld %20lu%s\n", (long) c->g, (long) n,
-           c->route == HODGE_ROUTE_FP ? "FP" : "GRR", u.wall, u.cpu, u.mib,
-           (long) hodge_entries(H, c->route), bench_checksum_fmpq(v, n), st ? " (error)" : "");
+    printf("%3ld %5ld %-4s %9.3f %9.3f %8.1f %9ld %20lu %9.3f (%ld,%ld)%s\n", (long) c->g, (long) n,
+           bh_route_name[c->route], u.wall, u.cpu, u.mib,
+           (long) (c->route == BH_AUTO ? slow.states : hodge_entries(H, c->route)), bench_checksum_fmpq(v, n),
+           slow.cpu, (long) slow.j, (long) slow.k, st ? " (error)" : "");
     fflush(stdout);
     bench_usage_write(out, &u);
     hodge_free(H);
@@ -86,30 +128,52 @@ static int bh_child(slong g, int route, unsigned budget, double *cpu)
     int ok = bench_child_ok(&ch);
     *cpu = bench_usage_read(&u, ch.text) != NULL ? u.cpu : 0.0;
     if (ch.signaled)
-        printf("%3ld %5ld %-4s stopped after %u s\n", (long) g, (long) bh_count(g),
-               route == HODGE_ROUTE_FP ? "FP" : "GRR", budget);
+        printf("%3ld %5ld %-4s stopped after %u s\n", (long) g, (long) bh_count(g), bh_route_name[route], budget);
     bench_child_clear(&ch);
     return !ok;
+}
+
+/* The closed forms alone for g = 2..gmax: CPU seconds of each call, the values' checksum. */
+static void bh_closed(slong gmax)
+{
+    fmpq *v = _fmpq_vec_init(2 * gmax + 2);
+    double worst = 0.0, total = 0.0;
+    slong worst_g = 0;
+    for (slong g = 2; g <= gmax; g++) {
+        slong a = g - 1;
+        double c0 = bench_cpu_used();
+        hodge_closed_top_pair(v + 2 * g, g, &a, 1);
+        hodge_closed_lambda_cubed(v + 2 * g + 1, g);
+        double c = bench_cpu_used() - c0;
+        total += c;
+        if (c > worst)
+            worst = c, worst_g = g;
+    }
+    printf("closed forms, lambda_g lambda_{g-1} psi_1^{g-1} and lambda_{g-1}^3, g = 2..%ld: CPU %.4f s in all, "
+           "slowest genus %ld (%.4f s), checksum %lu\n",
+           (long) gmax, total, (long) worst_g, worst, bench_checksum_fmpq(v, 2 * gmax + 2));
+    _fmpq_vec_clear(v, 2 * gmax + 2);
 }
 
 int main(int argc, char **argv)
 {
     slong G = 12, budget = 120, gmin = 1;
-    int live[2] = {1, 1};
+    int live[3] = {1, 1, 1};
     if (argc > 4 || (argc > 1 && !bench_arg_slong(&G, argv[1], 1, 40))
         || (argc > 2 && !bench_arg_slong(&budget, argv[2], 1, 86400))
         || (argc > 3 && !bench_arg_slong(&gmin, argv[3], 1, G))) {
         fprintf(stderr, "usage: %s [G [BUDGET_S [GMIN]]]   (1 <= GMIN <= G <= 40)\n", argv[0]);
         return 2;
     }
-    printf("  g count route     wall       CPU  peakMiB    states             checksum\n");
-    for (slong g = gmin; g <= G && (live[0] || live[1]); g++) {
-        double cpu[2] = {0.0, 0.0};
-        for (int r = HODGE_ROUTE_FP; r >= HODGE_ROUTE_GRR; r--)
+    printf("  g count route     wall       CPU  peakMiB    states             checksum   slowest (j,k)\n");
+    for (slong g = gmin; g <= G && (live[0] || live[1] || live[2]); g++) {
+        double cpu[3] = {0.0, 0.0, 0.0};
+        for (int r = BH_AUTO; r >= HODGE_ROUTE_GRR; r--)
             if (live[r] && bh_child(g, r, (unsigned) budget, cpu + r) != 0)
                 live[r] = 0;
         if (live[0] && live[1])
             printf("        GRR/FP CPU ratio %.2f\n", bench_ratio(cpu[HODGE_ROUTE_GRR], cpu[HODGE_ROUTE_FP]));
     }
+    bh_closed(50);
     return 0;
 }

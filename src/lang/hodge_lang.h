@@ -21,13 +21,19 @@ int hodge_lang_applies(const value *integrand);
    limits; NULL when memory is exhausted. The interpreter owns it. */
 struct hodge_ctx *hodge_lang_ctx(interp *I);
 
-/* explain for such an integral, expanded into P with the Hodge slots: the source line and the
-   integrand with every lambda monomial written in ch classes.  Returns 0 after reporting an error. */
+/* explain for such an integral, expanded into P with the Hodge slots (hodge_lang_explain.c): the
+   source line, the integrand with every lambda monomial written in ch classes, the steps of
+   Mumford's formula with their Bernoulli weights and the psi-kappa integrals they end in.  Returns 0 after reporting an error. */
 int hodge_lang_explain(interp *I, const node *where, const cpoly *P);
 
 /* Total degree of the lambda and ch factors of a term (multiplicities lmult[1..lmax],
    cmult[1..cmax]; either may be NULL with its max 0). */
 slong hodge_lang_degree(const slong *lmult, slong lmax, const slong *cmult, slong cmax);
+/* Reports an engine status other than WK_OK at where (a cancellation first). */
+void hodge_lang_report(interp *I, const node *where, int st);
+/* Warns once when the value r of int_{g,n} integrand is 0 because the integrand holds a class
+   that is zero on the space (lambda_j above the rank g, a Hodge class in genus 0). */
+void hodge_lang_warn_zero(interp *I, const node *where, slong g, slong n, const value *integrand, const value *r);
 /* Releases the Hodge engine's memo (called by interp_clear). */
 void hodge_lang_clear(interp *I);
 

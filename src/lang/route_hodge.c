@@ -1,6 +1,7 @@
-/* The Hodge routes of int_{g,n} (integrands with lambda_j or ch_k): the Faber-Pandharipande
-   operator (src/engines/hodge/hodge_fp.c) answers, Mumford's Grothendieck-Riemann-Roch formula
-   (src/engines/hodge/hodge_grr.c) checks it term by term. */
+/* The Hodge routes of int_{g,n} (integrands with lambda_j or ch_k): closed forms where they apply
+   (src/engines/hodge/hodge_closed.c) and the Faber-Pandharipande operator (hodge_fp.c) answer;
+   the check takes each term by the other route: the operator after a closed form, Mumford's
+   Grothendieck-Riemann-Roch formula (hodge_grr.c) after the operator. */
 #include <stdio.h>
 
 #include "cancel.h"
@@ -29,9 +30,11 @@ static int hodge_route_estimate_term(void *data, const slong *psi, slong n, cons
 {
     hodge_run *R = data;
     slong kdeg = 0, hdeg = hodge_lang_degree(lmult, lmax, cmult, cmax);
-    (void)psi, (void)coeff;
+    (void)coeff;
     if (R->g == 0 && hdeg > 0)
         return 0;               /* E = 0 in genus 0: no work */
+    if (hodge_closed_kind(R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax) != HODGE_CLOSED_NONE)
+        return 0;               /* a closed form (hodge_closed.c): no memo */
     for (slong j = 1; j <= kmax; j++)
         kdeg += kmult[j];
     double e = hodge_estimate_states(R->g, n + kdeg, hdeg);
@@ -40,27 +43,60 @@ static int hodge_route_estimate_term(void *data, const slong *psi, slong n, cons
     return 0;
 }
 
-/* One term by the operator or, as the check, by Mumford's formula; a term out of the formula's
-   reach (its memo limit) takes the operator's value and is counted as unchecked. Adds coeff
-   times the value to the result. */
+#define HODGE_WHY_GRR_LIMIT "Mumford's formula reached the memo limit of --max-table"
+#define HODGE_WHY_FP_TABLE "the Faber-Pandharipande operator's estimate is above --max-table"
+#define HODGE_WHY_FP_LIMIT "the Faber-Pandharipande operator reached the memo limit of --max-table"
+
+/* The memo states the operator would need for a term (hodge_estimate_states). */
+static double hodge_route_states(slong g, slong n, const slong *kmult, slong kmax, slong hdeg)
+{
+    slong kdeg = 0;
+    for (slong j = 1; j <= kmax; j++)
+        kdeg += kmult[j];
+    return hodge_estimate_states(g, n + kdeg, hdeg);
+}
+
+/* The check of one term: the operator when the answer came from a closed form (within
+   --max-table), else Mumford's formula. WK_LIMIT (counted, with its reason) when out of reach. */
+static int hodge_route_check_term(fmpq_t v, hodge_run *R, int closed, const slong *psi, slong n, const slong *kmult,
+                                  slong kmax, const slong *lmult, slong lmax, const slong *cmult, slong cmax)
+{
+    const char *why = closed ? HODGE_WHY_FP_LIMIT : HODGE_WHY_GRR_LIMIT;
+    int st = WK_LIMIT;
+    if (closed && hodge_route_states(R->g, n, kmult, kmax, hodge_lang_degree(lmult, lmax, cmult, cmax))
+                      > R->I->lim.max_table)
+        why = HODGE_WHY_FP_TABLE;
+    else
+        st = hodge_integral_lambda(v, R->H, closed ? HODGE_ROUTE_FP : HODGE_ROUTE_GRR, R->g, psi, n, kmult, kmax,
+                                   lmult, lmax, cmult, cmax, 0);
+    if (st == WK_OK) {
+        R->check->checked++;
+        verify_checked(R->I, VERIFY_MONOMIAL, 1);
+    } else if (st == WK_LIMIT) {
+        R->check->unchecked++;
+        verify_unchecked(R->I, NULL, VERIFY_MONOMIAL, 1, why);
+    }
+    return st;
+}
+
+/* One term: by its closed form, else by the operator; as the check, by the other route of
+   hodge_route_check_term (out of its reach, the first route's value). Adds coeff times the value
+   to the result. */
 static int hodge_route_term(void *data, const slong *psi, slong n, const slong *kmult, slong kmax,
                             const slong *lmult, slong lmax, const slong *cmult, slong cmax, const fmpq_mpoly_t coeff)
 {
     hodge_run *R = data;
     if (R->g == 0 && hodge_lang_degree(lmult, lmax, cmult, cmax) > 0)
         return WK_OK;           /* E = 0 in genus 0 */
+    int closed = hodge_closed_kind(R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax) != HODGE_CLOSED_NONE;
     fmpq_t v;
     fmpq_init(v);
-    int st = WK_LIMIT;
-    if (R->check) {
-        st = hodge_integral_lambda(v, R->H, HODGE_ROUTE_GRR, R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax, 0);
-        if (st == WK_OK)
-            R->check->checked++;
-        else if (st == WK_LIMIT)
-            R->check->unchecked++;
-    }
+    int st = R->check ? hodge_route_check_term(v, R, closed, psi, n, kmult, kmax, lmult, lmax, cmult, cmax)
+                      : WK_LIMIT;
     if (st == WK_LIMIT)
-        st = hodge_integral_lambda(v, R->H, HODGE_ROUTE_FP, R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax, 0);
+        st = closed ? hodge_closed_integral(v, R->g, psi, n, kmult, kmax, lmult, lmax, cmult, cmax)
+                    : hodge_integral_lambda(v, R->H, HODGE_ROUTE_FP, R->g, psi, n, kmult, kmax, lmult, lmax, cmult,
+                                            cmax, 0);
     if (st == WK_OK) {
         fmpq_mpoly_t t;
         fmpq_mpoly_init(t, R->I->ring.ctx);
@@ -70,16 +106,6 @@ static int hodge_route_term(void *data, const slong *psi, slong n, const slong *
     }
     fmpq_clear(v);
     return st;
-}
-
-/* Reports an engine status other than WK_OK at where: a cancellation first, then the code. */
-static void hodge_route_report(interp *I, const node *where, int st)
-{
-    char limit[160];
-    snprintf(limit, sizeof limit, "the Hodge integral reached the memo limit of %.3g states (raise it with "
-             "--max-table N)", I->lim.max_table);
-    const failure_words words[] = {{WK_LIMIT, limit}, {0, NULL}};
-    failure_report(where, "the Hodge engine", st, WK_CANCELLED, words);
 }
 
 static int hodge_route_applies(integral *q)
@@ -123,9 +149,11 @@ static value *hodge_route_run(integral *q, route_check *check)
     value *r = value_new_num(&I->ring);
     R.res = r->num;
     int st = R.H ? cpoly_foreach_top_hodge(P, hodge_route_term, &R) : WK_LIMIT;
+    if (st == WK_OK && !check)
+        hodge_lang_warn_zero(I, q->where, q->g, q->n, q->integrand, r);
     if (st == WK_OK)
         return r;
-    hodge_route_report(I, q->where, st);
+    hodge_lang_report(I, q->where, st);
     value_release(r);
     return NULL;
 }
@@ -148,5 +176,6 @@ const route route_hodge_operator = {
 };
 
 const route route_hodge_mumford = {
-    "Mumford's formula", hodge_route_applies, hodge_route_estimate, hodge_route_mumford, NULL,
+    "the second Hodge route (the operator after a closed form, Mumford's formula after the operator)",
+    hodge_route_applies, hodge_route_estimate, hodge_route_mumford, NULL,
 };

@@ -201,6 +201,9 @@ static void test_lambda_gg1(hodge_ctx *H, int route, slong G, slong N0, slong N)
                 lambda_gg1_value(e, g, a, n);
                 check_eq(hodge_integral_lambda(v, H, route, g, a, n, NULL, 0, lm, g, NULL, 0, 0), v, e,
                          route, "lambda_g lambda_{g-1} formula (Getzler-Pandharipande 1998)", g, a, n);
+                if (n > 0)          /* the engine's closed form (hodge_closed.c) against the same */
+                    check_eq(hodge_closed_top_pair(v, g, a, n), v, e, route, "closed form of lambda_g lambda_{g-1}",
+                             g, a, n);
                 count++;
             } while (n > 0 && next_composition(a, n, S));
             lm[g] = 0, lm[g - 1] = 0;
@@ -236,6 +239,7 @@ static void test_lambda_cubed(hodge_ctx *H, int route, slong G)
         lm[g - 1] = 3;
         check_eq(hodge_integral_lambda(v, H, route, g, NULL, 0, NULL, 0, lm, g - 1, NULL, 0, 0), v, e,
                  route, "lambda_{g-1}^3 (Faber-Pandharipande 2000)", g, NULL, 0);
+        check_eq(hodge_closed_lambda_cubed(v, g), v, e, route, "closed form of lambda_{g-1}^3", g, NULL, 0);
         lm[g - 1] = 0;
     }
     printf("lambda_{g-1}^3 on Mbar_g, route %s: g = 2..%ld\n", route_name[route], (long) G);
@@ -243,6 +247,56 @@ static void test_lambda_cubed(hodge_ctx *H, int route, slong G)
     fmpq_clear(e);
     fmpq_clear(b);
     fmpz_clear(f);
+}
+
+/* The closed forms of hodge_closed.c far beyond the routes (g <= 50): against the formulas as
+   evaluated in this file (lambda_gg1_value for every composition with parts >= 1 on n <= 3
+   points), the dilaton equation <tau_1 X>_{g,n+1} = (2g-2+n) <X>_{g,n} (a property test), and the
+   classification of integrands (hodge_closed_kind) with its refusals. */
+static void test_closed_forms(void)
+{
+    slong a[4], lm[64] = {0}, cm[2] = {0, 1}, km[2] = {0, 1}, count = 0;
+    fmpq_t v, w, e;
+    fmpq_init(v);
+    fmpq_init(w);
+    fmpq_init(e);
+    for (slong g = 2; g <= 50; g++)
+        for (slong n = 1; n <= 3; n++) {
+            first_composition(a, n, g - 2 + n);
+            do {
+                int ok = 1;
+                for (slong i = 0; i < n; i++)
+                    ok &= a[i] >= 1;
+                if (!ok)
+                    continue;
+                lambda_gg1_value(e, g, a, n);
+                check_eq(hodge_closed_top_pair(v, g, a, n), v, e, 1, "closed form to g = 50", g, a, n);
+                a[n] = 1;           /* dilaton: one more point with psi^1 */
+                hodge_closed_top_pair(w, g, a, n + 1);
+                fmpq_mul_si(v, v, 2 * g - 2 + n);
+                UNIT_CHECK(&rep, fmpq_equal(v, w), "dilaton equation on the closed form, g=%ld n=%ld (property)",
+                           (long) g, (long) n);
+                count++;
+            } while (next_composition(a, n, g - 2 + n));
+        }
+    lm[3] = 1, lm[4] = 1, a[0] = 3;
+    UNIT_CHECK(&rep, hodge_closed_kind(4, a, 1, NULL, 0, lm, 4, NULL, 0) == HODGE_CLOSED_TOP_PAIR, "kind: top pair");
+    UNIT_CHECK(&rep, hodge_closed_kind(4, a, 1, km, 1, lm, 4, NULL, 0) == HODGE_CLOSED_NONE, "kind: with kappa");
+    UNIT_CHECK(&rep, hodge_closed_kind(4, a, 1, NULL, 0, lm, 4, cm, 1) == HODGE_CLOSED_NONE, "kind: with ch");
+    lm[4] = 0, lm[3] = 3;
+    UNIT_CHECK(&rep, hodge_closed_kind(4, a, 0, NULL, 0, lm, 4, NULL, 0) == HODGE_CLOSED_CUBED, "kind: cubed");
+    UNIT_CHECK(&rep, hodge_closed_kind(4, a, 1, NULL, 0, lm, 4, NULL, 0) == HODGE_CLOSED_NONE, "kind: cubed, a point");
+    a[0] = 0, a[1] = 4;
+    UNIT_CHECK(&rep, hodge_closed_top_pair(v, 4, a, 2) == WK_BADARG, "closed form refuses psi^0");
+    UNIT_CHECK(&rep, hodge_closed_top_pair(v, 1, a, 1) == WK_BADARG, "closed form refuses g = 1");
+    UNIT_CHECK(&rep, hodge_closed_lambda_cubed(v, 1) == WK_BADARG, "lambda_0^3 refused");
+    UNIT_CHECK(&rep, hodge_closed_integral(v, 4, a, 2, NULL, 0, lm, 4, NULL, 0) == WK_BADARG && fmpq_is_zero(v),
+               "no closed form: WK_BADARG and 0");
+    printf("closed form of lambda_g lambda_{g-1} against the formula here and the dilaton equation: %ld integrals (g <= 50, n <= 3)\n",
+           (long) count);
+    fmpq_clear(v);
+    fmpq_clear(w);
+    fmpq_clear(e);
 }
 
 /* P = m! ch_m as a polynomial in lambda_1..lambda_g (variable j-1 is lambda_j) by Newton's
@@ -468,16 +522,20 @@ int main(void)
     test_lambda_g(H, HODGE_ROUTE_FP, 7, 2, 3);
     test_lambda_g(H, HODGE_ROUTE_GRR, 10, 1, 1);
     test_lambda_g(H, HODGE_ROUTE_GRR, 5, 2, 3);
-    /* with PSIKAPPA_TEST_MULTIPLIER >= 4 the operator route goes three genera further (minutes) */
-    slong more = unit_iterations(10) >= 40 ? 3 : 0;
+    /* with PSIKAPPA_TEST_MULTIPLIER >= 4 the operator route goes three genera further and Mumford's
+       formula one (minutes); with >= 16 the operator reaches genus 15 and Mumford's formula 12
+       (the whole test then took 211 s CPU, 240 MB) */
+    long mult = unit_iterations(10);
+    slong more = mult >= 160 ? 5 : mult >= 40 ? 3 : 0;
     test_lambda_gg1(H, HODGE_ROUTE_FP, 10 + more, 0, 1);
     test_lambda_gg1(H, HODGE_ROUTE_FP, 6, 2, 3);
-    test_lambda_gg1(H, HODGE_ROUTE_GRR, 8, 0, 1);
+    test_lambda_gg1(H, HODGE_ROUTE_GRR, 9 + (more == 5 ? 3 : more > 0), 0, 1);
     test_lambda_gg1(H, HODGE_ROUTE_GRR, 4, 2, 3);
-    test_lambda_cubed(H, HODGE_ROUTE_FP, 9 + more);
+    test_lambda_cubed(H, HODGE_ROUTE_FP, 9 + (more > 3 ? 3 : more));
     test_lambda_cubed(H, HODGE_ROUTE_GRR, 8);
     test_mumford_relation(H, st, HODGE_ROUTE_FP);
     test_mumford_relation(H, st, HODGE_ROUTE_GRR);
+    test_closed_forms();
     test_errors(H);
     hodge_free(H);
     wk_table_free(T);

@@ -76,12 +76,58 @@ int hodge_integral(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d,
 int hodge_lambda_ch_poly(fmpq_mpoly_t P, const slong *lmult, slong lmax, const fmpq_mpoly_ctx_t R);
 
 /* res = int_{Mbar_{g,n}} prod psi^d prod kappa^kmult prod_{j} lambda_j^{lmult[j]} prod_k ch_k^{cmult[k]}
-   by the given route: lambda_j with j > g makes the integral 0 (E has rank g) unless
-   expand_all is nonzero, when every lambda is expanded into ch classes (tests use this to
-   check the vanishing).  Status codes as for hodge_integral. */
+   by the given route: lambda_j with j > g makes the integral 0 (E has rank g), and so does
+   lambda_g^2 (Mumford's relation), unless expand_all is nonzero, when every lambda is expanded
+   into ch classes (tests use this to check the vanishing).  Status codes as for hodge_integral. */
 int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
                           const slong *kmult, slong kmax, const slong *lmult, slong lmax,
                           const slong *cmult, slong cmax, int expand_all);
+
+/* One integrand of Mumford's reduction: psi exponents d[0..n-1] on Mbar_{g,n}, kappa
+   multiplicities km[1..kmax] and ch multiplicities cm[1..cmax] (index 0 unused). */
+typedef struct {
+    slong g, n, kmax, cmax;
+    slong *d, *km, *cm;
+} hodge_mono;
+
+/* Receives one term of Mumford's formula: w times int A, times int B when B is not NULL (the two
+   sides of a separating node).  A and B are valid during the call only.  A status other than
+   WK_OK stops the enumeration and is returned. */
+typedef int (*hodge_term_fn)(void *data, const fmpq_t w, const hodge_mono *A, const hodge_mono *B);
+
+/* The step of the Grothendieck-Riemann-Roch route (hodge_grr.c) for one factor ch_k of S (k odd,
+   S->cm[k] > 0): int S = weight * sum of the terms passed to fn, weight = B_{k+1}/(k+1)!; the
+   terms are the kappa term, the psi terms, the irreducible and the ordered separating boundary
+   terms with their signs and factors 1/2 (terms of a side that cannot carry them are left out;
+   some left in may still vanish, see hodge_mono_vanishes).  For explain.  Returns WK_OK,
+   WK_BADARG (k not a ch factor of S, bad S) or the first status of fn other than WK_OK. */
+int hodge_mumford_terms(fmpq_t weight, hodge_ctx *H, const hodge_mono *S, slong k, hodge_term_fn fn, void *data);
+
+/* Whether int M is 0 for a reason seen without computing: an unstable space, a degree other than
+   3g-3+n, ch classes in genus 0 (E = 0) or an even ch index (Mumford). */
+int hodge_mono_vanishes(const hodge_mono *M);
+
+/* Closed forms (hodge_closed.c), no memo: which one an integrand is, if any. */
+enum { HODGE_CLOSED_NONE = 0, HODGE_CLOSED_TOP_PAIR = 1, HODGE_CLOSED_CUBED = 2 };
+
+/* res = int_{Mbar_{g,n}} prod psi_i^{a_i} lambda_g lambda_{g-1} for g >= 2, n >= 1, every a_i >= 1,
+   sum a_i = g-2+n (Getzler-Pandharipande; n = 1 Faber-Pandharipande).  WK_OK or WK_BADARG. */
+int hodge_closed_top_pair(fmpq_t res, slong g, const slong *a, slong n);
+
+/* res = int_{Mbar_g} lambda_{g-1}^3 for 2 <= g <= HODGE_MAX_INDEX (Faber-Pandharipande).
+   WK_OK or WK_BADARG. */
+int hodge_closed_lambda_cubed(fmpq_t res, slong g);
+
+/* HODGE_CLOSED_TOP_PAIR when the integrand (arguments as for hodge_integral_lambda) is
+   prod psi^a lambda_g lambda_{g-1} with all a_i >= 1 and no kappa or ch factor,
+   HODGE_CLOSED_CUBED when it is lambda_{g-1}^3 on Mbar_g, else HODGE_CLOSED_NONE. */
+int hodge_closed_kind(slong g, const slong *d, slong n, const slong *kmult, slong kmax, const slong *lmult,
+                      slong lmax, const slong *cmult, slong cmax);
+
+/* res = the integral by its closed form when hodge_closed_kind names one (WK_OK), else 0 and
+   WK_BADARG. */
+int hodge_closed_integral(fmpq_t res, slong g, const slong *d, slong n, const slong *kmult, slong kmax,
+                          const slong *lmult, slong lmax, const slong *cmult, slong cmax);
 
 /* A generous estimate of the memo states the operator route needs for an integral of total ch
    (or lambda) degree cdeg on Mbar_{g,n} (hodge_lambda.c): (g+1) p(3g-3+n) times the largest

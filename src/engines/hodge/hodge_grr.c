@@ -26,10 +26,7 @@
 #include "hodge_internal.h"
 
 /* An integrand: psi exponents d[0..n-1], kappa multiplicities km[1..kmax], ch ones cm[1..cmax]. */
-typedef struct {
-    slong g, n, kmax, cmax;
-    slong *d, *km, *cm;
-} gr_mono;
+typedef hodge_mono gr_mono;
 
 /* Allocates M with room for n psi exponents and the given index ranges, all zero; 0 on failure. */
 static int gr_alloc(gr_mono *M, slong g, slong n, slong kmax, slong cmax)
@@ -48,6 +45,32 @@ static void gr_free(gr_mono *M)
 }
 
 static int gr_eval(fmpq_t res, hodge_ctx *H, const gr_mono *M);
+
+/* The sum that Mumford's formula is evaluated into: the sink of its terms when computing. */
+typedef struct {
+    hodge_ctx *H;
+    fmpq_t acc;
+} gr_sum;
+
+/* Sink of one term: acc += w * int A (* int B, evaluated only when int A is nonzero). */
+static int gr_sum_term(void *data, const fmpq_t w, const gr_mono *A, const gr_mono *B)
+{
+    gr_sum *S = data;
+    fmpq_t v1, v2;
+    int st;
+    fmpq_init(v1);
+    fmpq_init(v2);
+    st = gr_eval(v1, S->H, A);
+    if (B != NULL && st == WK_OK && !fmpq_is_zero(v1)) {
+        st = gr_eval(v2, S->H, B);
+        fmpq_mul(v1, v1, v2);
+    }
+    fmpq_mul(v1, v1, w);
+    fmpq_add(S->acc, S->acc, v1);
+    fmpq_clear(v1);
+    fmpq_clear(v2);
+    return st;
+}
 
 /* acc += c * integral of M (c an integer). */
 static int gr_accumulate(fmpq_t acc, hodge_ctx *H, const gr_mono *M, const fmpz_t c)
@@ -75,46 +98,47 @@ static int gr_copy_less(gr_mono *M, const gr_mono *S, slong k, slong extra, slon
     return 1;
 }
 
-/* acc += int S kappa_k - sum_i int S psi_i^k, S without one ch_k: the interior terms. */
-static int gr_interior(fmpq_t acc, hodge_ctx *H, const gr_mono *S, slong k)
+/* The interior terms, S without one ch_k: fn(+1, S kappa_k), then fn(-1, S psi_i^k) for each i. */
+static int gr_interior(hodge_term_fn fn, void *data, const gr_mono *S, slong k)
 {
     gr_mono M;
-    fmpz_t one;
+    fmpq_t w;
     int st;
     if (!gr_copy_less(&M, S, k, 0, k))
         return WK_LIMIT;
-    fmpz_init_set_ui(one, 1);
+    fmpq_init(w);
+    fmpq_one(w);
     M.km[k]++;
-    st = gr_accumulate(acc, H, &M, one);
+    st = fn(data, w, &M, NULL);
     M.km[k]--;
-    fmpz_set_si(one, -1);
+    fmpq_neg(w, w);
     for (slong i = 0; i < M.n && st == WK_OK; i++) {
         M.d[i] += k;
-        st = gr_accumulate(acc, H, &M, one);
+        st = fn(data, w, &M, NULL);
         M.d[i] -= k;
     }
-    fmpz_clear(one);
+    fmpq_clear(w);
     gr_free(&M);
     return st;
 }
 
-/* acc += sum_{a=0}^{2l-2} (-1)^a int_{Mbar_{g-1,n+2}} S psi_{n+1}^a psi_{n+2}^{2l-2-a}, S
-   without one ch_k (k = 2l-1): the irreducible boundary without its factor 1/2. */
-static int gr_irreducible(fmpq_t acc, hodge_ctx *H, const gr_mono *S, slong k)
+/* The irreducible boundary, S without one ch_k (k = 2l-1): fn((-1)^a/2, S psi_{n+1}^a
+   psi_{n+2}^{2l-2-a} on Mbar_{g-1,n+2}) for a = 0..2l-2. */
+static int gr_irreducible(hodge_term_fn fn, void *data, const gr_mono *S, slong k)
 {
     gr_mono M;
-    fmpz_t sign;
+    fmpq_t w;
     int st = WK_OK;
     if (!gr_copy_less(&M, S, k, 2, 0))
         return WK_LIMIT;
     M.g = S->g - 1;
-    fmpz_init(sign);
+    fmpq_init(w);
     for (slong a = 0; a <= k - 1 && st == WK_OK; a++) {
         M.d[S->n] = a, M.d[S->n + 1] = k - 1 - a;
-        fmpz_set_si(sign, a % 2 ? -1 : 1);
-        st = gr_accumulate(acc, H, &M, sign);
+        fmpq_set_si(w, a % 2 ? -1 : 1, 2);
+        st = fn(data, w, &M, NULL);
     }
-    fmpz_clear(sign);
+    fmpq_clear(w);
     gr_free(&M);
     return st;
 }
@@ -126,6 +150,7 @@ typedef struct {
     slong *kind, *value, *count, *x;   /* kind: 0 leg, 1 kappa, 2 ch */
     gr_mono side[2];
     slong k;                           /* the removed ch index, 2l-1 */
+    fmpz_t two;                        /* the factor 1/2 of the boundary terms */
 } gr_groups;
 
 /* Fills side s (0: the x[i], 1: the rest) of genus gs with its legs, the node of exponent
@@ -148,54 +173,50 @@ static void gr_fill_side(gr_groups *G, int s, slong gs, slong node)
     M->n = n, M->g = gs;
 }
 
-/* acc += w * sum over g_1 of (-1)^a int(side 1) int(side 2) for the current shares x. */
-static int gr_split_leaf(fmpq_t acc, hodge_ctx *H, gr_groups *G, slong g, const fmpz_t w)
+/* fn((-1)^a w/2, side 1, side 2) for each genus g_1 of side 1, with the current shares x. */
+static int gr_split_leaf(hodge_term_fn fn, void *data, gr_groups *G, slong g, const fmpz_t w)
 {
     slong n1 = 1, deg1 = 0, ch1 = 0, chall = 0;
     int st = WK_OK;
+    fmpq_t wq;
     for (slong i = 0; i < G->ng; i++) {
         n1 += G->kind[i] == 0 ? G->x[i] : 0;
         deg1 += G->x[i] * G->value[i];
         ch1 += G->kind[i] == 2 ? G->x[i] : 0;
         chall += G->kind[i] == 2 ? G->count[i] : 0;
     }
+    fmpq_init(wq);
     for (slong g1 = 0; g1 <= g && st == WK_OK; g1++) {
         slong a = 3 * g1 - 3 + n1 - deg1;
-        fmpq_t v1, v2;
         if (a < 0 || a > G->k - 1 || (g1 == 0 && ch1 > 0) || (g1 == g && ch1 < chall))
             continue;
         gr_fill_side(G, 0, g1, a);
         gr_fill_side(G, 1, g - g1, G->k - 1 - a);
         if (2 * g1 - 2 + G->side[0].n <= 0 || 2 * (g - g1) - 2 + G->side[1].n <= 0)
             continue;
-        fmpq_init(v1);
-        fmpq_init(v2);
-        st = gr_eval(v1, H, &G->side[0]);
-        if (st == WK_OK && !fmpq_is_zero(v1))
-            st = gr_eval(v2, H, &G->side[1]);
-        fmpq_mul(v1, v1, v2);
-        fmpq_mul_fmpz(v1, v1, w);
-        (a % 2 ? fmpq_sub : fmpq_add)(acc, acc, v1);
-        fmpq_clear(v1);
-        fmpq_clear(v2);
+        fmpq_set_fmpz_frac(wq, w, G->two);
+        if (a % 2)
+            fmpq_neg(wq, wq);
+        st = fn(data, wq, &G->side[0], &G->side[1]);
     }
+    fmpq_clear(wq);
     return st;
 }
 
 /* Depth-first over the groups from i on, w the product of the binomials chosen so far. */
-static int gr_split_dfs(fmpq_t acc, hodge_ctx *H, gr_groups *G, slong g, slong i, const fmpz_t w)
+static int gr_split_dfs(hodge_term_fn fn, void *data, gr_groups *G, slong g, slong i, const fmpz_t w)
 {
     fmpz_t w2, b;
     int st = WK_OK;
     if (i == G->ng)
-        return gr_split_leaf(acc, H, G, g, w);
+        return gr_split_leaf(fn, data, G, g, w);
     fmpz_init(w2);
     fmpz_init(b);
     for (slong x = 0; x <= G->count[i] && st == WK_OK; x++) {
         G->x[i] = x;
         fmpz_bin_uiui(b, (ulong) G->count[i], (ulong) x);
         fmpz_mul(w2, w, b);
-        st = gr_split_dfs(acc, H, G, g, i + 1, w2);
+        st = gr_split_dfs(fn, data, G, g, i + 1, w2);
     }
     fmpz_clear(w2);
     fmpz_clear(b);
@@ -211,8 +232,8 @@ static void gr_group_add(gr_groups *G, slong kind, slong value, slong count)
     G->ng++;
 }
 
-/* acc += the ordered separating boundary sum (without its factor 1/2) for S without one ch_k. */
-static int gr_separating(fmpq_t acc, hodge_ctx *H, const gr_mono *S, slong k)
+/* The ordered separating boundary terms for S without one ch_k, through fn (gr_split_leaf). */
+static int gr_separating(hodge_term_fn fn, void *data, const gr_mono *S, slong k)
 {
     slong cap = S->n + S->kmax + S->cmax + 1;
     slong *p = calloc((size_t) (4 * cap), sizeof(slong));
@@ -223,6 +244,7 @@ static int gr_separating(fmpq_t acc, hodge_ctx *H, const gr_mono *S, slong k)
         return WK_LIMIT;
     G.ng = 0, G.k = k;
     G.kind = p, G.value = p + cap, G.count = p + 2 * cap, G.x = p + 3 * cap;
+    fmpz_init_set_ui(G.two, 2);
     for (slong i = 0, c; i < S->n; i += c) {
         for (c = 1; i + c < S->n && S->d[i + c] == S->d[i]; c++)
             ;
@@ -235,13 +257,25 @@ static int gr_separating(fmpq_t acc, hodge_ctx *H, const gr_mono *S, slong k)
     fmpz_init_set_ui(one, 1);
     if (gr_alloc(&G.side[0], 0, S->n + 1, S->kmax, S->cmax)) {
         if (gr_alloc(&G.side[1], 0, S->n + 1, S->kmax, S->cmax)) {
-            st = gr_split_dfs(acc, H, &G, S->g, 0, one);
+            st = gr_split_dfs(fn, data, &G, S->g, 0, one);
             gr_free(&G.side[1]);
         }
         gr_free(&G.side[0]);
     }
     fmpz_clear(one);
+    fmpz_clear(G.two);
     free(p);
+    return st;
+}
+
+/* The terms of Mumford's formula for one ch_k of S (without the weight B_{k+1}/(k+1)!). */
+static int gr_terms(hodge_term_fn fn, void *data, const gr_mono *S, slong k)
+{
+    int st = gr_interior(fn, data, S, k);
+    if (st == WK_OK)
+        st = gr_irreducible(fn, data, S, k);
+    if (st == WK_OK)
+        st = gr_separating(fn, data, S, k);
     return st;
 }
 
@@ -253,21 +287,17 @@ static int gr_step(fmpq_t res, hodge_ctx *H, const gr_mono *S)
     slong k = 1;
     while (S->cm[k] == 0)
         k += 2;
-    fmpq_t acc, bd;
+    gr_sum sum;
+    fmpq_t c;
     int st;
-    fmpq_init(acc);
-    fmpq_init(bd);
-    st = gr_interior(acc, H, S, k);
-    if (st == WK_OK)
-        st = gr_irreducible(bd, H, S, k);
-    if (st == WK_OK)
-        st = gr_separating(bd, H, S, k);
-    fmpq_div_2exp(bd, bd, 1);
-    fmpq_add(acc, acc, bd);
-    hodge_coef(bd, H, (k + 1) / 2);
-    fmpq_mul(res, acc, bd);
-    fmpq_clear(acc);
-    fmpq_clear(bd);
+    sum.H = H;
+    fmpq_init(sum.acc);
+    fmpq_init(c);
+    st = gr_terms(gr_sum_term, &sum, S, k);
+    hodge_coef(c, H, (k + 1) / 2);
+    fmpq_mul(res, sum.acc, c);
+    fmpq_clear(sum.acc);
+    fmpq_clear(c);
     return st;
 }
 
@@ -448,4 +478,33 @@ int hodge_grr_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong 
     M.km = kmax > 0 ? (slong *) km : (slong *) &zero;
     M.cm = cmax > 0 ? (slong *) cm : (slong *) &zero;
     return gr_eval(res, H, &M);
+}
+
+int hodge_mono_vanishes(const hodge_mono *M)
+{
+    slong kmax = M->kmax, cmax = M->cmax;
+    gr_mono S = *M;
+    while (kmax > 0 && M->km[kmax] == 0)
+        kmax--;
+    while (cmax > 0 && M->cm[cmax] == 0)
+        cmax--;
+    S.kmax = kmax, S.cmax = cmax;
+    if (M->g < 0 || 2 * M->g - 2 + M->n <= 0 || gr_degree(&S) != 3 * M->g - 3 + M->n)
+        return 1;
+    if (M->g == 0 && cmax > 0)
+        return 1;
+    for (slong j = 2; j <= cmax; j += 2)
+        if (M->cm[j] > 0)
+            return 1;
+    return 0;
+}
+
+int hodge_mumford_terms(fmpq_t weight, hodge_ctx *H, const hodge_mono *S, slong k, hodge_term_fn fn, void *data)
+{
+    fmpq_zero(weight);
+    if (H == NULL || S == NULL || fn == NULL || k < 1 || k % 2 == 0 || k > S->cmax || S->cm[k] <= 0
+        || hodge_check_args(H, HODGE_ROUTE_GRR, S->g, S->d, S->n, S->km, S->kmax, S->cm, S->cmax) != WK_OK)
+        return WK_BADARG;
+    hodge_coef(weight, H, (k + 1) / 2);
+    return gr_terms(fn, data, S, k);
 }

@@ -133,7 +133,9 @@ int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const sl
     if (lmax == 0)
         return hodge_integral(res, H, route, g, d, n, kmult, kmax, cmult, cmax);
     st = hodge_check_args(H, route, g, d, n, kmult, kmax, cmult, cmax);
-    if (st != WK_OK || (lmax > g && !expand_all)
+    /* lambda_j = 0 for j > g (E has rank g) and lambda_g^2 = 0 (the top-degree part of Mumford's
+       relation c(E) c(E^dual) = 1, checked through the ch expansion by tests/unit/test_hodge.c) */
+    if (st != WK_OK || (lmax > g && !expand_all) || (lmax == g && lmult[g] >= 2 && !expand_all)
         || hodge_degree(d, n, kmult, kmax, cmult, cmax) + ldeg != 3 * g - 3 + n)
         return st;
     nv = (ldeg + 1) / 2;
