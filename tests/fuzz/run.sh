@@ -72,8 +72,9 @@ else
 fi
 cflags="-std=c11 -g -O1 -fno-omit-frame-pointer -fsanitize=address,undefined -fno-sanitize-recover=undefined $defs $incdirs"
 
-# Every C file of the layers under src/ except the command line's main.c.
-sources=$(cd "$src" && find src -name '*.c' ! -path src/cli/main.c | sort)
+# Every C file of the layers under src/ except the command line's main.c and the optional MPI
+# program (a program of its own, built only where MPI is).
+sources=$(cd "$src" && find src -name '*.c' ! -path src/cli/main.c ! -path 'src/mpi/*' | sort)
 rm -f "$work"/obj/*.o
 {
   for s in $sources; do echo "$src/$s"; done
