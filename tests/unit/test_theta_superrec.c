@@ -20,6 +20,7 @@
 #include <math.h>
 #include <flint/arith.h>
 #include <flint/fmpq.h>
+#include <flint/fmpq_vec.h>
 #include <flint/fmpz.h>
 #include "theta/theta.h"
 #include "unit.h"
