@@ -1,6 +1,8 @@
 /* The text of a value as the language prints it inside messages and lists. */
 #include "value_str.h"
 
+#include <stdlib.h>
+
 #include "print.h"
 #include "strbuf.h"
 #include "util.h"

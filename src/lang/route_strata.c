@@ -5,6 +5,7 @@
    vertex.  The check multiplies the divisors of every term in the reverse order and integrates
    every vertex by the time shift instead of the pushforward. */
 #include <stdio.h>
+#include <stdlib.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
 
