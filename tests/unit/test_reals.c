@@ -15,37 +15,12 @@
 #include "arb_compat.h"
 #include "interp.h"
 #include "unit.h"
+#include "run_script.h"
 
 int toolkit_arb_of_decimal(arb_t r, const char *s, slong prec);   /* toolkit_numeric.c */
 
 static unit_report rep;
 static flint_rand_t state;
-
-/* Runs code in a fresh interpreter with standard error silenced; returns what it printed. */
-static char *rl_run(const char *code, int *status)
-{
-    char *out = NULL;
-    size_t nout = 0;
-    FILE *fo = open_memstream(&out, &nout);
-    fflush(stderr);
-    int saved = dup(STDERR_FILENO), quiet = open("/dev/null", O_WRONLY);
-    if (quiet >= 0)
-        dup2(quiet, STDERR_FILENO);
-    interp I;
-    interp_init(&I);
-    I.out = fo;
-    *status = interp_run_source(&I, source_new("test", code, strlen(code)));
-    interp_clear(&I);
-    fclose(fo);
-    fflush(stderr);
-    if (saved >= 0) {
-        dup2(saved, STDERR_FILENO);
-        close(saved);
-    }
-    if (quiet >= 0)
-        close(quiet);
-    return out;
-}
 
 static void rl_put(char *s, size_t cap, const char *fmt, const char *a, const char *b)
 {
@@ -105,9 +80,9 @@ static void test_random_expressions(void)
         }
         int P = precs[n_randint(state, 4)], s1, s2;
         snprintf(code, sizeof code, "precision %d\n%s\n", P, e);
-        char *lo = rl_run(code, &s1);
+        char *lo = unit_run_script(code, &s1);
         snprintf(code, sizeof code, "precision %d\n%s\n", 2 * P, e);
-        char *hi = rl_run(code, &s2);
+        char *hi = unit_run_script(code, &s2);
         lo[strcspn(lo, "\n")] = hi[strcspn(hi, "\n")] = '\0';
         slong digits = 0;
         UNIT_CHECK(&rep, s1 == 0 && s2 == 0 && rl_agree(lo, hi, &digits),

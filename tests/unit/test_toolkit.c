@@ -28,6 +28,7 @@
 #include "arb_compat.h"
 #include "interp.h"
 #include "unit.h"
+#include "run_script.h"
 
 #ifdef PSIKAPPA_FLINT3_ARB
 #include <flint/arb_hypgeom.h>
@@ -41,36 +42,11 @@ static flint_rand_t state;
 /* Runs code in a fresh interpreter; returns what it printed (caller frees) and sets *status.
    Standard error is sent to /dev/null meanwhile (interp_run_source chooses the stream of the
    messages itself), so that the errors the tests provoke stay quiet. */
-static char *tk_run(const char *code, int *status)
-{
-    char *out = NULL;
-    size_t nout = 0;
-    FILE *fo = open_memstream(&out, &nout);
-    fflush(stderr);
-    int saved = dup(STDERR_FILENO), quiet = open("/dev/null", O_WRONLY);
-    if (quiet >= 0)
-        dup2(quiet, STDERR_FILENO);
-    interp I;
-    interp_init(&I);
-    I.out = fo;
-    *status = interp_run_source(&I, source_new("test", code, strlen(code)));
-    interp_clear(&I);
-    fclose(fo);
-    fflush(stderr);
-    if (saved >= 0) {
-        dup2(saved, STDERR_FILENO);
-        close(saved);
-    }
-    if (quiet >= 0)
-        close(quiet);
-    return out;
-}
-
 /* Runs code and checks that it printed exactly want. */
 static void tk_expect(const char *code, const char *want)
 {
     int status;
-    char *got = tk_run(code, &status);
+    char *got = unit_run_script(code, &status);
     UNIT_CHECK(&rep, status == 0 && strcmp(got, want) == 0, "script\n%s\nprinted\n%s(status %d), expected\n%s", code,
                got, status, want);
     free(got);
@@ -290,7 +266,7 @@ static void test_recognise(void)
             snprintf(want, sizeof want, "no relation below height");
         else
             tk_expected_answer(want, sizeof want, c, i, j);
-        char *got = tk_run(code, &status);
+        char *got = unit_run_script(code, &status);
         UNIT_CHECK(&rep, status == 0 && strncmp(got, want, strlen(want)) == 0, "%sprinted %sexpected %s...", code, got,
                    want);
         free(got);
@@ -302,7 +278,7 @@ static void test_recognise(void)
 static int tk_run_decimal(arb_t x, const char *code)
 {
     int status;
-    char *got = tk_run(code, &status);
+    char *got = unit_run_script(code, &status);
     char *nl = strchr(got, '\n');
     if (nl)
         *nl = '\0';
@@ -316,7 +292,7 @@ static int tk_run_decimal(arb_t x, const char *code)
 static void test_bessel(void)
 {
     int status;
-    char *got = tk_run("bessel_j0_zero(10)\n", &status);
+    char *got = unit_run_script("bessel_j0_zero(10)\n", &status);
     /* Abramowitz-Stegun Table 9.5, j_{0,1} = 2.4048255577 (from memory) */
     UNIT_CHECK(&rep, status == 0 && strcmp(got, "2.404825558\n") == 0, "bessel_j0_zero(10) printed %s", got);
     free(got);
@@ -389,7 +365,7 @@ static void test_svgplot(void)
              "\"pi\"]])\n",
              path);
     int status;
-    char *got = tk_run(code, &status);
+    char *got = unit_run_script(code, &status);
     UNIT_CHECK(&rep, status == 0 && strncmp(got, path, strlen(path)) == 0, "svgplot printed %s", got);
     free(got);
     UNIT_CHECK(&rep, tk_count_in_file(path, "<polyline") == 3, "expected 3 polylines in %s", path);
@@ -414,7 +390,7 @@ static void test_errors(void)
     };
     for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
         int status;
-        char *got = tk_run(bad[i], &status);
+        char *got = unit_run_script(bad[i], &status);
         UNIT_CHECK(&rep, status == 1 && got[0] == '\0', "%s gave status %d and printed %s", bad[i], status, got);
         free(got);
     }
