@@ -10,7 +10,15 @@
    Side effects are kept away from the machine: under run.sh the harness works
    in a scratch folder (relative paths of load and of files a script writes
    land there) and HOME and the XDG folders point into it; the results store
-   is off, and inputs that name a builtin writing files are skipped. */
+   is off, and inputs that name a builtin writing files are skipped.
+
+   A script may legitimately run for a long time (a sum over a large range, a
+   loop of a user function), as it may in the program, where Ctrl-C or
+   --time-limit stops it. The harness does what --time-limit does: a watchdog
+   thread raises the cancellation flag once an input has run for
+   FUZZ_BUDGET_MS. Only an input that ignores the flag then reaches
+   libFuzzer's -timeout, and that is a finding: the program could not be
+   interrupted there either. */
 #ifndef _XOPEN_SOURCE
 #define _XOPEN_SOURCE 700 /* setenv, unsetenv, chdir */
 #endif
@@ -20,6 +28,11 @@
 #include <stdlib.h>
 #include <string.h>
 #include <unistd.h>
+#include <pthread.h>
+#include <stdatomic.h>
+#include <time.h>
+
+#include "cancel.h"
 
 #include "diag.h"
 #include "interp.h"
@@ -28,6 +41,34 @@
 #include "source.h"
 
 static FILE *fuzz_null;
+
+enum { FUZZ_BUDGET_MS = 2000 };
+
+/* Start of the input being run, in milliseconds of CLOCK_MONOTONIC; 0 between inputs. */
+static atomic_llong fuzz_input_start;
+
+static long long fuzz_now_ms(void)
+{
+    struct timespec ts;
+    clock_gettime(CLOCK_MONOTONIC, &ts);
+    return (long long)ts.tv_sec * 1000 + ts.tv_nsec / 1000000;
+}
+
+/* The --time-limit of the harness: cancels an input that runs past its budget. A
+   flag raised just as an input ends can at worst cancel the next one early, which
+   is an error of that script, not a finding. */
+static void *fuzz_watchdog(void *unused)
+{
+    (void)unused;
+    const struct timespec tick = {0, 20 * 1000000};
+    for (;;) {
+        nanosleep(&tick, NULL);
+        long long start = atomic_load(&fuzz_input_start);
+        if (start != 0 && fuzz_now_ms() - start > FUZZ_BUDGET_MS)
+            atomic_store(&cancel_flag, CANCEL_TIMEOUT);
+    }
+    return NULL;
+}
 
 /* Builtins that write files named by the script. */
 static const char *const fuzz_writers[] = {"svgplot"};
@@ -79,6 +120,12 @@ int LLVMFuzzerInitialize(int *argc, char ***argv)
        FLINT aborts become errors of the statement being run. */
     memory_install_hooks();
     interp_install_abort_handler();
+    pthread_t watchdog;
+    if (pthread_create(&watchdog, NULL, fuzz_watchdog, NULL) != 0) {
+        perror("fuzz_script: watchdog thread");
+        abort();
+    }
+    pthread_detach(watchdog);
     return 0;
 }
 
@@ -103,7 +150,11 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
        back to stderr, so this only covers what happens before; run.sh closes
        the target's stderr (-close_fd_mask) for the rest. */
     diag_set_stream(fuzz_null);
+    cancel_reset();
+    atomic_store(&fuzz_input_start, fuzz_now_ms());
     (void)interp_run_source(&I, source_new("<fuzz>", (const char *)data, size));
+    atomic_store(&fuzz_input_start, 0);
+    cancel_reset();
     diag_set_stream(NULL);
     interp_clear(&I);
     return 0;
