@@ -72,6 +72,15 @@ static void check_warn_degrees(interp *I, const node *where, slong g, slong n, c
     strbuf_clear(&b);
 }
 
+void integrand_warn_correlator(interp *I, const node *where, slong g, slong n, slong sum, slong want,
+                               const char *what)
+{
+    if (!integrand_first_warning(I, where))
+        return;
+    diag_warning(&where->loc, "the exponents of this %s add up to %ld, but on Mbar_{%ld,%ld} they must add up "
+                              "to %ld: the correlator is 0", what, (long)sum, (long)g, (long)n, (long)want);
+}
+
 /* A number integrated over a space of positive dimension: 0, said once. */
 static void check_warn_number(interp *I, const node *where, slong g, slong n, const value *v)
 {

@@ -13,4 +13,10 @@ int integrand_is_zero(interp *I, const node *where, slong g, slong n, const valu
    warning about an integral shares). */
 int integrand_first_warning(interp *I, const node *where);
 
+/* Warns once per correlator `where` whose exponents add up to `sum` instead of `want` (the
+   degree its class leaves for psi classes on Mbar_{g,n}), the reason it is 0; `what` names
+   the kind of correlator in the message. */
+void integrand_warn_correlator(interp *I, const node *where, slong g, slong n, slong sum, slong want,
+                               const char *what);
+
 #endif

@@ -9,6 +9,7 @@
 #include "diag.h"
 #include "eval.h"
 #include "integrate.h"
+#include "integrand_check.h"
 #include "util.h"
 #include "verify_account.h"
 #include "failure.h"
@@ -130,6 +131,15 @@ static int integrate_verify_correlator(interp *I, const node *where, slong g, co
     return ok;
 }
 
+/* d_1 + ... + d_n, saturated so that huge exponents cannot overflow. */
+slong integrate_exponent_sum(const slong *d, slong n)
+{
+    slong sum = 0;
+    for (slong i = 0; i < n; i++)
+        sum = d[i] >= WORD_MAX / 2 - sum ? WORD_MAX / 2 : sum + d[i];
+    return sum;
+}
+
 /* A degree mismatch is 0 however large the space; one-point and genus-0 correlators have
    closed forms; the rest come from the DVV table, within the size estimates. */
 value *integrate_correlator(interp *I, const node *where, slong g, const slong *d, slong n)
@@ -139,6 +149,7 @@ value *integrate_correlator(interp *I, const node *where, slong g, const slong *
     int closed = wk_closed_form_kind(g, d, n), ok = 0;
     if (closed == WK_CLOSED_ZERO) {
         ok = 1;
+        integrand_warn_correlator(I, where, g, n, integrate_exponent_sum(d, n), 3 * g - 3 + n, "correlator");
         if (I->verify)
             verify_no_check_needed(I);
     } else if (integrate_space_ok(I, where, g, n)) {

@@ -42,4 +42,7 @@ void integrate_report_engine(const node *where, int rc);
    reach; *why says why) or WK_CANCELLED. */
 int integrate_compute_kdv(interp *I, fmpq_t res, slong g, const slong *d, slong n, const char **why);
 
+/* d_1 + ... + d_n of a correlator's exponents (nonnegative), saturated at WORD_MAX / 2. */
+slong integrate_exponent_sum(const slong *d, slong n);
+
 #endif

@@ -12,6 +12,7 @@
 #include "verify_account.h"
 #include "util.h"
 #include "integrate.h"
+#include "integrand_check.h"
 #include "eval.h"
 #include "failure.h"
 
@@ -106,11 +107,16 @@ value *theta_correlator_value(interp *I, const node *where, slong g, const slong
         diag_error(&where->loc, "Mbar_{%ld,%ld} is not a stable moduli space (needs 2g-2+n > 0)", (long)g, (long)n);
         return NULL;
     }
-    slong sum = 0;
-    for (slong i = 0; i < n && sum < g; i++)
-        sum += d[i] < g ? d[i] : g;
-    if (g == 0 || sum != g - 1)
-        return value_new_num(&I->ring);   /* Theta is zero in genus 0; the degree must be g-1 */
+    if (g == 0) {
+        if (integrand_first_warning(I, where))
+            diag_warning(&where->loc, "Theta is zero on Mbar_{0,%ld} (Theta_{0,n} = 0): the correlator is 0", (long)n);
+        return value_new_num(&I->ring);
+    }
+    slong sum = integrate_exponent_sum(d, n);
+    if (sum != g - 1) {   /* Theta has degree 2g-2+n, which leaves g-1 for the psi classes */
+        integrand_warn_correlator(I, where, g, n, sum, g - 1, "Theta correlator");
+        return value_new_num(&I->ring);
+    }
     if (!theta_genus_ok(I, where, g))
         return NULL;
     theta_table *T = theta_lang_table(I, THETA_ROUTE_VIRASORO);
