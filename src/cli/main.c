@@ -52,6 +52,8 @@ static void main_usage(FILE *out)
           "                     comparison of the two routes)\n"
           "  --format NAME      print values as exact (default), decimal, latex, csv or json\n"
           "  --digits N         correct significant digits of decimal output (1 to 1000000, default 20)\n"
+          "  --precision D      working precision of reals in decimal digits, as the statement\n"
+          "                     precision D at the start (1 to 100000, default 30)\n"
           "  --lib DIR          add DIR to the folders searched by load \"file.pk\"\n"
           "  --max-terms N      refuse integrals reducing to more than N correlator terms (default 2e7)\n"
           "  --max-table N      refuse computations needing more than N memo entries, and lists of\n"
@@ -119,6 +121,8 @@ static int main_valued_option(interp *I, main_state *M, const char *opt, const c
         I->lim.max_seconds = v;
     } else if (strcmp(opt, "--digits") == 0) {
         I->style.digits = (slong)v;
+    } else if (strcmp(opt, "--precision") == 0) {
+        I->real_digits = (slong)v;
     } else if (strcmp(opt, "--max-memory") == 0) {
         if (!memory_set_limit(v * 1073741824.0))
             fputs("psikappa: warning: could not set the memory cap\n", stderr);
@@ -131,7 +135,8 @@ static int main_valued_option(interp *I, main_state *M, const char *opt, const c
 static int main_is_valued(const char *a)
 {
     static const char *opts[] = {"--max-terms", "--max-table", "--max-depth", "--max-memory", "--time-limit",
-                                 "--lib", "--format", "--digits", "--max-seconds", "--store"};
+                                 "--lib", "--format", "--digits", "--precision", "--max-seconds",
+                                 "--store"};
     for (size_t i = 0; i < sizeof opts / sizeof opts[0]; i++)
         if (strcmp(a, opts[i]) == 0)
             return 1;

@@ -5,6 +5,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "interp.h"
 #include "output.h"
 #include "util.h"
 
@@ -16,6 +17,7 @@ static const option_range options_ranges[] = {
     {"--max-table", OPTION_WHOLE, 1, 1e15, NULL},
     {"--max-depth", OPTION_WHOLE, 1, 1e6, NULL},
     {"--digits", OPTION_WHOLE, 1, OUT_MAX_DIGITS, NULL},
+    {"--precision", OPTION_WHOLE, 1, REAL_MAX_DIGITS, NULL},   /* as the precision statement */
     {"--max-memory", OPTION_REAL, 0.001, 1048576, "gibibytes"},
     {"--max-seconds", OPTION_REAL, 0.001, 1e9, "seconds"},
     /* below a millisecond the timer would fire before the first statement;

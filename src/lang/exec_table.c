@@ -39,8 +39,8 @@ int exec_precision(interp *I, scope *s, const node *n)
     slong digits;
     if (!eval_slong(I, s, n->a, "number of digits", 1, &digits))
         return 0;
-    if (digits > 100000) {   /* as decimal(): more would take minutes per function */
-        diag_error(&n->a->loc, "at most 100000 digits");
+    if (digits > REAL_MAX_DIGITS) {
+        diag_error(&n->a->loc, "at most %d digits", REAL_MAX_DIGITS);
         return 0;
     }
     I->real_digits = digits;

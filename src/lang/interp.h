@@ -15,6 +15,10 @@
 #include "source.h"
 #include "value.h"
 
+/* Largest working precision of reals, in decimal digits (`precision D`, `--precision D`): as for
+   decimal(), more would take minutes per function. */
+#define REAL_MAX_DIGITS 100000
+
 /* Guards against requests that would exhaust memory or run for hours; each
    has a command-line option to raise it. */
 typedef struct interp_limits {
@@ -39,7 +43,8 @@ typedef struct interp {
     double list_outer;       /* values that the seq lists being built hold per item of a new one (1 outside seq) */
     int explain_all;         /* print the reduction of every integral */
     struct volume_cache *volcache; /* volume polynomials asked so far (volume_cache.c) */
-    slong real_digits;       /* working precision (decimal digits) of reals made by functions (precision D) */
+    slong real_digits;       /* working precision (decimal digits) of reals made by functions (precision D,
+                                --precision D; 1 to REAL_MAX_DIGITS) */
     out_style style;
     fmpq *wpv;               /* normalised volumes V_{g,n}, g <= wpv_G, n <= wpv_N (fastvol.c) */
     slong wpv_G, wpv_N;

@@ -122,7 +122,7 @@ if [ "$target" = cli ]; then
     i=$((i + 1))
     { tr ' ' '\n' < "$f"; printf -- '-e\nint_{1,1} psi_1'; } > "$work/seeds/args-$i"
   done
-  for o in --explain --verify --volume-engine --no-store --help --version "--format\njson" "--digits\n5" \
+  for o in --explain --verify --volume-engine --no-store --help --version "--format\njson" "--digits\n5" "--precision\n40" \
            "--store\nx.sqlite" "--lib\n." "--time-limit\n1" "--max-terms\n10" "--max-table\n10"; do
     i=$((i + 1))
     printf -- "$o\n-e\n<tau_4>_2" > "$work/seeds/opt-$i"
