@@ -9,6 +9,7 @@
    (G+1)(N+1) values g-major, one a line, as numerator/denominator in lowest terms (0 for the
    unstable (g, n)). The store keys rows by the engine's version, so a table of another version
    is never read. */
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -92,17 +93,27 @@ static int voltab_read_values(fmpq *t, char *p, slong G, slong N)
     return *p == '\0';
 }
 
+/* Whether text has exactly `lines` line ends (checked before any allocation). */
+static int voltab_line_count_is(const char *text, slong lines)
+{
+    slong c = 0;
+    for (const char *p = text; (p = strchr(p, '\n')) != NULL; p++)
+        if (++c > lines)
+            return 0;
+    return c == lines;
+}
+
 int voltab_read(const char *text, fmpq **t, slong *G, slong *N)
 {
     long g = -1, n = -1;
-    int used = 0;
+    char head[80];
     *t = NULL;
-    if (sscanf(text, VOLTAB_TAG " %ld %ld\n%n", &g, &n, &used) != 2 || used == 0 || g < 0 || n < 0
-        || g > 100000 || n > 100000 || (double)(g + 1) * (double)(n + 1) > 1e8)
+    if (sscanf(text, VOLTAB_TAG " %ld %ld", &g, &n) != 2 || g < 0 || n < 0 || g > 100000 || n > 100000)
+        return 0;
+    snprintf(head, sizeof head, VOLTAB_TAG " %ld %ld\n", g, n);   /* the header exactly, nothing else */
+    if (strncmp(text, head, strlen(head)) != 0 || !voltab_line_count_is(text, (g + 1) * (n + 1) + 1))
         return 0;
     const char *nl = strchr(text, '\n');
-    if (!nl)
-        return 0;
     char *buf = xstrdup(nl + 1);
     fmpq *tab = _fmpq_vec_init((g + 1) * (n + 1));
     int ok = voltab_read_values(tab, buf, g, n);

@@ -97,6 +97,9 @@ int main(void)
     check_refused(text, "volume-table-1 9 4", "volume-table-1 9 5", "a header with more points");
     check_refused(text, "volume-table-1 9 4", "volume-table-1 8 4", "a header with fewer genera");
     check_refused(text, "volume-table-1", "volume-table-9", "another format");
+    check_refused(text, "volume-table-1 9 4\n", "volume-table-1 9 4 x\n", "a header with more words");
+    check_refused(text, "volume-table-1 9 4", "volume-table-1 90000 4000",
+                  "a header claiming a huge table (refused before allocating it)");
 
     free(text);
     _fmpq_vec_clear(t, nv);
