@@ -7,6 +7,13 @@
  *                                     fresh wk_table, divided by (3g-3+n)!) and by wpvol_table
  *                                     (G = g, N = n, 1 thread), each in its own child process;
  *                                     the two exact values must be identical
+ *         bench_volumes single [G [T]] one V_{G,0} (default G = 40) on 1 thread and on T threads
+ *                                     (default: every processor online), each in its own child
+ *                                     process, side by side: wall, CPU, CPU/wall, peak MiB,
+ *                                     primes, the ratios, and whether the two values are equal.
+ *                                     The engine computes V_{G,0} as the table g <= G, n = 0
+ *                                     (the recursion runs through every lower genus anyway), so
+ *                                     that is what is timed.  Keep G small on a shared machine.
  *         bench_volumes               the standard cases: (50,5), (100,5), (3,500), each with
  *                                     1 and 2 threads, one child process per run; then
  *                                     compare 12
@@ -21,6 +28,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 
 #include <flint/fmpz.h>
 #include <flint/fmpq.h>
@@ -221,6 +229,86 @@ static int bench_compare(slong gmax)
     return bad;
 }
 
+/* One V_{G,0} on a number of threads. */
+typedef struct { slong G; int threads; } single_case;
+
+/* Child body: times wpvol_table_ex(G, 0) on c->threads threads and writes its usage line, then
+   "primes value" with the exact V_{G,0}.  Returns the engine's status (0 = success). */
+static int single_child(void *arg, FILE *out)
+{
+    const single_case *c = arg;
+    fmpq *v = _fmpq_vec_init(c->G + 1);
+    slong primes = 0;
+    bench_timer t;
+    bench_usage u;
+    char *str;
+    int st;
+
+    bench_timer_start(&t);
+    st = wpvol_table_ex(v, c->G, 0, c->threads, 62, 1, &primes);
+    u.wall = bench_timer_wall(&t);
+    u.cpu = bench_timer_cpu(&t);
+    u.mib = bench_peak_mib();
+    str = fmpq_get_str(NULL, 10, v + c->G);
+    bench_usage_write(out, &u);
+    fprintf(out, "%ld %s\n", (long) primes, str);
+    flint_free(str);
+    _fmpq_vec_clear(v, c->G + 1);
+    return st;
+}
+
+/* Runs single_child in a child process; m->value gets the exact value (malloc'ed), *primes the
+   primes used.  Returns 1 on success. */
+static int single_measure(slong G, int threads, cmp_meas *m, long *primes)
+{
+    single_case c = { G, threads };
+    bench_child_result ch = bench_child_run(single_child, &c, 0);
+    const char *rest = bench_child_ok(&ch) ? bench_usage_read(&m->u, ch.text) : NULL;
+    int used = 0;
+
+    m->ok = 0;
+    m->value = NULL;
+    if (rest != NULL && sscanf(rest, "%ld %n", primes, &used) == 1 && used > 0)
+    {
+        m->value = strndup(rest + used, strcspn(rest + used, "\n"));
+        m->ok = m->value != NULL;
+    }
+    bench_child_clear(&ch);
+    return m->ok;
+}
+
+/* The single mode: V_{G,0} on 1 thread and on `threads` threads, side by side.
+   Returns 0 when both runs succeed with the same value. */
+static int bench_single(slong G, int threads)
+{
+    cmp_meas m[2];
+    long primes[2] = { 0, 0 };
+    int t[2] = { 1, threads }, i, same;
+
+    printf("one V_{%ld,0} (the table g <= %ld, n = 0) on 1 thread and on %d threads, each in its own"
+           " process\n", (long) G, (long) G, threads);
+    printf("threads   wall(s)    cpu(s)  cpu/wall peak(MiB) primes\n");
+    for (i = 0; i < 2; i++)
+    {
+        if (!single_measure(G, t[i], &m[i], &primes[i]))
+        {
+            printf("%7d  failed\n", t[i]);
+            free(m[0].value);
+            return 1;
+        }
+        printf("%7d %9.2f %9.2f %9.2f %9.1f %6ld\n", t[i], m[i].u.wall, m[i].u.cpu,
+               bench_ratio(m[i].u.cpu, m[i].u.wall), m[i].u.mib, primes[i]);
+        fflush(stdout);
+    }
+    same = strcmp(m[0].value, m[1].value) == 0;
+    printf("1 thread / %d threads: wall %.2f, cpu %.2f; values %s\n", threads,
+           bench_ratio(m[0].u.wall, m[1].u.wall), bench_ratio(m[0].u.cpu, m[1].u.cpu),
+           same ? "identical" : "DIFFER");
+    free(m[0].value);
+    free(m[1].value);
+    return !same;
+}
+
 /* Dispatches on the arguments (see the header comment).
    Returns nonzero if any run failed or the compare mode found a mismatch. */
 int main(int argc, char **argv)
@@ -231,6 +319,19 @@ int main(int argc, char **argv)
     slong G, N, threads;
     int c, t, bad = 0;
 
+    if (argc >= 2 && argc <= 4 && strcmp(argv[1], "single") == 0)
+    {
+        long online = sysconf(_SC_NPROCESSORS_ONLN);
+        slong T = online < 1 ? 1 : online;
+        G = 40;
+        if ((argc >= 3 && !bench_arg_slong(&G, argv[2], 2, 1000))
+            || (argc == 4 && !bench_arg_slong(&T, argv[3], 1, 1024)))
+        {
+            fprintf(stderr, "usage: %s single [G [THREADS]] (2 <= G <= 1000)\n", argv[0]);
+            return 2;
+        }
+        return bench_single(G, (int) T);
+    }
     if (argc == 3 && strcmp(argv[1], "compare") == 0 && bench_arg_slong(&G, argv[2], 4, WORD_MAX))
         return bench_compare(G);
     if (argc == 4 && bench_arg_slong(&G, argv[1], 0, WORD_MAX)
@@ -241,7 +342,8 @@ int main(int argc, char **argv)
     }
     if (argc != 1)
     {
-        fprintf(stderr, "usage: %s [G N THREADS | compare GMAX (GMAX >= 4)]\n", argv[0]);
+        fprintf(stderr, "usage: %s [G N THREADS | compare GMAX (GMAX >= 4) | single [G [THREADS]]]\n",
+                argv[0]);
         return 2;
     }
     printf("%s", head);

@@ -12,6 +12,7 @@
 #include "builtins.h"
 #include "cancel.h"
 #include "diag.h"
+#include "fastvol.h"
 #include "series_ops.h"
 #include "series/tseries_trig.h"
 #include "spectral/spectral.h"
@@ -346,7 +347,7 @@ static int bsp_compute(interp *I, const node *call, value **args, bsp_curve *C, 
     }
     sp_options_default(&o);
     o.cancel = &cancel_flag;
-    o.threads = 2;
+    o.threads = fastvol_threads();
     wpvol_set_cancel(&cancel_flag);
     if (C->kind == SP_CURVE_BESSEL && (o.theta = theta_lang_table(I, THETA_ROUTE_VIRASORO)) == NULL) {
         diag_error(&call->loc, "out of memory for the table of Theta-psi numbers");

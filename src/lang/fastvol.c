@@ -4,6 +4,7 @@
    engine's coefficients into integrals. Which integrals go here is route_volume.c's. */
 #include <stdlib.h>
 #include <string.h>
+#include <unistd.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_vec.h>
 
@@ -21,6 +22,8 @@
 #include "integrate.h"
 #include "eval.h"
 #include "failure.h"
+#include "results.h"
+#include "volume_table_store.h"
 
 /* The same for V_{g,1} (correlator terms summed over the sorted
    multi-indices): measured with bench_wpoly, V_{10,1} (18460 terms) takes
@@ -49,6 +52,25 @@ void fastvol_report(const node *where, int rc)
     failure_report(where, "the volume engine", rc, WPVOL_CANCELLED, words);
 }
 
+/* Every processor the system has online: the engine's primes are independent, so one value
+   keeps them all busy (at least one prime per thread in the first batch). */
+int fastvol_threads(void)
+{
+    long n = sysconf(_SC_NPROCESSORS_ONLN);
+    return n < 1 ? 1 : n > FASTVOL_MAX_THREADS ? FASTVOL_MAX_THREADS : (int)n;
+}
+
+/* Threads for the table up to (G, N): every processor, but no more than the modelled number
+   of primes, since the driver's first batch has at least one prime per thread and extra
+   primes would only be extra work. */
+static int fastvol_table_threads(slong G, slong N)
+{
+    double sec, each, root, primes;
+    int t = fastvol_threads();
+    wpvol_estimate_spread(&sec, &each, &root, &primes, G, N, 1);
+    return primes >= 1.0 && primes < (double)t ? (int)primes : t;
+}
+
 /* The table that holds V_{g,n}: grown in steps, so that a loop over g or n does not recompute
    it each time. */
 static void fastvol_table_size(const interp *I, slong g, slong n, slong *G, slong *N)
@@ -59,10 +81,12 @@ static void fastvol_table_size(const interp *I, slong g, slong n, slong *G, slon
     *N = n > *N ? n : *N;
 }
 
-const char *fastvol_table_cost(const interp *I, slong g, slong n, double *seconds, char *msg, size_t len)
+const char *fastvol_table_cost(interp *I, slong g, slong n, double *seconds, char *msg, size_t len)
 {
     *seconds = 0.0;
     if (I->wpv && g <= I->wpv_G && n <= I->wpv_N)
+        return NULL;
+    if (voltab_store_fill(I, g, n))   /* a stored table costs nothing to compute */
         return NULL;
     slong G, N;
     double bytes;
@@ -94,7 +118,8 @@ static int fastvol_grow(interp *I, const node *where, slong g, slong n)
     snprintf(what, sizeof what, "volume engine: all V_{g,n} with g <= %ld, n <= %ld", (long)G, (long)N);
     progress_note(what, sec / 2);
     wpvol_set_cancel(&cancel_flag);
-    int rc = wpvol_table(t, G, N, 2);
+    double t0 = results_clock();
+    int rc = wpvol_table(t, G, N, fastvol_table_threads(G, N));
     progress_clear_note(sec / 2);
     if (rc != WPVOL_OK) {
         _fmpq_vec_clear(t, (G + 1) * (N + 1));
@@ -106,6 +131,7 @@ static int fastvol_grow(interp *I, const node *where, slong g, slong n)
     I->wpv = t;
     I->wpv_G = G;
     I->wpv_N = N;
+    voltab_store_keep(I, results_clock() - t0);
     return 1;
 }
 
@@ -255,7 +281,7 @@ fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slo
     snprintf(what, sizeof what, "volume engine: V_{%ld,%ld}(L)", (long)g, (long)n);
     progress_note(what, sec / 2);
     wpvol_set_cancel(&cancel_flag);
-    int rc = wpoly_coeffs_at(w, g, n, idx, nidx, 2);
+    int rc = wpoly_coeffs_at(w, g, n, idx, nidx, fastvol_threads());
     progress_clear_note(sec / 2);
     if (rc == WPVOL_OK)
         return w;

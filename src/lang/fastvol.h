@@ -11,12 +11,17 @@
    reference route. */
 #define FASTVOL_MIN_TERMS 2000.0
 
+/* Threads of the volume engines: the processors online, at most FASTVOL_MAX_THREADS. */
+#define FASTVOL_MAX_THREADS 256
+int fastvol_threads(void);
+
 /* v = V_{g,n} (normalised) from the session's table, grown when needed; 0 after reporting. */
 int fastvol_get(interp *I, const node *where, fmpq_t v, slong g, slong n);
 void fastvol_clear(interp *I);
-/* The estimate of making the table hold V_{g,n} (*seconds, 0 when it does): NULL within the
-   limits, else the reason, with the error's message in msg. */
-const char *fastvol_table_cost(const interp *I, slong g, slong n, double *seconds, char *msg, size_t len);
+/* The estimate of making the table hold V_{g,n} (*seconds, 0 when it does, also after a
+   stored table was read into it): NULL within the limits, else the reason, with the error's
+   message in msg. */
+const char *fastvol_table_cost(interp *I, slong g, slong n, double *seconds, char *msg, size_t len);
 
 /* The same for the polynomial engine on the sorted multi-indices idx[0..nidx n). */
 const char *fastvol_poly_cost(const interp *I, slong g, slong n, const slong *idx, slong nidx, double *seconds,

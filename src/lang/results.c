@@ -118,6 +118,27 @@ void results_save(interp *I, const results_question *q, const fmpq_mpoly_t value
     results_report(I);
 }
 
+int results_lookup_text(interp *I, const char *key, char **answer)
+{
+    *answer = NULL;
+    if (cancel_flag)
+        return 0;
+    store *S = results_open(I);
+    int hit = S && store_get(S, key, answer) == 1;
+    results_report(I);
+    return hit;
+}
+
+int results_save_text(interp *I, const char *key, const char *label, const char *text, double seconds)
+{
+    if ((seconds < RESULTS_MIN_SECONDS && !I->store_always) || cancel_flag)
+        return 0;
+    store *S = results_open(I);
+    int ok = S && store_put(S, key, label, text);
+    results_report(I);
+    return ok;
+}
+
 double results_clock(void)
 {
     struct timespec t;

@@ -17,6 +17,12 @@ int results_question_integral(interp *I, slong g, slong n, const cx *e, results_
 void results_question_clear(results_question *q);
 int results_lookup(interp *I, const results_question *q, fmpq_mpoly_t out);
 void results_save(interp *I, const results_question *q, const fmpq_mpoly_t value, double seconds);
+/* The same for answers that are not one scalar (e.g. a table of volumes), as text the caller
+   writes and reads: lookup returns 1 and a new string in *answer (caller frees) on a hit; save
+   writes text under key unless it took less than the store's minimum time or an interrupt is
+   pending, and returns 1 when the row was written (one transaction: all of it or nothing). */
+int results_lookup_text(interp *I, const char *key, char **answer);
+int results_save_text(interp *I, const char *key, const char *label, const char *text, double seconds);
 double results_clock(void);
 void results_close(interp *I);
 

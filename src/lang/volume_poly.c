@@ -5,6 +5,7 @@
 
 #include <flint/fmpq_vec.h>
 
+#include "correlators/pushforward.h"
 #include "correlators/wk.h"
 #include "diag.h"
 #include "fastvol.h"
@@ -167,9 +168,40 @@ static value *volume_engine_sum(interp *I, const fmpq *w, const slong *idx, slon
     return r;
 }
 
+/* V_{g,0} = (2 pi^2)^D V_{g,0} (normalised) from the session's table of the volume engine, on
+   every processor, when the reduction's kappa_1 pushforward would be large (the threshold of the
+   kappa_1 routes of int_{g,n}) or --volume-engine asks for it. */
+static value *volume_closed_by_engine(interp *I, const node *where, slong g, int *handled)
+{
+    slong D = 3 * g - 3, kmult[2] = {0, D};
+    double terms = pf_estimate_terms(kmult, 1);
+    *handled = I->route_volumes || terms > FASTVOL_MIN_TERMS;
+    if (!*handled)
+        return NULL;
+    fmpq_t V;
+    fmpq_init(V);
+    value *r = NULL;
+    if (fastvol_get(I, where, V, g, 0)) {
+        fmpq_mpoly_t c;
+        fmpq_mpoly_init(c, I->ring.ctx);
+        scalar_set_gen(c, &I->ring, SCALAR_PI);
+        fmpq_mpoly_mul(c, c, c, I->ring.ctx);
+        fmpq_mpoly_scalar_mul_si(c, c, 2, I->ring.ctx);
+        r = value_new_num(&I->ring);
+        fmpq_mpoly_pow_ui(r->num, c, (ulong)D, I->ring.ctx);
+        fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, V, I->ring.ctx);
+        fmpq_mpoly_clear(c, I->ring.ctx);
+        r = volume_engine_verify(I, where, g, 0, terms, r);
+    }
+    fmpq_clear(V);
+    return r;
+}
+
 static value *volume_by_engine(interp *I, const node *where, slong g, slong n, int *handled)
 {
     *handled = 0;
+    if (g >= 2 && n == 0)
+        return volume_closed_by_engine(I, where, g, handled);
     if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
         return NULL;
     slong nidx = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n;

@@ -1,0 +1,60 @@
+#!/usr/bin/env bash
+# The volume engine's table in the results store: a first run keeps the table it computed, a
+# second run answers other V_{g,n} of that table from the store (proved by a time limit the
+# engine's own estimate refuses), with the same text as a run without the store; a run stopped
+# by its time limit while the table is being computed leaves no table in the store.
+set -u
+exe=$1
+tmp=$(mktemp -d)
+trap 'rm -rf "$tmp"' EXIT
+export PSIKAPPA_STORE_ALL=1
+unset PSIKAPPA_STORE
+pass=0; fail=0
+check() { if [ "$1" = ok ]; then pass=$((pass + 1)); else fail=$((fail + 1)); echo "FAIL: $2"; fi; }
+sql() { python3 -c 'import sqlite3,sys; print(sqlite3.connect(sys.argv[1]).execute(sys.argv[2]).fetchone()[0])' "$@"; }
+tables() { sql "$1" "select count(*) from results where label like '%volume table%' or label like 'index of the volume tables'"; }
+
+# First run: one value of genus 20 makes the table g <= 20, n <= 6.
+echo 'int_{20,0} kappa_1^57' > "$tmp/first.pk"
+"$exe" --store "$tmp/db.sqlite" --volume-engine "$tmp/first.pk" > "$tmp/first.out" 2>&1
+st=$?
+[ $st = 0 ] && check ok || { check no "first run failed ($st)"; cat "$tmp/first.out"; }
+head=$(sql "$tmp/db.sqlite" "select substr(answer, 1, 19) from results where label like '%volume table%'")
+[ "$head" = "volume-table-1 20 6" ] && check ok || check no "no table g <= 20, n <= 6 stored (found: $head)"
+
+# Second run: other entries of that table. Under --max-seconds 0.001 the engine refuses to
+# compute them (checked without the store), so an answer can only come from the store.
+cat > "$tmp/second.pk" <<'PK'
+int_{13,2} kappa_1^38
+int_{17,0} exp(2*pi^2*kappa_1)
+V_{19,0}
+int_{3,6} kappa_1^12
+PK
+"$exe" --no-store --volume-engine "$tmp/second.pk" > "$tmp/fresh.out" 2>&1
+"$exe" --no-store --volume-engine --max-seconds 0.001 "$tmp/second.pk" > "$tmp/refused.out" 2>&1
+st=$?
+[ $st != 0 ] && grep -q "above --max-seconds\|limits: 0.001 s" "$tmp/refused.out" && check ok \
+  || { check no "without the store the time limit did not refuse ($st)"; cat "$tmp/refused.out"; }
+"$exe" --store "$tmp/db.sqlite" --volume-engine --max-seconds 0.001 "$tmp/second.pk" > "$tmp/stored.out" 2>&1
+st=$?
+[ $st = 0 ] && cmp -s "$tmp/fresh.out" "$tmp/stored.out" && check ok \
+  || { check no "second run did not answer from the stored table ($st)"; diff "$tmp/fresh.out" "$tmp/stored.out" | head; }
+
+# A value beyond the stored table is computed (and the larger table replaces the smaller one).
+echo 'int_{22,1} kappa_1^64' > "$tmp/beyond.pk"
+"$exe" --no-store --volume-engine "$tmp/beyond.pk" > "$tmp/beyond.fresh" 2>&1
+"$exe" --store "$tmp/db.sqlite" --volume-engine "$tmp/beyond.pk" > "$tmp/beyond.out" 2>&1
+cmp -s "$tmp/beyond.fresh" "$tmp/beyond.out" && check ok || check no "a value beyond the stored table differs"
+head=$(sql "$tmp/db.sqlite" "select substr(answer, 1, 19) from results where label like '%volume table%'")
+[ "$head" = "volume-table-1 22 6" ] && check ok || check no "the larger table did not replace the smaller ($head)"
+
+# Interrupted: the time limit stops the engine during the table g <= 60; nothing of it is stored.
+echo 'int_{60,0} kappa_1^177' > "$tmp/long.pk"
+"$exe" --store "$tmp/cut.sqlite" --volume-engine --time-limit 0.5 "$tmp/long.pk" > "$tmp/long.out" 2>&1
+st=$?
+[ $st != 0 ] && check ok || check no "the run under --time-limit 0.5 was not stopped"
+n=$( [ -f "$tmp/cut.sqlite" ] && tables "$tmp/cut.sqlite" || echo 0)
+[ "$n" = 0 ] && check ok || check no "an interrupted run left $n table rows"
+
+echo "store_volume_table: $pass passed, $fail failed"
+[ $fail = 0 ]
