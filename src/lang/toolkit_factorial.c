@@ -8,6 +8,7 @@
 #include <flint/fmpq.h>
 #include <flint/fmpq_vec.h>
 #include <flint/fmpz.h>
+#include <flint/fmpz_vec.h>
 
 #include "builtins.h"
 #include "failure.h"
@@ -41,46 +42,64 @@ static int tkf_get_rational(interp *I, const node *call, value **args, int i, fm
     return 0;
 }
 
-/* W[i*(k+1)+j] = (-1)^(k+j) binomial(k, j) P(x_{i+j}) / (k! h^k), P(x) = (x-1)(x-2)...(x-k),
-   x_m = x1 + m h: the weight of a_{i+j} in the i-th value (count values). A polynomial of
-   degree k in x has k-th difference k! h^k times its leading coefficient, and a(x) P(x) is
-   one with leading coefficient c_0 when a is an inverse factorial series of order k. */
-static void tkf_weights(fmpq *W, slong count, slong k, const fmpq_t x1, const fmpq_t h)
+/* The weights, kept factored so that a long list costs memory linear in its length: the
+   weight of a_{i+j} in the i-th value is B[j] P[i+j] / scale, with P[m] = (x_m-1)...(x_m-k),
+   x_m = x1 + m h, B[j] = (-1)^(k+j) binomial(k, j) and scale = k! h^k. A polynomial of degree k
+   in x has k-th difference k! h^k times its leading coefficient, and a(x) P(x) is one with
+   leading coefficient c_0 when a is an inverse factorial series of order k. */
+typedef struct {
+    slong k, len;
+    fmpq *P;   /* len entries, owned */
+    fmpz *B;   /* k + 1 entries, owned */
+    fmpq_t scale;
+} tkf_weights;
+
+static void tkf_weights_init(tkf_weights *w, slong len, slong k, const fmpq_t x1, const fmpq_t h)
 {
-    slong len = count + k;
-    fmpq *P = _fmpq_vec_init(len);
-    fmpq_t x, t, scale;
-    fmpz_t b;
+    fmpq_t x, t;
+    fmpz_t f;
+    w->k = k;
+    w->len = len;
+    w->P = _fmpq_vec_init(len);
+    w->B = _fmpz_vec_init(k + 1);
+    fmpq_init(w->scale);
     fmpq_init(x);
     fmpq_init(t);
-    fmpq_init(scale);
-    fmpz_init(b);
+    fmpz_init(f);
     for (slong m = 0; m < len; m++) {
         fmpq_mul_si(x, h, m);
         fmpq_add(x, x, x1);
-        fmpq_one(P + m);
+        fmpq_one(w->P + m);
         for (slong s = 1; s <= k; s++) {
             fmpq_sub_si(t, x, s);
-            fmpq_mul(P + m, P + m, t);
+            fmpq_mul(w->P + m, w->P + m, t);
         }
     }
-    fmpq_pow_si(scale, h, k);
-    fmpz_fac_ui(b, (ulong)k);
-    fmpq_mul_fmpz(scale, scale, b);
-    fmpq_inv(scale, scale);
-    for (slong i = 0; i < count; i++)
-        for (slong j = 0; j <= k; j++) {
-            fmpz_bin_uiui(b, (ulong)k, (ulong)j);
-            if ((k + j) % 2)
-                fmpz_neg(b, b);
-            fmpq_mul_fmpz(W + i * (k + 1) + j, P + i + j, b);
-            fmpq_mul(W + i * (k + 1) + j, W + i * (k + 1) + j, scale);
-        }
-    _fmpq_vec_clear(P, len);
+    for (slong j = 0; j <= k; j++) {
+        fmpz_bin_uiui(w->B + j, (ulong)k, (ulong)j);
+        if ((k + j) % 2)
+            fmpz_neg(w->B + j, w->B + j);
+    }
+    fmpq_pow_si(w->scale, h, k);
+    fmpz_fac_ui(f, (ulong)k);
+    fmpq_mul_fmpz(w->scale, w->scale, f);
     fmpq_clear(x);
     fmpq_clear(t);
-    fmpq_clear(scale);
-    fmpz_clear(b);
+    fmpz_clear(f);
+}
+
+static void tkf_weights_clear(tkf_weights *w)
+{
+    _fmpq_vec_clear(w->P, w->len);
+    _fmpz_vec_clear(w->B, w->k + 1);
+    fmpq_clear(w->scale);
+}
+
+/* Sets r to the weight of a_{i+j} in the i-th value. */
+static void tkf_weight(fmpq_t r, const tkf_weights *w, slong i, slong j)
+{
+    fmpq_mul_fmpz(r, w->P + i + j, w->B + j);
+    fmpq_div(r, r, w->scale);
 }
 
 /* Checks that every item of xs is an exact number (V_NUM); 0 after naming the first that is not. */
@@ -97,22 +116,26 @@ static int tkf_check_exact(const node *call, const value *xs)
     return 1;
 }
 
-/* The values sum_j W[i][j] a_{i+j} of an exact list. */
-static value *tkf_apply_exact(interp *I, const node *call, const value *xs, const fmpq *W, slong count, slong k)
+/* The values sum_j w(i, j) a_{i+j} of an exact list. */
+static value *tkf_apply_exact(interp *I, const node *call, const value *xs, const tkf_weights *w, slong count)
 {
     if (!tkf_check_exact(call, xs))
         return NULL;
     value *r = value_new_list(count, &I->ring);
     fmpq_mpoly_t t;
+    fmpq_t c;
     fmpq_mpoly_init(t, I->ring.ctx);
+    fmpq_init(c);
     for (slong i = 0; i < count && !failure_cancelled(call); i++) {
         r->items[i] = value_new_num(&I->ring);
-        for (slong j = 0; j <= k; j++) {
-            fmpq_mpoly_scalar_mul_fmpq(t, xs->items[i + j]->num, W + i * (k + 1) + j, I->ring.ctx);
+        for (slong j = 0; j <= w->k; j++) {
+            tkf_weight(c, w, i, j);
+            fmpq_mpoly_scalar_mul_fmpq(t, xs->items[i + j]->num, c, I->ring.ctx);
             fmpq_mpoly_add(r->items[i]->num, r->items[i]->num, t, I->ring.ctx);
         }
     }
     fmpq_mpoly_clear(t, I->ring.ctx);
+    fmpq_clear(c);
     if (count > 0 && !r->items[count - 1]) {
         value_release(r);
         return NULL;
@@ -122,7 +145,7 @@ static value *tkf_apply_exact(interp *I, const node *call, const value *xs, cons
 
 /* The same on a list holding reals: balls at the working precision, or more when the
    list's reals are known better (the weights are large and alternate in sign). */
-static value *tkf_apply_real(interp *I, const node *call, const value *xs, const fmpq *W, slong count, slong k)
+static value *tkf_apply_real(interp *I, const node *call, const value *xs, const tkf_weights *w, slong count)
 {
     slong prec = real_work_prec(I);
     for (slong j = 0; j < xs->len; j++) {
@@ -144,16 +167,20 @@ static value *tkf_apply_real(interp *I, const node *call, const value *xs, const
     if (ok) {
         r = value_new_list(count, &I->ring);
         arb_t t;
+        fmpq_t c;
         arb_init(t);
+        fmpq_init(c);
         for (slong i = 0; i < count; i++) {
             r->items[i] = value_new_real(&I->ring);
-            for (slong j = 0; j <= k; j++) {
-                arb_mul_fmpz(t, a + i + j, fmpq_numref(W + i * (k + 1) + j), prec);
-                arb_div_fmpz(t, t, fmpq_denref(W + i * (k + 1) + j), prec);
+            for (slong j = 0; j <= w->k; j++) {
+                tkf_weight(c, w, i, j);
+                arb_mul_fmpz(t, a + i + j, fmpq_numref(c), prec);
+                arb_div_fmpz(t, t, fmpq_denref(c), prec);
                 arb_add(r->items[i]->re, r->items[i]->re, t, prec);
             }
         }
         arb_clear(t);
+        fmpq_clear(c);
     }
     _arb_vec_clear(a, xs->len);
     return r;
@@ -186,11 +213,10 @@ static value *toolkit_richardson_factorial(interp *I, const node *call, value **
     }
     if (ok) {
         slong count = xs->len - k;
-        fmpq *W = _fmpq_vec_init(count * (k + 1));
-        tkf_weights(W, count, k, x1, h);
-        r = toolkit_list_is_real(xs) ? tkf_apply_real(I, call, xs, W, count, k)
-                                     : tkf_apply_exact(I, call, xs, W, count, k);
-        _fmpq_vec_clear(W, count * (k + 1));
+        tkf_weights w;
+        tkf_weights_init(&w, xs->len, k, x1, h);
+        r = toolkit_list_is_real(xs) ? tkf_apply_real(I, call, xs, &w, count) : tkf_apply_exact(I, call, xs, &w, count);
+        tkf_weights_clear(&w);
     }
     fmpq_clear(x1);
     fmpq_clear(h);
