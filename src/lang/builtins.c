@@ -228,8 +228,9 @@ const builtin builtins_core[] = {
 
 static const builtin *builtin_find(const char *name)
 {
-    const builtin *tables[] = {builtins_core, builtins_series, builtins_toolkit, builtins_spectral, builtins_strata,
-                               builtins_real, builtins_subs};
+    const builtin *tables[] = {builtins_core,    builtins_series, builtins_toolkit_factorial,
+                               builtins_toolkit, builtins_spectral, builtins_strata,
+                               builtins_real,    builtins_subs};
     for (size_t t = 0; t < sizeof tables / sizeof tables[0]; t++)
         for (const builtin *b = tables[t]; b->name; b++)
             if (strcmp(b->name, name) == 0)

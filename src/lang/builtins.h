@@ -18,6 +18,7 @@ typedef struct {
 extern const builtin builtins_core[];    /* builtins.c, ends with a NULL name */
 extern const builtin builtins_series[];  /* builtins_series.c */
 extern const builtin builtins_toolkit[]; /* toolkit.c: sequences, extrapolation, recognition, plots */
+extern const builtin builtins_toolkit_factorial[]; /* toolkit_factorial.c: richardson_factorial */
 extern const builtin builtins_spectral[]; /* builtins_spectral.c: spectral curves, sin/cos/sinh/cosh */
 extern const builtin builtins_strata[];   /* builtins_strata.c: integrals against boundary strata */
 extern const builtin builtins_real[];    /* real_funcs.c: sqrt, gamma, zeta, besselj, numeric */
