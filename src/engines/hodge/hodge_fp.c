@@ -28,6 +28,10 @@
 
 static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
 
+/* Keys and sorted copies up to this length live on the stack (one malloc per call cost more
+   than the memo lookup). */
+#define FP_STACK 64
+
 /* acc += w * (g, e, cm) where w = num/den; returns the status of the correlator. */
 static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
                      const slong *cm, slong cmax)
@@ -37,9 +41,14 @@ static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, co
     fmpq_init(v);
     st = fp_corr(v, H, g, e, n, cm, cmax);
     if (st == WK_OK && !fmpq_is_zero(v)) {
-        fmpz_mul_si(fmpq_numref(v), fmpq_numref(v), num);
-        fmpz_mul_si(fmpq_denref(v), fmpq_denref(v), den);
-        fmpq_canonicalise(v);
+        if (num != 1)
+            fmpq_mul_si(v, v, num);     /* gcds with the small factors only */
+        if (den == 2)
+            fmpq_div_2exp(v, v, 1);
+        else if (den != 1) {
+            fmpz_mul_si(fmpq_denref(v), fmpq_denref(v), den);
+            fmpq_canonicalise(v);
+        }
         fmpq_add(acc, acc, v);
     }
     fmpq_clear(v);
@@ -274,20 +283,21 @@ static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
 /* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator. */
 static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
 {
-    slong *key;
+    slong *key, small[FP_STACK];
     const fmpq *hit;
     slong klen;
     int st;
     if (n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0)
         return fp_string_dilaton(res, H, g, d, n, cm, cmax);
-    key = malloc((size_t) (n + cmax + 2) * sizeof(slong));
+    key = n + cmax + 2 <= FP_STACK ? small : malloc((size_t) (n + cmax + 2) * sizeof(slong));
     if (key == NULL)
         return WK_LIMIT;
     klen = fp_key(key, g, d, n, cm, cmax);
     hit = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
     if (hit != NULL) {
         fmpq_set(res, hit);
-        free(key);
+        if (key != small)
+            free(key);
         return WK_OK;
     }
     st = hodge_poll(H, HODGE_ROUTE_FP);
@@ -295,14 +305,15 @@ static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, sl
         st = fp_step(res, H, g, d, n, cm, cmax);
     if (st == WK_OK)
         keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
-    free(key);
+    if (key != small)
+        free(key);
     return st;
 }
 
 /* res = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees. */
 static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
 {
-    slong *buf;
+    slong *buf, small[FP_STACK];
     int st;
     fmpq_zero(res);
     while (cmax > 0 && cmin[cmax] == 0)
@@ -316,14 +327,15 @@ static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n,
     for (slong k = 2; k <= cmax; k += 2)
         if (cmin[k] > 0)
             return WK_OK;               /* ch_{2k} = 0 (Mumford) */
-    buf = malloc((size_t) (n + cmax + 1) * sizeof(slong));
+    buf = n + cmax + 1 <= FP_STACK ? small : malloc((size_t) (n + cmax + 1) * sizeof(slong));
     if (buf == NULL)
         return WK_LIMIT;
     memcpy(buf, din, (size_t) n * sizeof(slong));
     memcpy(buf + n, cmin, (size_t) (cmax + 1) * sizeof(slong));
     hodge_sort_desc(buf, n);
     st = fp_corr_memo(res, H, g, buf, n, buf + n, cmax);
-    free(buf);
+    if (buf != small)
+        free(buf);
     if (st != WK_OK)
         fmpq_zero(res);
     return st;
