@@ -191,7 +191,20 @@ static int hp_split_legs(fmpq_poly_t acc, hodge_ctx *H, hp_legs *L, slong g1, sl
     return st;
 }
 
-/* acc += the separating boundary sum (without its factor 1/2) for sorted d[0..n-1]. */
+/* Compares the splitting (g1, x) with its mirror image (g2, cnt - x), which gives the same
+   terms (a and 2l-2-a exchanged): -1, 0 (its own image) or 1. */
+static int hp_mirror_cmp(const hp_legs *L, slong g1, slong g2)
+{
+    if (g1 != g2)
+        return g1 < g2 ? -1 : 1;
+    for (slong i = 0; i < L->r; i++)
+        if (L->x[i] != L->cnt[i] - L->x[i])
+            return L->x[i] < L->cnt[i] - L->x[i] ? -1 : 1;
+    return 0;
+}
+
+/* acc += the separating boundary sum (without its factor 1/2) for sorted d[0..n-1]; a splitting
+   and its mirror image are summed once, doubled. */
 static int hp_split(fmpq_poly_t acc, hodge_ctx *H, slong g, const slong *d, slong n, slong l)
 {
     hp_legs *L = malloc(sizeof(hp_legs));
@@ -211,10 +224,15 @@ static int hp_split(fmpq_poly_t acc, hodge_ctx *H, slong g, const slong *d, slon
     fmpq_poly_init(p1);
     fmpq_poly_init(p2);
     fmpz_init(w);
-    for (slong g1 = 0; g1 <= g && st == WK_OK; g1++) {
+    for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
         memset(L->x, 0, (size_t) L->r * sizeof(slong));
         do {
+            int side = hp_mirror_cmp(L, g1, g - g1);
+            if (side > 0)
+                continue;               /* its mirror image is summed instead, twice */
             slong n1, n2, s1 = hp_legs_fill(L, w, &n1, &n2);
+            if (side < 0)
+                fmpz_mul_2exp(w, w, 1);
             st = hp_split_legs(acc, H, L, g1, g - g1, n1, n2, s1, s - s1, l, w, p1, p2);
         } while (st == WK_OK && hp_next(L->x, L->cnt, L->r));
     }
@@ -364,16 +382,23 @@ static int hp_value(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *din, sl
     return st;
 }
 
-int hodge_pair_poly(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slong n)
+/* The argument checks of hodge_pair_poly: WK_OK, WK_BADARG or WK_UNSTABLE. */
+static int hodge_pair_poly_check(const hodge_ctx *H, slong g, const slong *d, slong n)
 {
-    fmpq_poly_zero(res);
     if (H == NULL || g < 0 || n < 0 || g > HODGE_MAX_INDEX || (n > 0 && d == NULL))
         return WK_BADARG;
     for (slong i = 0; i < n; i++)
         if (d[i] < 0 || d[i] > HODGE_MAX_INDEX)
             return WK_BADARG;
-    if (2 * g - 2 + n <= 0)
-        return WK_UNSTABLE;
+    return 2 * g - 2 + n <= 0 ? WK_UNSTABLE : WK_OK;
+}
+
+int hodge_pair_poly(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slong n)
+{
+    int st = hodge_pair_poly_check(H, g, d, n);
+    fmpq_poly_zero(res);
+    if (st != WK_OK)
+        return st;
     if (n + 2 > HP_STACK)
         return WK_LIMIT;
     return hp_value(res, H, g, d, n);
@@ -389,6 +414,8 @@ int hodge_pair_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong
         return WK_BADARG;
     for (slong i = 0; d != NULL && i < n; i++)
         s += d[i];
+    if (H != NULL && !H->pair_full && g >= 0 && (j > g || k > g || (j == g && k == g)))
+        return hodge_pair_poly_check(H, g, d, n);   /* 0: above the rank, or lambda_g^2 (Mumford) */
     fmpq_poly_init(p);
     st = hodge_pair_poly(p, H, g, d, n);
     if (st == WK_OK && s == 3 * g - 3 + n)
