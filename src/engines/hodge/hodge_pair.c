@@ -127,33 +127,14 @@ static int hp_string_dilaton(fmpq_poly_t res, hodge_ctx *H, slong g, slong *d, s
     return st;
 }
 
-/* The legs of a splitting: distinct values val[0..r-1] with counts cnt, the part x going to side 1. */
+/* The legs of a splitting: distinct values val[0..r-1] with counts cnt, the part x going to side 1;
+   the polynomials of each side for the node exponents a (side 1) and b (side 2). */
 typedef struct {
     slong r, val[HP_STACK], cnt[HP_STACK], x[HP_STACK];
     slong e1[HP_STACK + 1], e2[HP_STACK + 1];
+    slong lmax;                     /* the brackets T_1..T_lmax of the state */
+    fmpq_poly_struct *A, *B, *S;    /* A[a], B[b] for a, b < 2 lmax - 1; S[l] sums side products */
 } hp_legs;
-
-/* w = prod binom(cnt_i, x_i); fills e1, e2 with the legs of each side; returns psi degree of side 1. */
-static slong hp_legs_fill(hp_legs *L, fmpz_t w, slong *n1, slong *n2)
-{
-    slong s1 = 0;
-    fmpz_t b;
-    fmpz_init(b);
-    fmpz_one(w);
-    *n1 = *n2 = 0;
-    for (slong i = 0; i < L->r; i++) {
-        fmpz_bin_uiui(b, (ulong) L->cnt[i], (ulong) L->x[i]);
-        fmpz_mul(w, w, b);
-        s1 += L->x[i] * L->val[i];
-        for (slong c = 0; c < L->cnt[i]; c++)
-            if (c < L->x[i])
-                L->e1[(*n1)++] = L->val[i];
-            else
-                L->e2[(*n2)++] = L->val[i];
-    }
-    fmpz_clear(b);
-    return s1;
-}
 
 /* Advances the mixed-radix counter x (digit i in 0..lim[i]); 0 once it wraps. */
 static int hp_next(slong *x, const slong *lim, slong r)
@@ -168,31 +149,8 @@ static int hp_next(slong *x, const slong *lim, slong r)
     return 0;
 }
 
-/* acc += sum over a of (-1)^a w P(g1, {a} + e1) P(g2, {2l-2-a} + e2), a limited to live sides. */
-static int hp_split_legs(fmpq_poly_t acc, hodge_ctx *H, hp_legs *L, slong g1, slong g2, slong n1, slong n2,
-                         slong s1, slong s2, slong l, const fmpz_t w, fmpq_poly_t p1, fmpq_poly_t p2)
-{
-    int st = WK_OK;
-    for (slong a = 0; a <= 2 * l - 2 && st == WK_OK; a++) {
-        slong m1, m2;
-        if (!hp_live(H, g1, n1 + 1, s1 + a, &m1) || !hp_live(H, g2, n2 + 1, s2 + 2 * l - 2 - a, &m2))
-            continue;
-        L->e1[n1] = a, L->e2[n2] = 2 * l - 2 - a;
-        st = hp_value(p1, H, g1, L->e1, n1 + 1);
-        if (st != WK_OK || fmpq_poly_is_zero(p1))
-            continue;
-        st = hp_value(p2, H, g2, L->e2, n2 + 1);
-        if (st != WK_OK || fmpq_poly_is_zero(p2))
-            continue;
-        fmpq_poly_mul(p1, p1, p2);
-        fmpq_poly_scalar_mul_fmpz(p1, p1, w);
-        (a % 2 ? fmpq_poly_sub : fmpq_poly_add)(acc, acc, p1);
-    }
-    return st;
-}
-
 /* Compares the splitting (g1, x) with its mirror image (g2, cnt - x), which gives the same
-   terms (a and 2l-2-a exchanged): -1, 0 (its own image) or 1. */
+   terms (a and b exchanged): -1, 0 (its own image) or 1. */
 static int hp_mirror_cmp(const hp_legs *L, slong g1, slong g2)
 {
     if (g1 != g2)
@@ -203,17 +161,76 @@ static int hp_mirror_cmp(const hp_legs *L, slong g1, slong g2)
     return 0;
 }
 
-/* acc += the separating boundary sum (without its factor 1/2) for sorted d[0..n-1]; a splitting
-   and its mirror image are summed once, doubled. */
-static int hp_split(fmpq_poly_t acc, hodge_ctx *H, slong g, const slong *d, slong n, slong l)
+/* The node exponents t for which a side of genus h with k legs of psi degree s plus the node
+   is live (hp_live): lo..hi within 0..tmax; empty when lo > hi. */
+static void hp_node_range(const hodge_ctx *H, slong h, slong k, slong s, slong tmax, slong *lo, slong *hi)
 {
-    hp_legs *L = malloc(sizeof(hp_legs));
-    fmpq_poly_t p1, p2;
-    fmpz_t w;
-    slong s = 0;
+    slong top = 3 * h - 2 + k - s;          /* m of the side at t = 0 */
+    *lo = 0, *hi = top < tmax ? top : tmax;
+    if (2 * h - 1 + k <= 0)
+        *hi = -1;                           /* unstable */
+    else if (h == 0)
+        *lo = top;                          /* genus 0: m = 0 only */
+    else if (!H->pair_full && top - 2 * h > 0)
+        *lo = top - 2 * h;                  /* m <= 2h (rank) */
+    if (*lo < 0)
+        *lo = 0;
+}
+
+/* prod binom(cnt_i, x_i) (at most 2^n, n < HP_STACK); e1, e2 filled with the legs of each side. */
+static ulong hp_legs_fill(hp_legs *L, slong *n1, slong *n2)
+{
+    ulong w = 1;
+    *n1 = *n2 = 0;
+    for (slong i = 0; i < L->r; i++) {
+        ulong b = 1;
+        for (slong t = 0; t < L->x[i]; t++)
+            b = b * (ulong) (L->cnt[i] - t) / (ulong) (t + 1);
+        w *= b;
+        for (slong c = 0; c < L->cnt[i]; c++)
+            if (c < L->x[i])
+                L->e1[(*n1)++] = L->val[i];
+            else
+                L->e2[(*n2)++] = L->val[i];
+    }
+    return w;
+}
+
+/* S[l] += w sum_{a + b = 2l-2} (-1)^a A[a] B[b] for the current splitting, the sides fetched once
+   for all l: a in alo..ahi, b in blo..bhi. */
+static int hp_split_one(hp_legs *L, hodge_ctx *H, slong g1, slong g2, slong n1, slong n2, slong alo, slong ahi,
+                        slong blo, slong bhi, ulong w, fmpq_poly_t t)
+{
     int st = WK_OK;
-    if (L == NULL)
-        return WK_LIMIT;
+    for (slong a = alo; a <= ahi && st == WK_OK; a++) {
+        L->e1[n1] = a;
+        st = hp_value(L->A + a, H, g1, L->e1, n1 + 1);
+    }
+    for (slong b = blo; b <= bhi && st == WK_OK; b++) {
+        L->e2[n2] = b;
+        st = hp_value(L->B + b, H, g2, L->e2, n2 + 1);
+    }
+    for (slong a = alo; a <= ahi && st == WK_OK; a++) {
+        if (fmpq_poly_is_zero(L->A + a))
+            continue;
+        for (slong b = blo + ((blo + a) % 2); b <= bhi && a + b <= 2 * L->lmax - 2; b += 2) {
+            if (fmpq_poly_is_zero(L->B + b))
+                continue;
+            fmpq_poly_mul(t, L->A + a, L->B + b);
+            fmpq_poly_scalar_mul_ui(t, t, w);
+            (a % 2 ? fmpq_poly_sub : fmpq_poly_add)(L->S + (a + b) / 2 + 1, L->S + (a + b) / 2 + 1, t);
+        }
+    }
+    return st;
+}
+
+/* L->S[l] = the separating boundary sums of T_l (without their factor 1/2), l = 1..L->lmax, for
+   sorted d[0..n-1]; a splitting and its mirror image are summed once, doubled. */
+static int hp_split(hp_legs *L, hodge_ctx *H, slong g, const slong *d, slong n)
+{
+    slong s = 0, tmax = 2 * L->lmax - 2;
+    fmpq_poly_t t;
+    int st = WK_OK;
     L->r = 0;
     for (slong i = 0; i < n; i++) {
         if (i == 0 || d[i] != d[i - 1])
@@ -221,37 +238,37 @@ static int hp_split(fmpq_poly_t acc, hodge_ctx *H, slong g, const slong *d, slon
         L->cnt[L->r - 1]++;
         s += d[i];
     }
-    fmpq_poly_init(p1);
-    fmpq_poly_init(p2);
-    fmpz_init(w);
+    fmpq_poly_init(t);
     for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
         memset(L->x, 0, (size_t) L->r * sizeof(slong));
         do {
+            slong n1 = 0, s1 = 0, alo, ahi, blo, bhi;
             int side = hp_mirror_cmp(L, g1, g - g1);
             if (side > 0)
                 continue;               /* its mirror image is summed instead, twice */
-            slong n1, n2, s1 = hp_legs_fill(L, w, &n1, &n2);
-            if (side < 0)
-                fmpz_mul_2exp(w, w, 1);
-            st = hp_split_legs(acc, H, L, g1, g - g1, n1, n2, s1, s - s1, l, w, p1, p2);
+            for (slong i = 0; i < L->r; i++)
+                n1 += L->x[i], s1 += L->x[i] * L->val[i];
+            hp_node_range(H, g1, n1, s1, tmax, &alo, &ahi);
+            hp_node_range(H, g - g1, n - n1, s - s1, tmax, &blo, &bhi);
+            if (alo > ahi || blo > bhi || alo + blo > tmax)
+                continue;
+            slong k1, k2;
+            ulong w = hp_legs_fill(L, &k1, &k2) << (side < 0);
+            st = hp_split_one(L, H, g1, g - g1, k1, k2, alo, ahi, blo, bhi, w, t);
         } while (st == WK_OK && hp_next(L->x, L->cnt, L->r));
     }
-    fmpq_poly_clear(p1);
-    fmpq_poly_clear(p2);
-    fmpz_clear(w);
-    free(L);
+    fmpq_poly_clear(t);
     return st;
 }
 
-/* T = T_l(g, d) of the file comment, d sorted with n + 2 <= HP_STACK. */
-static int hp_bracket(fmpq_poly_t T, hodge_ctx *H, slong g, const slong *d, slong n, slong l)
+/* T += T_l(g, d) of the file comment except the separating sums; d sorted, n + 2 <= HP_STACK.
+   half receives the terms with a factor 1/2. */
+static int hp_bracket(fmpq_poly_t T, fmpq_poly_t half, hodge_ctx *H, slong g, const slong *d, slong n, slong l)
 {
     slong e[HP_STACK];
-    fmpq_poly_t t, half;
+    fmpq_poly_t t;
     int st;
-    fmpq_poly_zero(T);
     fmpq_poly_init(t);
-    fmpq_poly_init(half);
     memcpy(e, d, (size_t) n * sizeof(slong));
     e[n] = 2 * l;
     st = hp_add_si(T, H, 1, g, e, n + 1, t);
@@ -270,29 +287,57 @@ static int hp_bracket(fmpq_poly_t T, hodge_ctx *H, slong g, const slong *d, slon
         e[n] = a, e[n + 1] = 2 * l - 2 - a;
         st = hp_add_si(a == l - 1 ? half : T, H, a % 2 ? -1 : 1, g - 1, e, n + 2, t);
     }
-    if (st == WK_OK)
-        st = hp_split(half, H, g, d, n, l);
-    fmpq_poly_scalar_div_si(half, half, 2);
-    fmpq_poly_add(T, T, half);
     fmpq_poly_clear(t);
-    fmpq_poly_clear(half);
     return st;
 }
 
-/* res = P(g, d) of degree m >= 1 by the Euler recursion (file comment); d sorted, entries >= 2. */
+/* Allocates the scratch of one state with brackets 1..lmax; NULL if memory is exhausted. */
+static hp_legs *hp_legs_new(slong lmax)
+{
+    hp_legs *L = malloc(sizeof(hp_legs));
+    fmpq_poly_struct *p = malloc((size_t) (6 * lmax + 2) * sizeof(fmpq_poly_struct));
+    if (L == NULL || p == NULL) {
+        free(L);
+        free(p);
+        return NULL;
+    }
+    for (slong i = 0; i < 6 * lmax + 2; i++)
+        fmpq_poly_init(p + i);
+    L->lmax = lmax, L->A = p, L->B = p + 2 * lmax, L->S = p + 4 * lmax;
+    return L;
+}
+
+static void hp_legs_free(hp_legs *L)
+{
+    for (slong i = 0; i < 6 * L->lmax + 2; i++)
+        fmpq_poly_clear(L->A + i);
+    free(L->A);
+    free(L);
+}
+
+/* res = P(g, d) of degree m >= 1 by the Euler recursion (file comment); d sorted, entries >= 2.
+   The separating sums of all brackets come from one pass over the splittings. */
 static int hp_euler(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slong n, slong m)
 {
+    slong lmax = (m + 1) / 2;
+    hp_legs *L = hp_legs_new(lmax);
     fmpq_poly_t T, U;
-    int st = WK_OK;
+    int st;
+    if (L == NULL)
+        return WK_LIMIT;
     fmpq_poly_init(T);
     fmpq_poly_init(U);
     fmpq_poly_zero(res);
-    for (slong l = 1; 2 * l - 1 <= m && st == WK_OK; l++) {
+    st = hp_split(L, H, g, d, n);
+    for (slong l = 1; l <= lmax && st == WK_OK; l++) {
         const fmpq *b = hp_bern(H, l);
+        fmpq_poly_zero(T);
         if (b == NULL)
             st = WK_LIMIT;
         if (st == WK_OK)
-            st = hp_bracket(T, H, g, d, n, l);
+            st = hp_bracket(T, L->S + l, H, g, d, n, l);
+        fmpq_poly_scalar_div_si(U, L->S + l, 2);
+        fmpq_poly_add(T, T, U);
         if (st != WK_OK || fmpq_poly_is_zero(T))
             continue;
         fmpq_poly_shift_left(U, T, 2 * l - 1);
@@ -304,6 +349,7 @@ static int hp_euler(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slon
     hp_truncate(res, H, g, m);
     fmpq_poly_clear(T);
     fmpq_poly_clear(U);
+    hp_legs_free(L);
     return st;
 }
 
@@ -345,6 +391,8 @@ static int hp_memo(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slong
     if (H->limit > 0 && H->pair_memo.len > H->limit)
         return WK_LIMIT;
     st = hp_euler(res, H, g, d, n, m);
+    if (st == WK_OK && H->limit > 0 && H->pair_memo.len >= H->limit)
+        st = WK_LIMIT;                  /* states finished during the recursion count too */
     if (st == WK_OK)
         st = hp_store(H, key, n + 2, res);
     return st;
