@@ -116,7 +116,7 @@ static void fp_split_weight(fmpz_t w, const fp_split_buf *B, slong cmax, slong a
 
 /* acc += weight * <e1 | c1>_{g1} <e2 | c2>_{g2} (the second factor only if the first is nonzero). */
 static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
-                         slong n1, slong n2, slong cmax, slong a)
+                         slong n1, slong n2, slong cmax, slong a, int twice)
 {
     fmpq_t v1, v2;
     fmpz_t w;
@@ -129,6 +129,8 @@ static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong 
         st = fp_corr(v2, H, g2, B->e2, n2, B->c2, cmax);
     if (st == WK_OK && !fmpq_is_zero(v2)) {
         fp_split_weight(w, B, cmax, a);
+        if (twice)
+            fmpz_mul_2exp(w, w, 1);
         fmpq_mul(v1, v1, v2);
         fmpq_mul_fmpz(v1, v1, w);
         fmpq_add(acc, acc, v1);
@@ -141,7 +143,8 @@ static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong 
 
 /* acc += sign * weight * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
    current counters; a fixed by the dimension of side 1. */
-static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l)
+static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
+                         int twice)
 {
     slong n1 = 1, deg1 = 0, ych = 0, ytot = 0, k1 = 0, k2 = 0, a;
     for (slong i = 0; i < B->r; i++)
@@ -164,7 +167,7 @@ static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, sl
     B->e2[k2++] = 2 * l - 2 - a;
     for (slong k = 1; k <= cmax; k++)
         B->c1[k] = B->y[k], B->c2[k] = B->cy[k] - B->y[k];
-    return fp_split_eval(acc, H, B, g1, g - g1, k1, k2, cmax, a);
+    return fp_split_eval(acc, H, B, g1, g - g1, k1, k2, cmax, a, twice);
 }
 
 /* Allocates the scratch of a splitting of sorted d[0..n-1] and cm[1..cmax] (one block).
@@ -188,20 +191,39 @@ static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong 
     return 1;
 }
 
-/* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2). */
+/* Compares the splitting (g1, legs x, ch factors y) with its mirror image (g2, cnt - x, cy - y),
+   whose term is the same (node exponents a and 2l-2-a, same sign and binomials): -1, 0 (its own
+   image) or 1. */
+static int fp_mirror_cmp(const fp_split_buf *B, slong g1, slong g2, slong cmax)
+{
+    if (g1 != g2)
+        return g1 < g2 ? -1 : 1;
+    for (slong i = 0; i < B->r; i++)
+        if (B->x[i] != B->cnt[i] - B->x[i])
+            return B->x[i] < B->cnt[i] - B->x[i] ? -1 : 1;
+    for (slong k = 1; k <= cmax; k++)
+        if (B->y[k] != B->cy[k] - B->y[k])
+            return B->y[k] < B->cy[k] - B->y[k] ? -1 : 1;
+    return 0;
+}
+
+/* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2);
+   a splitting and its mirror image are summed once, doubled. */
 static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm, slong cmax, slong l)
 {
     fp_split_buf B;
     int st = WK_OK;
     if (!fp_split_alloc(&B, d, n, cm, cmax))
         return WK_LIMIT;
-    for (slong g1 = 0; g1 <= g && st == WK_OK; g1++) {
+    for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
         memset(B.x, 0, (size_t) B.r * sizeof(slong));
         memset(B.y, 0, (size_t) (cmax + 1) * sizeof(slong));
         do {
-            do
-                st = fp_split_term(acc, H, &B, g1, g, n, cmax, l);
-            while (st == WK_OK && fp_next(B.y + 1, B.cy + 1, cmax));
+            do {
+                int side = fp_mirror_cmp(&B, g1, g - g1, cmax);
+                if (side <= 0)          /* a splitting and its mirror image give equal terms */
+                    st = fp_split_term(acc, H, &B, g1, g, n, cmax, l, side < 0);
+            } while (st == WK_OK && fp_next(B.y + 1, B.cy + 1, cmax));
         } while (st == WK_OK && fp_next(B.x, B.cnt, B.r));
     }
     free(B.val);
