@@ -302,15 +302,15 @@ static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
     return s;
 }
 
-/* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator. */
+/* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator.  States
+   with psi exponents 0 or 1 are memoised too: their string and dilaton expansions branch over
+   the points and met the same states again and again. */
 static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
 {
     slong *key, small[FP_STACK];
     const fmpq *hit;
     slong klen;
-    int st;
-    if (n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0)
-        return fp_string_dilaton(res, H, g, d, n, cm, cmax);
+    int st, reduce = n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0;
     key = n + cmax + 2 <= FP_STACK ? small : malloc((size_t) (n + cmax + 2) * sizeof(slong));
     if (key == NULL)
         return WK_LIMIT;
@@ -324,7 +324,7 @@ static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, sl
     }
     st = hodge_poll(H, HODGE_ROUTE_FP);
     if (st == WK_OK)
-        st = fp_step(res, H, g, d, n, cm, cmax);
+        st = reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
     if (st == WK_OK)
         keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
     if (key != small)
