@@ -325,6 +325,8 @@ static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, sl
     st = hodge_poll(H, HODGE_ROUTE_FP);
     if (st == WK_OK)
         st = reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
+    if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
+        st = WK_LIMIT;                  /* states finished during the recursion count too */
     if (st == WK_OK)
         keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
     if (key != small)
