@@ -330,14 +330,14 @@ static int hp_euler(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slon
     fmpq_poly_zero(res);
     st = hp_split(L, H, g, d, n);
     for (slong l = 1; l <= lmax && st == WK_OK; l++) {
-        const fmpq *b = hp_bern(H, l);
+        const fmpq *b;
         fmpq_poly_zero(T);
-        if (b == NULL)
-            st = WK_LIMIT;
-        if (st == WK_OK)
-            st = hp_bracket(T, L->S + l, H, g, d, n, l);
+        st = hp_bracket(T, L->S + l, H, g, d, n, l);
         fmpq_poly_scalar_div_si(U, L->S + l, 2);
         fmpq_poly_add(T, T, U);
+        b = hp_bern(H, l);          /* after the bracket: the recursion may move the cache */
+        if (b == NULL)
+            st = WK_LIMIT;
         if (st != WK_OK || fmpq_poly_is_zero(T))
             continue;
         fmpq_poly_shift_left(U, T, 2 * l - 1);
