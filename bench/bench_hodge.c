@@ -7,8 +7,9 @@
  * Then the closed form of lambda_g lambda_{g-1} psi_1^{g-1} and of lambda_{g-1}^3 alone for
  * g = 2..50 (no table: one call each).
  *
- * Usage:  bench_hodge [G [BUDGET_S [GMIN]]]   (defaults 12, 120 seconds per child, 1): genera
- *         GMIN..G
+ * Usage:  bench_hodge [G [BUDGET_S [GMIN [ROUTES]]]]   (defaults 12, 120 seconds per child, 1,
+ *         all routes): genera GMIN..G; ROUTES is a word of the letters g (GRR), f (FP), a (AUTO)
+ *         and p (PAIR), e.g. "fa" for the two that int_{g,1} uses
  * Columns: g, integrals, route, wall s, CPU s, peak MiB, memo states, checksum of the values
  * (equal results, equal sums), the slowest single integral (CPU s) and its (j, k); then the CPU
  * ratio GRR/FP.  FP and GRR keep their tables from one integral to the next (the slowest is the
@@ -18,6 +19,7 @@
  */
 #include <stdio.h>
 #include <stdlib.h>
+#include <string.h>
 
 #include <flint/fmpq.h>
 #include <flint/fmpq_vec.h>
@@ -165,14 +167,30 @@ static void bh_closed(slong gmax)
     _fmpq_vec_clear(v, 2 * gmax + 2);
 }
 
+/* live[r] = 1 for the routes named by the letters of arg (g, f, a, p), else 0; 0 on a bad letter. */
+static int bh_routes(int *live, const char *arg)
+{
+    const char *letters = "gfap";
+    for (int r = 0; r < 4; r++)
+        live[r] = 0;
+    for (const char *c = arg; *c; c++) {
+        const char *at = strchr(letters, *c);
+        if (at == NULL)
+            return 0;
+        live[at - letters] = 1;
+    }
+    return *arg != 0;
+}
+
 int main(int argc, char **argv)
 {
     slong G = 12, budget = 120, gmin = 1;
     int live[4] = {1, 1, 1, 1};
-    if (argc > 4 || (argc > 1 && !bench_arg_slong(&G, argv[1], 1, 40))
+    if (argc > 5 || (argc > 1 && !bench_arg_slong(&G, argv[1], 1, 40))
         || (argc > 2 && !bench_arg_slong(&budget, argv[2], 1, 86400))
-        || (argc > 3 && !bench_arg_slong(&gmin, argv[3], 1, G))) {
-        fprintf(stderr, "usage: %s [G [BUDGET_S [GMIN]]]   (1 <= GMIN <= G <= 40)\n", argv[0]);
+        || (argc > 3 && !bench_arg_slong(&gmin, argv[3], 1, G)) || (argc > 4 && !bh_routes(live, argv[4]))) {
+        fprintf(stderr, "usage: %s [G [BUDGET_S [GMIN [ROUTES]]]]   (1 <= GMIN <= G <= 40; ROUTES: letters of "
+                        "g (GRR), f (FP), a (AUTO), p (PAIR), default all)\n", argv[0]);
         return 2;
     }
     printf("  g count route     wall       CPU  peakMiB    states             checksum   slowest (j,k)\n");
