@@ -373,8 +373,9 @@ static int hp_store(hodge_ctx *H, const slong *key, slong klen, const fmpq_poly_
     return WK_OK;
 }
 
-/* Memoised P of a state with sorted d, entries >= 2 (or no string/dilaton possible), m >= 1. */
-static int hp_memo(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slong n, slong m)
+/* Memoised P of a state with sorted d and m >= 1: the string or dilaton equation when an exponent
+   is 0 or 1 (those states are met again and again), else the recursion. */
+static int hp_memo(fmpq_poly_t res, hodge_ctx *H, slong g, slong *d, slong n, slong m)
 {
     slong key[HP_STACK + 2];
     const fmpq *hit;
@@ -390,7 +391,10 @@ static int hp_memo(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slong
         return WK_CANCELLED;
     if (H->limit > 0 && H->pair_memo.len > H->limit)
         return WK_LIMIT;
-    st = hp_euler(res, H, g, d, n, m);
+    if (n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0)
+        st = hp_string_dilaton(res, H, g, d, n);
+    else
+        st = hp_euler(res, H, g, d, n, m);
     if (st == WK_OK && H->limit > 0 && H->pair_memo.len >= H->limit)
         st = WK_LIMIT;                  /* states finished during the recursion count too */
     if (st == WK_OK)
@@ -421,10 +425,7 @@ static int hp_value(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *din, sl
     }
     memcpy(d, din, (size_t) n * sizeof(slong));
     hodge_sort_desc(d, n);
-    if (n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0)
-        st = hp_string_dilaton(res, H, g, d, n);
-    else
-        st = hp_memo(res, H, g, d, n, m);
+    st = hp_memo(res, H, g, d, n, m);
     if (st != WK_OK)
         fmpq_poly_zero(res);
     return st;
