@@ -323,7 +323,9 @@ static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, sl
         return WK_OK;
     }
     st = hodge_poll(H, HODGE_ROUTE_FP);
-    if (st == WK_OK)
+    if (st == WK_OK && cmax == 0)
+        st = wk_table_correlator(res, H->T, g, d, n);   /* kept here: the table's lookups cost more */
+    else if (st == WK_OK)
         st = reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
     if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
         st = WK_LIMIT;                  /* states finished during the recursion count too */
@@ -344,9 +346,9 @@ static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n,
         cmax--;
     if (2 * g - 2 + n <= 0 || fp_degree(din, n, cmin, cmax) != 3 * g - 3 + n)
         return WK_OK;
-    if (cmax == 0)
+    if (cmax == 0 && n + 2 > FP_STACK)
         return wk_table_correlator(res, H->T, g, din, n);
-    if (g == 0)
+    if (g == 0 && cmax > 0)
         return WK_OK;                   /* E = 0 in genus 0 */
     for (slong k = 2; k <= cmax; k += 2)
         if (cmin[k] > 0)
