@@ -531,7 +531,7 @@ int main(void)
     test_lambda_gg1(H, HODGE_ROUTE_FP, 6, 2, 3);
     test_lambda_gg1(H, HODGE_ROUTE_GRR, 9 + (more == 5 ? 3 : more > 0), 0, 1);
     test_lambda_gg1(H, HODGE_ROUTE_GRR, 4, 2, 3);
-    test_lambda_cubed(H, HODGE_ROUTE_FP, 9 + (more > 3 ? 3 : more));
+    test_lambda_cubed(H, HODGE_ROUTE_FP, 10 + (more > 3 ? 3 : more));
     test_lambda_cubed(H, HODGE_ROUTE_GRR, 8);
     test_mumford_relation(H, st, HODGE_ROUTE_FP);
     test_mumford_relation(H, st, HODGE_ROUTE_GRR);

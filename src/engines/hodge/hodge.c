@@ -14,6 +14,7 @@ hodge_ctx *hodge_new(wk_table *T)
     H->T = T;
     keymap_init(&H->memo[0]);
     keymap_init(&H->memo[1]);
+    keymap_init(&H->pair_memo);
     return H;
 }
 
@@ -23,6 +24,8 @@ void hodge_free(hodge_ctx *H)
         return;
     keymap_clear(&H->memo[0]);
     keymap_clear(&H->memo[1]);
+    hodge_pair_clear(H);
+    keymap_clear(&H->pair_memo);
     for (slong l = 0; l < H->nbcoef; l++)
         fmpq_clear(H->bcoef + l);
     free(H->bcoef);
@@ -35,6 +38,14 @@ void hodge_set_cancel(hodge_ctx *H, atomic_int *flag)
         H->cancel = flag;
 }
 
+void hodge_set_pair_full(hodge_ctx *H, int full)
+{
+    if (H != NULL && H->pair_full != (full != 0)) {
+        hodge_pair_clear(H);           /* the memo holds truncated polynomials, or not */
+        H->pair_full = full != 0;
+    }
+}
+
 void hodge_set_limit(hodge_ctx *H, slong max_entries)
 {
     if (H != NULL)
@@ -43,6 +54,8 @@ void hodge_set_limit(hodge_ctx *H, slong max_entries)
 
 slong hodge_entries(const hodge_ctx *H, int route)
 {
+    if (H != NULL && route == HODGE_MEMO_PAIR)
+        return H->pair_memo.len;
     if (H == NULL || (route != HODGE_ROUTE_GRR && route != HODGE_ROUTE_FP))
         return 0;
     return H->memo[route].len;

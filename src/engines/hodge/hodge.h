@@ -30,6 +30,7 @@
 #include <signal.h>
 #include <flint/fmpq.h>
 #include <flint/fmpq_mpoly.h>
+#include <flint/fmpq_poly.h>
 #include "correlators/wk.h"
 
 #ifdef __cplusplus
@@ -39,6 +40,10 @@ extern "C" {
 typedef struct hodge_ctx hodge_ctx;
 
 enum { HODGE_ROUTE_GRR = 0, HODGE_ROUTE_FP = 1 };
+
+/* hodge_entries of the generating-polynomial route (hodge_pair.c), which is not a route of
+   hodge_integral. */
+enum { HODGE_MEMO_PAIR = 2 };
 
 /* Largest ch index and number of ch factors accepted (bounds recursion depth and key sizes). */
 #define HODGE_MAX_INDEX 400
@@ -58,7 +63,7 @@ void hodge_set_cancel(hodge_ctx *H, atomic_int *flag);
    states (0 = unlimited). */
 void hodge_set_limit(hodge_ctx *H, slong max_entries);
 
-/* Number of memoised states of the route (for benchmarks and estimates). */
+/* Number of memoised states of the route, or of HODGE_MEMO_PAIR (for benchmarks and estimates). */
 slong hodge_entries(const hodge_ctx *H, int route);
 
 /* res = int_{Mbar_{g,n}} prod psi_i^{d[i]} prod_{j=1..kmax} kappa_j^{kmult[j]}
@@ -106,6 +111,24 @@ int hodge_mumford_terms(fmpq_t weight, hodge_ctx *H, const hodge_mono *S, slong 
 /* Whether int M is 0 for a reason seen without computing: an unstable space, a degree other than
    3g-3+n, ch classes in genus 0 (E = 0) or an even ch index (Mumford). */
 int hodge_mono_vanishes(const hodge_mono *M);
+
+/* The third route (hodge_pair.c): psi classes times at most two lambda classes through
+   P(g, d) = int_{Mbar_{g,n}} prod psi_i^{d_i} Lambda(x) Lambda(y), Lambda(x) = sum_j lambda_j x^j,
+   a homogeneous polynomial of degree m = 3g-3+n-|d| computed by the operator of
+   Faber-Pandharipande turned into a recursion on m by the Euler operator x d/dx + y d/dy.
+   res (initialised by the caller) is set to P(g, d) with y = 1: its coefficient of x^j is
+   int psi^d lambda_j lambda_{m-j}.  Coefficients with j > g or m - j > g are 0 (E has rank g)
+   and dropped, unless hodge_set_pair_full(H, 1).  Memoised in H.  Returns WK_OK, WK_BADARG,
+   WK_UNSTABLE, WK_LIMIT (memo limit, memory, or more than 45 points) or WK_CANCELLED. */
+int hodge_pair_poly(fmpq_poly_t res, hodge_ctx *H, slong g, const slong *d, slong n);
+
+/* res = int_{Mbar_{g,n}} prod psi_i^{d_i} lambda_j lambda_k by hodge_pair_poly (lambda_0 = 1;
+   0 when the degree is not 3g-3+n).  Status codes as for hodge_pair_poly. */
+int hodge_pair_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, slong j, slong k);
+
+/* Whether hodge_pair_poly keeps the coefficients above the rank (1) or drops them (0, the
+   default); a change empties its memo.  For tests of the vanishing above the rank. */
+void hodge_set_pair_full(hodge_ctx *H, int full);
 
 /* Closed forms (hodge_closed.c), no memo: which one an integrand is, if any. */
 enum { HODGE_CLOSED_NONE = 0, HODGE_CLOSED_TOP_PAIR = 1, HODGE_CLOSED_CUBED = 2 };

@@ -28,6 +28,10 @@
 
 static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
 
+/* Keys and sorted copies up to this length live on the stack (one malloc per call cost more
+   than the memo lookup). */
+#define FP_STACK 64
+
 /* acc += w * (g, e, cm) where w = num/den; returns the status of the correlator. */
 static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
                      const slong *cm, slong cmax)
@@ -37,9 +41,14 @@ static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, co
     fmpq_init(v);
     st = fp_corr(v, H, g, e, n, cm, cmax);
     if (st == WK_OK && !fmpq_is_zero(v)) {
-        fmpz_mul_si(fmpq_numref(v), fmpq_numref(v), num);
-        fmpz_mul_si(fmpq_denref(v), fmpq_denref(v), den);
-        fmpq_canonicalise(v);
+        if (num != 1)
+            fmpq_mul_si(v, v, num);     /* gcds with the small factors only */
+        if (den == 2)
+            fmpq_div_2exp(v, v, 1);
+        else if (den != 1) {
+            fmpz_mul_si(fmpq_denref(v), fmpq_denref(v), den);
+            fmpq_canonicalise(v);
+        }
         fmpq_add(acc, acc, v);
     }
     fmpq_clear(v);
@@ -107,7 +116,7 @@ static void fp_split_weight(fmpz_t w, const fp_split_buf *B, slong cmax, slong a
 
 /* acc += weight * <e1 | c1>_{g1} <e2 | c2>_{g2} (the second factor only if the first is nonzero). */
 static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
-                         slong n1, slong n2, slong cmax, slong a)
+                         slong n1, slong n2, slong cmax, slong a, int twice)
 {
     fmpq_t v1, v2;
     fmpz_t w;
@@ -120,6 +129,8 @@ static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong 
         st = fp_corr(v2, H, g2, B->e2, n2, B->c2, cmax);
     if (st == WK_OK && !fmpq_is_zero(v2)) {
         fp_split_weight(w, B, cmax, a);
+        if (twice)
+            fmpz_mul_2exp(w, w, 1);
         fmpq_mul(v1, v1, v2);
         fmpq_mul_fmpz(v1, v1, w);
         fmpq_add(acc, acc, v1);
@@ -132,7 +143,8 @@ static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong 
 
 /* acc += sign * weight * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
    current counters; a fixed by the dimension of side 1. */
-static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l)
+static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
+                         int twice)
 {
     slong n1 = 1, deg1 = 0, ych = 0, ytot = 0, k1 = 0, k2 = 0, a;
     for (slong i = 0; i < B->r; i++)
@@ -155,7 +167,7 @@ static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, sl
     B->e2[k2++] = 2 * l - 2 - a;
     for (slong k = 1; k <= cmax; k++)
         B->c1[k] = B->y[k], B->c2[k] = B->cy[k] - B->y[k];
-    return fp_split_eval(acc, H, B, g1, g - g1, k1, k2, cmax, a);
+    return fp_split_eval(acc, H, B, g1, g - g1, k1, k2, cmax, a, twice);
 }
 
 /* Allocates the scratch of a splitting of sorted d[0..n-1] and cm[1..cmax] (one block).
@@ -179,20 +191,39 @@ static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong 
     return 1;
 }
 
-/* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2). */
+/* Compares the splitting (g1, legs x, ch factors y) with its mirror image (g2, cnt - x, cy - y),
+   whose term is the same (node exponents a and 2l-2-a, same sign and binomials): -1, 0 (its own
+   image) or 1. */
+static int fp_mirror_cmp(const fp_split_buf *B, slong g1, slong g2, slong cmax)
+{
+    if (g1 != g2)
+        return g1 < g2 ? -1 : 1;
+    for (slong i = 0; i < B->r; i++)
+        if (B->x[i] != B->cnt[i] - B->x[i])
+            return B->x[i] < B->cnt[i] - B->x[i] ? -1 : 1;
+    for (slong k = 1; k <= cmax; k++)
+        if (B->y[k] != B->cy[k] - B->y[k])
+            return B->y[k] < B->cy[k] - B->y[k] ? -1 : 1;
+    return 0;
+}
+
+/* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2);
+   a splitting and its mirror image are summed once, doubled. */
 static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm, slong cmax, slong l)
 {
     fp_split_buf B;
     int st = WK_OK;
     if (!fp_split_alloc(&B, d, n, cm, cmax))
         return WK_LIMIT;
-    for (slong g1 = 0; g1 <= g && st == WK_OK; g1++) {
+    for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
         memset(B.x, 0, (size_t) B.r * sizeof(slong));
         memset(B.y, 0, (size_t) (cmax + 1) * sizeof(slong));
         do {
-            do
-                st = fp_split_term(acc, H, &B, g1, g, n, cmax, l);
-            while (st == WK_OK && fp_next(B.y + 1, B.cy + 1, cmax));
+            do {
+                int side = fp_mirror_cmp(&B, g1, g - g1, cmax);
+                if (side <= 0)          /* a splitting and its mirror image give equal terms */
+                    st = fp_split_term(acc, H, &B, g1, g, n, cmax, l, side < 0);
+            } while (st == WK_OK && fp_next(B.y + 1, B.cy + 1, cmax));
         } while (st == WK_OK && fp_next(B.x, B.cnt, B.r));
     }
     free(B.val);
@@ -271,59 +302,66 @@ static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
     return s;
 }
 
-/* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator. */
+/* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator.  States
+   with psi exponents 0 or 1 are memoised too: their string and dilaton expansions branch over
+   the points and met the same states again and again. */
 static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
 {
-    slong *key;
+    slong *key, small[FP_STACK];
     const fmpq *hit;
     slong klen;
-    int st;
-    if (n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0)
-        return fp_string_dilaton(res, H, g, d, n, cm, cmax);
-    key = malloc((size_t) (n + cmax + 2) * sizeof(slong));
+    int st, reduce = n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0;
+    key = n + cmax + 2 <= FP_STACK ? small : malloc((size_t) (n + cmax + 2) * sizeof(slong));
     if (key == NULL)
         return WK_LIMIT;
     klen = fp_key(key, g, d, n, cm, cmax);
     hit = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
     if (hit != NULL) {
         fmpq_set(res, hit);
-        free(key);
+        if (key != small)
+            free(key);
         return WK_OK;
     }
     st = hodge_poll(H, HODGE_ROUTE_FP);
-    if (st == WK_OK)
-        st = fp_step(res, H, g, d, n, cm, cmax);
+    if (st == WK_OK && cmax == 0)
+        st = wk_table_correlator(res, H->T, g, d, n);   /* kept here: the table's lookups cost more */
+    else if (st == WK_OK)
+        st = reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
+    if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
+        st = WK_LIMIT;                  /* states finished during the recursion count too */
     if (st == WK_OK)
         keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
-    free(key);
+    if (key != small)
+        free(key);
     return st;
 }
 
 /* res = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees. */
 static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
 {
-    slong *buf;
+    slong *buf, small[FP_STACK];
     int st;
     fmpq_zero(res);
     while (cmax > 0 && cmin[cmax] == 0)
         cmax--;
     if (2 * g - 2 + n <= 0 || fp_degree(din, n, cmin, cmax) != 3 * g - 3 + n)
         return WK_OK;
-    if (cmax == 0)
+    if (cmax == 0 && n + 2 > FP_STACK)
         return wk_table_correlator(res, H->T, g, din, n);
-    if (g == 0)
+    if (g == 0 && cmax > 0)
         return WK_OK;                   /* E = 0 in genus 0 */
     for (slong k = 2; k <= cmax; k += 2)
         if (cmin[k] > 0)
             return WK_OK;               /* ch_{2k} = 0 (Mumford) */
-    buf = malloc((size_t) (n + cmax + 1) * sizeof(slong));
+    buf = n + cmax + 1 <= FP_STACK ? small : malloc((size_t) (n + cmax + 1) * sizeof(slong));
     if (buf == NULL)
         return WK_LIMIT;
     memcpy(buf, din, (size_t) n * sizeof(slong));
     memcpy(buf + n, cmin, (size_t) (cmax + 1) * sizeof(slong));
     hodge_sort_desc(buf, n);
     st = fp_corr_memo(res, H, g, buf, n, buf + n, cmax);
-    free(buf);
+    if (buf != small)
+        free(buf);
     if (st != WK_OK)
         fmpq_zero(res);
     return st;

@@ -8,6 +8,7 @@
 
 #include <stdatomic.h>
 #include <flint/fmpq.h>
+#include <flint/fmpq_poly.h>
 #include "keymap.h"
 #include "hodge.h"
 
@@ -18,7 +19,17 @@ struct hodge_ctx {
     slong limit;                       /* states allowed per route, 0 = unlimited */
     fmpq *bcoef;                       /* bcoef[l] = B_{2l}/(2l)!, l = 0..nbcoef-1 */
     slong nbcoef;
+    /* the generating-polynomial route (hodge_pair.c), sharing nothing with the two above */
+    keymap pair_memo;                  /* (g, n, sorted psi) -> index into pair_vals */
+    fmpq_poly_struct *pair_vals;       /* the polynomials P(g, d), owned */
+    slong pair_len, pair_cap;
+    fmpq *pair_bern;                   /* pair_bern[l] = B_{2l}/(2l), l = 0..pair_nbern-1 */
+    slong pair_nbern;
+    int pair_full;                     /* 1: keep the coefficients above the rank (tests) */
 };
+
+/* Releases the memo of hodge_pair.c and leaves it empty and usable. */
+void hodge_pair_clear(hodge_ctx *H);
 
 /* Sets c = B_{2l}/(2l)! (Bernoulli number B_2 = 1/6), extending the cached table.
    l >= 1 and at most HODGE_MAX_INDEX. */
