@@ -74,7 +74,15 @@ static int bw_run(void *arg, FILE *out)
     int st;
 
     if (c->threads > 0)
-        wpoly_estimate(&est_s, &est_b, c->g, c->n);
+    {
+        slong *idx = malloc((size_t) (nv * c->n) * sizeof(slong));
+        if (idx != NULL)
+        {
+            wpoly_indices(idx, c->g, c->n);
+            wpoly_estimate_at_route(&est_s, &est_b, c->g, c->n, idx, nv, c->route);
+        }
+        free(idx);
+    }
     bench_timer_start(&t);
     st = c->threads == 0 ? bw_reference(v, c->g, c->n)
                          : wpoly_coeffs_route(v, c->g, c->n, c->threads, 62, 1, 0, c->route,
