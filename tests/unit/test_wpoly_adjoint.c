@@ -6,9 +6,13 @@
  * one by WPOLY_ROUTE_PER_INDEX (an independent run of the recursion per a).  The default
  * route (WPOLY_ROUTE_AUTO) must be the transposed one for n = 1 and give the same values with
  * 2 threads.  Published values (Mirzakhani 2007, V_{2,1}(L)) and the reduction are checked
- * through the default route in test_wpoly.c.
+ * through the default route in test_wpoly.c.  A cancel request raised during the transposed
+ * route stops it (WPVOL_CANCELLED, all zero).
  */
 #include <math.h>
+#include <pthread.h>
+#include <stdatomic.h>
+#include <time.h>
 
 #include <flint/fmpq.h>
 #include <flint/fmpq_vec.h>
@@ -61,6 +65,45 @@ static void test_fallbacks(slong g)
     _fmpq_vec_clear(c, n);
 }
 
+static atomic_int stop_flag;
+
+static void *raise_later(void *arg)
+{
+    struct timespec t = { 0, 100000000 };   /* 0.1 s */
+    (void) arg;
+    nanosleep(&t, NULL);
+    atomic_store(&stop_flag, 1);
+    return NULL;
+}
+
+/* A request raised during the transposed route (V_{40,1} takes seconds) ends it with
+   WPVOL_CANCELLED and all coefficients zero. */
+static void test_cancel(void)
+{
+    slong n = wpoly_indices(NULL, 40, 1), k, nz = 0;
+    fmpq *a = _fmpq_vec_init(n);
+    pthread_t th;
+    int st;
+
+    atomic_store(&stop_flag, 0);
+    wpvol_set_cancel(&stop_flag);
+    if (pthread_create(&th, NULL, raise_later, NULL) != 0)
+    {
+        UNIT_CHECK(&rep, 0, "cancel: no thread");
+        wpvol_set_cancel(NULL);
+        _fmpq_vec_clear(a, n);
+        return;
+    }
+    st = wpoly_coeffs_route(a, 40, 1, 2, 62, 1, 0, WPOLY_ROUTE_TRANSPOSED, NULL);
+    pthread_join(th, NULL);
+    wpvol_set_cancel(NULL);
+    for (k = 0; k < n; k++)
+        nz += !fmpq_is_zero(a + k);
+    UNIT_CHECK(&rep, st == WPVOL_CANCELLED && nz == 0, "cancel: status %d, %ld nonzero", st,
+               (long) nz);
+    _fmpq_vec_clear(a, n);
+}
+
 int main(void)
 {
     slong g, top = (slong) floor(12.0 * sqrt((double) unit_iterations(100) / 100.0));
@@ -73,6 +116,7 @@ int main(void)
         compare_routes(g, 1);
     compare_routes(9, 2);
     test_fallbacks(7);
+    test_cancel();
     flint_cleanup_master();
     return unit_finish("test_wpoly_adjoint", &rep);
 }
