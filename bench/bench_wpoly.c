@@ -5,6 +5,9 @@
  * Usage:  bench_wpoly G N THREADS   one engine run
  *         bench_wpoly ref G N       one reduction run (stopped after REF_BUDGET_S seconds or
  *                                   when its table exceeds 3e7 entries, the default limit)
+ *         bench_wpoly side [G [T]]  V_{G,1}(L) by the per-index route and by the transposed
+ *                                   route (wpoly_adjoint.c), side by side (G = 20, T = 2 threads
+ *                                   by default); `new` instead of `side`: the transposed only
  *         bench_wpoly               the standard cases: n = 1 for g = 5, 10, 15, 20, 25;
  *                                   n = 2 for g = 3, 6, 9, 12; n = 3 for g = 3, 5, 7 (2 threads),
  *                                   then both routes side by side, 1 thread, for n = 1, 2
@@ -55,7 +58,7 @@ static int bw_reference(fmpq *out, slong g, slong n)
 }
 
 /* One run: g, n and the route (threads >= 1: engine with that many threads, 0: reduction). */
-typedef struct { slong g, n; int threads; } bw_case;
+typedef struct { slong g, n; int threads, route; } bw_case;
 
 /* Child body: one timed run of the route in arg (a bw_case); prints one row to stdout and
    writes its usage line to out (the CPU seconds feed the ratio).  Returns 0 on success. */
@@ -71,15 +74,27 @@ static int bw_run(void *arg, FILE *out)
     int st;
 
     if (c->threads > 0)
-        wpoly_estimate(&est_s, &est_b, c->g, c->n);
+    {
+        slong *idx = malloc((size_t) (nv * c->n) * sizeof(slong));
+        if (idx != NULL)
+        {
+            wpoly_indices(idx, c->g, c->n);
+            wpoly_estimate_at_route(&est_s, &est_b, c->g, c->n, idx, nv, c->route);
+        }
+        free(idx);
+    }
     bench_timer_start(&t);
     st = c->threads == 0 ? bw_reference(v, c->g, c->n)
-                         : wpoly_coeffs_ex(v, c->g, c->n, c->threads, 62, 1, 0, &primes);
+                         : wpoly_coeffs_route(v, c->g, c->n, c->threads, 62, 1, 0, c->route,
+                                              &primes);
     u.wall = bench_timer_wall(&t);
     u.cpu = bench_timer_cpu(&t);
     u.mib = bench_peak_mib();
     snprintf(lead, sizeof lead, "%4ld %2ld %-9s", c->g, c->n,
-             c->threads == 0 ? "reduction" : (c->threads == 1 ? "engine/1" : "engine/2"));
+             c->threads == 0 ? "reduction"
+             : c->route == WPOLY_ROUTE_PER_INDEX ? (c->threads == 1 ? "perindex/1" : "perindex/2")
+             : c->route == WPOLY_ROUTE_TRANSPOSED ? (c->threads == 1 ? "transp/1" : "transp/2")
+             : (c->threads == 1 ? "engine/1" : "engine/2"));
     bench_print_row(lead, &u, primes, est_s, bench_checksum_fmpq(v, nv), st == 0);
     bench_usage_write(out, &u);
     _fmpq_vec_clear(v, nv);
@@ -88,9 +103,9 @@ static int bw_run(void *arg, FILE *out)
 
 /* Runs bw_run in a child (the reduction under the REF_BUDGET_S alarm); *cpu (may be NULL)
    receives its CPU seconds.  Returns 0 if it finished (within the budget) without error. */
-static int bw_child(slong g, slong n, int threads, double *cpu)
+static int bw_child_route(slong g, slong n, int threads, int route, double *cpu)
 {
-    bw_case c = { g, n, threads };
+    bw_case c = { g, n, threads, route };
     bench_child_result ch = bench_child_run(bw_run, &c, threads == 0 ? REF_BUDGET_S : 0);
     bench_usage u = { 0.0, 0.0, 0.0 };
     int ok = bench_child_ok(&ch);
@@ -102,6 +117,28 @@ static int bw_child(slong g, slong n, int threads, double *cpu)
                REF_BUDGET_S);
     bench_child_clear(&ch);
     return !ok;
+}
+
+/* The default route (bench_wpoly G N THREADS, the standard cases). */
+static int bw_child(slong g, slong n, int threads, double *cpu)
+{
+    return bw_child_route(g, n, threads, WPOLY_ROUTE_AUTO, cpu);
+}
+
+/* V_{g,1}(L) by the per-index route and by the transposed route, side by side (old: 0 skips
+   the per-index run, for genera beyond its reach).  Returns nonzero on failure. */
+static int bw_side(slong g, int threads, int old)
+{
+    double co = 0.0, cn = 0.0;
+    int bad = 0;
+
+    printf("   g  n route          wall       CPU  peakMiB primes  estimate             checksum\n");
+    if (old)
+        bad |= bw_child_route(g, 1, threads, WPOLY_ROUTE_PER_INDEX, &co);
+    bad |= bw_child_route(g, 1, threads, WPOLY_ROUTE_TRANSPOSED, &cn);
+    if (old)
+        printf("%4ld  1 ratio per-index/transposed CPU = %.1f\n", g, bench_ratio(co, cn));
+    return bad;
 }
 
 int main(int argc, char **argv)
@@ -117,9 +154,20 @@ int main(int argc, char **argv)
     if (!ref && argc == 4 && bench_arg_slong(&g, argv[1], 0, WORD_MAX)
         && bench_arg_slong(&n, argv[2], 0, WORD_MAX) && bench_arg_slong(&threads, argv[3], 1, 1024))
         return bw_child(g, n, (int) threads, NULL);
+    if (argc >= 2 && argc <= 4 && (strcmp(argv[1], "side") == 0 || strcmp(argv[1], "new") == 0))
+    {
+        g = 20;
+        threads = 2;
+        if ((argc >= 3 && !bench_arg_slong(&g, argv[2], 2, 1000))
+            || (argc == 4 && !bench_arg_slong(&threads, argv[3], 1, 1024)))
+            return 2;
+        return bw_side(g, (int) threads, strcmp(argv[1], "side") == 0);
+    }
     if (argc != 1)
     {
-        fprintf(stderr, "usage: %s [G N THREADS | ref G N]   (THREADS >= 1)\n", argv[0]);
+        fprintf(stderr, "usage: %s [G N THREADS | ref G N | side [G [THREADS]] | new [G [THREADS]]]"
+                        "   (THREADS >= 1; side: V_{G,1} per index and transposed, default G = 20;"
+                        " new: transposed only)\n", argv[0]);
         return 2;
     }
     printf("   g  n route          wall       CPU  peakMiB primes  estimate             checksum\n");

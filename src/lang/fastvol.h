@@ -29,6 +29,9 @@ const char *fastvol_poly_cost(const interp *I, slong g, slong n, const slong *id
 /* Runs the polynomial engine on idx: the W_a (caller clears nidx entries), or NULL after
    reporting an error at where. */
 fmpq *fastvol_poly_run(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx);
+/* The same by the given route of the engine (WPOLY_ROUTE_* of volumes/wpoly.h). */
+fmpq *fastvol_poly_run_route(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx,
+                             int route);
 /* Correlator terms the reduction would need for the coefficients idx of V_{g,n}(L). */
 double fastvol_poly_terms(slong g, slong n, const slong *idx, slong nidx);
 /* Whether the polynomial engine should take all coefficients of a few-point volume on

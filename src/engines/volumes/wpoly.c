@@ -16,6 +16,7 @@ typedef struct
 {
     slong g, n, extra, nidx;
     const slong *idx;
+    int adjoint;   /* the transposed route (n = 1) */
 } wpoly_job_data_t;
 
 /* Writes the sorted multi-indices with a_i <= cap and sum <= left from position i on
@@ -53,7 +54,9 @@ slong wpoly_indices(slong *idx, slong g, slong n)
 static void *wpoly_job_ws_new(const wpvol_job_t *job)
 {
     const wpoly_job_data_t *d = job->data;
-    return wpoly_ws_new(d->g, d->n, d->extra, d->idx, d->nidx);
+    wpoly_ws_t *ws = wpoly_ws_new(d->g, d->n, d->extra, d->idx, d->nidx);
+    wpoly_ws_set_adjoint(ws, d->adjoint);
+    return ws;
 }
 
 static void wpoly_job_ws_free(void *ws)
@@ -154,6 +157,31 @@ static double wpoly_estimate_work(slong g, slong n, const slong *idx, slong nidx
     return w * 1.0e-9;
 }
 
+/* Relative cost of one prime by the transposed route (n = 1, all indices): the plain
+   recursion, then per genus the transposed step (three transposed d_0 and cross terms, rows
+   of L terms, quadratic), one transform of length T_g and the pointwise sums over the g - k
+   cached pairs for each k. */
+static double wpoly_estimate_adjoint(slong g)
+{
+    double L = 3.0 * (double) g - 2.0, T = 1.0, w = wpoly_estimate_comp(g, 1, 0);
+    slong G;
+
+    while (T < (3.0 * (double) g - 2.0) * (2.0 * L - 1.0))
+        T *= 2.0;
+    for (G = 1; G <= g; G++)   /* 1.4: fitted on bench_wpoly side/new, g = 20..50 */
+        w += 1.4 * ((double) (g - G) * T * 1.3 + 2.0 * T * log2(T) * 0.75
+                    + 6.0 * 3.0 * (double) G * L * L / 2.0 * 0.9);
+    return w * 1.0e-9;
+}
+
+/* 1 if the transposed route serves (g, n, nidx indices) under `route`. */
+static int wpoly_use_adjoint(slong n, slong nidx, int route)
+{
+    if (n != 1 || route == WPOLY_ROUTE_PER_INDEX)
+        return 0;
+    return route == WPOLY_ROUTE_TRANSPOSED || nidx >= 3;
+}
+
 /* 1 if idx holds nidx >= 1 valid multi-indices of (g, n): sorted decreasingly, entries >= 0,
    sum <= D. */
 static int wpoly_valid(slong g, slong n, const slong *idx, slong nidx)
@@ -181,6 +209,13 @@ static int wpoly_valid(slong g, slong n, const slong *idx, slong nidx)
 void wpoly_estimate_at(double *seconds, double *bytes, slong g, slong n, const slong *idx,
                        slong nidx)
 {
+    wpoly_estimate_at_route(seconds, bytes, g, n, idx, nidx, WPOLY_ROUTE_AUTO);
+}
+
+/* See wpoly.h. */
+void wpoly_estimate_at_route(double *seconds, double *bytes, slong g, slong n, const slong *idx,
+                             slong nidx, int route)
+{
     double L, primes, T, blocks;
     slong singles;
 
@@ -190,7 +225,10 @@ void wpoly_estimate_at(double *seconds, double *bytes, slong g, slong n, const s
         return;
     L = 3.0 * (double) g + (double) n - 3.0;
     primes = wpoly_need_bits(g, n) / 61.0 + 3.0;
-    *seconds = primes * wpoly_estimate_work(g, n, idx, nidx, &singles)
+    singles = 0;
+    *seconds = primes * (wpoly_use_adjoint(n, nidx, route)
+                             ? wpoly_estimate_adjoint(g)
+                             : wpoly_estimate_work(g, n, idx, nidx, &singles))
                + 1.0e-9 * (double) nidx * primes * primes * 20.0;
     /* component blocks (A, B, C: 3h rows of L words per genus; transforms; f) for the masks
        and the one-point blocks kept (n >= 2); residues and CRT values */
@@ -223,7 +261,8 @@ void wpoly_estimate(double *seconds, double *bytes, slong g, slong n)
 /* The driver run for the given multi-indices (validated by the callers); out has nidx
    entries, zeroed on error. */
 static int wpoly_run(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads,
-                     int prime_bits, slong min_primes, slong extra, slong *primes_used)
+                     int prime_bits, slong min_primes, slong extra, int route,
+                     slong *primes_used)
 {
     wpoly_job_data_t d;
     wpvol_job_t job;
@@ -233,7 +272,7 @@ static int wpoly_run(fmpq *out, slong g, slong n, const slong *idx, slong nidx, 
 
     for (k = 0; k < nidx; k++)
         fmpq_zero(out + k);
-    wpoly_estimate_at(&sec, &bytes, g, n, idx, nidx);
+    wpoly_estimate_at_route(&sec, &bytes, g, n, idx, nidx, route);
     if (sec > WPVOL_MAX_SECONDS || bytes > WPVOL_MAX_BYTES)
         return WPVOL_LIMIT;
     d.g = g;
@@ -241,6 +280,7 @@ static int wpoly_run(fmpq *out, slong g, slong n, const slong *idx, slong nidx, 
     d.extra = extra;
     d.nidx = nidx;
     d.idx = idx;
+    d.adjoint = wpoly_use_adjoint(n, nidx, route);
     job.nv = nidx;
     job.ws_new = wpoly_job_ws_new;
     job.ws_free = wpoly_job_ws_free;
@@ -269,20 +309,30 @@ static int wpoly_run(fmpq *out, slong g, slong n, const slong *idx, slong nidx, 
 int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, slong min_primes,
                     slong extra, slong *primes_used)
 {
+    return wpoly_coeffs_route(out, g, n, threads, prime_bits, min_primes, extra,
+                              WPOLY_ROUTE_AUTO, primes_used);
+}
+
+/* See wpoly.h. */
+int wpoly_coeffs_route(fmpq *out, slong g, slong n, int threads, int prime_bits,
+                       slong min_primes, slong extra, int route, slong *primes_used)
+{
     slong nidx, *idx;
     int status;
 
     if (primes_used != NULL)
         *primes_used = 0;
     if (out == NULL || g < 2 || n < 1 || n > WPOLY_MAX_POINTS || threads < 1 || prime_bits < 20
-        || prime_bits > 63 || extra < 0 || extra > 1000)
+        || prime_bits > 63 || extra < 0 || extra > 1000 || route < WPOLY_ROUTE_AUTO
+        || route > WPOLY_ROUTE_TRANSPOSED)
         return WPVOL_BADARG;
     nidx = wpoly_indices(NULL, g, n);
     idx = malloc((size_t) (nidx * n) * sizeof(slong));
     if (idx == NULL)
         return WPVOL_NOMEM;
     wpoly_indices(idx, g, n);
-    status = wpoly_run(out, g, n, idx, nidx, threads, prime_bits, min_primes, extra, primes_used);
+    status = wpoly_run(out, g, n, idx, nidx, threads, prime_bits, min_primes, extra, route,
+                       primes_used);
     free(idx);
     return status;
 }
@@ -296,7 +346,15 @@ int wpoly_coeffs(fmpq *out, slong g, slong n, int threads)
 /* See wpoly.h. */
 int wpoly_coeffs_at(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads)
 {
-    if (out == NULL || threads < 1 || !wpoly_valid(g, n, idx, nidx))
+    return wpoly_coeffs_at_route(out, g, n, idx, nidx, threads, WPOLY_ROUTE_AUTO);
+}
+
+/* See wpoly.h. */
+int wpoly_coeffs_at_route(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads,
+                          int route)
+{
+    if (out == NULL || threads < 1 || !wpoly_valid(g, n, idx, nidx) || route < WPOLY_ROUTE_AUTO
+        || route > WPOLY_ROUTE_TRANSPOSED)
         return WPVOL_BADARG;
-    return wpoly_run(out, g, n, idx, nidx, threads, 62, 1, 0, NULL);
+    return wpoly_run(out, g, n, idx, nidx, threads, 62, 1, 0, route, NULL);
 }

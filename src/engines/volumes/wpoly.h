@@ -44,10 +44,24 @@ int wpoly_coeffs(fmpq *out, slong g, slong n, int threads);
 int wpoly_coeffs_ex(fmpq *out, slong g, slong n, int threads, int prime_bits, slong min_primes,
                     slong extra, slong *primes_used);
 
+/* The routes for n = 1: AUTO (the transposed recursion when n = 1 and at least 3 indices
+   are asked, else per index), PER_INDEX (one perturbed run of the recursion per index, as
+   for n >= 2) and TRANSPOSED (all indices from one run of the transposed recursion,
+   wpoly_adjoint.c; n = 1 only, per index otherwise).  Same results. */
+enum { WPOLY_ROUTE_AUTO = 0, WPOLY_ROUTE_PER_INDEX = 1, WPOLY_ROUTE_TRANSPOSED = 2 };
+
+/* As wpoly_coeffs_ex with the route chosen (WPVOL_BADARG for another value). */
+int wpoly_coeffs_route(fmpq *out, slong g, slong n, int threads, int prime_bits,
+                       slong min_primes, slong extra, int route, slong *primes_used);
+
 /* out[k] = W_a for the k-th of the nidx >= 1 multi-indices in idx (n entries each, sorted
    decreasingly, entries >= 0, sum <= 3g-3+n; borrowed), e.g. a single coefficient.  Return
    codes as wpoly_coeffs (WPVOL_BADARG also for an invalid idx). */
 int wpoly_coeffs_at(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads);
+
+/* As wpoly_coeffs_at with the route chosen (WPOLY_ROUTE_*; WPVOL_BADARG for another value). */
+int wpoly_coeffs_at_route(fmpq *out, slong g, slong n, const slong *idx, slong nidx, int threads,
+                          int route);
 
 /* Rough single-core *seconds and peak *bytes of wpoly_coeffs(., g, n, .) (0 for unsupported
    (g, n)).  Cheap. */
@@ -56,6 +70,10 @@ void wpoly_estimate(double *seconds, double *bytes, slong g, slong n);
 /* The same for wpoly_coeffs_at(., g, n, idx, nidx, .) (0 for invalid arguments). */
 void wpoly_estimate_at(double *seconds, double *bytes, slong g, slong n, const slong *idx,
                        slong nidx);
+
+/* The same for wpoly_coeffs_at_route (route as there). */
+void wpoly_estimate_at_route(double *seconds, double *bytes, slong g, slong n, const slong *idx,
+                             slong nidx, int route);
 
 #ifdef __cplusplus
 }

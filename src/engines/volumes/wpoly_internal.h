@@ -49,11 +49,21 @@ struct wpoly_ws_struct
     /* per multi-index */
     slong q;                  /* points with a_i >= 2 */
     slong e[WPOLY_MAX_POINTS];
+    /* the transposed route for n = 1 (wpoly_adjoint.c) */
+    int adjoint;                     /* 1: use it for primes with transforms */
+    struct wpoly_adj_struct *adj;    /* its buffers, allocated on first use */
 };
 
 /* W_a modulo the current prime from the components of the current multi-index a. */
 ulong wpoly_readout(wpoly_ws_t *ws, const slong *a);
 /* Makes a the current multi-index: its points with a_i >= 2 and their exponents. */
 void wpoly_set_index(wpoly_ws_t *ws, const slong *a);
+
+/* res[k] = (D-a)! W_a mod p for every index a of ws (n = 1) by the transposed recursion;
+   the component {} (with its transforms: ws->use_ntt) must be computed for this prime.
+   Returns WPVOL_OK, WPVOL_NOMEM or WPVOL_CANCELLED. */
+int wpoly_adj_run(wpoly_ws_t *ws, ulong *res);
+/* Releases the buffers of wpoly_adj_run (safe if none). */
+void wpoly_adj_free(wpoly_ws_t *ws);
 
 #endif

@@ -405,7 +405,14 @@ int wpoly_modp_run(wpoly_ws_t *ws, ulong *res, nmod_t mod)
         st = wpoly_genera(ws, &zero, 1);
     if (st == WPVOL_OK)
         st = wpoly_topdown(ws, 0);
-    for (k = 0; k < ws->nidx && st == WPVOL_OK; k++)
+    if (st == WPVOL_OK && ws->adjoint && ws->n == 1 && ws->use_ntt)
+    {
+        st = wpoly_adj_run(ws, res);
+        k = ws->nidx;   /* all indices done */
+    }
+    else
+        k = 0;
+    for (; k < ws->nidx && st == WPVOL_OK; k++)
     {
         const slong *a = ws->idx + k * ws->n;
         slong s = 0;
@@ -446,6 +453,7 @@ void wpoly_ws_free(wpoly_ws_t *ws)
 
     if (ws == NULL)
         return;
+    wpoly_adj_free(ws);
     for (k = 0; ws->comp != NULL && k < ws->ncomp; k++)
         wpoly_comp_clear(&ws->comp[k], ws->g);
     free(ws->comp);
@@ -456,6 +464,13 @@ void wpoly_ws_free(wpoly_ws_t *ws)
     free(ws->tmp);
     free(ws->fact);
     free(ws);
+}
+
+/* See wpvol_internal.h. */
+void wpoly_ws_set_adjoint(wpoly_ws_t *ws, int on)
+{
+    if (ws != NULL)
+        ws->adjoint = on != 0;
 }
 
 /* See wpvol_internal.h.  Component blocks are allocated on first use. */

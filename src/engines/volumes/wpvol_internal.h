@@ -245,6 +245,9 @@ typedef struct wpoly_ws_struct wpoly_ws_t;
    on exhausted memory.  Owned by the caller: wpoly_ws_free (NULL allowed). */
 wpoly_ws_t *wpoly_ws_new(slong g, slong n, slong extra, const slong *idx, slong nidx);
 void wpoly_ws_free(wpoly_ws_t *ws);
+/* on != 0: for n = 1 compute all indices by the transposed recursion (wpoly_adjoint.c) for the
+   primes with transforms, the others by the per-index route. */
+void wpoly_ws_set_adjoint(wpoly_ws_t *ws, int on);
 
 /* res[k] = (D-|a|)! W_a mod p for the k-th multi-index a of ws.  Returns WPVOL_OK,
    WPVOL_BADARG (prime too small), WPVOL_NOMEM, WPVOL_INTERNAL or WPVOL_CANCELLED (res zero on
