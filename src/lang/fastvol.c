@@ -127,11 +127,7 @@ static int fastvol_grow(interp *I, const node *where, slong g, slong n)
         fastvol_report(where, rc);
         return 0;
     }
-    if (I->wpv)
-        _fmpq_vec_clear(I->wpv, (I->wpv_G + 1) * (I->wpv_N + 1));
-    I->wpv = t;
-    I->wpv_G = G;
-    I->wpv_N = N;
+    voltab_adopt(I, t, G, N);
     voltab_store_keep(I, results_clock() - t0);
     return 1;
 }

@@ -188,12 +188,17 @@ int voltab_store_fill(interp *I, slong g, slong n)
     }
     if (!ok)
         return 0;
+    voltab_adopt(I, t, G, N);
+    return 1;
+}
+
+void voltab_adopt(interp *I, fmpq *t, slong G, slong N)
+{
     if (I->wpv)
         _fmpq_vec_clear(I->wpv, (I->wpv_G + 1) * (I->wpv_N + 1));
     I->wpv = t;
     I->wpv_G = G;
     I->wpv_N = N;
-    return 1;
 }
 
 /* Writes the index e[0..count) (one line "N G" per stored table). */

@@ -16,6 +16,10 @@ int voltab_store_fill(interp *I, slong g, slong n);
    under --verify or with an interrupt pending. */
 void voltab_store_keep(interp *I, double seconds);
 
+/* Makes the (G+1) x (N+1) table t the session's volume table, releasing the one it replaces.
+   Takes ownership of t. */
+void voltab_adopt(interp *I, fmpq *t, slong G, slong N);
+
 /* The text of the table t (entries g*(N+1)+n, g <= G, n <= N) as stored, and its reading:
    returns 1 and a new table (*t, *G, *N; caller clears (G+1)(N+1) entries) when text is one
    whole table in lowest terms with every unstable entry 0 and every stable one positive. For

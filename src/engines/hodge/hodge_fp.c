@@ -76,19 +76,6 @@ static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong 
     return st;
 }
 
-/* Advances the mixed-radix counter x (digit i runs over 0..lim[i]); 0 once it wraps to zero. */
-static int fp_next(slong *x, const slong *lim, slong r)
-{
-    for (slong i = 0; i < r; i++) {
-        if (x[i] < lim[i]) {
-            x[i]++;
-            return 1;
-        }
-        x[i] = 0;
-    }
-    return 0;
-}
-
 /* Scratch of one splitting enumeration: distinct leg values and their counts, the counters. */
 typedef struct {
     slong r, *val, *cnt, *x;       /* legs */
@@ -223,8 +210,8 @@ static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, 
                 int side = fp_mirror_cmp(&B, g1, g - g1, cmax);
                 if (side <= 0)          /* a splitting and its mirror image give equal terms */
                     st = fp_split_term(acc, H, &B, g1, g, n, cmax, l, side < 0);
-            } while (st == WK_OK && fp_next(B.y + 1, B.cy + 1, cmax));
-        } while (st == WK_OK && fp_next(B.x, B.cnt, B.r));
+            } while (st == WK_OK && hodge_counter_next(B.y + 1, B.cy + 1, cmax));
+        } while (st == WK_OK && hodge_counter_next(B.x, B.cnt, B.r));
     }
     free(B.val);
     return st;
@@ -399,7 +386,7 @@ static int fp_kappa_pull(fmpq_t res, hodge_ctx *H, slong g, slong *e, slong n, s
         (sj % 2 ? fmpq_sub : fmpq_add)(res, res, v);
         fmpz_clear(w);
         fmpz_clear(b);
-    } while (st == WK_OK && fp_next(j + 1, km + 1, kmax));
+    } while (st == WK_OK && hodge_counter_next(j + 1, km + 1, kmax));
     fmpq_clear(v);
     free(j);
     return st;

@@ -136,19 +136,6 @@ typedef struct {
     fmpq_poly_struct *A, *B, *S;    /* A[a], B[b] for a, b < 2 lmax - 1; S[l] sums side products */
 } hp_legs;
 
-/* Advances the mixed-radix counter x (digit i in 0..lim[i]); 0 once it wraps. */
-static int hp_next(slong *x, const slong *lim, slong r)
-{
-    for (slong i = 0; i < r; i++) {
-        if (x[i] < lim[i]) {
-            x[i]++;
-            return 1;
-        }
-        x[i] = 0;
-    }
-    return 0;
-}
-
 /* Compares the splitting (g1, x) with its mirror image (g2, cnt - x), which gives the same
    terms (a and b exchanged): -1, 0 (its own image) or 1. */
 static int hp_mirror_cmp(const hp_legs *L, slong g1, slong g2)
@@ -255,7 +242,7 @@ static int hp_split(hp_legs *L, hodge_ctx *H, slong g, const slong *d, slong n)
             slong k1, k2;
             ulong w = hp_legs_fill(L, &k1, &k2) << (side < 0);
             st = hp_split_one(L, H, g1, g - g1, k1, k2, alo, ahi, blo, bhi, w, t);
-        } while (st == WK_OK && hp_next(L->x, L->cnt, L->r));
+        } while (st == WK_OK && hodge_counter_next(L->x, L->cnt, L->r));
     }
     fmpq_poly_clear(t);
     return st;
