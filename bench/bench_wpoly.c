@@ -13,6 +13,8 @@
  *                                   then both routes side by side, 1 thread, for n = 1, 2
  *                                   (g <= 14) and n = 3 (g <= 9), until the reduction fails
  * One child process per run, so that the peak RSS (getrusage ru_maxrss) is that run's own.
+ * A reduction run also prints the number of entries its table reached, beside the upper bound
+ * by which the language refuses the reduction (wk_estimate_entries(g, n + D), --max-table).
  * Columns: g, n, threads, wall s, CPU s (all threads), peak MiB, primes, estimate (single-core
  * s), checksum of the coefficients (sum of num and den mod 2^61-1; equal results, equal sums).
  */
@@ -31,8 +33,10 @@
 
 #define REF_BUDGET_S 300
 
-/* All W_a by the reduction, in the order of wpoly_indices.  Returns 0 on success. */
-static int bw_reference(fmpq *out, slong g, slong n)
+/* All W_a by the reduction, in the order of wpoly_indices; *entries receives the number of
+   entries its table reached (set only on success or on reaching the limit).  Returns 0 on
+   success. */
+static int bw_reference(fmpq *out, slong g, slong n, slong *entries)
 {
     slong nv = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n, k, i;
     slong *idx = malloc((size_t) (nv * n) * sizeof(slong));
@@ -52,6 +56,8 @@ static int bw_reference(fmpq *out, slong g, slong n)
         st = pf_integral(out + k, T, g, idx + k * n, n, kmult, kmult[1] > 0 ? 1 : 0);
         bench_div_factorial(out + k, (ulong) kmult[1]);
     }
+    if (T != NULL)
+        *entries = wk_table_entries(T);
     wk_table_free(T);
     free(idx);
     return st;
@@ -65,7 +71,7 @@ typedef struct { slong g, n; int threads, route; } bw_case;
 static int bw_run(void *arg, FILE *out)
 {
     const bw_case *c = arg;
-    slong nv = wpoly_indices(NULL, c->g, c->n), primes = 0;
+    slong nv = wpoly_indices(NULL, c->g, c->n), primes = 0, entries = 0;
     fmpq *v = _fmpq_vec_init(nv);
     bench_timer t;
     bench_usage u;
@@ -84,7 +90,7 @@ static int bw_run(void *arg, FILE *out)
         free(idx);
     }
     bench_timer_start(&t);
-    st = c->threads == 0 ? bw_reference(v, c->g, c->n)
+    st = c->threads == 0 ? bw_reference(v, c->g, c->n, &entries)
                          : wpoly_coeffs_route(v, c->g, c->n, c->threads, 62, 1, 0, c->route,
                                               &primes);
     u.wall = bench_timer_wall(&t);
@@ -96,6 +102,9 @@ static int bw_run(void *arg, FILE *out)
              : c->route == WPOLY_ROUTE_TRANSPOSED ? (c->threads == 1 ? "transp/1" : "transp/2")
              : (c->threads == 1 ? "engine/1" : "engine/2"));
     bench_print_row(lead, &u, primes, est_s, bench_checksum_fmpq(v, nv), st == 0);
+    if (c->threads == 0)   /* the table reached against the bound the language refuses by */
+        printf("%4ld %2ld table entries %ld, bound wk_estimate_entries(g, n + D) = %.3g\n", c->g,
+               c->n, (long) entries, wk_estimate_entries(c->g, 2 * c->n + 3 * c->g - 3));
     bench_usage_write(out, &u);
     _fmpq_vec_clear(v, nv);
     return st != 0;
