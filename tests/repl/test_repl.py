@@ -57,7 +57,10 @@ class Session:
         return True
 
     def expect(self, pattern, timeout=TIMEOUT):
-        """Waits until pattern (a regex) appears after the mark; moves the mark past it."""
+        """Waits until pattern (a regex) appears after the mark; moves the mark past it.
+        Text is matched with re.S, and on a busy machine the answers to several lines can
+        arrive in one read: a pattern must end at the first prompt it means (".*?" before
+        PROMPT, not ".*", which would also swallow the next answer and its prompt)."""
         deadline = time.time() + timeout
         while True:
             m = re.search(pattern, self.text(), re.S)
@@ -160,7 +163,7 @@ def interrupt_session(rep, exe, env):
     s.send("sum_{i=1..1000000000} i\r")
     time.sleep(1.0)
     s.send_control("\x03")
-    rep.check(s.expect(r"interrupted.*" + PROMPT, timeout=30.0) is not None,
+    rep.check(s.expect(r"interrupted.*?" + PROMPT, timeout=30.0) is not None,
               "Ctrl-C stops the computation and the prompt returns", s)
     step(rep, s, "n + 1", r"\n8\n" + PROMPT, "session usable after an interrupted computation")
     s.send_control("\x04")
@@ -179,7 +182,7 @@ def typeahead_session(rep, exe, env):
     s.send("n + 1\r")
     time.sleep(1.0)
     s.send("\x03")
-    rep.check(s.expect(r"interrupted.*" + PROMPT, timeout=30.0) is not None,
+    rep.check(s.expect(r"interrupted.*?" + PROMPT, timeout=30.0) is not None,
               "Ctrl-C after type-ahead stops the computation", s)
     rep.check(s.expect(r"\n8\n" + PROMPT, timeout=30.0) is not None,
               "the line typed ahead runs after the Ctrl-C", s)
@@ -214,7 +217,7 @@ def device_history_session(rep, exe, env):
     os.makedirs(os.path.join(state, "psikappa"))
     os.symlink("/dev/zero", os.path.join(state, "psikappa", "history"))
     s = Session(exe, dict(env, XDG_STATE_HOME=state))
-    rep.check(s.expect(r"not using the history file .*not a regular file.*" + PROMPT, timeout=30.0) is not None,
+    rep.check(s.expect(r"not using the history file .*not a regular file.*?" + PROMPT, timeout=30.0) is not None,
               "a device as history file is refused with a warning", s)
     step(rep, s, "2^5", r"\n32\n" + PROMPT, "session usable without a history file")
     s.send_control("\x04")
@@ -252,7 +255,7 @@ def main():
     rep = Report()
     s = Session(exe, env)
     try:
-        started = s.expect(r"help.*" + PROMPT) is not None
+        started = s.expect(r"help.*?" + PROMPT) is not None
         rep.check(started, "banner and first prompt", s)
         if not started:
             raise SystemExit(finish(rep))
@@ -264,8 +267,8 @@ def main():
         step(rep, s, "<tau_2 tau_3>_2", r"\n29/5760\n" + PROMPT, "correlator")
 
         # an error is reported and the session goes on, definitions intact
-        step(rep, s, "1/0", r"error.*" + PROMPT, "division by zero reports an error")
-        step(rep, s, "let y = ", r"error.*" + PROMPT, "syntax error reports an error")
+        step(rep, s, "1/0", r"error.*?" + PROMPT, "division by zero reports an error")
+        step(rep, s, "let y = ", r"error.*?" + PROMPT, "syntax error reports an error")
         step(rep, s, "x + 1", r"\n7\n" + PROMPT, "session survives errors")
 
         # multi-line for-block under the continuation prompt
@@ -276,8 +279,8 @@ def main():
         step(rep, s, "  2)", r"\n8\n" + PROMPT, "call completed on the next line")
 
         # help
-        step(rep, s, "help", r"correlator.*<tau_2 tau_3>_2.*decimal\(.*Ctrl-D.*" + PROMPT, "help")
-        step(rep, s, ":help", r"int_\{2,0\} kappa_1\^3.*" + PROMPT, ":help")
+        step(rep, s, "help", r"correlator.*<tau_2 tau_3>_2.*decimal\(.*Ctrl-D.*?" + PROMPT, "help")
+        step(rep, s, ":help", r"int_\{2,0\} kappa_1\^3.*?" + PROMPT, ":help")
 
         # Ctrl-C at the prompt drops the typed text; inside a block it drops the block
         s.send("this is not valid")
