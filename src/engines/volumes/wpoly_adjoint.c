@@ -57,7 +57,7 @@ static void wpoly_adj_corr(ulong *x, const ulong *c, const ulong *y, slong l, ul
 }
 
 /* bX += d_0^T bY, where Y = d_0 X in shape (X gives the shape; bY has one row more). */
-static void wpoly_adj_d0(wpvol_biv_t bX, const wpvol_biv_t bY, wpoly_ws_t *ws)
+static void wpoly_adj_d0(wpvol_biv_struct *bX, const wpvol_biv_struct *bY, wpoly_ws_t *ws)
 {
     slong r, k;
 
@@ -74,7 +74,7 @@ static void wpoly_adj_d0(wpvol_biv_t bX, const wpvol_biv_t bY, wpoly_ws_t *ws)
 
 /* bE += the transpose of E -> cross term of E on the base component X0 (wpoly_cross), given
    the adjoint bY of its target. */
-static void wpoly_adj_cross(const wpvol_biv_t bY, const wpvol_biv_struct *X0, wpoly_ws_t *ws)
+static void wpoly_adj_cross(const wpvol_biv_struct *bY, const wpvol_biv_struct *X0, wpoly_ws_t *ws)
 {
     slong r;
 
@@ -84,7 +84,7 @@ static void wpoly_adj_cross(const wpvol_biv_t bY, const wpvol_biv_struct *X0, wp
 }
 
 /* Shapes a scratch biv (storage of the largest shape) and zeroes it. */
-static void wpoly_adj_shape(wpvol_biv_t b, slong mlo, slong rows)
+static void wpoly_adj_shape(wpvol_biv_struct *b, slong mlo, slong rows)
 {
     b->mlo = mlo;
     b->rows = rows;
