@@ -103,8 +103,14 @@ static int bw_run(void *arg, FILE *out)
              : (c->threads == 1 ? "engine/1" : "engine/2"));
     bench_print_row(lead, &u, primes, est_s, bench_checksum_fmpq(v, nv), st == 0);
     if (c->threads == 0)   /* the table reached against the bound the language refuses by */
-        printf("%4ld %2ld table entries %ld, bound wk_estimate_entries(g, n + D) = %.3g\n", c->g,
-               c->n, (long) entries, wk_estimate_entries(c->g, 2 * c->n + 3 * c->g - 3));
+    {
+        double ms = 0.0, me = 0.0;
+        if (c->n >= 2)
+            wk_estimate_volume_reduction(&ms, &me, c->g, c->n);
+        printf("%4ld %2ld table entries %ld, bound wk_estimate_entries(g, n + D) = %.3g; model (n >= 2) "
+               "%.3g entries, %.3g s\n", c->g, c->n, (long) entries,
+               wk_estimate_entries(c->g, 2 * c->n + 3 * c->g - 3), me, ms);
+    }
     bench_usage_write(out, &u);
     _fmpq_vec_clear(v, nv);
     return st != 0;

@@ -29,9 +29,7 @@
    multi-indices): measured with bench_wpoly, V_{10,1} (18460 terms) takes
    0.13 s by the reduction and 0.02 s by the engine's transposed route (0.12 s
    per index), V_{8,1} 0.02 s and 0.01 s: below the threshold both are fast.
-   With n >= 2 the reduction shares its memo between many more coefficients
-   and stays faster (V_{13,2}: 2.6 s against 17 s), so the engine only takes
-   the cases the reduction refuses (its table estimate beyond --max-table). */
+   With n >= 2 the choice compares the two time estimates (fastvol_poly_wanted). */
 #define FASTVOL_POLY_MIN_TERMS 10000.0
 
 /* Refuse requests whose predicted memory is beyond the engine's own limit
@@ -294,12 +292,39 @@ fmpq *fastvol_poly_run_route(interp *I, const node *where, slong g, slong n, con
     return NULL;
 }
 
-/* Whether the polynomial engine should take all coefficients of a few-point volume on
-   Mbar_{g,n}, the reduction needing `terms` correlator terms: when forced, when the
-   reduction would be refused, or for one point once the engine is faster. */
-int fastvol_poly_wanted(interp *I, slong g, slong n, double terms)
+int fastvol_reduction_refused(const interp *I, slong g, slong n)
 {
-    int refused = wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table;
-    return I->route_volumes || refused || (n == 1 && terms > FASTVOL_POLY_MIN_TERMS);
+    double sec, entries;
+    if (n < 2 || n > WPOLY_MAX_POINTS)
+        return wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table;
+    wk_estimate_volume_reduction(&sec, &entries, g, n);
+    return entries > I->lim.max_table;
+}
+
+double fastvol_reduction_seconds(slong g, slong n)
+{
+    double sec, entries;
+    if (n < 2 || n > WPOLY_MAX_POINTS)
+        return wk_estimate_seconds(wk_estimate_entries(g, n + 3 * g - 3 + n));
+    wk_estimate_volume_reduction(&sec, &entries, g, n);
+    return sec;
+}
+
+/* CPU seconds of the polynomial engine per second of wpoly_estimate (measured with bench_wpoly on
+   the same machine as the reduction's model: V_{11,2} 3.14 s for an estimate of 2.0, V_{13,2}
+   10.3 for 7.1, V_{11,3} 37.4 for 25.3, V_{8,4} 20.2 for 11.7). */
+#define FASTVOL_ENGINE_PER_ESTIMATE 1.6
+
+int fastvol_poly_wanted(interp *I, slong g, slong n, double terms, const slong *idx, slong nidx)
+{
+    double eng, bytes;
+    if (I->route_volumes || fastvol_reduction_refused(I, g, n))
+        return 1;
+    if (n == 1)
+        return terms > FASTVOL_POLY_MIN_TERMS;
+    if (n > WPOLY_MAX_POINTS)
+        return 0;
+    wpoly_estimate_at(&eng, &bytes, g, n, idx, nidx);
+    return FASTVOL_ENGINE_PER_ESTIMATE * eng / fastvol_threads() < fastvol_reduction_seconds(g, n);
 }
 

@@ -34,9 +34,16 @@ fmpq *fastvol_poly_run_route(interp *I, const node *where, slong g, slong n, con
                              int route);
 /* Correlator terms the reduction would need for the coefficients idx of V_{g,n}(L). */
 double fastvol_poly_terms(slong g, slong n, const slong *idx, slong nidx);
-/* Whether the polynomial engine should take all coefficients of a few-point volume on
-   Mbar_{g,n}, the reduction needing `terms` correlator terms. */
-int fastvol_poly_wanted(interp *I, slong g, slong n, double terms);
+/* Whether the polynomial engine should take all coefficients idx[0..nidx n) of a few-point
+   volume on Mbar_{g,n}, the reduction needing `terms` correlator terms: when forced, when the
+   reduction would be refused, for one point once terms exceed FASTVOL_POLY_MIN_TERMS, and for
+   n >= 2 when the engine's time estimate on every processor is below the reduction's. */
+int fastvol_poly_wanted(interp *I, slong g, slong n, double terms, const slong *idx, slong nidx);
+/* Whether the reduction of all coefficients of V_{g,n}(L) would need more table entries than
+   --max-table allows (a fitted model for 2 <= n <= 6, the proven bound otherwise). */
+int fastvol_reduction_refused(const interp *I, slong g, slong n);
+/* Single-core seconds of that reduction, by the same model. */
+double fastvol_reduction_seconds(slong g, slong n);
 /* int_{g,n} exp(c kappa_1 + sum_i b_i psi_i) from the coefficients w of idx. New value. */
 value *fastvol_exp_sum(interp *I, const fmpq *w, const slong *idx, slong nidx, slong n, slong D,
                        const fmpq_mpoly_t c, const fmpq_mpoly_struct *b);

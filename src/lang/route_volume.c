@@ -113,7 +113,7 @@ static int volume_applies(integral *q)
         return I->route_volumes || pf_estimate_terms(kmult, 1) > FASTVOL_MIN_TERMS;
     case VOLUME_FORM_EXP_LINEAR: {
         slong *idx = volume_indices(q->g, q->n, &nidx);
-        int wanted = fastvol_poly_wanted(I, q->g, q->n, fastvol_poly_terms(q->g, q->n, idx, nidx));
+        int wanted = fastvol_poly_wanted(I, q->g, q->n, fastvol_poly_terms(q->g, q->n, idx, nidx), idx, nidx);
         free(idx);
         return wanted;
     }

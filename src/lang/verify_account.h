@@ -25,7 +25,8 @@ typedef enum { VERIFY_VALUE = 0, VERIFY_MONOMIAL = 1 } verify_unit;
 #define VERIFY_WHY_REDUCTION_LIMIT "the reduction's table reached its limit"
 #define VERIFY_WHY_REDUCTION_FAILED "the reduction stopped with an error"
 #define VERIFY_WHY_MONOMIALS "some of its monomials could not be checked (see the monomials)"
-#define VERIFY_WHY_NO_ROUTE_VOLUME "no second route for V_{g,n}(L) by the reduction"
+#define VERIFY_WHY_NO_ROUTE_VOLUME "no second route for V_{g,n}(L) in genus 0 or 1 or with more than 6 points"
+#define VERIFY_WHY_ENGINE_COST "the volume engine's estimate is above its limits"
 #define VERIFY_WHY_NO_ROUTE_SERIES "no second route for specialisations of F"
 #define VERIFY_WHY_NO_SECOND_ROUTE "its route has no second route"
 

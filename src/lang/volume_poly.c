@@ -71,7 +71,7 @@ typedef struct {
     const int *vars;       /* ring index of L_1..L_n */
     slong *alpha;
     ulong *exps;
-    fmpq_mpoly_struct *res;
+    scalar_terms terms;    /* the result, collected (one rescaling at the end) */
     fmpq_t c;
 } volume_walk;
 
@@ -89,7 +89,7 @@ static int volume_visit(volume_walk *W, slong i, slong left)
         for (slong k = 0; k < W->n; k++)
             W->exps[W->vars[k]] = 2 * (ulong)W->alpha[k];
         W->exps[SCALAR_PI] = 2 * (ulong)left;
-        fmpq_mpoly_set_coeff_fmpq_ui(W->res, W->c, W->exps, W->I->ring.ctx);
+        scalar_terms_push(&W->terms, W->c, W->exps);
         return WK_OK;
     }
     for (slong a = 0; a <= left; a++) {
@@ -135,7 +135,7 @@ static value *volume_engine_verify(interp *I, const node *where, slong g, slong 
         return fast;
     if (terms > I->lim.max_terms)
         return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TERMS);
-    if (wk_estimate_entries(g, n + 3 * g - 3 + n) > I->lim.max_table)
+    if (fastvol_reduction_refused(I, g, n))
         return verify_unchecked_value(I, where, fast, VERIFY_WHY_REDUCTION_TABLE);
     verify_second_begin(I);
     value *slow = volume_reference(I, where, g, n);
@@ -176,7 +176,7 @@ static int volume_engine_second_wanted(interp *I, slong g, slong n, double terms
     double sec, bytes;
     if (!I->verify || n != 1 || nidx < 3)
         return 0;
-    if (terms <= I->lim.max_terms && wk_estimate_entries(g, n + 3 * g - 3 + n) <= I->lim.max_table)
+    if (terms <= I->lim.max_terms && !fastvol_reduction_refused(I, g, n))
         return 0;   /* the reduction checks */
     wpoly_estimate_at_route(&sec, &bytes, g, n, idx, nidx, WPOLY_ROUTE_PER_INDEX);
     return sec <= I->lim.max_seconds;
@@ -209,15 +209,9 @@ static value *volume_engine_second(interp *I, const node *where, slong g, slong 
 }
 
 /* V_{g,0} = (2 pi^2)^D V_{g,0} (normalised) from the session's table of the volume engine, on
-   every processor, when the reduction's kappa_1 pushforward would be large (the threshold of the
-   kappa_1 routes of int_{g,n}) or --volume-engine asks for it. */
-static value *volume_closed_by_engine(interp *I, const node *where, slong g, int *handled)
+   every processor; NULL after reporting an error. */
+static value *volume_closed_engine_value(interp *I, const node *where, slong g)
 {
-    slong D = 3 * g - 3, kmult[2] = {0, D};
-    double terms = pf_estimate_terms(kmult, 1);
-    *handled = I->route_volumes || terms > FASTVOL_MIN_TERMS;
-    if (!*handled)
-        return NULL;
     fmpq_t V;
     fmpq_init(V);
     value *r = NULL;
@@ -228,13 +222,68 @@ static value *volume_closed_by_engine(interp *I, const node *where, slong g, int
         fmpq_mpoly_mul(c, c, c, I->ring.ctx);
         fmpq_mpoly_scalar_mul_si(c, c, 2, I->ring.ctx);
         r = value_new_num(&I->ring);
-        fmpq_mpoly_pow_ui(r->num, c, (ulong)D, I->ring.ctx);
+        fmpq_mpoly_pow_ui(r->num, c, (ulong)(3 * g - 3), I->ring.ctx);
         fmpq_mpoly_scalar_mul_fmpq(r->num, r->num, V, I->ring.ctx);
         fmpq_mpoly_clear(c, I->ring.ctx);
-        r = volume_engine_verify(I, where, g, 0, terms, r);
     }
     fmpq_clear(V);
     return r;
+}
+
+/* V_{g,0} by the engine when the reduction's kappa_1 pushforward would be large (the threshold of
+   the kappa_1 routes of int_{g,n}) or --volume-engine asks for it. */
+static value *volume_closed_by_engine(interp *I, const node *where, slong g, int *handled)
+{
+    slong D = 3 * g - 3, kmult[2] = {0, D};
+    double terms = pf_estimate_terms(kmult, 1);
+    *handled = I->route_volumes || terms > FASTVOL_MIN_TERMS;
+    if (!*handled)
+        return NULL;
+    value *r = volume_closed_engine_value(I, where, g);
+    return r ? volume_engine_verify(I, where, g, 0, terms, r) : NULL;
+}
+
+/* All coefficients of V_{g,n}(L), 1 <= n <= WPOLY_MAX_POINTS, by the polynomial engine; NULL
+   after reporting an error. */
+static value *volume_poly_engine_value(interp *I, const node *where, slong g, slong n, const slong *idx, slong nidx,
+                                       int *vars)
+{
+    value *r = NULL;
+    fmpq *w = integrate_declare_lengths(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
+    if (w) {
+        r = volume_engine_sum(I, w, idx, nidx, n, 3 * g - 3 + n, vars);
+        _fmpq_vec_clear(w, nidx);
+    }
+    return r;
+}
+
+/* With --verify, a polynomial the reduction computed is recomputed by the volume engine (the
+   table for n = 0, the polynomial engine for 1 <= n <= WPOLY_MAX_POINTS, g >= 2) when the
+   engine's estimate is within its limits. Returns r, or NULL after reporting a disagreement. */
+static value *volume_reduction_verify(interp *I, const node *where, slong g, slong n, value *r)
+{
+    char msg[320];
+    double sec;
+    if (!r || !I->verify)
+        return r;
+    if (g < 2 || n > WPOLY_MAX_POINTS)
+        return verify_unchecked_value(I, where, r, VERIFY_WHY_NO_ROUTE_VOLUME);
+    slong nidx = n == 0 ? 0 : wpoly_indices(NULL, g, n);
+    slong *idx = xmalloc((size_t)(nidx * n + 1) * sizeof(slong));
+    if (n > 0)
+        wpoly_indices(idx, g, n);
+    int vars[WPOLY_MAX_POINTS];
+    value *eng = NULL;
+    if ((n == 0 ? fastvol_table_cost(I, g, 0, &sec, msg, sizeof msg)
+                : fastvol_poly_cost(I, g, n, idx, nidx, &sec, msg, sizeof msg)) != NULL) {
+        free(idx);
+        return verify_unchecked_value(I, where, r, VERIFY_WHY_ENGINE_COST);
+    }
+    verify_second_begin(I);
+    eng = n == 0 ? volume_closed_engine_value(I, where, g) : volume_poly_engine_value(I, where, g, n, idx, nidx, vars);
+    verify_second_end(I);
+    free(idx);
+    return volume_compare(I, where, eng, r);
 }
 
 static value *volume_by_engine(interp *I, const node *where, slong g, slong n, int *handled)
@@ -244,18 +293,16 @@ static value *volume_by_engine(interp *I, const node *where, slong g, slong n, i
         return volume_closed_by_engine(I, where, g, handled);
     if (g < 2 || n < 1 || n > WPOLY_MAX_POINTS)
         return NULL;
-    slong nidx = wpoly_indices(NULL, g, n), D = 3 * g - 3 + n;
+    slong nidx = wpoly_indices(NULL, g, n);
     slong *idx = xmalloc((size_t)(nidx * n) * sizeof(slong));
     wpoly_indices(idx, g, n);
     double terms = fastvol_poly_terms(g, n, idx, nidx);
     value *r = NULL;
     int vars[WPOLY_MAX_POINTS];
-    if (fastvol_poly_wanted(I, g, n, terms)) {
+    if (fastvol_poly_wanted(I, g, n, terms, idx, nidx)) {
         *handled = 1;
-        fmpq *w = integrate_declare_lengths(I, where, n, vars) ? fastvol_poly_run(I, where, g, n, idx, nidx) : NULL;
-        if (w) {
-            r = volume_engine_sum(I, w, idx, nidx, n, D, vars);
-            _fmpq_vec_clear(w, nidx);
+        r = volume_poly_engine_value(I, where, g, n, idx, nidx, vars);
+        if (r) {
             if (volume_engine_second_wanted(I, g, n, terms, idx, nidx))
                 r = volume_engine_second(I, where, g, n, idx, nidx, vars, r);
             else
@@ -281,10 +328,29 @@ static int volume_size_ok(interp *I, const node *where, slong g, slong n)
     return small;
 }
 
+/* Whether the reduction of all of V_{g,n}(L) may run: the fitted model of fastvol.c for
+   2 <= n <= WPOLY_MAX_POINTS, the proven table bound otherwise; reports when not. */
+static int volume_reduction_ok(interp *I, const node *where, slong g, slong n)
+{
+    if (n < 2 || n > WPOLY_MAX_POINTS)
+        return integrate_table_ok(I, where, g, n + 3 * g - 3 + n);
+    double sec = fastvol_reduction_seconds(g, n);
+    if (fastvol_reduction_refused(I, g, n)) {
+        diag_error(&where->loc, "V_{%ld,%ld}(L) by the reduction needs a correlator table above the limit of %.3g "
+                                "entries (raise it with --max-table N)", (long)g, (long)n, I->lim.max_table);
+        return 0;
+    }
+    if (sec <= I->lim.max_seconds)
+        return 1;
+    diag_error(&where->loc, "V_{%ld,%ld}(L) by the reduction needs about %.3g s, above the limit of %g s (raise it "
+                            "with --max-seconds S)", (long)g, (long)n, sec, I->lim.max_seconds);
+    return 0;
+}
+
 /* Every coefficient by the reduction, memoised on the sorted multi-index. */
 static value *volume_by_reduction(interp *I, const node *where, slong g, slong n)
 {
-    if (n > SCALAR_MAX_VARS - 1 || !integrate_table_ok(I, where, g, n + 3 * g - 3 + n))
+    if (n > SCALAR_MAX_VARS - 1 || !volume_reduction_ok(I, where, g, n))
         return NULL;
     int *vars = xmalloc((n + 1) * sizeof(int));
     value *r = NULL;
@@ -298,10 +364,13 @@ static value *volume_by_reduction(interp *I, const node *where, slong g, slong n
         W.vars = vars;
         W.alpha = xcalloc(n + 1, sizeof(slong));
         W.exps = xcalloc(SCALAR_MAX_VARS, sizeof(ulong));
-        W.res = r->num;
+        scalar_terms_init(&W.terms);
         keymap_init(&W.memo);
         fmpq_init(W.c);
         int rc = volume_visit(&W, 0, W.D);
+        if (rc == WK_OK)
+            scalar_terms_add_to(r->num, &W.terms, &I->ring);
+        scalar_terms_clear(&W.terms);
         fmpq_clear(W.c);
         keymap_clear(&W.memo);
         free(W.alpha);
@@ -333,10 +402,7 @@ value *integrate_volume(interp *I, const node *where, slong g, slong n)
     value *fast = n < SCALAR_MAX_VARS ? volume_by_engine(I, where, g, n, &handled) : NULL;
     if (handled || n > SCALAR_MAX_VARS - 1)
         return fast;
-    value *r = volume_by_reduction(I, where, g, n);
-    if (r && I->verify)
-        r = verify_unchecked_value(I, where, r, VERIFY_WHY_NO_ROUTE_VOLUME);
-    return r;
+    return volume_reduction_verify(I, where, g, n, volume_by_reduction(I, where, g, n));
 }
 
 static value *volume_compare(interp *I, const node *where, value *slow, value *fast)

@@ -66,6 +66,12 @@ double wk_estimate_entries(slong g, slong n);
    sum, the one time model of the reduction. */
 double wk_estimate_seconds(double entries);
 
+/* Model of the reduction of every coefficient of a volume polynomial V_{g,n}(L), 2 <= n <= 6 (one
+   kappa_1 pushforward per sorted multi-index into one shared table, as the language does):
+   single-core seconds and table entries reached, fitted on measurements (wk_estimate.c).  The
+   bound wk_estimate_entries(g, n + 3g-3+n) is about 1000 times the table reached there. */
+void wk_estimate_volume_reduction(double *seconds, double *entries, slong g, slong n);
+
 /* What wk_closed_form found: no closed form applies, the degree does not match (the answer is 0
    however large g and n are), or a value from a closed formula. */
 enum { WK_CLOSED_NONE = 0, WK_CLOSED_ZERO = 1, WK_CLOSED_VALUE = 2 };

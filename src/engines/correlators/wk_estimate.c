@@ -59,3 +59,14 @@ double wk_estimate_seconds(double entries)
 {
     return entries >= 0 ? 3e-6 * entries : HUGE_VAL;
 }
+
+/* Fitted on `bench_wpoly ref` runs (gcc -O2, FLINT 2.9, the project's 2-core VM, idle): n = 2 for
+   g = 9, 11..15; n = 3 for g = 7, 9, 11, 12; n = 4 for g = 5, 7..10; n = 5 for g = 6..8; within
+   25 % on all of them (e.g. V_{13,2}: 3.46 s and 194141 entries; V_{15,2}: 21.1 s and 589752;
+   V_{11,3}: 1.02 s and 89826).  Each genus multiplies the time by about 2.5 and the table by
+   1.75, each point by 1.85 and 1.5: numbers grow with the genus, the tables with the points. */
+void wk_estimate_volume_reduction(double *seconds, double *entries, slong g, slong n)
+{
+    *seconds = 6.8e-6 * pow(2.5, (double) g) * pow(1.85, (double) n);
+    *entries = 60.0 * pow(1.75, (double) g) * pow(1.5, (double) n);
+}
