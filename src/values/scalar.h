@@ -83,4 +83,20 @@ int scalar_div(fmpq_mpoly_t r, const fmpq_mpoly_t a, const fmpq_mpoly_t b, const
 /* Whether b is invertible in the ring: a nonzero rational times a power of pi. */
 int scalar_is_unit(const fmpq_mpoly_t b, const scalar_ring *R);
 
+/* A collector of terms (coefficient, exponent vector of SCALAR_MAX_VARS entries) that become one
+   polynomial in time linear in their number (scalar_terms.c).  The collector owns copies of the
+   coefficients and exponents. */
+typedef struct scalar_terms {
+    fmpq *c;
+    ulong *exps;
+    slong len, alloc;
+} scalar_terms;
+
+void scalar_terms_init(scalar_terms *T);
+void scalar_terms_clear(scalar_terms *T);
+/* Appends c times the monomial exps (copied; zero coefficients are skipped). */
+void scalar_terms_push(scalar_terms *T, const fmpq_t c, const ulong *exps);
+/* res += the sum of the collected terms (equal monomials add up); empties T. */
+void scalar_terms_add_to(fmpq_mpoly_t res, scalar_terms *T, const scalar_ring *R);
+
 #endif
