@@ -58,9 +58,14 @@ int strata_lang_graphs(interp *I, const node *n, int g, int np, int k, sg_list *
 {
     double est = sg_estimate_count(g, np), lim = I->lim.max_table / STRATA_TABLE_PER_GRAPH;
     if (est > lim) {
-        sl_fail(n, xasprintf("Mbar_{%d,%d} has about %.2g stable graphs (estimate), more than the %.2g allowed "
+        char about[48];
+        if (est > 1e15)
+            snprintf(about, sizeof about, "more than 1e15");
+        else
+            snprintf(about, sizeof about, "about %.2g", est);
+        sl_fail(n, xasprintf("Mbar_{%d,%d} has %s stable graphs (estimate), more than the %.2g allowed "
                              "(--max-table / %g); raise --max-table to enumerate them",
-                             g, np, est, lim, STRATA_TABLE_PER_GRAPH));
+                             g, np, about, lim, STRATA_TABLE_PER_GRAPH));
         return 0;
     }
     sg_list_init(L);
@@ -114,22 +119,36 @@ static value *sl_counts(interp *I, const sg_list *L, int dim)
     return r;
 }
 
-/* --verify for mvvolume_{g,n}: every graph again with the correlators of the KdV recursion
-   (its own table) in place of DVV; r is returned, or NULL (released) after a failure. */
-static value *sl_verify_volume(interp *I, const node *n, const sg_list *L, const fmpq_t total, value *r)
+/* The KdV recursion's correlators (the session's own table, made on first use) into *kdv;
+   0 when memory is exhausted. */
+static int sl_kdv_source(interp *I, mv_source *kdv)
 {
     if (I->wk_kdv == NULL) {
         I->wk_kdv = wk_kdv_table_new();
         if (I->wk_kdv == NULL)
-            return verify_unchecked_value(I, n, r, "out of memory for the KdV recursion's table");
+            return 0;
         wk_kdv_table_set_cancel(I->wk_kdv, &cancel_flag);
         wk_kdv_table_set_limit(I->wk_kdv, I->lim.max_table > 1e15 ? (slong) 1e15 : (slong) I->lim.max_table);
     }
-    mv_source kdv = {NULL, I->wk_kdv};
+    kdv->T = NULL;
+    kdv->K = I->wk_kdv;
+    return 1;
+}
+
+/* --verify for mvvolume_{g,n}: the volume again with the correlators of the KdV recursion in
+   place of DVV, over the labelled graphs L when given, else over the shapes of (g, np); r is
+   returned, or NULL (released) after a failure. */
+static value *sl_verify_volume(interp *I, const node *n, const sg_list *L, int g, int np, const fmpq_t total,
+                               value *r)
+{
+    mv_source kdv;
+    if (!sl_kdv_source(I, &kdv))
+        return verify_unchecked_value(I, n, r, "out of memory for the KdV recursion's table");
     fmpq_t second;
     fmpq_init(second);
     verify_second_begin(I);
-    int rc = mv_volume_of(second, L, &kdv, &cancel_flag);
+    int rc = L != NULL ? mv_volume_of(second, L, &kdv, &cancel_flag)
+                       : mv_volume_by_shapes(second, g, np, &kdv, 0, &cancel_flag);
     verify_second_end(I);
     int same = rc == SG_OK && fmpq_equal(second, total);
     fmpq_clear(second);
@@ -141,6 +160,41 @@ static value *sl_verify_volume(interp *I, const node *n, const sg_list *L, const
         return NULL;
     }
     verify_checked(I, VERIFY_VALUE, 1);
+    return r;
+}
+
+/* mvvolume_{g,n} by the shapes of (g, n) (graphs with unlabelled legs, one term each: a few
+   thousand for Mbar_{0,12}, whose labelled graphs number about 10^10).  --verify recomputes it
+   with KdV correlators over the labelled graphs when their estimate is within the limit, else
+   over the shapes. */
+static value *sl_volume_by_shapes(interp *I, const node *n, int g, int np)
+{
+    mv_source src = {I->wk, NULL};
+    double lim = I->lim.max_table / STRATA_TABLE_PER_GRAPH;
+    fmpq_t vol;
+    value *r = NULL;
+    fmpq_init(vol);
+    int rc = mv_volume_by_shapes(vol, g, np, &src, (slong) lim, &cancel_flag);
+    if (rc == SG_LIMIT && cancel_flag == 0)
+        sl_fail(n, xasprintf("Vol Q_{%d,%d} needs more than %.2g graph shapes or a correlator table beyond "
+                             "--max-table; raise --max-table", g, np, lim));
+    else if (rc != SG_OK)
+        sl_engine_error(n, rc, g, np);
+    else {
+        r = sl_pi_value(I, vol, 6 * g - 6 + 2 * np);
+        if (I->verify && sg_estimate_count(g, np) <= lim) {
+            sg_list L;
+            sg_list_init(&L);
+            if (sg_enumerate(&L, g, np, -1, 0, &cancel_flag) == SG_OK)
+                r = sl_verify_volume(I, n, &L, g, np, vol, r);
+            else
+                r = verify_unchecked_value(I, n, r, "the labelled graphs could not be enumerated");
+            sg_list_clear(&L);
+        } else if (I->verify) {
+            r = sl_verify_volume(I, n, NULL, g, np, vol, r);
+        }
+    }
+    fmpq_clear(vol);
     return r;
 }
 
@@ -167,7 +221,7 @@ static value *sl_volumes(interp *I, const node *n, const sg_list *L, int g, int 
     else if (!table) {
         r = sl_pi_value(I, total, e);
         if (I->verify)
-            r = sl_verify_volume(I, n, L, total, r);
+            r = sl_verify_volume(I, n, L, g, np, total, r);
     }
     else {
         r = value_new_list(rows, &I->ring);
@@ -253,7 +307,13 @@ int strata_lang_subscript(interp *I, scope *s, const node *n, value **out)
     slong g, np, k;
     sg_list L;
     *out = NULL;
-    if (!sl_subscripts(I, s, n, kind, &g, &np, &k) || !strata_lang_graphs(I, n, (int) g, (int) np, (int) k, &L))
+    if (!sl_subscripts(I, s, n, kind, &g, &np, &k))
+        return 1;
+    if (kind == SL_VOLUME && g < SG_SHAPE_BASE && np <= SG_SHAPE_MAX_LEGS) {
+        *out = sl_volume_by_shapes(I, n, (int) g, (int) np);
+        return 1;
+    }
+    if (!strata_lang_graphs(I, n, (int) g, (int) np, (int) k, &L))
         return 1;
     if (kind == SL_GRAPHS)
         *out = sl_list_of_graphs(I, &L);

@@ -38,6 +38,24 @@ int main(void)
         UNIT_CHECK(&rep, vol_is(&dvv, 0, n, n <= 5 ? 1L << (5 - n) : 1, n <= 5 ? 1 : 1L << (n - 5)),
                    "AEZ Vol Q_{0,%d}", n);
 
+    /* The same closed form for n <= 12 (the issue's range; 3g-3+n = 9 at n = 12) and on to
+       n = 15, by the sum over shapes (graphs with unlabelled legs): about 10^10 labelled trees at
+       n = 12, a few thousand shapes. */
+    for (int n = 4; n <= 15; n++) {
+        fmpq_t v, e;
+        fmpq_init(v);
+        fmpq_init(e);
+        fmpq_set_si(e, 1, 1);
+        if (n <= 5)
+            fmpz_mul_2exp(fmpq_numref(e), fmpq_numref(e), (ulong) (5 - n));
+        else
+            fmpz_mul_2exp(fmpq_denref(e), fmpq_denref(e), (ulong) (n - 5));
+        int rc = mv_volume_by_shapes(v, 0, n, &dvv, 0, NULL);
+        UNIT_CHECK(&rep, rc == SG_OK && fmpq_equal(v, e), "AEZ Vol Q_{0,%d} by shapes", n);
+        fmpq_clear(v);
+        fmpq_clear(e);
+    }
+
     /* Delecroix-Goujard-Zograf-Zorich (Duke 2021), table of Vol Q_{g,n} (from memory; the KdV
        route below recomputes every correlator independently) */
     UNIT_CHECK(&rep, vol_is(&dvv, 1, 1, 2, 3), "Vol Q_{1,1} = 2 pi^2/3");
@@ -62,6 +80,60 @@ int main(void)
             fmpq_clear(a);
             fmpq_clear(b);
         }
+
+    /* Shapes against labelled graphs (property tests of sgraph_shape.c): for every (g, n) whose
+       labelled graphs number at most about 1e5, the groupoid weights of the shapes with k edges
+       add up to sum 1/|Aut Gamma| over the labelled graphs with k edges, and the two volume sums
+       are equal (with DVV correlators for the shapes, KdV ones for the labelled graphs). */
+    for (int g = 0; g <= 4; g++)
+        for (int n = 0; 3 * g - 3 + n <= 9 && n <= SG_SHAPE_MAX_LEGS; n++) {
+            if (2 * g - 2 + n <= 0 || 3 * g - 3 + n < 1 || sg_estimate_count(g, n) > 1e5)
+                continue;
+            sg_list A, B;
+            fmpq_t wa, wb, x, va, vb;
+            fmpz_t aut;
+            int dim = 3 * g - 3 + n, good = 1;
+            sg_list_init(&A), sg_list_init(&B);
+            fmpq_init(wa), fmpq_init(wb), fmpq_init(x), fmpq_init(va), fmpq_init(vb), fmpz_init(aut);
+            good &= sg_enumerate(&A, g, n, -1, 0, NULL) == SG_OK;
+            good &= sg_enumerate_shapes(&B, g, n, 0, NULL) == SG_OK;
+            for (int k = 0; k <= dim; k++) {
+                fmpq_zero(wa), fmpq_zero(wb);
+                for (slong i = 0; i < A.len; i++)
+                    if (A.gr[i].ne == k) {
+                        sgraph_aut(aut, &A.gr[i]);
+                        fmpq_set_fmpz_frac(x, (fmpz[]){1}, aut);
+                        fmpq_add(wa, wa, x);
+                    }
+                for (slong i = 0; i < B.len; i++)
+                    if (B.gr[i].ne == k) {
+                        sg_shape_weight(x, &B.gr[i]);
+                        fmpq_add(wb, wb, x);
+                    }
+                good &= fmpq_equal(wa, wb) && !fmpq_is_zero(wa);
+            }
+            good &= mv_volume(va, g, n, &kdv, 0, NULL) == SG_OK;
+            good &= mv_volume_by_shapes(vb, g, n, &dvv, 0, NULL) == SG_OK;
+            UNIT_CHECK(&rep, good && fmpq_equal(va, vb) && B.len <= A.len,
+                       "Mbar_{%d,%d}: shapes against labelled graphs (%ld shapes, %ld graphs)", g, n, (long) B.len,
+                       (long) A.len);
+            sg_list_clear(&A), sg_list_clear(&B);
+            fmpq_clear(wa), fmpq_clear(wb), fmpq_clear(x), fmpq_clear(va), fmpq_clear(vb), fmpz_clear(aut);
+        }
+    {   /* with no legs a shape is a graph: Mbar_2 has 7 stable graphs, Mbar_3 42 (test_sgraph.c) */
+        sg_list L;
+        sg_list_init(&L);
+        sg_enumerate_shapes(&L, 2, 0, 0, NULL);
+        UNIT_CHECK(&rep, L.len == 7, "7 shapes of Mbar_2 (got %ld)", (long) L.len);
+        sg_list_clear(&L);
+        sg_list_init(&L);
+        sg_enumerate_shapes(&L, 3, 0, 0, NULL);
+        UNIT_CHECK(&rep, L.len == 42, "42 shapes of Mbar_3 (got %ld)", (long) L.len);
+        sg_list_clear(&L);
+        sg_list_init(&L);
+        UNIT_CHECK(&rep, sg_enumerate_shapes(&L, 0, 16, 0, NULL) == SG_BADARG, "16 legs are beyond the shapes");
+        sg_list_clear(&L);
+    }
 
     /* Genus two, simple closed geodesics: the non-separating one (a loop at a genus-1 vertex)
        is 48 times as frequent as the separating one (two genus-1 vertices), as DGZZ state.  By

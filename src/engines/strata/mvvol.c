@@ -231,3 +231,51 @@ int mv_volume(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, 
     sg_list_clear(&L);
     return rc;
 }
+
+/* vol += Vol(Gamma) summed over the labelled graphs over the shape S: mv_graph of one of them
+   (which divides by its own |Aut|) times |Aut Gamma| times the groupoid weight of S. */
+static int mv_shape_add(fmpq_t vol, const sgraph *S, const mv_source *src)
+{
+    sgraph G;
+    fmpq_t x, w;
+    fmpz_t aut;
+    int rc;
+    fmpq_init(x);
+    fmpq_init(w);
+    fmpz_init(aut);
+    sg_shape_label(&G, S);
+    rc = mv_graph(x, NULL, &G, src);
+    if (rc == SG_OK)
+        rc = sgraph_aut(aut, &G);
+    if (rc == SG_OK)
+        rc = sg_shape_weight(w, S);
+    if (rc == SG_OK) {
+        fmpq_mul_fmpz(x, x, aut);
+        fmpq_mul(x, x, w);
+        fmpq_add(vol, vol, x);
+    }
+    fmpq_clear(x);
+    fmpq_clear(w);
+    fmpz_clear(aut);
+    return rc;
+}
+
+int mv_volume_by_shapes(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel)
+{
+    sg_list L;
+    fmpq_zero(vol);
+    if (g < 0 || n < 0 || 2 * g - 2 + n <= 0 || 3 * g - 3 + n < 1)
+        return SG_BADARG;
+    sg_list_init(&L);
+    int rc = sg_enumerate_shapes(&L, g, n, max_graphs, cancel);
+    for (slong i = 0; rc == SG_OK && i < L.len; i++) {
+        if (cancel != NULL && *cancel)
+            rc = SG_CANCELLED;
+        else if (L.gr[i].ne > 0)
+            rc = mv_shape_add(vol, &L.gr[i], src);
+    }
+    if (rc != SG_OK)
+        fmpq_zero(vol);
+    sg_list_clear(&L);
+    return rc;
+}

@@ -47,6 +47,12 @@ int mv_volume_of(fmpq_t vol, const sg_list *L, const mv_source *src, atomic_int 
    2g-2+n <= 0 or 3g-3+n < 1 (no quadratic differentials with a cylinder). */
 int mv_volume(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel);
 
+/* The same sum over the shapes of (g, n) (graphs with unlabelled legs, sgraph.h): one term per
+   shape, weighted by the number of its labellings over their automorphisms; the labelled graphs
+   are never listed (Mbar_{0,12}: about 10^10 of them, a few thousand shapes).  Same errors,
+   and SG_BADARG when g or n is beyond the shapes' ranges (g < SG_SHAPE_BASE,
+   n <= SG_SHAPE_MAX_LEGS); max_graphs bounds the number of shapes. */
+int mv_volume_by_shapes(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel);
 /* zeta(2k) / pi^{2k} = (-1)^{k+1} B_{2k} 2^{2k-1} / (2k)! for k >= 1. */
 void mv_zeta_even(fmpq_t r, slong k);
 

@@ -23,6 +23,7 @@
 #include <signal.h>
 #include <flint/flint.h>
 #include <flint/fmpz.h>
+#include <flint/fmpq.h>
 
 #ifdef __cplusplus
 extern "C" {
@@ -97,6 +98,24 @@ int sg_enumerate_direct(sg_list *L, int g, int n, int edges, atomic_int *cancel)
    the genus-0 count and growth per genus; used to refuse before enumerating.  HUGE_VAL when
    beyond 1e15. */
 double sg_estimate_count(int g, int n);
+
+/* Shapes (sgraph_shape.c): stable graphs of type (g, n) with unlabelled legs, stored as sgraphs
+   of type (g, 0) whose vertex code gv[v] = g_v + SG_SHAPE_BASE n_v holds the genus and the
+   number of legs of the vertex (so g < SG_SHAPE_BASE, n <= SG_SHAPE_MAX_LEGS: the code is one
+   byte of the canonical key).  Not valid sgraphs: expand them with sg_shape_label. */
+#define SG_SHAPE_BASE 16
+#define SG_SHAPE_MAX_LEGS 15
+int sg_shape_genus(const sgraph *S, int v);
+int sg_shape_legs(const sgraph *S, int v);
+/* All shapes of type (g, n), every number of edges, appended to L (which should be empty);
+   SG_LIMIT when L would exceed max_graphs (<= 0: no limit), SG_BADARG outside the ranges above
+   or for unstable (g, n).  *cancel (may be NULL) is polled. */
+int sg_enumerate_shapes(sg_list *L, int g, int n, slong max_graphs, atomic_int *cancel);
+/* G = a labelled stable graph over the shape S (legs 1..n placed vertex by vertex). */
+void sg_shape_label(sgraph *G, const sgraph *S);
+/* w = n! / (|Aut S| prod_v n_v!) = sum of 1/|Aut Gamma| over the labelled graphs Gamma over S
+   (up to isomorphism); SG_OK or the error of sgraph_aut. */
+int sg_shape_weight(fmpq_t w, const sgraph *S);
 
 /* Writes a readable form "[g=1; legs 1,2 | loop]" style (sgraph_print.c) into buf of size sz;
    returns the length that was needed. */
