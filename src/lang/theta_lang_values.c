@@ -140,7 +140,7 @@ typedef struct {
     const int *vars;         /* ring index of L_1..L_n */
     slong *d, *key;
     ulong *exps;
-    fmpq_mpoly_struct *res;
+    scalar_terms terms;    /* the result, collected (one rescaling at the end) */
     fmpq_t c;
 } theta_vwalk;
 
@@ -206,7 +206,7 @@ static int theta_vwalk_visit(theta_vwalk *W, slong i, slong left)
             W->exps[W->vars[k]] = 2 * (ulong)W->d[k];
         }
         W->exps[SCALAR_PI] = 2 * (ulong)left;
-        fmpq_mpoly_set_coeff_fmpq_ui(W->res, W->c, W->exps, W->I->ring.ctx);
+        scalar_terms_push(&W->terms, W->c, W->exps);
         fmpz_clear(f);
         return WK_OK;
     }
@@ -278,10 +278,13 @@ value *theta_supervolume_value(interp *I, const node *call, slong g, slong n)
         W.d = xcalloc(n + 1, sizeof(slong));
         W.key = xcalloc(n + 1, sizeof(slong));
         W.exps = xcalloc(SCALAR_MAX_VARS, sizeof(ulong));
-        W.res = r->num;
+        scalar_terms_init(&W.terms);
         keymap_init(&W.memo);
         fmpq_init(W.c);
         int rc = g == 0 ? WK_OK : theta_vwalk_visit(&W, 0, g - 1);   /* Theta vanishes in genus 0 */
+        if (rc == WK_OK)
+            scalar_terms_add_to(r->num, &W.terms, &I->ring);
+        scalar_terms_clear(&W.terms);
         if (rc != WK_OK) {
             theta_volume_report(I, call, rc);
             value_release(r);
