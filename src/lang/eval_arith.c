@@ -154,13 +154,14 @@ static value *eval_pow(interp *I, scope *s, const node *n, value *a)
    are Laurent polynomials in pi), by anything else only when it divides exactly. */
 static value *eval_div_num(interp *I, const node *n, const value *a, const value *b)
 {
+    const node *divisor = n->b != NULL ? n->b : n;   /* the error points at what fails */
     if (fmpq_mpoly_is_zero(b->num, I->ring.ctx))
-        return eval_fail(n, "division by zero");
+        return eval_fail(divisor, "division by zero");
     value *r = value_new_num(&I->ring);
     if (scalar_div(r->num, a->num, b->num, &I->ring))
         return r;
     value_release(r);
-    return eval_fail(n, "the divisor does not divide exactly (values are polynomials in the variables, Laurent "
+    return eval_fail(divisor, "the divisor does not divide exactly (values are polynomials in the variables, Laurent "
                         "in pi: only a number times a power of pi can always be divided by; there are no "
                         "rational functions)");
 }
