@@ -195,52 +195,46 @@ int mv_graph(fmpq_t vol, fmpq_t prim, const sgraph *G, const mv_source *src)
     return S.rc;
 }
 
-int mv_volume_of(fmpq_t vol, const sg_list *L, const mv_source *src, atomic_int *cancel)
+/* The term of one graph of a list: x = its share of the volume. */
+typedef int (*mv_term_fn)(fmpq_t x, const sgraph *G, const mv_source *src);
+
+static int mv_graph_term(fmpq_t x, const sgraph *G, const mv_source *src)
 {
-    fmpq_t x;
-    fmpq_init(x);
-    fmpq_zero(vol);
-    for (slong i = 0; i < L->len; i++) {
-        if (cancel != NULL && *cancel) {
-            fmpq_clear(x);
-            fmpq_zero(vol);
-            return SG_CANCELLED;
-        }
-        int rc = mv_graph(x, NULL, &L->gr[i], src);
-        if (rc != SG_OK) {
-            fmpq_clear(x);
-            fmpq_zero(vol);
-            return rc;
-        }
-        fmpq_add(vol, vol, x);
-    }
-    fmpq_clear(x);
-    return SG_OK;
+    return mv_graph(x, NULL, G, src);
 }
 
-int mv_volume(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel)
+/* vol = the sum of term over the graphs of L with at least one edge; 0 on any failure. */
+static int mv_sum(fmpq_t vol, const sg_list *L, const mv_source *src, atomic_int *cancel, mv_term_fn term)
 {
-    sg_list L;
+    fmpq_t x;
+    int rc = SG_OK;
+    fmpq_init(x);
     fmpq_zero(vol);
-    if (g < 0 || n < 0 || 2 * g - 2 + n <= 0 || 3 * g - 3 + n < 1)
-        return SG_BADARG;
-    sg_list_init(&L);
-    int rc = sg_enumerate(&L, g, n, -1, max_graphs, cancel);
-    if (rc == SG_OK)
-        rc = mv_volume_of(vol, &L, src, cancel);
-    sg_list_clear(&L);
+    for (slong i = 0; rc == SG_OK && i < L->len; i++) {
+        if (cancel != NULL && *cancel)
+            rc = SG_CANCELLED;
+        else if (L->gr[i].ne > 0 && (rc = term(x, &L->gr[i], src)) == SG_OK)
+            fmpq_add(vol, vol, x);
+    }
+    if (rc != SG_OK)
+        fmpq_zero(vol);
+    fmpq_clear(x);
     return rc;
 }
 
-/* vol += Vol(Gamma) summed over the labelled graphs over the shape S: mv_graph of one of them
+int mv_volume_of(fmpq_t vol, const sg_list *L, const mv_source *src, atomic_int *cancel)
+{
+    return mv_sum(vol, L, src, cancel, mv_graph_term);
+}
+
+/* x = Vol(Gamma) summed over the labelled graphs over the shape S: mv_graph of one of them
    (which divides by its own |Aut|) times |Aut Gamma| times the groupoid weight of S. */
-static int mv_shape_add(fmpq_t vol, const sgraph *S, const mv_source *src)
+static int mv_shape_term(fmpq_t x, const sgraph *S, const mv_source *src)
 {
     sgraph G;
-    fmpq_t x, w;
+    fmpq_t w;
     fmpz_t aut;
     int rc;
-    fmpq_init(x);
     fmpq_init(w);
     fmpz_init(aut);
     sg_shape_label(&G, S);
@@ -252,30 +246,42 @@ static int mv_shape_add(fmpq_t vol, const sgraph *S, const mv_source *src)
     if (rc == SG_OK) {
         fmpq_mul_fmpz(x, x, aut);
         fmpq_mul(x, x, w);
-        fmpq_add(vol, vol, x);
     }
-    fmpq_clear(x);
     fmpq_clear(w);
     fmpz_clear(aut);
     return rc;
 }
 
-int mv_volume_by_shapes(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel)
+/* The graphs (labelled or shapes) of (g, n), as sg_enumerate / sg_enumerate_shapes list them. */
+typedef int (*mv_list_fn)(sg_list *L, int g, int n, slong max_graphs, atomic_int *cancel);
+
+static int mv_list_labelled(sg_list *L, int g, int n, slong max_graphs, atomic_int *cancel)
+{
+    return sg_enumerate(L, g, n, -1, max_graphs, cancel);
+}
+
+/* vol = the sum of term over the graphs that list gives for (g, n). */
+static int mv_volume_with(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel,
+                          mv_list_fn list, mv_term_fn term)
 {
     sg_list L;
     fmpq_zero(vol);
     if (g < 0 || n < 0 || 2 * g - 2 + n <= 0 || 3 * g - 3 + n < 1)
         return SG_BADARG;
     sg_list_init(&L);
-    int rc = sg_enumerate_shapes(&L, g, n, max_graphs, cancel);
-    for (slong i = 0; rc == SG_OK && i < L.len; i++) {
-        if (cancel != NULL && *cancel)
-            rc = SG_CANCELLED;
-        else if (L.gr[i].ne > 0)
-            rc = mv_shape_add(vol, &L.gr[i], src);
-    }
-    if (rc != SG_OK)
-        fmpq_zero(vol);
+    int rc = list(&L, g, n, max_graphs, cancel);
+    if (rc == SG_OK)
+        rc = mv_sum(vol, &L, src, cancel, term);
     sg_list_clear(&L);
     return rc;
+}
+
+int mv_volume(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel)
+{
+    return mv_volume_with(vol, g, n, src, max_graphs, cancel, mv_list_labelled, mv_graph_term);
+}
+
+int mv_volume_by_shapes(fmpq_t vol, int g, int n, const mv_source *src, slong max_graphs, atomic_int *cancel)
+{
+    return mv_volume_with(vol, g, n, src, max_graphs, cancel, sg_enumerate_shapes, mv_shape_term);
 }

@@ -13,6 +13,7 @@
 #include <string.h>
 
 #include "sgraph.h"
+#include "sgraph_degen.h"
 
 /* Largest 2g-2+n / 3g-3+n the enumerations accept (vertices and edges fit the fixed arrays). */
 static int sg_type_ok(int g, int n)
@@ -21,29 +22,25 @@ static int sg_type_ok(int g, int n)
            && 3 * g - 3 + n <= SG_MAX_E;
 }
 
-typedef struct {
-    sg_list *L;
-    const sgraph *G;
-    int v, u;                     /* vertex split, new vertex */
-    int nb[SG_MAX_V], nnb;        /* neighbours w != v of v */
-    slong max_graphs;
-    int rc;
-} split_state;
-
-static void split_emit(split_state *S, sgraph *H)
+void sg_split_init(sg_split *S, sg_list *L, const sgraph *G, int v, slong max_graphs, sg_vertex_ok_fn ok)
 {
-    if (S->rc != SG_OK)
-        return;
-    if (2 * H->gv[S->v] - 2 + sgraph_valence(H, S->v) <= 0
-        || 2 * H->gv[S->u] - 2 + sgraph_valence(H, S->u) <= 0)
+    memset(S, 0, sizeof *S);
+    S->L = L, S->G = G, S->v = v, S->u = G->nv, S->max_graphs = max_graphs, S->ok = ok, S->rc = SG_OK;
+    for (int w = 0; w < G->nv; w++)
+        if (w != v && G->m[v][w])
+            S->nb[S->nnb++] = w;
+}
+
+static void split_emit(sg_split *S, sgraph *H)
+{
+    if (S->rc != SG_OK || !S->ok(H, S->v) || !S->ok(H, S->u))
         return;
     S->rc = sg_list_add(S->L, H, NULL);
     if (S->rc == SG_OK && S->max_graphs > 0 && S->L->len > S->max_graphs)
         S->rc = SG_LIMIT;
 }
 
-/* Shares the edges to the neighbours nb[j..] between v and u. */
-static void split_neighbours(split_state *S, sgraph *H, int j)
+void sg_split_neighbours(sg_split *S, sgraph *H, int j)
 {
     if (j == S->nnb) {
         split_emit(S, H);
@@ -53,47 +50,57 @@ static void split_neighbours(split_state *S, sgraph *H, int j)
     for (int a = 0; a <= total; a++) {
         H->m[S->u][w] = H->m[w][S->u] = (unsigned char) a;
         H->m[S->v][w] = H->m[w][S->v] = (unsigned char) (total - a);
-        split_neighbours(S, H, j + 1);
+        sg_split_neighbours(S, H, j + 1);
     }
     H->m[S->u][w] = H->m[w][S->u] = 0;
     H->m[S->v][w] = H->m[w][S->v] = (unsigned char) total;
 }
 
+void sg_split_loops(sg_split *S, const sgraph *H0)
+{
+    int loops = S->G->m[S->v][S->v];
+    for (int l1 = 0; l1 <= loops && S->rc == SG_OK; l1++)
+        for (int l2 = 0; l1 + l2 <= loops && S->rc == SG_OK; l2++) {
+            sgraph H = *H0;
+            H.nv = S->G->nv + 1;
+            H.ne = S->G->ne + 1;
+            H.m[S->v][S->v] = (unsigned char) l1;
+            H.m[S->u][S->u] = (unsigned char) l2;
+            H.m[S->v][S->u] = H.m[S->u][S->v] = (unsigned char) (1 + loops - l1 - l2);
+            sg_split_neighbours(S, &H, 0);
+        }
+}
+
+static int labelled_vertex_ok(const sgraph *H, int v)
+{
+    return 2 * H->gv[v] - 2 + sgraph_valence(H, v) > 0;
+}
+
 /* All splits of vertex v of G: genus, legs (a subset moves to u), loops, then neighbours. */
 static int split_vertex(sg_list *L, const sgraph *G, int v, slong max_graphs)
 {
-    split_state S = {L, G, v, G->nv, {0}, 0, max_graphs, SG_OK};
-    int legs[SG_MAX_N], nl = 0, loops = G->m[v][v];
+    sg_split S;
+    int legs[SG_MAX_N], nl = 0;
+    sg_split_init(&S, L, G, v, max_graphs, labelled_vertex_ok);
     for (int i = 0; i < G->n; i++)
         if (G->legv[i] == v)
             legs[nl++] = i;
-    for (int w = 0; w < G->nv; w++)
-        if (w != v && G->m[v][w])
-            S.nb[S.nnb++] = w;
-    for (int g1 = 0; g1 <= G->gv[v]; g1++)
-        for (ulong mask = 0; mask < (1UL << nl); mask++)
-            for (int l1 = 0; l1 <= loops; l1++)
-                for (int l2 = 0; l1 + l2 <= loops; l2++) {
-                    sgraph H = *G;
-                    H.nv = G->nv + 1;
-                    H.ne = G->ne + 1;
-                    H.gv[v] = G->gv[v] - g1;
-                    H.gv[S.u] = g1;
-                    for (int k = 0; k < nl; k++)
-                        if (mask >> k & 1)
-                            H.legv[legs[k]] = S.u;
-                    H.m[v][v] = (unsigned char) l1;
-                    H.m[S.u][S.u] = (unsigned char) l2;
-                    H.m[v][S.u] = H.m[S.u][v] = (unsigned char) (1 + loops - l1 - l2);
-                    split_neighbours(&S, &H, 0);
-                    if (S.rc != SG_OK)
-                        return S.rc;
-                }
-    return SG_OK;
+    for (int g1 = 0; g1 <= G->gv[v] && S.rc == SG_OK; g1++)
+        for (ulong mask = 0; mask < (1UL << nl) && S.rc == SG_OK; mask++) {
+            sgraph H = *G;
+            H.gv[v] = G->gv[v] - g1;
+            H.gv[S.u] = g1;
+            for (int k = 0; k < nl; k++)
+                if (mask >> k & 1)
+                    H.legv[legs[k]] = S.u;
+            sg_split_loops(&S, &H);
+        }
+    return S.rc;
 }
 
 /* Appends to `next` every one-edge degeneration of every graph of `prev`. */
-static int degenerate_all(sg_list *next, const sg_list *prev, slong max_graphs, atomic_int *cancel)
+static int degenerate_all(sg_list *next, const sg_list *prev, slong max_graphs, atomic_int *cancel,
+                          const sg_kind *kind)
 {
     for (slong i = 0; i < prev->len; i++) {
         const sgraph *G = &prev->gr[i];
@@ -101,19 +108,29 @@ static int degenerate_all(sg_list *next, const sg_list *prev, slong max_graphs, 
             return SG_CANCELLED;
         for (int v = 0; v < G->nv; v++) {
             int rc;
-            if (G->gv[v] > 0) {
+            if (kind->genus(G, v) > 0) {
                 sgraph H = *G;
-                H.gv[v]--;
+                kind->lower_genus(&H, v);
                 H.m[v][v]++;
                 H.ne++;
                 if ((rc = sg_list_add(next, &H, NULL)) != SG_OK)
                     return rc;
             }
-            if (G->nv < SG_MAX_V && (rc = split_vertex(next, G, v, max_graphs)) != SG_OK)
+            if (G->nv < SG_MAX_V && (rc = kind->split(next, G, v, max_graphs)) != SG_OK)
                 return rc;
         }
     }
     return SG_OK;
+}
+
+static int labelled_genus(const sgraph *G, int v)
+{
+    return G->gv[v];
+}
+
+static void labelled_lower_genus(sgraph *H, int v)
+{
+    H->gv[v]--;
 }
 
 static int list_append_all(sg_list *L, const sg_list *from)
@@ -126,22 +143,17 @@ static int list_append_all(sg_list *L, const sg_list *from)
     return SG_OK;
 }
 
-int sg_enumerate(sg_list *L, int g, int n, int edges, slong max_graphs, atomic_int *cancel)
+int sg_enumerate_levels(sg_list *L, const sgraph *start, int dim, int edges, slong max_graphs, atomic_int *cancel,
+                        const sg_kind *kind)
 {
     sg_list cur, next;
-    int dim = 3 * g - 3 + n, rc = SG_OK;
-    if (!sg_type_ok(g, n) || edges > dim)
-        return SG_BADARG;
-    if (max_graphs > 0 && sg_estimate_count(g, n) > (double) max_graphs)
-        return SG_LIMIT;
+    int rc;
     sg_list_init(&cur);
-    sgraph T;
-    sgraph_trivial(&T, g, n);
-    rc = sg_list_add(&cur, &T, NULL);
+    rc = sg_list_add(&cur, start, NULL);
     for (int k = 0; rc == SG_OK && k <= (edges < 0 ? dim : edges); k++) {
         if (k > 0) {
             sg_list_init(&next);
-            rc = degenerate_all(&next, &cur, max_graphs, cancel);
+            rc = degenerate_all(&next, &cur, max_graphs, cancel, kind);
             sg_list_clear(&cur);
             cur = next;
         }
@@ -152,6 +164,19 @@ int sg_enumerate(sg_list *L, int g, int n, int edges, slong max_graphs, atomic_i
     }
     sg_list_clear(&cur);
     return rc;
+}
+
+int sg_enumerate(sg_list *L, int g, int n, int edges, slong max_graphs, atomic_int *cancel)
+{
+    int dim = 3 * g - 3 + n;
+    if (!sg_type_ok(g, n) || edges > dim)
+        return SG_BADARG;
+    if (max_graphs > 0 && sg_estimate_count(g, n) > (double) max_graphs)
+        return SG_LIMIT;
+    static const sg_kind labelled = {labelled_genus, labelled_lower_genus, split_vertex};
+    sgraph T;
+    sgraph_trivial(&T, g, n);
+    return sg_enumerate_levels(L, &T, dim, edges, max_graphs, cancel, &labelled);
 }
 
 /* ---- the direct construction ---- */
