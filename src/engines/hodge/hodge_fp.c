@@ -76,11 +76,15 @@ static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong 
     return st;
 }
 
-/* Scratch of one splitting enumeration: distinct leg values and their counts, the counters. */
+/* Scratch of one splitting enumeration: distinct leg values and their counts, the counters.
+   The counters are walked as one list t[0..m-1]: the r leg groups, then ch_1..ch_cmax (y = t + r - 1);
+   each unit of item i moves s = deg1 - (n1 - 1) by wt[i], and side 1 has node exponent
+   a = 3 g1 - 2 - s, so only the s in a window of width 2l-2 give terms. */
 typedef struct {
     slong r, *val, *cnt, *x;       /* legs */
     slong *cy, *y;                 /* ch multiplicities 1..cmax and the part going to side 1 */
     slong *e1, *e2, *c1, *c2;
+    slong m, *wt, *lim, *rmin, *rmax;   /* per item: step of s, largest count, bounds of the rest */
 } fp_split_buf;
 
 /* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
@@ -161,12 +165,14 @@ static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, sl
    Returns 0 if memory is exhausted. */
 static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong *cm, slong cmax)
 {
-    slong *p = calloc((size_t) (3 * n + 2 * (n + 2) + 4 * (cmax + 1)) + 1, sizeof(slong));
+    slong m = n + cmax;
+    slong *p = calloc((size_t) (2 * n + 2 * (n + 2) + 3 * (cmax + 1) + 5 * m + 2) + 1, sizeof(slong));
     if (p == NULL)
         return 0;
-    B->val = p, B->cnt = p + n, B->x = p + 2 * n;
-    B->e1 = p + 3 * n, B->e2 = B->e1 + n + 2;
-    B->cy = B->e2 + n + 2, B->y = B->cy + cmax + 1, B->c1 = B->y + cmax + 1, B->c2 = B->c1 + cmax + 1;
+    B->val = p, B->cnt = p + n;
+    B->e1 = p + 2 * n, B->e2 = B->e1 + n + 2;
+    B->cy = B->e2 + n + 2, B->c1 = B->cy + cmax + 1, B->c2 = B->c1 + cmax + 1;
+    B->x = B->c2 + cmax + 1, B->wt = B->x + m, B->lim = B->wt + m, B->rmin = B->lim + m, B->rmax = B->rmin + m + 1;
     B->r = 0;
     for (slong i = 0; i < n; i++) {
         if (i == 0 || d[i] != d[i - 1])
@@ -175,7 +181,29 @@ static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong 
     }
     for (slong k = 1; k <= cmax; k++)
         B->cy[k] = cm[k];
+    B->m = B->r + cmax;
+    B->y = B->x + B->r - 1;
+    for (slong i = 0; i < B->r; i++)
+        B->wt[i] = B->val[i] - 1;
+    for (slong k = 1; k <= cmax; k++)
+        B->wt[B->r + k - 1] = k;
     return 1;
+}
+
+/* Sets the counts of the items for side 1 of genus g1 (no ch factor in genus 0) and the bounds
+   rmin[i], rmax[i] of the s that items i..m-1 can add. */
+static void fp_split_limits(fp_split_buf *B, slong g1, slong cmax)
+{
+    for (slong i = 0; i < B->r; i++)
+        B->lim[i] = B->cnt[i];
+    for (slong k = 1; k <= cmax; k++)
+        B->lim[B->r + k - 1] = g1 == 0 ? 0 : B->cy[k];
+    B->rmin[B->m] = B->rmax[B->m] = 0;
+    for (slong i = B->m - 1; i >= 0; i--) {
+        slong v = B->wt[i] * B->lim[i];
+        B->rmin[i] = B->rmin[i + 1] + (v < 0 ? v : 0);
+        B->rmax[i] = B->rmax[i + 1] + (v > 0 ? v : 0);
+    }
 }
 
 /* Compares the splitting (g1, legs x, ch factors y) with its mirror image (g2, cnt - x, cy - y),
@@ -194,8 +222,32 @@ static int fp_mirror_cmp(const fp_split_buf *B, slong g1, slong g2, slong cmax)
     return 0;
 }
 
+/* Walks the counters t[i..m-1] whose s (t[0..i-1] give s0) lies in [lo, hi]; at the end adds the
+   term of a splitting that is not larger than its mirror image (file comment of fp_split). */
+static int fp_split_walk(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong i, slong s0, slong lo, slong hi,
+                         slong g1, slong g, slong n, slong cmax, slong l)
+{
+    int st = WK_OK;
+    if (i == B->m) {
+        int side = fp_mirror_cmp(B, g1, g - g1, cmax);
+        if (side <= 0)              /* a splitting and its mirror image give equal terms */
+            st = fp_split_term(acc, H, B, g1, g, n, cmax, l, side < 0);
+        return st;
+    }
+    for (slong t = 0; t <= B->lim[i] && st == WK_OK; t++) {
+        slong s = s0 + B->wt[i] * t;
+        if (s + B->rmin[i + 1] > hi || s + B->rmax[i + 1] < lo)
+            continue;
+        B->x[i] = t;
+        st = fp_split_walk(acc, H, B, i + 1, s, lo, hi, g1, g, n, cmax, l);
+    }
+    B->x[i] = 0;
+    return st;
+}
+
 /* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2);
-   a splitting and its mirror image are summed once, doubled. */
+   a splitting and its mirror image are summed once, doubled.  Only the counters whose node
+   exponent a lies in 0..2l-2 are visited. */
 static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm, slong cmax, slong l)
 {
     fp_split_buf B;
@@ -203,15 +255,8 @@ static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, 
     if (!fp_split_alloc(&B, d, n, cm, cmax))
         return WK_LIMIT;
     for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
-        memset(B.x, 0, (size_t) B.r * sizeof(slong));
-        memset(B.y, 0, (size_t) (cmax + 1) * sizeof(slong));
-        do {
-            do {
-                int side = fp_mirror_cmp(&B, g1, g - g1, cmax);
-                if (side <= 0)          /* a splitting and its mirror image give equal terms */
-                    st = fp_split_term(acc, H, &B, g1, g, n, cmax, l, side < 0);
-            } while (st == WK_OK && hodge_counter_next(B.y + 1, B.cy + 1, cmax));
-        } while (st == WK_OK && hodge_counter_next(B.x, B.cnt, B.r));
+        fp_split_limits(&B, g1, cmax);
+        st = fp_split_walk(acc, H, &B, 0, 0, 3 * g1 - 2 - (2 * l - 2), 3 * g1 - 2, g1, g, n, cmax, l);
     }
     free(B.val);
     return st;
