@@ -26,32 +26,54 @@
 #include <flint/fmpz.h>
 #include "hodge_internal.h"
 
-static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
+static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
+
+/* The value of the states that vanish (unstable, wrong degree, E = 0, ch_{2k} = 0). */
+static const fmpq fp_zero = {0, 1};
+
+/* Temporaries of one recursion step, kept for all its terms: clearing and initialising them per
+   term turned every large number into a fresh allocation. */
+typedef struct {
+    fmpq_t t1, t2;
+    fmpz_t w, b;
+} fp_tmp;
+
+static void fp_tmp_init(fp_tmp *T)
+{
+    fmpq_init(T->t1);
+    fmpq_init(T->t2);
+    fmpz_init(T->w);
+    fmpz_init(T->b);
+}
+
+static void fp_tmp_clear(fp_tmp *T)
+{
+    fmpq_clear(T->t1);
+    fmpq_clear(T->t2);
+    fmpz_clear(T->w);
+    fmpz_clear(T->b);
+}
 
 /* Keys and sorted copies up to this length live on the stack (one malloc per call cost more
    than the memo lookup). */
 #define FP_STACK 64
 
-/* acc += w * (g, e, cm) where w = num/den; returns the status of the correlator. */
-static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
+/* acc += w * (g, e, cm) where w = num/den (den 1 or 2); returns the status of the correlator. */
+static int fp_addmul(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
                      const slong *cm, slong cmax)
 {
-    fmpq_t v;
-    int st;
-    fmpq_init(v);
-    st = fp_corr(v, H, g, e, n, cm, cmax);
-    if (st == WK_OK && !fmpq_is_zero(v)) {
-        if (num != 1)
-            fmpq_mul_si(v, v, num);     /* gcds with the small factors only */
-        if (den == 2)
-            fmpq_div_2exp(v, v, 1);
-        else if (den != 1) {
-            fmpz_mul_si(fmpq_denref(v), fmpq_denref(v), den);
-            fmpq_canonicalise(v);
-        }
+    const fmpq *v;
+    int st = fp_corr(&v, H, g, e, n, cm, cmax);
+    if (st != WK_OK || fmpq_is_zero(v))
+        return st;
+    if (num == 1 && den == 1) {
         fmpq_add(acc, acc, v);
+        return st;
     }
-    fmpq_clear(v);
+    fmpq_mul_si(T->t1, v, num);         /* gcds with the small factors only */
+    if (den == 2)
+        fmpq_div_2exp(T->t1, T->t1, 1);
+    fmpq_add(acc, acc, T->t1);
     return st;
 }
 
@@ -60,19 +82,22 @@ static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, co
 static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, const slong *cm, slong cmax)
 {
     int st = WK_OK;
+    fp_tmp T;
     fmpq_zero(res);
+    fp_tmp_init(&T);
     if (d[n - 1] == 1)
-        return fp_addmul(res, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
-    for (slong j = 0; j < n - 1 && st == WK_OK; j++) {
+        st = fp_addmul(res, &T, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
+    for (slong j = 0; j < n - 1 && st == WK_OK && d[n - 1] == 0; j++) {
         slong c = 1;
         if (d[j] == 0 || (j > 0 && d[j] == d[j - 1]))
             continue;
         while (j + c < n - 1 && d[j + c] == d[j])
             c++;
         d[j]--;
-        st = fp_addmul(res, H, c, 1, g, d, n - 1, cm, cmax);
+        st = fp_addmul(res, &T, H, c, 1, g, d, n - 1, cm, cmax);
         d[j]++;
     }
+    fp_tmp_clear(&T);
     return st;
 }
 
@@ -85,50 +110,46 @@ typedef struct {
     slong *cy, *y;                 /* ch multiplicities 1..cmax and the part going to side 1 */
     slong *e1, *e2, *c1, *c2;
     slong m, *wt, *lim, *rmin, *rmax;   /* per item: step of s, largest count, bounds of the rest */
+    fp_tmp *T;                          /* the temporaries of the step */
 } fp_split_buf;
 
 /* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
-   of legs and ch factors giving the current counters. */
-static void fp_split_weight(fmpz_t w, const fp_split_buf *B, slong cmax, slong a)
+   of legs and ch factors giving the current counters (b is scratch). */
+static void fp_split_weight(fmpz_t w, fmpz_t b, const fp_split_buf *B, slong cmax, slong a)
 {
-    fmpz_t b;
-    fmpz_init(b);
     fmpz_set_si(w, a % 2 ? -1 : 1);
-    for (slong i = 0; i < B->r; i++) {
-        fmpz_bin_uiui(b, (ulong) B->cnt[i], (ulong) B->x[i]);
-        fmpz_mul(w, w, b);
-    }
-    for (slong k = 1; k <= cmax; k++) {
-        fmpz_bin_uiui(b, (ulong) B->cy[k], (ulong) B->y[k]);
-        fmpz_mul(w, w, b);
-    }
-    fmpz_clear(b);
+    for (slong i = 0; i < B->r; i++)
+        if (B->x[i] != 0 && B->x[i] != B->cnt[i]) {
+            fmpz_bin_uiui(b, (ulong) B->cnt[i], (ulong) B->x[i]);
+            fmpz_mul(w, w, b);
+        }
+    for (slong k = 1; k <= cmax; k++)
+        if (B->y[k] != 0 && B->y[k] != B->cy[k]) {
+            fmpz_bin_uiui(b, (ulong) B->cy[k], (ulong) B->y[k]);
+            fmpz_mul(w, w, b);
+        }
 }
 
-/* acc += weight * <e1 | c1>_{g1} <e2 | c2>_{g2} (the second factor only if the first is nonzero). */
+/* acc += weight * <e1 | c1>_{g1} <e2 | c2>_{g2} (the second factor only if the first is nonzero).
+   The first value is copied: finding the second may move the memo's entries. */
 static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
                          slong n1, slong n2, slong cmax, slong a, int twice)
 {
-    fmpq_t v1, v2;
-    fmpz_t w;
-    int st;
-    fmpq_init(v1);
-    fmpq_init(v2);
-    fmpz_init(w);
-    st = fp_corr(v1, H, g1, B->e1, n1, B->c1, cmax);
-    if (st == WK_OK && !fmpq_is_zero(v1))
-        st = fp_corr(v2, H, g2, B->e2, n2, B->c2, cmax);
-    if (st == WK_OK && !fmpq_is_zero(v2)) {
-        fp_split_weight(w, B, cmax, a);
-        if (twice)
-            fmpz_mul_2exp(w, w, 1);
-        fmpq_mul(v1, v1, v2);
-        fmpq_mul_fmpz(v1, v1, w);
-        fmpq_add(acc, acc, v1);
-    }
-    fmpq_clear(v1);
-    fmpq_clear(v2);
-    fmpz_clear(w);
+    fp_tmp *T = B->T;
+    const fmpq *v;
+    int st = fp_corr(&v, H, g1, B->e1, n1, B->c1, cmax);
+    if (st != WK_OK || fmpq_is_zero(v))
+        return st;
+    fmpq_set(T->t1, v);
+    st = fp_corr(&v, H, g2, B->e2, n2, B->c2, cmax);
+    if (st != WK_OK || fmpq_is_zero(v))
+        return st;
+    fp_split_weight(T->w, T->b, B, cmax, a);
+    if (twice)
+        fmpz_mul_2exp(T->w, T->w, 1);
+    fmpq_mul(T->t2, T->t1, v);
+    fmpq_mul_fmpz(T->t2, T->t2, T->w);
+    fmpq_add(acc, acc, T->t2);
     return st;
 }
 
@@ -248,12 +269,14 @@ static int fp_split_walk(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong i, slo
 /* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2);
    a splitting and its mirror image are summed once, doubled.  Only the counters whose node
    exponent a lies in 0..2l-2 are visited. */
-static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm, slong cmax, slong l)
+static int fp_split(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm,
+                    slong cmax, slong l)
 {
     fp_split_buf B;
     int st = WK_OK;
     if (!fp_split_alloc(&B, d, n, cm, cmax))
         return WK_LIMIT;
+    B.T = T;
     for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
         fp_split_limits(&B, g1, cmax);
         st = fp_split_walk(acc, H, &B, 0, 0, 3 * g1 - 2 - (2 * l - 2), 3 * g1 - 2, g1, g, n, cmax, l);
@@ -264,7 +287,7 @@ static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, 
 
 /* acc += sum_{a=0}^{2l-2} (-1)^a/2 <tau_a tau_{2l-2-a} tau_d | C>_{g-1} (irreducible boundary),
    pairing a with 2l-2-a, which give the same correlator with the same sign. */
-static int fp_irreducible(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
+static int fp_irreducible(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
                           const slong *cm, slong cmax, slong l)
 {
     int st = WK_OK;
@@ -272,7 +295,7 @@ static int fp_irreducible(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slo
     for (slong a = 0; a <= l - 1 && st == WK_OK; a++) {
         slong sign = a % 2 ? -1 : 1;
         e[n] = a, e[n + 1] = 2 * l - 2 - a;
-        st = fp_addmul(acc, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
+        st = fp_addmul(acc, T, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
     }
     return st;
 }
@@ -284,24 +307,26 @@ static int fp_step(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, s
     slong k = cmax, l = (k + 1) / 2;
     slong *e = malloc((size_t) (n + 2) * sizeof(slong));
     fmpq_t acc, half;
+    fp_tmp T;
     int st = WK_OK;
     if (e == NULL)
         return WK_LIMIT;
     fmpq_init(acc);
     fmpq_init(half);
+    fp_tmp_init(&T);
     cm[k]--;
     memcpy(e, d, (size_t) n * sizeof(slong));
     e[n] = 2 * l;
-    st = fp_addmul(acc, H, 1, 1, g, e, n + 1, cm, cmax);
+    st = fp_addmul(acc, &T, H, 1, 1, g, e, n + 1, cm, cmax);
     for (slong i = 0; i < n && st == WK_OK; i++) {
         e[i] += k;
-        st = fp_addmul(acc, H, -1, 1, g, e, n, cm, cmax);
+        st = fp_addmul(acc, &T, H, -1, 1, g, e, n, cm, cmax);
         e[i] -= k;
     }
     if (st == WK_OK)
-        st = fp_irreducible(acc, H, g, d, n, e, cm, cmax, l);
+        st = fp_irreducible(acc, &T, H, g, d, n, e, cm, cmax, l);
     if (st == WK_OK)
-        st = fp_split(half, H, g, d, n, cm, cmax, l);
+        st = fp_split(half, &T, H, g, d, n, cm, cmax, l);
     cm[k]++;
     fmpq_div_2exp(half, half, 1);
     fmpq_add(acc, acc, half);
@@ -309,6 +334,7 @@ static int fp_step(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, s
     fmpq_mul(res, acc, half);
     fmpq_clear(acc);
     fmpq_clear(half);
+    fp_tmp_clear(&T);
     free(e);
     return st;
 }
@@ -334,52 +360,58 @@ static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
     return s;
 }
 
-/* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator.  States
+/* res = the step of a state with ch factors, on sorted d: string/dilaton or the operator; the
+   psi correlator itself when there is none. */
+static int fp_corr_compute(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
+{
+    int reduce = n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0;
+    if (cmax == 0)
+        return wk_table_correlator(res, H->T, g, d, n);     /* kept here: the table's lookups cost more */
+    return reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
+}
+
+/* *val = the memoised value of the state (sorted d), computed and stored on a miss.  States
    with psi exponents 0 or 1 are memoised too: their string and dilaton expansions branch over
    the points and met the same states again and again. */
-static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
+static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
 {
     slong *key, small[FP_STACK];
-    const fmpq *hit;
     slong klen;
-    int st, reduce = n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0;
+    fmpq_t res;
+    int st;
     key = n + cmax + 2 <= FP_STACK ? small : malloc((size_t) (n + cmax + 2) * sizeof(slong));
     if (key == NULL)
         return WK_LIMIT;
     klen = fp_key(key, g, d, n, cm, cmax);
-    hit = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
-    if (hit != NULL) {
-        fmpq_set(res, hit);
-        if (key != small)
-            free(key);
-        return WK_OK;
+    *val = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
+    st = *val != NULL ? WK_OK : hodge_poll(H, HODGE_ROUTE_FP);
+    if (*val == NULL && st == WK_OK) {
+        fmpq_init(res);
+        st = fp_corr_compute(res, H, g, d, n, cm, cmax);
+        if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
+            st = WK_LIMIT;              /* states finished during the recursion count too */
+        if (st == WK_OK) {
+            keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
+            *val = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
+        }
+        fmpq_clear(res);
     }
-    st = hodge_poll(H, HODGE_ROUTE_FP);
-    if (st == WK_OK && cmax == 0)
-        st = wk_table_correlator(res, H->T, g, d, n);   /* kept here: the table's lookups cost more */
-    else if (st == WK_OK)
-        st = reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
-    if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
-        st = WK_LIMIT;                  /* states finished during the recursion count too */
-    if (st == WK_OK)
-        keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
     if (key != small)
         free(key);
     return st;
 }
 
-/* res = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees. */
-static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
+/* *val = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees.  *val
+   points into the memo (or at fp_zero) and stays valid until the next state is stored. */
+static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
 {
     slong *buf, small[FP_STACK];
     int st;
-    fmpq_zero(res);
+    *val = &fp_zero;
     while (cmax > 0 && cmin[cmax] == 0)
         cmax--;
     if (2 * g - 2 + n <= 0 || fp_degree(din, n, cmin, cmax) != 3 * g - 3 + n)
         return WK_OK;
-    if (cmax == 0 && n + 2 > FP_STACK)
-        return wk_table_correlator(res, H->T, g, din, n);
     if (g == 0 && cmax > 0)
         return WK_OK;                   /* E = 0 in genus 0 */
     for (slong k = 2; k <= cmax; k += 2)
@@ -391,11 +423,11 @@ static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n,
     memcpy(buf, din, (size_t) n * sizeof(slong));
     memcpy(buf + n, cmin, (size_t) (cmax + 1) * sizeof(slong));
     hodge_sort_desc(buf, n);
-    st = fp_corr_memo(res, H, g, buf, n, buf + n, cmax);
+    st = fp_corr_memo(val, H, g, buf, n, buf + n, cmax);
     if (buf != small)
         free(buf);
-    if (st != WK_OK)
-        fmpq_zero(res);
+    if (st != WK_OK || *val == NULL)
+        *val = &fp_zero;
     return st;
 }
 
@@ -450,8 +482,12 @@ static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, 
         kmax--;
     while (cmax > 0 && cm[cmax] == 0)
         cmax--;
-    if (kmax == 0)
-        return fp_corr(res, H, g, d, n, cm, cmax);
+    if (kmax == 0) {
+        const fmpq *v;
+        int stc = fp_corr(&v, H, g, d, n, cm, cmax);
+        fmpq_set(res, v);
+        return stc;
+    }
     if (fp_degree(d, n, km, kmax) + fp_degree(d, 0, cm, cmax) != 3 * g - 3 + n)
         return WK_OK;
     buf = malloc((size_t) (2 * n + 2 * kmax + cmax + 8) * sizeof(slong));
