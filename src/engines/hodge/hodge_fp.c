@@ -31,49 +31,77 @@ static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, sl
 /* The value of the states that vanish (unstable, wrong degree, E = 0, ch_{2k} = 0). */
 static const fmpq fp_zero = {0, 1};
 
-/* Temporaries of one recursion step, kept for all its terms: clearing and initialising them per
-   term turned every large number into a fresh allocation. */
-typedef struct {
-    fmpq_t t1, t2;
-    fmpz_t w, b;
-} fp_tmp;
-
-static void fp_tmp_init(fp_tmp *T)
-{
-    fmpq_init(T->t1);
-    fmpq_init(T->t2);
-    fmpz_init(T->w);
-    fmpz_init(T->b);
-}
-
-static void fp_tmp_clear(fp_tmp *T)
-{
-    fmpq_clear(T->t1);
-    fmpq_clear(T->t2);
-    fmpz_clear(T->w);
-    fmpz_clear(T->b);
-}
-
 /* Keys and sorted copies up to this length live on the stack (one malloc per call cost more
    than the memo lookup). */
 #define FP_STACK 64
 
-/* acc += w * (g, e, cm) where w = num/den (den 1 or 2); returns the status of the correlator. */
-static int fp_addmul(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
+/* The sum of the terms of one recursion step, num/den, kept over the least common multiple of the
+   term denominators seen so far and reduced once at the end: the terms of a step mostly share
+   their denominators, so a division replaces the gcds of a rational addition per term.  p/q is
+   the term being added (q > 0); x, y, w and b are scratch. */
+typedef struct {
+    fmpz_t num, den, p, q, x, y, w, b;
+} fp_sum;
+
+static void fp_sum_init(fp_sum *S)
+{
+    fmpz_init(S->num);
+    fmpz_init_set_ui(S->den, 1);
+    fmpz_init(S->p);
+    fmpz_init(S->q);
+    fmpz_init(S->x);
+    fmpz_init(S->y);
+    fmpz_init(S->w);
+    fmpz_init(S->b);
+}
+
+static void fp_sum_clear(fp_sum *S)
+{
+    fmpz_clear(S->num);
+    fmpz_clear(S->den);
+    fmpz_clear(S->p);
+    fmpz_clear(S->q);
+    fmpz_clear(S->x);
+    fmpz_clear(S->y);
+    fmpz_clear(S->w);
+    fmpz_clear(S->b);
+}
+
+/* num/den += p/q (q > 0), den growing to lcm(den, q) when q does not divide it. */
+static void fp_sum_add_term(fp_sum *S)
+{
+    if (fmpz_equal(S->q, S->den)) {
+        fmpz_add(S->num, S->num, S->p);
+        return;
+    }
+    fmpz_fdiv_qr(S->x, S->y, S->den, S->q);
+    if (!fmpz_is_zero(S->y)) {
+        fmpz_gcd(S->y, S->den, S->q);
+        fmpz_divexact(S->x, S->q, S->y);
+        fmpz_mul(S->num, S->num, S->x);
+        fmpz_mul(S->den, S->den, S->x);
+        fmpz_divexact(S->x, S->den, S->q);
+    }
+    fmpz_addmul(S->num, S->p, S->x);
+}
+
+/* res = num/den in canonical form. */
+static void fp_sum_get(fmpq_t res, const fp_sum *S)
+{
+    fmpq_set_fmpz_frac(res, S->num, S->den);
+}
+
+/* sum += (num/den) * (g, e, cm) (den > 0); returns the status of the correlator. */
+static int fp_addmul(fp_sum *S, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
                      const slong *cm, slong cmax)
 {
     const fmpq *v;
     int st = fp_corr(&v, H, g, e, n, cm, cmax);
     if (st != WK_OK || fmpq_is_zero(v))
         return st;
-    if (num == 1 && den == 1) {
-        fmpq_add(acc, acc, v);
-        return st;
-    }
-    fmpq_mul_si(T->t1, v, num);         /* gcds with the small factors only */
-    if (den == 2)
-        fmpq_div_2exp(T->t1, T->t1, 1);
-    fmpq_add(acc, acc, T->t1);
+    fmpz_mul_si(S->p, fmpq_numref(v), num);
+    fmpz_mul_si(S->q, fmpq_denref(v), den);
+    fp_sum_add_term(S);
     return st;
 }
 
@@ -82,11 +110,10 @@ static int fp_addmul(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong num, slong den, 
 static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, const slong *cm, slong cmax)
 {
     int st = WK_OK;
-    fp_tmp T;
-    fmpq_zero(res);
-    fp_tmp_init(&T);
+    fp_sum S;
+    fp_sum_init(&S);
     if (d[n - 1] == 1)
-        st = fp_addmul(res, &T, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
+        st = fp_addmul(&S, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
     for (slong j = 0; j < n - 1 && st == WK_OK && d[n - 1] == 0; j++) {
         slong c = 1;
         if (d[j] == 0 || (j > 0 && d[j] == d[j - 1]))
@@ -94,10 +121,11 @@ static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong 
         while (j + c < n - 1 && d[j + c] == d[j])
             c++;
         d[j]--;
-        st = fp_addmul(res, &T, H, c, 1, g, d, n - 1, cm, cmax);
+        st = fp_addmul(&S, H, c, 1, g, d, n - 1, cm, cmax);
         d[j]++;
     }
-    fp_tmp_clear(&T);
+    fp_sum_get(res, &S);
+    fp_sum_clear(&S);
     return st;
 }
 
@@ -110,7 +138,6 @@ typedef struct {
     slong *cy, *y;                 /* ch multiplicities 1..cmax and the part going to side 1 */
     slong *e1, *e2, *c1, *c2;
     slong m, *wt, *lim, *rmin, *rmax;   /* per item: step of s, largest count, bounds of the rest */
-    fp_tmp *T;                          /* the temporaries of the step */
 } fp_split_buf;
 
 /* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
@@ -130,32 +157,34 @@ static void fp_split_weight(fmpz_t w, fmpz_t b, const fp_split_buf *B, slong cma
         }
 }
 
-/* acc += weight * <e1 | c1>_{g1} <e2 | c2>_{g2} (the second factor only if the first is nonzero).
-   The first value is copied: finding the second may move the memo's entries. */
-static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
+/* sum += weight/2 * <e1 | c1>_{g1} <e2 | c2>_{g2} (weight doubled if twice; the second factor
+   only if the first is nonzero).  The first value is copied into p/q at once: finding the second
+   may move the memo's entries. */
+static int fp_split_eval(fp_sum *S, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
                          slong n1, slong n2, slong cmax, slong a, int twice)
 {
-    fp_tmp *T = B->T;
     const fmpq *v;
     int st = fp_corr(&v, H, g1, B->e1, n1, B->c1, cmax);
     if (st != WK_OK || fmpq_is_zero(v))
         return st;
-    fmpq_set(T->t1, v);
+    fmpz_set(S->p, fmpq_numref(v));
+    fmpz_set(S->q, fmpq_denref(v));
     st = fp_corr(&v, H, g2, B->e2, n2, B->c2, cmax);
     if (st != WK_OK || fmpq_is_zero(v))
         return st;
-    fp_split_weight(T->w, T->b, B, cmax, a);
-    if (twice)
-        fmpz_mul_2exp(T->w, T->w, 1);
-    fmpq_mul(T->t2, T->t1, v);
-    fmpq_mul_fmpz(T->t2, T->t2, T->w);
-    fmpq_add(acc, acc, T->t2);
+    fp_split_weight(S->w, S->b, B, cmax, a);
+    fmpz_mul(S->p, S->p, fmpq_numref(v));
+    fmpz_mul(S->p, S->p, S->w);
+    fmpz_mul(S->q, S->q, fmpq_denref(v));
+    if (!twice)
+        fmpz_mul_2exp(S->q, S->q, 1);
+    fp_sum_add_term(S);
     return st;
 }
 
 /* acc += sign * weight * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
    current counters; a fixed by the dimension of side 1. */
-static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
+static int fp_split_term(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
                          int twice)
 {
     slong n1 = 1, deg1 = 0, ych = 0, ytot = 0, k1 = 0, k2 = 0, a;
@@ -179,7 +208,7 @@ static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, sl
     B->e2[k2++] = 2 * l - 2 - a;
     for (slong k = 1; k <= cmax; k++)
         B->c1[k] = B->y[k], B->c2[k] = B->cy[k] - B->y[k];
-    return fp_split_eval(acc, H, B, g1, g - g1, k1, k2, cmax, a, twice);
+    return fp_split_eval(S, H, B, g1, g - g1, k1, k2, cmax, a, twice);
 }
 
 /* Allocates the scratch of a splitting of sorted d[0..n-1] and cm[1..cmax] (one block).
@@ -245,14 +274,14 @@ static int fp_mirror_cmp(const fp_split_buf *B, slong g1, slong g2, slong cmax)
 
 /* Walks the counters t[i..m-1] whose s (t[0..i-1] give s0) lies in [lo, hi]; at the end adds the
    term of a splitting that is not larger than its mirror image (file comment of fp_split). */
-static int fp_split_walk(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong i, slong s0, slong lo, slong hi,
+static int fp_split_walk(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong i, slong s0, slong lo, slong hi,
                          slong g1, slong g, slong n, slong cmax, slong l)
 {
     int st = WK_OK;
     if (i == B->m) {
         int side = fp_mirror_cmp(B, g1, g - g1, cmax);
         if (side <= 0)              /* a splitting and its mirror image give equal terms */
-            st = fp_split_term(acc, H, B, g1, g, n, cmax, l, side < 0);
+            st = fp_split_term(S, H, B, g1, g, n, cmax, l, side < 0);
         return st;
     }
     for (slong t = 0; t <= B->lim[i] && st == WK_OK; t++) {
@@ -260,34 +289,33 @@ static int fp_split_walk(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong i, slo
         if (s + B->rmin[i + 1] > hi || s + B->rmax[i + 1] < lo)
             continue;
         B->x[i] = t;
-        st = fp_split_walk(acc, H, B, i + 1, s, lo, hi, g1, g, n, cmax, l);
+        st = fp_split_walk(S, H, B, i + 1, s, lo, hi, g1, g, n, cmax, l);
     }
     B->x[i] = 0;
     return st;
 }
 
-/* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2);
+/* sum += 1/2 sum over ordered splittings of the separating boundary term;
    a splitting and its mirror image are summed once, doubled.  Only the counters whose node
    exponent a lies in 0..2l-2 are visited. */
-static int fp_split(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm,
+static int fp_split(fp_sum *S, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm,
                     slong cmax, slong l)
 {
     fp_split_buf B;
     int st = WK_OK;
     if (!fp_split_alloc(&B, d, n, cm, cmax))
         return WK_LIMIT;
-    B.T = T;
     for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
         fp_split_limits(&B, g1, cmax);
-        st = fp_split_walk(acc, H, &B, 0, 0, 3 * g1 - 2 - (2 * l - 2), 3 * g1 - 2, g1, g, n, cmax, l);
+        st = fp_split_walk(S, H, &B, 0, 0, 3 * g1 - 2 - (2 * l - 2), 3 * g1 - 2, g1, g, n, cmax, l);
     }
     free(B.val);
     return st;
 }
 
-/* acc += sum_{a=0}^{2l-2} (-1)^a/2 <tau_a tau_{2l-2-a} tau_d | C>_{g-1} (irreducible boundary),
+/* sum += sum_{a=0}^{2l-2} (-1)^a/2 <tau_a tau_{2l-2-a} tau_d | C>_{g-1} (irreducible boundary),
    pairing a with 2l-2-a, which give the same correlator with the same sign. */
-static int fp_irreducible(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
+static int fp_irreducible(fp_sum *S, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
                           const slong *cm, slong cmax, slong l)
 {
     int st = WK_OK;
@@ -295,7 +323,7 @@ static int fp_irreducible(fmpq_t acc, fp_tmp *T, hodge_ctx *H, slong g, const sl
     for (slong a = 0; a <= l - 1 && st == WK_OK; a++) {
         slong sign = a % 2 ? -1 : 1;
         e[n] = a, e[n + 1] = 2 * l - 2 - a;
-        st = fp_addmul(acc, T, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
+        st = fp_addmul(S, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
     }
     return st;
 }
@@ -306,35 +334,32 @@ static int fp_step(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, s
 {
     slong k = cmax, l = (k + 1) / 2;
     slong *e = malloc((size_t) (n + 2) * sizeof(slong));
-    fmpq_t acc, half;
-    fp_tmp T;
+    fmpq_t c;
+    fp_sum S;
     int st = WK_OK;
     if (e == NULL)
         return WK_LIMIT;
-    fmpq_init(acc);
-    fmpq_init(half);
-    fp_tmp_init(&T);
+    fmpq_init(c);
+    fp_sum_init(&S);
     cm[k]--;
     memcpy(e, d, (size_t) n * sizeof(slong));
     e[n] = 2 * l;
-    st = fp_addmul(acc, &T, H, 1, 1, g, e, n + 1, cm, cmax);
+    st = fp_addmul(&S, H, 1, 1, g, e, n + 1, cm, cmax);
     for (slong i = 0; i < n && st == WK_OK; i++) {
         e[i] += k;
-        st = fp_addmul(acc, &T, H, -1, 1, g, e, n, cm, cmax);
+        st = fp_addmul(&S, H, -1, 1, g, e, n, cm, cmax);
         e[i] -= k;
     }
     if (st == WK_OK)
-        st = fp_irreducible(acc, &T, H, g, d, n, e, cm, cmax, l);
+        st = fp_irreducible(&S, H, g, d, n, e, cm, cmax, l);
     if (st == WK_OK)
-        st = fp_split(half, &T, H, g, d, n, cm, cmax, l);
+        st = fp_split(&S, H, g, d, n, cm, cmax, l);
     cm[k]++;
-    fmpq_div_2exp(half, half, 1);
-    fmpq_add(acc, acc, half);
-    hodge_coef(half, H, l);
-    fmpq_mul(res, acc, half);
-    fmpq_clear(acc);
-    fmpq_clear(half);
-    fp_tmp_clear(&T);
+    fp_sum_get(res, &S);
+    hodge_coef(c, H, l);
+    fmpq_mul(res, res, c);
+    fmpq_clear(c);
+    fp_sum_clear(&S);
     free(e);
     return st;
 }
