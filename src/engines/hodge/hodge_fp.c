@@ -140,21 +140,34 @@ typedef struct {
     slong m, *wt, *lim, *rmin, *rmax;   /* per item: step of s, largest count, bounds of the rest */
 } fp_split_buf;
 
+/* w *= binom(n, k) (0 <= k <= n); in a word when it fits (binom(60, 30) < 2^57 and the running
+   product times n stays below 2^63), b is scratch otherwise. */
+static void fp_mul_binom(fmpz_t w, fmpz_t b, slong n, slong k)
+{
+    ulong r = 1;
+    if (k > n - k)
+        k = n - k;
+    if (k <= 0)
+        return;
+    if (n > 60) {
+        fmpz_bin_uiui(b, (ulong) n, (ulong) k);
+        fmpz_mul(w, w, b);
+        return;
+    }
+    for (slong i = 0; i < k; i++)
+        r = r * (ulong) (n - i) / (ulong) (i + 1);
+    fmpz_mul_ui(w, w, r);
+}
+
 /* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
    of legs and ch factors giving the current counters (b is scratch). */
 static void fp_split_weight(fmpz_t w, fmpz_t b, const fp_split_buf *B, slong cmax, slong a)
 {
     fmpz_set_si(w, a % 2 ? -1 : 1);
     for (slong i = 0; i < B->r; i++)
-        if (B->x[i] != 0 && B->x[i] != B->cnt[i]) {
-            fmpz_bin_uiui(b, (ulong) B->cnt[i], (ulong) B->x[i]);
-            fmpz_mul(w, w, b);
-        }
+        fp_mul_binom(w, b, B->cnt[i], B->x[i]);
     for (slong k = 1; k <= cmax; k++)
-        if (B->y[k] != 0 && B->y[k] != B->cy[k]) {
-            fmpz_bin_uiui(b, (ulong) B->cy[k], (ulong) B->y[k]);
-            fmpz_mul(w, w, b);
-        }
+        fp_mul_binom(w, b, B->cy[k], B->y[k]);
 }
 
 /* sum += weight/2 * <e1 | c1>_{g1} <e2 | c2>_{g2} (weight doubled if twice; the second factor
@@ -374,6 +387,32 @@ static slong fp_key(slong *key, slong g, const slong *d, slong n, const slong *c
     return n + cmax + 2;
 }
 
+/* Packed key of a state that reaches the memo of fp_corr (sorted d, no ch_{2k}): g, n, cmax, then
+   d and the odd multiplicities cm[1], cm[3], .. four to a word in 16-bit fields; the memo hashes
+   and compares far fewer words than with fp_key.  An entry of 2^16 or more (not met in practice)
+   gives the unpacked form, told apart by a negative third word.  key has room for n + cmax + 3
+   entries; returns its length. */
+static slong fp_key_packed(slong *key, slong g, const slong *d, slong n, const slong *cm, slong cmax)
+{
+    slong len = 3, f = 0;
+    int wide = 0;
+    for (slong i = 0; i < n; i++)
+        wide |= d[i] >= 0x10000;
+    for (slong k = 1; k <= cmax; k += 2)
+        wide |= cm[k] >= 0x10000;
+    key[0] = g, key[1] = n, key[2] = wide ? -1 - cmax : cmax;
+    if (wide)
+        return 3 + fp_key(key + 3, g, d, n, cm, cmax);
+    for (slong i = 0; i < n + (cmax + 1) / 2; i++) {
+        ulong v = (ulong) (i < n ? d[i] : cm[2 * (i - n) + 1]);
+        if (f == 0)
+            key[len++] = 0;
+        key[len - 1] = (slong) ((ulong) key[len - 1] | (v << (16 * f)));
+        f = (f + 1) % 4;
+    }
+    return len;
+}
+
 /* Degree of a state: sum of d plus the ch (or kappa) degrees sum_k k m[k]. */
 static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
 {
@@ -404,10 +443,10 @@ static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong
     slong klen;
     fmpq_t res;
     int st;
-    key = n + cmax + 2 <= FP_STACK ? small : malloc((size_t) (n + cmax + 2) * sizeof(slong));
+    key = 2 * (n + cmax + 3) <= FP_STACK ? small : malloc((size_t) (2 * (n + cmax + 3)) * sizeof(slong));
     if (key == NULL)
         return WK_LIMIT;
-    klen = fp_key(key, g, d, n, cm, cmax);
+    klen = fp_key_packed(key, g, d, n, cm, cmax);
     *val = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
     st = *val != NULL ? WK_OK : hodge_poll(H, HODGE_ROUTE_FP);
     if (*val == NULL && st == WK_OK) {
