@@ -74,14 +74,13 @@ static void fp_sum_add_term(fp_sum *S)
         fmpz_add(S->num, S->num, S->p);
         return;
     }
-    fmpz_fdiv_qr(S->x, S->y, S->den, S->q);
-    if (!fmpz_is_zero(S->y)) {
+    if (!fmpz_divisible(S->den, S->q)) {
         fmpz_gcd(S->y, S->den, S->q);
         fmpz_divexact(S->x, S->q, S->y);
         fmpz_mul(S->num, S->num, S->x);
         fmpz_mul(S->den, S->den, S->x);
-        fmpz_divexact(S->x, S->den, S->q);
     }
+    fmpz_divexact(S->x, S->den, S->q);
     fmpz_addmul(S->num, S->p, S->x);
 }
 
