@@ -453,10 +453,8 @@ static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong
         st = fp_corr_compute(res, H, g, d, n, cm, cmax);
         if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
             st = WK_LIMIT;              /* states finished during the recursion count too */
-        if (st == WK_OK) {
-            keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
-            *val = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
-        }
+        if (st == WK_OK)
+            *val = keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
         fmpq_clear(res);
     }
     if (key != small)
