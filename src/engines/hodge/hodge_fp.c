@@ -394,6 +394,7 @@ static slong fp_key(slong *key, slong g, const slong *d, slong n, const slong *c
 static slong fp_key_packed(slong *key, slong g, const slong *d, slong n, const slong *cm, slong cmax)
 {
     slong len = 3, f = 0;
+    ulong w = 0;
     int wide = 0;
     for (slong i = 0; i < n; i++)
         wide |= d[i] >= 0x10000;
@@ -403,12 +404,12 @@ static slong fp_key_packed(slong *key, slong g, const slong *d, slong n, const s
     if (wide)
         return 3 + fp_key(key + 3, g, d, n, cm, cmax);
     for (slong i = 0; i < n + (cmax + 1) / 2; i++) {
-        ulong v = (ulong) (i < n ? d[i] : cm[2 * (i - n) + 1]);
-        if (f == 0)
-            key[len++] = 0;
-        key[len - 1] = (slong) ((ulong) key[len - 1] | (v << (16 * f)));
-        f = (f + 1) % 4;
+        w |= (ulong) (i < n ? d[i] : cm[2 * (i - n) + 1]) << (16 * f);
+        if (++f == 4)
+            key[len++] = (slong) w, w = 0, f = 0;
     }
+    if (f > 0)
+        key[len++] = (slong) w;
     return len;
 }
 
