@@ -194,8 +194,8 @@ static int fp_split_eval(fp_sum *S, hodge_ctx *H, const fp_split_buf *B, slong g
     return st;
 }
 
-/* acc += sign * weight * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
-   current counters; a fixed by the dimension of side 1. */
+/* sum += sign * weight/2 * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
+   current counters (weight doubled if twice); a fixed by the dimension of side 1. */
 static int fp_split_term(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
                          int twice)
 {
