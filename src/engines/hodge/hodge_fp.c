@@ -296,8 +296,14 @@ static int fp_split_walk(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong i, slon
             st = fp_split_term(S, H, B, g1, g, n, cmax, l, side < 0);
         return st;
     }
-    for (slong t = 0; t <= B->lim[i] && st == WK_OK; t++) {
-        slong s = s0 + B->wt[i] * t;
+    slong t0 = 0, t1 = B->lim[i], w = B->wt[i];
+    if (w > 0) {                        /* the counts t whose s can still reach the window */
+        slong up = hi - B->rmin[i + 1] - s0, down = lo - B->rmax[i + 1] - s0;
+        t1 = up < 0 ? -1 : FLINT_MIN(t1, up / w);
+        t0 = down <= 0 ? 0 : (down + w - 1) / w;
+    }
+    for (slong t = t0; t <= t1 && st == WK_OK; t++) {
+        slong s = s0 + w * t;
         if (s + B->rmin[i + 1] > hi || s + B->rmax[i + 1] < lo)
             continue;
         B->x[i] = t;
