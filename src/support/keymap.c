@@ -58,7 +58,7 @@ static void keymap_grow(keymap *M)
     free(old.values);
 }
 
-void keymap_set(keymap *M, const slong *key, slong n, const fmpq_t value)
+const fmpq *keymap_set(keymap *M, const slong *key, slong n, const fmpq_t value)
 {
     if (2 * (M->len + 1) > M->nslots)
         keymap_grow(M);
@@ -71,4 +71,5 @@ void keymap_set(keymap *M, const slong *key, slong n, const fmpq_t value)
         M->len++;
     }
     fmpq_set(M->values + s, value);
+    return M->values + s;
 }

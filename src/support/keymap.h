@@ -17,7 +17,8 @@ void keymap_clear(keymap *M);
 /* The value stored under key[0..n-1], or NULL. The pointer is valid until the next insertion. */
 const fmpq *keymap_get(const keymap *M, const slong *key, slong n);
 
-/* Stores a copy of value under a copy of key (replacing an old value). */
-void keymap_set(keymap *M, const slong *key, slong n, const fmpq_t value);
+/* Stores a copy of value under a copy of key (replacing an old value); returns the stored value,
+   valid until the next insertion. */
+const fmpq *keymap_set(keymap *M, const slong *key, slong n, const fmpq_t value);
 
 #endif

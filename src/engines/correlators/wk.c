@@ -32,6 +32,7 @@ typedef struct {
     slong p;                 /* number of distinct values in S */
     slong *val, *mul, *a;    /* distinct values (descending), multiplicities, odometer */
     slong *buf1, *buf2;      /* key buffers of length ns + 2 */
+    fmpz_t t, b;             /* scratch of the split terms, kept for the whole step */
 } wk_dvv_ctx;
 
 /* Creates an empty table.
@@ -223,13 +224,31 @@ static int wk_dvv_get_split_weight(const wk_dvv_ctx *c, slong r, slong s)
     return 1;
 }
 
+/* w *= binom(n, k) (0 <= k <= n): in a word when it fits (binom(60, 30) < 2^57 and the running
+   product times n stays below 2^63), through the scratch b otherwise. */
+static void wk_mul_binom(fmpz_t w, fmpz_t b, slong n, slong k)
+{
+    ulong r = 1;
+    if (k > n - k)
+        k = n - k;
+    if (k <= 0)
+        return;
+    if (n > 60) {
+        fmpz_bin_uiui(b, (ulong) n, (ulong) k);
+        fmpz_mul(w, w, b);
+        return;
+    }
+    for (slong i = 0; i < k; i++)
+        r = r * (ulong) (n - i) / (ulong) (i + 1);
+    fmpz_mul_ui(w, w, r);
+}
+
 /* Adds w * prod_i C(mul_i, a_i) * X_{g1}(tau_r tau_I) * X_{g2}(tau_s tau_J) to x.
    Both factors are evaluated before either value is read, because evaluation may move T->val. */
 static int wk_dvv_add_split_term(wk_table *T, wk_dvv_ctx *c, slong r, slong g1, int w, fmpz_t x)
 {
     slong i, i1, i2, s = c->k - 1 - r, n1;
     int st;
-    fmpz_t t, b;
     n1 = wk_key_from_counts(c->buf1, c->val, c->a, c->p, r);
     for (i = 0; i < c->p; i++)
         c->a[i] = c->mul[i] - c->a[i];               /* a now describes J */
@@ -241,17 +260,11 @@ static int wk_dvv_add_split_term(wk_table *T, wk_dvv_ctx *c, slong r, slong g1, 
         st = wk_eval_key(T, c->g - g1, c->buf2, c->ns + 2 - n1, &i2);
     if (st != WK_OK || i1 < 0 || i2 < 0)
         return st;
-    fmpz_init(t);
-    fmpz_init(b);
-    fmpz_mul(t, T->val + i1, T->val + i2);
-    fmpz_mul_ui(t, t, (ulong) w);
-    for (i = 0; i < c->p; i++) {
-        fmpz_bin_uiui(b, (ulong) c->mul[i], (ulong) c->a[i]);
-        fmpz_mul(t, t, b);
-    }
-    fmpz_add(x, x, t);
-    fmpz_clear(t);
-    fmpz_clear(b);
+    fmpz_set_ui(c->b, (ulong) w);
+    for (i = 0; i < c->p; i++)
+        wk_mul_binom(c->b, c->t, c->mul[i], c->a[i]);
+    fmpz_mul(c->t, T->val + i1, T->val + i2);
+    fmpz_addmul(x, c->t, c->b);
     return WK_OK;
 }
 
@@ -319,12 +332,16 @@ static int wk_compute_dvv(wk_table *T, slong g, const slong *key, slong n, fmpz_
     c.ns = n - 1;
     if (wk_dvv_init_ctx(&c) != WK_OK)
         return WK_LIMIT;
+    fmpz_init(c.t);
+    fmpz_init(c.b);
     fmpz_zero(x);
     st = wk_dvv_sum_first(T, &c, x);
     if (st == WK_OK)
         st = wk_dvv_sum_lower(T, &c, x);
     if (st == WK_OK)
         st = wk_dvv_sum_split(T, &c, x);
+    fmpz_clear(c.t);
+    fmpz_clear(c.b);
     free(c.val);
     return st;
 }

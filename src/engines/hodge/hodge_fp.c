@@ -26,32 +26,81 @@
 #include <flint/fmpz.h>
 #include "hodge_internal.h"
 
-static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
+static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
+
+/* The value of the states that vanish (unstable, wrong degree, E = 0, ch_{2k} = 0). */
+static const fmpq fp_zero = {0, 1};
 
 /* Keys and sorted copies up to this length live on the stack (one malloc per call cost more
    than the memo lookup). */
 #define FP_STACK 64
 
-/* acc += w * (g, e, cm) where w = num/den; returns the status of the correlator. */
-static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
+/* The sum of the terms of one recursion step, num/den, kept over the least common multiple of the
+   term denominators seen so far and reduced once at the end: the terms of a step mostly share
+   their denominators, so a division replaces the gcds of a rational addition per term.  p/q is
+   the term being added (q > 0); x, y, w and b are scratch. */
+typedef struct {
+    fmpz_t num, den, p, q, x, y, w, b;
+} fp_sum;
+
+static void fp_sum_init(fp_sum *S)
+{
+    fmpz_init(S->num);
+    fmpz_init_set_ui(S->den, 1);
+    fmpz_init(S->p);
+    fmpz_init(S->q);
+    fmpz_init(S->x);
+    fmpz_init(S->y);
+    fmpz_init(S->w);
+    fmpz_init(S->b);
+}
+
+static void fp_sum_clear(fp_sum *S)
+{
+    fmpz_clear(S->num);
+    fmpz_clear(S->den);
+    fmpz_clear(S->p);
+    fmpz_clear(S->q);
+    fmpz_clear(S->x);
+    fmpz_clear(S->y);
+    fmpz_clear(S->w);
+    fmpz_clear(S->b);
+}
+
+/* num/den += p/q (q > 0), den growing to lcm(den, q) when q does not divide it. */
+static void fp_sum_add_term(fp_sum *S)
+{
+    if (fmpz_equal(S->q, S->den)) {
+        fmpz_add(S->num, S->num, S->p);
+        return;
+    }
+    if (!fmpz_divisible(S->den, S->q)) {
+        fmpz_gcd(S->y, S->den, S->q);
+        fmpz_divexact(S->x, S->q, S->y);
+        fmpz_mul(S->num, S->num, S->x);
+        fmpz_mul(S->den, S->den, S->x);
+    }
+    fmpz_divexact(S->x, S->den, S->q);
+    fmpz_addmul(S->num, S->p, S->x);
+}
+
+/* res = num/den in canonical form. */
+static void fp_sum_get(fmpq_t res, const fp_sum *S)
+{
+    fmpq_set_fmpz_frac(res, S->num, S->den);
+}
+
+/* sum += (num/den) * (g, e, cm) (den > 0); returns the status of the correlator. */
+static int fp_addmul(fp_sum *S, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
                      const slong *cm, slong cmax)
 {
-    fmpq_t v;
-    int st;
-    fmpq_init(v);
-    st = fp_corr(v, H, g, e, n, cm, cmax);
-    if (st == WK_OK && !fmpq_is_zero(v)) {
-        if (num != 1)
-            fmpq_mul_si(v, v, num);     /* gcds with the small factors only */
-        if (den == 2)
-            fmpq_div_2exp(v, v, 1);
-        else if (den != 1) {
-            fmpz_mul_si(fmpq_denref(v), fmpq_denref(v), den);
-            fmpq_canonicalise(v);
-        }
-        fmpq_add(acc, acc, v);
-    }
-    fmpq_clear(v);
+    const fmpq *v;
+    int st = fp_corr(&v, H, g, e, n, cm, cmax);
+    if (st != WK_OK || fmpq_is_zero(v))
+        return st;
+    fmpz_mul_si(S->p, fmpq_numref(v), num);
+    fmpz_mul_si(S->q, fmpq_denref(v), den);
+    fp_sum_add_term(S);
     return st;
 }
 
@@ -60,77 +109,94 @@ static int fp_addmul(fmpq_t acc, hodge_ctx *H, slong num, slong den, slong g, co
 static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, const slong *cm, slong cmax)
 {
     int st = WK_OK;
-    fmpq_zero(res);
+    fp_sum S;
+    fp_sum_init(&S);
     if (d[n - 1] == 1)
-        return fp_addmul(res, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
-    for (slong j = 0; j < n - 1 && st == WK_OK; j++) {
+        st = fp_addmul(&S, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
+    for (slong j = 0; j < n - 1 && st == WK_OK && d[n - 1] == 0; j++) {
         slong c = 1;
         if (d[j] == 0 || (j > 0 && d[j] == d[j - 1]))
             continue;
         while (j + c < n - 1 && d[j + c] == d[j])
             c++;
         d[j]--;
-        st = fp_addmul(res, H, c, 1, g, d, n - 1, cm, cmax);
+        st = fp_addmul(&S, H, c, 1, g, d, n - 1, cm, cmax);
         d[j]++;
     }
+    fp_sum_get(res, &S);
+    fp_sum_clear(&S);
     return st;
 }
 
-/* Scratch of one splitting enumeration: distinct leg values and their counts, the counters. */
+/* Scratch of one splitting enumeration: distinct leg values and their counts, the counters.
+   The counters are walked as one list t[0..m-1]: the r leg groups, then ch_1..ch_cmax (y = t + r - 1);
+   each unit of item i moves s = deg1 - (n1 - 1) by wt[i], and side 1 has node exponent
+   a = 3 g1 - 2 - s, so only the s in a window of width 2l-2 give terms. */
 typedef struct {
     slong r, *val, *cnt, *x;       /* legs */
     slong *cy, *y;                 /* ch multiplicities 1..cmax and the part going to side 1 */
     slong *e1, *e2, *c1, *c2;
+    slong m, *wt, *lim, *rmin, *rmax;   /* per item: step of s, largest count, bounds of the rest */
 } fp_split_buf;
 
-/* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
-   of legs and ch factors giving the current counters. */
-static void fp_split_weight(fmpz_t w, const fp_split_buf *B, slong cmax, slong a)
+/* w *= binom(n, k) (0 <= k <= n); in a word when it fits (binom(60, 30) < 2^57 and the running
+   product times n stays below 2^63), b is scratch otherwise. */
+static void fp_mul_binom(fmpz_t w, fmpz_t b, slong n, slong k)
 {
-    fmpz_t b;
-    fmpz_init(b);
-    fmpz_set_si(w, a % 2 ? -1 : 1);
-    for (slong i = 0; i < B->r; i++) {
-        fmpz_bin_uiui(b, (ulong) B->cnt[i], (ulong) B->x[i]);
+    ulong r = 1;
+    if (k > n - k)
+        k = n - k;
+    if (k <= 0)
+        return;
+    if (n > 60) {
+        fmpz_bin_uiui(b, (ulong) n, (ulong) k);
         fmpz_mul(w, w, b);
+        return;
     }
-    for (slong k = 1; k <= cmax; k++) {
-        fmpz_bin_uiui(b, (ulong) B->cy[k], (ulong) B->y[k]);
-        fmpz_mul(w, w, b);
-    }
-    fmpz_clear(b);
+    for (slong i = 0; i < k; i++)
+        r = r * (ulong) (n - i) / (ulong) (i + 1);
+    fmpz_mul_ui(w, w, r);
 }
 
-/* acc += weight * <e1 | c1>_{g1} <e2 | c2>_{g2} (the second factor only if the first is nonzero). */
-static int fp_split_eval(fmpq_t acc, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
+/* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
+   of legs and ch factors giving the current counters (b is scratch). */
+static void fp_split_weight(fmpz_t w, fmpz_t b, const fp_split_buf *B, slong cmax, slong a)
+{
+    fmpz_set_si(w, a % 2 ? -1 : 1);
+    for (slong i = 0; i < B->r; i++)
+        fp_mul_binom(w, b, B->cnt[i], B->x[i]);
+    for (slong k = 1; k <= cmax; k++)
+        fp_mul_binom(w, b, B->cy[k], B->y[k]);
+}
+
+/* sum += weight/2 * <e1 | c1>_{g1} <e2 | c2>_{g2} (weight doubled if twice; the second factor
+   only if the first is nonzero).  The first value is copied into p/q at once: finding the second
+   may move the memo's entries. */
+static int fp_split_eval(fp_sum *S, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
                          slong n1, slong n2, slong cmax, slong a, int twice)
 {
-    fmpq_t v1, v2;
-    fmpz_t w;
-    int st;
-    fmpq_init(v1);
-    fmpq_init(v2);
-    fmpz_init(w);
-    st = fp_corr(v1, H, g1, B->e1, n1, B->c1, cmax);
-    if (st == WK_OK && !fmpq_is_zero(v1))
-        st = fp_corr(v2, H, g2, B->e2, n2, B->c2, cmax);
-    if (st == WK_OK && !fmpq_is_zero(v2)) {
-        fp_split_weight(w, B, cmax, a);
-        if (twice)
-            fmpz_mul_2exp(w, w, 1);
-        fmpq_mul(v1, v1, v2);
-        fmpq_mul_fmpz(v1, v1, w);
-        fmpq_add(acc, acc, v1);
-    }
-    fmpq_clear(v1);
-    fmpq_clear(v2);
-    fmpz_clear(w);
+    const fmpq *v;
+    int st = fp_corr(&v, H, g1, B->e1, n1, B->c1, cmax);
+    if (st != WK_OK || fmpq_is_zero(v))
+        return st;
+    fmpz_set(S->p, fmpq_numref(v));
+    fmpz_set(S->q, fmpq_denref(v));
+    st = fp_corr(&v, H, g2, B->e2, n2, B->c2, cmax);
+    if (st != WK_OK || fmpq_is_zero(v))
+        return st;
+    fp_split_weight(S->w, S->b, B, cmax, a);
+    fmpz_mul(S->p, S->p, fmpq_numref(v));
+    fmpz_mul(S->p, S->p, S->w);
+    fmpz_mul(S->q, S->q, fmpq_denref(v));
+    if (!twice)
+        fmpz_mul_2exp(S->q, S->q, 1);
+    fp_sum_add_term(S);
     return st;
 }
 
-/* acc += sign * weight * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
-   current counters; a fixed by the dimension of side 1. */
-static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
+/* sum += sign * weight/2 * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
+   current counters (weight doubled if twice); a fixed by the dimension of side 1. */
+static int fp_split_term(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
                          int twice)
 {
     slong n1 = 1, deg1 = 0, ych = 0, ytot = 0, k1 = 0, k2 = 0, a;
@@ -154,19 +220,21 @@ static int fp_split_term(fmpq_t acc, hodge_ctx *H, fp_split_buf *B, slong g1, sl
     B->e2[k2++] = 2 * l - 2 - a;
     for (slong k = 1; k <= cmax; k++)
         B->c1[k] = B->y[k], B->c2[k] = B->cy[k] - B->y[k];
-    return fp_split_eval(acc, H, B, g1, g - g1, k1, k2, cmax, a, twice);
+    return fp_split_eval(S, H, B, g1, g - g1, k1, k2, cmax, a, twice);
 }
 
 /* Allocates the scratch of a splitting of sorted d[0..n-1] and cm[1..cmax] (one block).
    Returns 0 if memory is exhausted. */
 static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong *cm, slong cmax)
 {
-    slong *p = calloc((size_t) (3 * n + 2 * (n + 2) + 4 * (cmax + 1)) + 1, sizeof(slong));
+    slong m = n + cmax;
+    slong *p = calloc((size_t) (2 * n + 2 * (n + 2) + 3 * (cmax + 1) + 5 * m + 2) + 1, sizeof(slong));
     if (p == NULL)
         return 0;
-    B->val = p, B->cnt = p + n, B->x = p + 2 * n;
-    B->e1 = p + 3 * n, B->e2 = B->e1 + n + 2;
-    B->cy = B->e2 + n + 2, B->y = B->cy + cmax + 1, B->c1 = B->y + cmax + 1, B->c2 = B->c1 + cmax + 1;
+    B->val = p, B->cnt = p + n;
+    B->e1 = p + 2 * n, B->e2 = B->e1 + n + 2;
+    B->cy = B->e2 + n + 2, B->c1 = B->cy + cmax + 1, B->c2 = B->c1 + cmax + 1;
+    B->x = B->c2 + cmax + 1, B->wt = B->x + m, B->lim = B->wt + m, B->rmin = B->lim + m, B->rmax = B->rmin + m + 1;
     B->r = 0;
     for (slong i = 0; i < n; i++) {
         if (i == 0 || d[i] != d[i - 1])
@@ -175,7 +243,29 @@ static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong 
     }
     for (slong k = 1; k <= cmax; k++)
         B->cy[k] = cm[k];
+    B->m = B->r + cmax;
+    B->y = B->x + B->r - 1;
+    for (slong i = 0; i < B->r; i++)
+        B->wt[i] = B->val[i] - 1;
+    for (slong k = 1; k <= cmax; k++)
+        B->wt[B->r + k - 1] = k;
     return 1;
+}
+
+/* Sets the counts of the items for side 1 of genus g1 (no ch factor in genus 0) and the bounds
+   rmin[i], rmax[i] of the s that items i..m-1 can add. */
+static void fp_split_limits(fp_split_buf *B, slong g1, slong cmax)
+{
+    for (slong i = 0; i < B->r; i++)
+        B->lim[i] = B->cnt[i];
+    for (slong k = 1; k <= cmax; k++)
+        B->lim[B->r + k - 1] = g1 == 0 ? 0 : B->cy[k];
+    B->rmin[B->m] = B->rmax[B->m] = 0;
+    for (slong i = B->m - 1; i >= 0; i--) {
+        slong v = B->wt[i] * B->lim[i];
+        B->rmin[i] = B->rmin[i + 1] + (v < 0 ? v : 0);
+        B->rmax[i] = B->rmax[i + 1] + (v > 0 ? v : 0);
+    }
 }
 
 /* Compares the splitting (g1, legs x, ch factors y) with its mirror image (g2, cnt - x, cy - y),
@@ -194,32 +284,56 @@ static int fp_mirror_cmp(const fp_split_buf *B, slong g1, slong g2, slong cmax)
     return 0;
 }
 
-/* acc += sum over ordered splittings of the separating boundary term (without the factor 1/2);
-   a splitting and its mirror image are summed once, doubled. */
-static int fp_split(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm, slong cmax, slong l)
+/* Walks the counters t[i..m-1] whose s (t[0..i-1] give s0) lies in [lo, hi]; at the end adds the
+   term of a splitting that is not larger than its mirror image (file comment of fp_split). */
+static int fp_split_walk(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong i, slong s0, slong lo, slong hi,
+                         slong g1, slong g, slong n, slong cmax, slong l)
+{
+    int st = WK_OK;
+    if (i == B->m) {
+        int side = fp_mirror_cmp(B, g1, g - g1, cmax);
+        if (side <= 0)              /* a splitting and its mirror image give equal terms */
+            st = fp_split_term(S, H, B, g1, g, n, cmax, l, side < 0);
+        return st;
+    }
+    slong t0 = 0, t1 = B->lim[i], w = B->wt[i];
+    if (w > 0) {                        /* the counts t whose s can still reach the window */
+        slong up = hi - B->rmin[i + 1] - s0, down = lo - B->rmax[i + 1] - s0;
+        t1 = up < 0 ? -1 : FLINT_MIN(t1, up / w);
+        t0 = down <= 0 ? 0 : (down + w - 1) / w;
+    }
+    for (slong t = t0; t <= t1 && st == WK_OK; t++) {
+        slong s = s0 + w * t;
+        if (s + B->rmin[i + 1] > hi || s + B->rmax[i + 1] < lo)
+            continue;
+        B->x[i] = t;
+        st = fp_split_walk(S, H, B, i + 1, s, lo, hi, g1, g, n, cmax, l);
+    }
+    B->x[i] = 0;
+    return st;
+}
+
+/* sum += 1/2 sum over ordered splittings of the separating boundary term;
+   a splitting and its mirror image are summed once, doubled.  Only the counters whose node
+   exponent a lies in 0..2l-2 are visited. */
+static int fp_split(fp_sum *S, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm,
+                    slong cmax, slong l)
 {
     fp_split_buf B;
     int st = WK_OK;
     if (!fp_split_alloc(&B, d, n, cm, cmax))
         return WK_LIMIT;
     for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
-        memset(B.x, 0, (size_t) B.r * sizeof(slong));
-        memset(B.y, 0, (size_t) (cmax + 1) * sizeof(slong));
-        do {
-            do {
-                int side = fp_mirror_cmp(&B, g1, g - g1, cmax);
-                if (side <= 0)          /* a splitting and its mirror image give equal terms */
-                    st = fp_split_term(acc, H, &B, g1, g, n, cmax, l, side < 0);
-            } while (st == WK_OK && hodge_counter_next(B.y + 1, B.cy + 1, cmax));
-        } while (st == WK_OK && hodge_counter_next(B.x, B.cnt, B.r));
+        fp_split_limits(&B, g1, cmax);
+        st = fp_split_walk(S, H, &B, 0, 0, 3 * g1 - 2 - (2 * l - 2), 3 * g1 - 2, g1, g, n, cmax, l);
     }
     free(B.val);
     return st;
 }
 
-/* acc += sum_{a=0}^{2l-2} (-1)^a/2 <tau_a tau_{2l-2-a} tau_d | C>_{g-1} (irreducible boundary),
+/* sum += sum_{a=0}^{2l-2} (-1)^a/2 <tau_a tau_{2l-2-a} tau_d | C>_{g-1} (irreducible boundary),
    pairing a with 2l-2-a, which give the same correlator with the same sign. */
-static int fp_irreducible(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
+static int fp_irreducible(fp_sum *S, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
                           const slong *cm, slong cmax, slong l)
 {
     int st = WK_OK;
@@ -227,7 +341,7 @@ static int fp_irreducible(fmpq_t acc, hodge_ctx *H, slong g, const slong *d, slo
     for (slong a = 0; a <= l - 1 && st == WK_OK; a++) {
         slong sign = a % 2 ? -1 : 1;
         e[n] = a, e[n + 1] = 2 * l - 2 - a;
-        st = fp_addmul(acc, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
+        st = fp_addmul(S, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
     }
     return st;
 }
@@ -238,32 +352,32 @@ static int fp_step(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, s
 {
     slong k = cmax, l = (k + 1) / 2;
     slong *e = malloc((size_t) (n + 2) * sizeof(slong));
-    fmpq_t acc, half;
+    fmpq_t c;
+    fp_sum S;
     int st = WK_OK;
     if (e == NULL)
         return WK_LIMIT;
-    fmpq_init(acc);
-    fmpq_init(half);
+    fmpq_init(c);
+    fp_sum_init(&S);
     cm[k]--;
     memcpy(e, d, (size_t) n * sizeof(slong));
     e[n] = 2 * l;
-    st = fp_addmul(acc, H, 1, 1, g, e, n + 1, cm, cmax);
+    st = fp_addmul(&S, H, 1, 1, g, e, n + 1, cm, cmax);
     for (slong i = 0; i < n && st == WK_OK; i++) {
         e[i] += k;
-        st = fp_addmul(acc, H, -1, 1, g, e, n, cm, cmax);
+        st = fp_addmul(&S, H, -1, 1, g, e, n, cm, cmax);
         e[i] -= k;
     }
     if (st == WK_OK)
-        st = fp_irreducible(acc, H, g, d, n, e, cm, cmax, l);
+        st = fp_irreducible(&S, H, g, d, n, e, cm, cmax, l);
     if (st == WK_OK)
-        st = fp_split(half, H, g, d, n, cm, cmax, l);
+        st = fp_split(&S, H, g, d, n, cm, cmax, l);
     cm[k]++;
-    fmpq_div_2exp(half, half, 1);
-    fmpq_add(acc, acc, half);
-    hodge_coef(half, H, l);
-    fmpq_mul(res, acc, half);
-    fmpq_clear(acc);
-    fmpq_clear(half);
+    fp_sum_get(res, &S);
+    hodge_coef(c, H, l);
+    fmpq_mul(res, res, c);
+    fmpq_clear(c);
+    fp_sum_clear(&S);
     free(e);
     return st;
 }
@@ -278,6 +392,33 @@ static slong fp_key(slong *key, slong g, const slong *d, slong n, const slong *c
     return n + cmax + 2;
 }
 
+/* Packed key of a state that reaches the memo of fp_corr (sorted d, no ch_{2k}): g, n, cmax, then
+   d and the odd multiplicities cm[1], cm[3], .. four to a word in 16-bit fields; the memo hashes
+   and compares far fewer words than with fp_key.  An entry of 2^16 or more (not met in practice)
+   gives the unpacked form, told apart by a negative third word.  key has room for n + cmax + 3
+   entries; returns its length. */
+static slong fp_key_packed(slong *key, slong g, const slong *d, slong n, const slong *cm, slong cmax)
+{
+    slong len = 3, f = 0;
+    ulong w = 0;
+    int wide = 0;
+    for (slong i = 0; i < n; i++)
+        wide |= d[i] >= 0x10000;
+    for (slong k = 1; k <= cmax; k += 2)
+        wide |= cm[k] >= 0x10000;
+    key[0] = g, key[1] = n, key[2] = wide ? -1 - cmax : cmax;
+    if (wide)
+        return 3 + fp_key(key + 3, g, d, n, cm, cmax);
+    for (slong i = 0; i < n + (cmax + 1) / 2; i++) {
+        w |= (ulong) (i < n ? d[i] : cm[2 * (i - n) + 1]) << (16 * f);
+        if (++f == 4)
+            key[len++] = (slong) w, w = 0, f = 0;
+    }
+    if (f > 0)
+        key[len++] = (slong) w;
+    return len;
+}
+
 /* Degree of a state: sum of d plus the ch (or kappa) degrees sum_k k m[k]. */
 static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
 {
@@ -289,52 +430,56 @@ static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
     return s;
 }
 
-/* Memoised step of a state with ch factors, on sorted d: string/dilaton or the operator.  States
+/* res = the step of a state with ch factors, on sorted d: string/dilaton or the operator; the
+   psi correlator itself when there is none. */
+static int fp_corr_compute(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
+{
+    int reduce = n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0;
+    if (cmax == 0)
+        return wk_table_correlator(res, H->T, g, d, n);     /* kept here: the table's lookups cost more */
+    return reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
+}
+
+/* *val = the memoised value of the state (sorted d), computed and stored on a miss.  States
    with psi exponents 0 or 1 are memoised too: their string and dilaton expansions branch over
    the points and met the same states again and again. */
-static int fp_corr_memo(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
+static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
 {
     slong *key, small[FP_STACK];
-    const fmpq *hit;
     slong klen;
-    int st, reduce = n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0;
-    key = n + cmax + 2 <= FP_STACK ? small : malloc((size_t) (n + cmax + 2) * sizeof(slong));
+    fmpq_t res;
+    int st;
+    key = 2 * (n + cmax + 3) <= FP_STACK ? small : malloc((size_t) (2 * (n + cmax + 3)) * sizeof(slong));
     if (key == NULL)
         return WK_LIMIT;
-    klen = fp_key(key, g, d, n, cm, cmax);
-    hit = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
-    if (hit != NULL) {
-        fmpq_set(res, hit);
-        if (key != small)
-            free(key);
-        return WK_OK;
+    klen = fp_key_packed(key, g, d, n, cm, cmax);
+    *val = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
+    st = *val != NULL ? WK_OK : hodge_poll(H, HODGE_ROUTE_FP);
+    if (*val == NULL && st == WK_OK) {
+        fmpq_init(res);
+        st = fp_corr_compute(res, H, g, d, n, cm, cmax);
+        if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
+            st = WK_LIMIT;              /* states finished during the recursion count too */
+        if (st == WK_OK)
+            *val = keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
+        fmpq_clear(res);
     }
-    st = hodge_poll(H, HODGE_ROUTE_FP);
-    if (st == WK_OK && cmax == 0)
-        st = wk_table_correlator(res, H->T, g, d, n);   /* kept here: the table's lookups cost more */
-    else if (st == WK_OK)
-        st = reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
-    if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
-        st = WK_LIMIT;                  /* states finished during the recursion count too */
-    if (st == WK_OK)
-        keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
     if (key != small)
         free(key);
     return st;
 }
 
-/* res = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees. */
-static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
+/* *val = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees.  *val
+   points into the memo (or at fp_zero) and stays valid until the next state is stored. */
+static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
 {
     slong *buf, small[FP_STACK];
     int st;
-    fmpq_zero(res);
+    *val = &fp_zero;
     while (cmax > 0 && cmin[cmax] == 0)
         cmax--;
     if (2 * g - 2 + n <= 0 || fp_degree(din, n, cmin, cmax) != 3 * g - 3 + n)
         return WK_OK;
-    if (cmax == 0 && n + 2 > FP_STACK)
-        return wk_table_correlator(res, H->T, g, din, n);
     if (g == 0 && cmax > 0)
         return WK_OK;                   /* E = 0 in genus 0 */
     for (slong k = 2; k <= cmax; k += 2)
@@ -346,11 +491,11 @@ static int fp_corr(fmpq_t res, hodge_ctx *H, slong g, const slong *din, slong n,
     memcpy(buf, din, (size_t) n * sizeof(slong));
     memcpy(buf + n, cmin, (size_t) (cmax + 1) * sizeof(slong));
     hodge_sort_desc(buf, n);
-    st = fp_corr_memo(res, H, g, buf, n, buf + n, cmax);
+    st = fp_corr_memo(val, H, g, buf, n, buf + n, cmax);
     if (buf != small)
         free(buf);
-    if (st != WK_OK)
-        fmpq_zero(res);
+    if (st != WK_OK || *val == NULL)
+        *val = &fp_zero;
     return st;
 }
 
@@ -405,8 +550,12 @@ static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, 
         kmax--;
     while (cmax > 0 && cm[cmax] == 0)
         cmax--;
-    if (kmax == 0)
-        return fp_corr(res, H, g, d, n, cm, cmax);
+    if (kmax == 0) {
+        const fmpq *v;
+        int stc = fp_corr(&v, H, g, d, n, cm, cmax);
+        fmpq_set(res, v);
+        return stc;
+    }
     if (fp_degree(d, n, km, kmax) + fp_degree(d, 0, cm, cmax) != 3 * g - 3 + n)
         return WK_OK;
     buf = malloc((size_t) (2 * n + 2 * kmax + cmax + 8) * sizeof(slong));

@@ -53,8 +53,8 @@ int hodge_fp_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n
                       const slong *km, slong kmax, const slong *cm, slong cmax);
 
 /* Advances the mixed-radix counter x[0..r-1] (digit i runs over 0..lim[i], digit 0 fastest);
-   0 once it wraps back to all zeros.  The splitting enumerations of hodge_fp.c and
-   hodge_pair.c count with it. */
+   0 once it wraps back to all zeros.  The kappa expansion of hodge_fp.c and the splitting
+   enumeration of hodge_pair.c count with it. */
 static inline int hodge_counter_next(slong *x, const slong *lim, slong r)
 {
     for (slong i = 0; i < r; i++) {
