@@ -18,6 +18,7 @@
 #include <stdatomic.h>
 #include <stdlib.h>
 #include <string.h>
+#include "binom.h"
 #include "util.h"
 #include "wk_internal.h"
 
@@ -224,25 +225,6 @@ static int wk_dvv_get_split_weight(const wk_dvv_ctx *c, slong r, slong s)
     return 1;
 }
 
-/* w *= binom(n, k) (0 <= k <= n): in a word when it fits (binom(60, 30) < 2^57 and the running
-   product times n stays below 2^63), through the scratch b otherwise. */
-static void wk_mul_binom(fmpz_t w, fmpz_t b, slong n, slong k)
-{
-    ulong r = 1;
-    if (k > n - k)
-        k = n - k;
-    if (k <= 0)
-        return;
-    if (n > 60) {
-        fmpz_bin_uiui(b, (ulong) n, (ulong) k);
-        fmpz_mul(w, w, b);
-        return;
-    }
-    for (slong i = 0; i < k; i++)
-        r = r * (ulong) (n - i) / (ulong) (i + 1);
-    fmpz_mul_ui(w, w, r);
-}
-
 /* Adds w * prod_i C(mul_i, a_i) * X_{g1}(tau_r tau_I) * X_{g2}(tau_s tau_J) to x.
    Both factors are evaluated before either value is read, because evaluation may move T->val. */
 static int wk_dvv_add_split_term(wk_table *T, wk_dvv_ctx *c, slong r, slong g1, int w, fmpz_t x)
@@ -262,7 +244,7 @@ static int wk_dvv_add_split_term(wk_table *T, wk_dvv_ctx *c, slong r, slong g1, 
         return st;
     fmpz_set_ui(c->b, (ulong) w);
     for (i = 0; i < c->p; i++)
-        wk_mul_binom(c->b, c->t, c->mul[i], c->a[i]);
+        binom_mul(c->b, c->t, c->mul[i], c->a[i]);
     fmpz_mul(c->t, T->val + i1, T->val + i2);
     fmpz_addmul(x, c->t, c->b);
     return WK_OK;

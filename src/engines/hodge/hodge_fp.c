@@ -24,6 +24,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <flint/fmpz.h>
+#include "binom.h"
 #include "hodge_internal.h"
 
 static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
@@ -139,34 +140,15 @@ typedef struct {
     slong m, *wt, *lim, *rmin, *rmax;   /* per item: step of s, largest count, bounds of the rest */
 } fp_split_buf;
 
-/* w *= binom(n, k) (0 <= k <= n); in a word when it fits (binom(60, 30) < 2^57 and the running
-   product times n stays below 2^63), b is scratch otherwise. */
-static void fp_mul_binom(fmpz_t w, fmpz_t b, slong n, slong k)
-{
-    ulong r = 1;
-    if (k > n - k)
-        k = n - k;
-    if (k <= 0)
-        return;
-    if (n > 60) {
-        fmpz_bin_uiui(b, (ulong) n, (ulong) k);
-        fmpz_mul(w, w, b);
-        return;
-    }
-    for (slong i = 0; i < k; i++)
-        r = r * (ulong) (n - i) / (ulong) (i + 1);
-    fmpz_mul_ui(w, w, r);
-}
-
 /* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
    of legs and ch factors giving the current counters (b is scratch). */
 static void fp_split_weight(fmpz_t w, fmpz_t b, const fp_split_buf *B, slong cmax, slong a)
 {
     fmpz_set_si(w, a % 2 ? -1 : 1);
     for (slong i = 0; i < B->r; i++)
-        fp_mul_binom(w, b, B->cnt[i], B->x[i]);
+        binom_mul(w, b, B->cnt[i], B->x[i]);
     for (slong k = 1; k <= cmax; k++)
-        fp_mul_binom(w, b, B->cy[k], B->y[k]);
+        binom_mul(w, b, B->cy[k], B->y[k]);
 }
 
 /* sum += weight/2 * <e1 | c1>_{g1} <e2 | c2>_{g2} (weight doubled if twice; the second factor
