@@ -61,9 +61,10 @@ double wk_estimate_seconds(double entries)
 }
 
 /* Fitted on `bench_wpoly ref` runs (gcc -O2, FLINT 2.9, the project's 2-core VM, idle): n = 2 for
-   g = 9, 11..15; n = 3 for g = 7, 9, 11, 12; n = 4 for g = 5, 7..10; n = 5 for g = 6..8; within
-   25 % on all of them (e.g. V_{13,2}: 3.46 s and 194141 entries; V_{15,2}: 21.1 s and 589752;
-   V_{11,3}: 1.02 s and 89826).  Each genus multiplies the time by about 2.5 and the table by
+   g = 9, 11..15; n = 3 for g = 7, 9, 11, 12; n = 4 for g = 5, 7..10; n = 5 for g = 6..8.  The time
+   is within 25 % on every run of 0.05 s or more; the table within 15 % from g = 10 on, and above
+   the measured count below that (by up to 2.5 times).  E.g. V_{13,2}: 3.46 s and 194141 entries;
+   V_{15,2}: 21.1 s and 589752; V_{11,3}: 1.02 s and 89826.  Each genus multiplies the time by about 2.5 and the table by
    1.75, each point by 1.85 and 1.5: numbers grow with the genus, the tables with the points. */
 void wk_estimate_volume_reduction(double *seconds, double *entries, slong g, slong n)
 {
