@@ -402,7 +402,7 @@ static int hx_print_leaves(FILE *out, hodge_ctx *H, const hx_states *S)
 /* The walk from the monomials of the ch sum: each state with ch factors once, breadth first. */
 static int hx_walk(FILE *out, hodge_ctx *H, const hodge_sum *Sum)
 {
-    hx_states S = {0, 0, NULL, {0, 0, NULL, NULL}};
+    hx_states S = {0, 0, NULL, {0}};
     slong D = Sum->D, steps = 0, i;
     slong *km = xcalloc((size_t)(2 * D + 2), sizeof(slong)), *cm = km + D + 1;
     int st = WK_OK;

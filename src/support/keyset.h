@@ -15,10 +15,17 @@ typedef struct {
     slong n;      /* key length */
 } keyset_entry;
 
+/* A slot of the open addressing: the entry's hash is kept beside its index, so a probe that meets
+   another key compares one word without reading the entry (a cache miss in large tables). */
+typedef struct {
+    ulong hash;
+    slong idx;                 /* -1 = empty, otherwise an entry index */
+} keyset_slot;
+
 typedef struct keyset {
     slong len, alloc;          /* keys stored / entries allocated */
     keyset_entry *ent;
-    slong *slot;               /* open addressing: -1 = empty, otherwise an entry index */
+    keyset_slot *slot;
     slong nslots;              /* a power of two, kept >= 2 len */
     slong *pool;               /* all keys, concatenated */
     slong pool_len, pool_alloc;

@@ -3,6 +3,9 @@
  * Faber-Pandharipande with kappa classes traded for points) agree on random integrands
  * prod psi_i^{d_i} prod kappa_j prod lambda_j prod ch_k on Mbar_{g,n}, g <= 5, n <= 4.
  * Both routes are independent code; they share only the psi correlators of correlators/wk.h.
+ * Then integrands holding lambda_g or lambda_{g-1}^2, which the operator route keeps as lambda_g
+ * whole (after Mumford's relation lambda_{g-1}^2 = 2 lambda_{g-2} lambda_g), Mumford's route
+ * expanding everything.
  * Also: the terms of one step of Mumford's formula (hodge_mumford_terms, what explain prints),
  * each evaluated by the operator route, add up to the integral by the operator route.
  * The count scales with PSIKAPPA_TEST_MULTIPLIER (5000 by default).
@@ -51,6 +54,33 @@ static void random_integrand(flint_rand_t st, integrand *I)
         K = D - H;
     add_factors(st, I->km, K, 3);
     for (slong i = 0; i < D - H - K; i++)
+        I->d[n_randint(st, (ulong) I->n)]++;
+}
+
+/* Draws an integrand holding lambda_g (top = 1) or lambda_{g-1}^2 (top = 2), the two that the
+   operator route keeps whole (lambda_g) instead of expanding, times random factors of the rest of
+   the degree. */
+static void random_top_integrand(flint_rand_t st, integrand *I, int top)
+{
+    slong D, R, H, L, K;
+    do {
+        memset(I, 0, sizeof(*I));
+        I->g = (top == 2 ? 2 : 1) + (slong) n_randint(st, top == 2 ? 4 : 5);
+        I->n = (slong) n_randint(st, 5);
+        D = 3 * I->g - 3 + I->n;
+        R = D - (top == 2 ? 2 * I->g - 2 : I->g);
+    } while (2 * I->g - 2 + I->n <= 0 || R < 0 || (I->n == 0 && R > 0 && I->g > 4));
+    if (top == 2)
+        I->lm[I->g - 1] = 2;
+    else
+        I->lm[I->g] = 1;
+    H = (slong) n_randint(st, (ulong) (R < 4 ? R + 1 : 5));
+    L = I->g >= 2 ? (slong) n_randint(st, (ulong) (H + 1)) : 0;     /* lambda_j, j < g */
+    add_factors(st, I->lm, L, I->g - 1);
+    add_factors(st, I->cm, H - L, IMAX);
+    K = I->n == 0 ? R - H : (slong) n_randint(st, (ulong) (R - H + 1));
+    add_factors(st, I->km, K, 3);
+    for (slong i = 0; i < R - H - K; i++)
         I->d[n_randint(st, (ulong) I->n)]++;
 }
 
@@ -159,6 +189,25 @@ int main(void)
     }
     printf("GRR route vs FP route: %ld of %ld random integrands agree (%ld nonzero; genus 1..5, <= 4 points)\n",
            agree, iters, nonzero);
+    long tops = unit_iterations(2000), top_agree = 0, top_nonzero = 0;
+    for (long it = 0; it < tops; it++) {
+        integrand I;
+        random_top_integrand(st, &I, 1 + (int) (it % 2));
+        int s1 = hodge_integral_lambda(a, H, HODGE_ROUTE_GRR, I.g, I.d, I.n, I.km, IMAX, I.lm, IMAX, I.cm, IMAX, 0);
+        int s2 = hodge_integral_lambda(b, H, HODGE_ROUTE_FP, I.g, I.d, I.n, I.km, IMAX, I.lm, IMAX, I.cm, IMAX, 0);
+        int ok = s1 == WK_OK && s2 == WK_OK && fmpq_equal(a, b);
+        top_agree += ok;
+        top_nonzero += ok && !fmpq_is_zero(a);
+        UNIT_CHECK(&rep, ok, "lambda_g kept whole: GRR route vs FP route (status %d, %d)", s1, s2);
+        if (!ok) {
+            print_integrand(&I);
+            unit_print_fmpq("GRR", a);
+            unit_print_fmpq("FP", b);
+        }
+    }
+    printf("integrands with lambda_g or lambda_{g-1}^2 (the operator keeps lambda_g whole), GRR route vs FP "
+           "route: %ld of %ld agree (%ld nonzero)\n", top_agree, tops, top_nonzero);
+    UNIT_CHECK(&rep, 2 * top_nonzero > tops, "most lambda_g integrands are nonzero (%ld of %ld)", top_nonzero, tops);
     long terms = test_mumford_terms(st, H, unit_iterations(500));
     printf("one step of Mumford's formula (the terms explain prints) vs FP route: %ld random integrands\n", terms);
     fmpq_clear(a);

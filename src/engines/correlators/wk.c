@@ -261,10 +261,12 @@ static int wk_dvv_sum_split(wk_table *T, wk_dvv_ctx *c, fmpz_t x)
             sizeI += c->a[i];
             sumI += c->a[i] * c->val[i];
         }
-        for (g1 = 0; st == WK_OK && g1 <= c->g; g1++) {
+        /* r = 3 g1 - 2 + |I| - sum(I) must lie in 0..k-1: only a third of the genera can */
+        slong lo = sumI - sizeI + 2, hi = sumI - sizeI + 1 + c->k;
+        lo = lo <= 0 ? 0 : (lo + 2) / 3;
+        hi = hi < 0 ? -1 : FLINT_MIN(hi / 3, c->g);
+        for (g1 = lo; st == WK_OK && g1 <= hi; g1++) {
             r = 3 * g1 - 2 + sizeI - sumI;
-            if (r < 0 || r > c->k - 1)
-                continue;
             if ((g1 == 0 && sizeI < 2) || (g1 == c->g && c->ns - sizeI < 2))
                 continue;                            /* unstable factor: counts as zero */
             w = wk_dvv_get_split_weight(c, r, c->k - 1 - r);

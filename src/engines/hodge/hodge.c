@@ -136,9 +136,17 @@ int hodge_check_args(const hodge_ctx *H, int route, slong g, const slong *d, slo
 int hodge_integral(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
                    const slong *kmult, slong kmax, const slong *cmult, slong cmax)
 {
+    return hodge_integral_top(res, H, route, g, d, n, kmult, kmax, cmult, cmax, 0);
+}
+
+int hodge_integral_top(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
+                       const slong *kmult, slong kmax, const slong *cmult, slong cmax, int top)
+{
     static const slong zeros[1] = {0};
     int st = hodge_check_args(H, route, g, d, n, kmult, kmax, cmult, cmax);
     fmpq_zero(res);
+    if (st == WK_OK && top && route != HODGE_ROUTE_FP)
+        st = WK_BADARG;
     if (st != WK_OK)
         return st;
     /* the routes read index 0 of every array and copy d with memcpy: never hand them NULL */
@@ -147,5 +155,5 @@ int hodge_integral(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d,
     cmult = cmax > 0 ? cmult : zeros;
     if (route == HODGE_ROUTE_GRR)
         return hodge_grr_integral(res, H, g, d, n, kmult, kmax, cmult, cmax);
-    return hodge_fp_integral(res, H, g, d, n, kmult, kmax, cmult, cmax);
+    return hodge_fp_integral(res, H, g, d, n, kmult, kmax, cmult, cmax, top);
 }

@@ -18,16 +18,17 @@
  * equations hold with ch factors (E is pulled back along the forgetful map), which removes
  * psi exponents 0 and 1 first.  Kappa classes are traded for points first:
  *     int_{g,n} X kappa_a prod_b kappa_b = int_{g,n+1} X psi_{n+1}^{a+1} prod_b (kappa_b - psi_{n+1}^b)
- * (Arbarello-Cornalba kappa, pi^* kappa_b = kappa_b - psi_{n+1}^b).  No code is shared with
- * hodge_grr.c.
+ * (Arbarello-Cornalba kappa, pi^* kappa_b = kappa_b - psi_{n+1}^b).
+ * The class lambda_g may be kept whole instead of expanded into ch classes (the state carries a
+ * flag; hodge_fp_internal.h): it is pulled back along forgetful maps, restricts to 0 on the
+ * irreducible boundary and to lambda_{g_1} lambda_{g_2} on a separating one, so the operator's
+ * terms carry it along, and with no ch factor left the lambda_g formula gives the value.  The
+ * separating sum is in hodge_fp_split.c.  No code is shared with hodge_grr.c.
  */
 #include <stdlib.h>
 #include <string.h>
 #include <flint/fmpz.h>
-#include "binom.h"
-#include "hodge_internal.h"
-
-static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cm, slong cmax);
+#include "hodge_fp_internal.h"
 
 /* The value of the states that vanish (unstable, wrong degree, E = 0, ch_{2k} = 0). */
 static const fmpq fp_zero = {0, 1};
@@ -36,15 +37,7 @@ static const fmpq fp_zero = {0, 1};
    than the memo lookup). */
 #define FP_STACK 64
 
-/* The sum of the terms of one recursion step, num/den, kept over the least common multiple of the
-   term denominators seen so far and reduced once at the end: the terms of a step mostly share
-   their denominators, so a division replaces the gcds of a rational addition per term.  p/q is
-   the term being added (q > 0); x, y, w and b are scratch. */
-typedef struct {
-    fmpz_t num, den, p, q, x, y, w, b;
-} fp_sum;
-
-static void fp_sum_init(fp_sum *S)
+void hodge_fp_sum_init(hodge_fp_sum *S)
 {
     fmpz_init(S->num);
     fmpz_init_set_ui(S->den, 1);
@@ -56,7 +49,7 @@ static void fp_sum_init(fp_sum *S)
     fmpz_init(S->b);
 }
 
-static void fp_sum_clear(fp_sum *S)
+void hodge_fp_sum_clear(hodge_fp_sum *S)
 {
     fmpz_clear(S->num);
     fmpz_clear(S->den);
@@ -68,8 +61,8 @@ static void fp_sum_clear(fp_sum *S)
     fmpz_clear(S->b);
 }
 
-/* num/den += p/q (q > 0), den growing to lcm(den, q) when q does not divide it. */
-static void fp_sum_add_term(fp_sum *S)
+/* num/den += p/q, den growing to lcm(den, q) when q does not divide it. */
+void hodge_fp_sum_add_term(hodge_fp_sum *S)
 {
     if (fmpz_equal(S->q, S->den)) {
         fmpz_add(S->num, S->num, S->p);
@@ -86,34 +79,36 @@ static void fp_sum_add_term(fp_sum *S)
 }
 
 /* res = num/den in canonical form. */
-static void fp_sum_get(fmpq_t res, const fp_sum *S)
+static void fp_sum_get(fmpq_t res, const hodge_fp_sum *S)
 {
     fmpq_set_fmpz_frac(res, S->num, S->den);
 }
 
-/* sum += (num/den) * (g, e, cm) (den > 0); returns the status of the correlator. */
-static int fp_addmul(fp_sum *S, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
-                     const slong *cm, slong cmax)
+/* sum += (num/den) * (g, e, cm, lambda_g if top) (den > 0); returns the status of the correlator. */
+static int fp_addmul(hodge_fp_sum *S, hodge_ctx *H, slong num, slong den, slong g, const slong *e, slong n,
+                     const slong *cm, slong cmax, int top)
 {
     const fmpq *v;
-    int st = fp_corr(&v, H, g, e, n, cm, cmax);
+    slong f;
+    int st = hodge_fp_corr(&v, &f, H, g, e, n, cm, cmax, top);
     if (st != WK_OK || fmpq_is_zero(v))
         return st;
-    fmpz_mul_si(S->p, fmpq_numref(v), num);
+    fmpz_mul_si(S->p, fmpq_numref(v), num * f);
     fmpz_mul_si(S->q, fmpq_denref(v), den);
-    fp_sum_add_term(S);
+    hodge_fp_sum_add_term(S);
     return st;
 }
 
 /* The string equation (d[n-1] = 0) or the dilaton equation (d[n-1] = 1) on sorted d, when
    Mbar_{g,n-1} is stable.  Equal exponents are grouped: each distinct value counts once per leg. */
-static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, const slong *cm, slong cmax)
+static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, const slong *cm, slong cmax,
+                             int top)
 {
     int st = WK_OK;
-    fp_sum S;
-    fp_sum_init(&S);
+    hodge_fp_sum S;
+    hodge_fp_sum_init(&S);
     if (d[n - 1] == 1)
-        st = fp_addmul(&S, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax);
+        st = fp_addmul(&S, H, 2 * g - 3 + n, 1, g, d, n - 1, cm, cmax, top);
     for (slong j = 0; j < n - 1 && st == WK_OK && d[n - 1] == 0; j++) {
         slong c = 1;
         if (d[j] == 0 || (j > 0 && d[j] == d[j - 1]))
@@ -121,201 +116,17 @@ static int fp_string_dilaton(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong 
         while (j + c < n - 1 && d[j + c] == d[j])
             c++;
         d[j]--;
-        st = fp_addmul(&S, H, c, 1, g, d, n - 1, cm, cmax);
+        st = fp_addmul(&S, H, c, 1, g, d, n - 1, cm, cmax, top);
         d[j]++;
     }
     fp_sum_get(res, &S);
-    fp_sum_clear(&S);
-    return st;
-}
-
-/* Scratch of one splitting enumeration: distinct leg values and their counts, the counters.
-   The counters are walked as one list t[0..m-1]: the r leg groups, then ch_1..ch_cmax (y = t + r - 1);
-   each unit of item i moves s = deg1 - (n1 - 1) by wt[i], and side 1 has node exponent
-   a = 3 g1 - 2 - s, so only the s in a window of width 2l-2 give terms. */
-typedef struct {
-    slong r, *val, *cnt, *x;       /* legs */
-    slong *cy, *y;                 /* ch multiplicities 1..cmax and the part going to side 1 */
-    slong *e1, *e2, *c1, *c2;
-    slong m, *wt, *lim, *rmin, *rmax;   /* per item: step of s, largest count, bounds of the rest */
-} fp_split_buf;
-
-/* w = prod_i binom(cnt_i, x_i) prod_k binom(cy_k, y_k) (-1)^a: the labelled distributions
-   of legs and ch factors giving the current counters (b is scratch). */
-static void fp_split_weight(fmpz_t w, fmpz_t b, const fp_split_buf *B, slong cmax, slong a)
-{
-    fmpz_set_si(w, a % 2 ? -1 : 1);
-    for (slong i = 0; i < B->r; i++)
-        binom_mul(w, b, B->cnt[i], B->x[i]);
-    for (slong k = 1; k <= cmax; k++)
-        binom_mul(w, b, B->cy[k], B->y[k]);
-}
-
-/* sum += weight/2 * <e1 | c1>_{g1} <e2 | c2>_{g2} (weight doubled if twice; the second factor
-   only if the first is nonzero).  The first value is copied into p/q at once: finding the second
-   may move the memo's entries. */
-static int fp_split_eval(fp_sum *S, hodge_ctx *H, const fp_split_buf *B, slong g1, slong g2,
-                         slong n1, slong n2, slong cmax, slong a, int twice)
-{
-    const fmpq *v;
-    int st = fp_corr(&v, H, g1, B->e1, n1, B->c1, cmax);
-    if (st != WK_OK || fmpq_is_zero(v))
-        return st;
-    fmpz_set(S->p, fmpq_numref(v));
-    fmpz_set(S->q, fmpq_denref(v));
-    st = fp_corr(&v, H, g2, B->e2, n2, B->c2, cmax);
-    if (st != WK_OK || fmpq_is_zero(v))
-        return st;
-    fp_split_weight(S->w, S->b, B, cmax, a);
-    fmpz_mul(S->p, S->p, fmpq_numref(v));
-    fmpz_mul(S->p, S->p, S->w);
-    fmpz_mul(S->q, S->q, fmpq_denref(v));
-    if (!twice)
-        fmpz_mul_2exp(S->q, S->q, 1);
-    fp_sum_add_term(S);
-    return st;
-}
-
-/* sum += sign * weight/2 * <tau_a tau_{d_I} | C_1>_{g1} <tau_b tau_{d_J} | C_2>_{g2} for the
-   current counters (weight doubled if twice); a fixed by the dimension of side 1. */
-static int fp_split_term(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong g1, slong g, slong n, slong cmax, slong l,
-                         int twice)
-{
-    slong n1 = 1, deg1 = 0, ych = 0, ytot = 0, k1 = 0, k2 = 0, a;
-    for (slong i = 0; i < B->r; i++)
-        n1 += B->x[i], deg1 += B->x[i] * B->val[i];
-    for (slong k = 1; k <= cmax; k++)
-        ych += B->y[k], ytot += B->cy[k], deg1 += k * B->y[k];
-    if ((g1 == 0 && ych > 0) || (g - g1 == 0 && ych < ytot) || 2 * g1 - 2 + n1 <= 0
-        || 2 * (g - g1) - 2 + (n - n1 + 2) <= 0)
-        return WK_OK;
-    a = 3 * g1 - 3 + n1 - deg1;
-    if (a < 0 || a > 2 * l - 2)
-        return WK_OK;
-    for (slong i = 0; i < B->r; i++)
-        for (slong j = 0; j < B->cnt[i]; j++)
-            if (j < B->x[i])
-                B->e1[k1++] = B->val[i];
-            else
-                B->e2[k2++] = B->val[i];
-    B->e1[k1++] = a;
-    B->e2[k2++] = 2 * l - 2 - a;
-    for (slong k = 1; k <= cmax; k++)
-        B->c1[k] = B->y[k], B->c2[k] = B->cy[k] - B->y[k];
-    return fp_split_eval(S, H, B, g1, g - g1, k1, k2, cmax, a, twice);
-}
-
-/* Allocates the scratch of a splitting of sorted d[0..n-1] and cm[1..cmax] (one block).
-   Returns 0 if memory is exhausted. */
-static int fp_split_alloc(fp_split_buf *B, const slong *d, slong n, const slong *cm, slong cmax)
-{
-    slong m = n + cmax;
-    slong *p = calloc((size_t) (2 * n + 2 * (n + 2) + 3 * (cmax + 1) + 5 * m + 2) + 1, sizeof(slong));
-    if (p == NULL)
-        return 0;
-    B->val = p, B->cnt = p + n;
-    B->e1 = p + 2 * n, B->e2 = B->e1 + n + 2;
-    B->cy = B->e2 + n + 2, B->c1 = B->cy + cmax + 1, B->c2 = B->c1 + cmax + 1;
-    B->x = B->c2 + cmax + 1, B->wt = B->x + m, B->lim = B->wt + m, B->rmin = B->lim + m, B->rmax = B->rmin + m + 1;
-    B->r = 0;
-    for (slong i = 0; i < n; i++) {
-        if (i == 0 || d[i] != d[i - 1])
-            B->val[B->r++] = d[i];
-        B->cnt[B->r - 1]++;
-    }
-    for (slong k = 1; k <= cmax; k++)
-        B->cy[k] = cm[k];
-    B->m = B->r + cmax;
-    B->y = B->x + B->r - 1;
-    for (slong i = 0; i < B->r; i++)
-        B->wt[i] = B->val[i] - 1;
-    for (slong k = 1; k <= cmax; k++)
-        B->wt[B->r + k - 1] = k;
-    return 1;
-}
-
-/* Sets the counts of the items for side 1 of genus g1 (no ch factor in genus 0) and the bounds
-   rmin[i], rmax[i] of the s that items i..m-1 can add. */
-static void fp_split_limits(fp_split_buf *B, slong g1, slong cmax)
-{
-    for (slong i = 0; i < B->r; i++)
-        B->lim[i] = B->cnt[i];
-    for (slong k = 1; k <= cmax; k++)
-        B->lim[B->r + k - 1] = g1 == 0 ? 0 : B->cy[k];
-    B->rmin[B->m] = B->rmax[B->m] = 0;
-    for (slong i = B->m - 1; i >= 0; i--) {
-        slong v = B->wt[i] * B->lim[i];
-        B->rmin[i] = B->rmin[i + 1] + (v < 0 ? v : 0);
-        B->rmax[i] = B->rmax[i + 1] + (v > 0 ? v : 0);
-    }
-}
-
-/* Compares the splitting (g1, legs x, ch factors y) with its mirror image (g2, cnt - x, cy - y),
-   whose term is the same (node exponents a and 2l-2-a, same sign and binomials): -1, 0 (its own
-   image) or 1. */
-static int fp_mirror_cmp(const fp_split_buf *B, slong g1, slong g2, slong cmax)
-{
-    if (g1 != g2)
-        return g1 < g2 ? -1 : 1;
-    for (slong i = 0; i < B->r; i++)
-        if (B->x[i] != B->cnt[i] - B->x[i])
-            return B->x[i] < B->cnt[i] - B->x[i] ? -1 : 1;
-    for (slong k = 1; k <= cmax; k++)
-        if (B->y[k] != B->cy[k] - B->y[k])
-            return B->y[k] < B->cy[k] - B->y[k] ? -1 : 1;
-    return 0;
-}
-
-/* Walks the counters t[i..m-1] whose s (t[0..i-1] give s0) lies in [lo, hi]; at the end adds the
-   term of a splitting that is not larger than its mirror image (file comment of fp_split). */
-static int fp_split_walk(fp_sum *S, hodge_ctx *H, fp_split_buf *B, slong i, slong s0, slong lo, slong hi,
-                         slong g1, slong g, slong n, slong cmax, slong l)
-{
-    int st = WK_OK;
-    if (i == B->m) {
-        int side = fp_mirror_cmp(B, g1, g - g1, cmax);
-        if (side <= 0)              /* a splitting and its mirror image give equal terms */
-            st = fp_split_term(S, H, B, g1, g, n, cmax, l, side < 0);
-        return st;
-    }
-    slong t0 = 0, t1 = B->lim[i], w = B->wt[i];
-    if (w > 0) {                        /* the counts t whose s can still reach the window */
-        slong up = hi - B->rmin[i + 1] - s0, down = lo - B->rmax[i + 1] - s0;
-        t1 = up < 0 ? -1 : FLINT_MIN(t1, up / w);
-        t0 = down <= 0 ? 0 : (down + w - 1) / w;
-    }
-    for (slong t = t0; t <= t1 && st == WK_OK; t++) {
-        slong s = s0 + w * t;
-        if (s + B->rmin[i + 1] > hi || s + B->rmax[i + 1] < lo)
-            continue;
-        B->x[i] = t;
-        st = fp_split_walk(S, H, B, i + 1, s, lo, hi, g1, g, n, cmax, l);
-    }
-    B->x[i] = 0;
-    return st;
-}
-
-/* sum += 1/2 sum over ordered splittings of the separating boundary term;
-   a splitting and its mirror image are summed once, doubled.  Only the counters whose node
-   exponent a lies in 0..2l-2 are visited. */
-static int fp_split(fp_sum *S, hodge_ctx *H, slong g, const slong *d, slong n, const slong *cm,
-                    slong cmax, slong l)
-{
-    fp_split_buf B;
-    int st = WK_OK;
-    if (!fp_split_alloc(&B, d, n, cm, cmax))
-        return WK_LIMIT;
-    for (slong g1 = 0; 2 * g1 <= g && st == WK_OK; g1++) {
-        fp_split_limits(&B, g1, cmax);
-        st = fp_split_walk(S, H, &B, 0, 0, 3 * g1 - 2 - (2 * l - 2), 3 * g1 - 2, g1, g, n, cmax, l);
-    }
-    free(B.val);
+    hodge_fp_sum_clear(&S);
     return st;
 }
 
 /* sum += sum_{a=0}^{2l-2} (-1)^a/2 <tau_a tau_{2l-2-a} tau_d | C>_{g-1} (irreducible boundary),
    pairing a with 2l-2-a, which give the same correlator with the same sign. */
-static int fp_irreducible(fp_sum *S, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
+static int fp_irreducible(hodge_fp_sum *S, hodge_ctx *H, slong g, const slong *d, slong n, slong *e,
                           const slong *cm, slong cmax, slong l)
 {
     int st = WK_OK;
@@ -323,43 +134,44 @@ static int fp_irreducible(fp_sum *S, hodge_ctx *H, slong g, const slong *d, slon
     for (slong a = 0; a <= l - 1 && st == WK_OK; a++) {
         slong sign = a % 2 ? -1 : 1;
         e[n] = a, e[n + 1] = 2 * l - 2 - a;
-        st = fp_addmul(S, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax);
+        st = fp_addmul(S, H, sign, a == l - 1 ? 2 : 1, g - 1, e, n + 2, cm, cmax, 0);
     }
     return st;
 }
 
-/* res = <tau_d | C + ch_{2l-1}>_g by the coefficient form of the operator (file comment);
-   d sorted, cm holds C + ch_{2l-1} and is restored before returning. */
-static int fp_step(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, slong *cm, slong cmax)
+/* res = <tau_d | C + ch_{2l-1}>_g (times lambda_g if top) by the coefficient form of the operator
+   (file comment); d sorted, cm holds C + ch_{2l-1} and is restored before returning.  lambda_g
+   restricts to 0 on the irreducible divisor (E has a trivial quotient there). */
+static int fp_step(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, slong *cm, slong cmax, int top)
 {
     slong k = cmax, l = (k + 1) / 2;
     slong *e = malloc((size_t) (n + 2) * sizeof(slong));
     fmpq_t c;
-    fp_sum S;
+    hodge_fp_sum S;
     int st = WK_OK;
     if (e == NULL)
         return WK_LIMIT;
     fmpq_init(c);
-    fp_sum_init(&S);
+    hodge_fp_sum_init(&S);
     cm[k]--;
     memcpy(e, d, (size_t) n * sizeof(slong));
     e[n] = 2 * l;
-    st = fp_addmul(&S, H, 1, 1, g, e, n + 1, cm, cmax);
+    st = fp_addmul(&S, H, 1, 1, g, e, n + 1, cm, cmax, top);
     for (slong i = 0; i < n && st == WK_OK; i++) {
         e[i] += k;
-        st = fp_addmul(&S, H, -1, 1, g, e, n, cm, cmax);
+        st = fp_addmul(&S, H, -1, 1, g, e, n, cm, cmax, top);
         e[i] -= k;
     }
-    if (st == WK_OK)
+    if (st == WK_OK && !top)
         st = fp_irreducible(&S, H, g, d, n, e, cm, cmax, l);
     if (st == WK_OK)
-        st = fp_split(&S, H, g, d, n, cm, cmax, l);
+        st = hodge_fp_split(&S, H, g, d, n, cm, cmax, l, top);
     cm[k]++;
     fp_sum_get(res, &S);
     hodge_coef(c, H, l);
     fmpq_mul(res, res, c);
     fmpq_clear(c);
-    fp_sum_clear(&S);
+    hodge_fp_sum_clear(&S);
     free(e);
     return st;
 }
@@ -374,21 +186,21 @@ static slong fp_key(slong *key, slong g, const slong *d, slong n, const slong *c
     return n + cmax + 2;
 }
 
-/* Packed key of a state that reaches the memo of fp_corr (sorted d, no ch_{2k}): g, n, cmax, then
-   d and the odd multiplicities cm[1], cm[3], .. four to a word in 16-bit fields; the memo hashes
-   and compares far fewer words than with fp_key.  An entry of 2^16 or more (not met in practice)
-   gives the unpacked form, told apart by a negative third word.  key has room for n + cmax + 3
-   entries; returns its length. */
-static slong fp_key_packed(slong *key, slong g, const slong *d, slong n, const slong *cm, slong cmax)
+/* Packed key of a state that reaches the memo of hodge_fp_corr (sorted d, no ch_{2k}): g, n,
+   cmax + 2^16 top, then d and the odd multiplicities cm[1], cm[3], .. four to a word in 16-bit
+   fields; the memo hashes and compares far fewer words than with fp_key.  An entry of 2^16 or more
+   (not met in practice) gives the unpacked form, told apart by a negative third word.  key has
+   room for n + cmax + 3 entries; returns its length. */
+static slong fp_key_packed(slong *key, slong g, const slong *d, slong n, const slong *cm, slong cmax, int top)
 {
-    slong len = 3, f = 0;
+    slong len = 3, f = 0, head = cmax + ((slong) top << 16);
     ulong w = 0;
     int wide = 0;
     for (slong i = 0; i < n; i++)
         wide |= d[i] >= 0x10000;
     for (slong k = 1; k <= cmax; k += 2)
         wide |= cm[k] >= 0x10000;
-    key[0] = g, key[1] = n, key[2] = wide ? -1 - cmax : cmax;
+    key[0] = g, key[1] = n, key[2] = wide ? -1 - head : head;
     if (wide)
         return 3 + fp_key(key + 3, g, d, n, cm, cmax);
     for (slong i = 0; i < n + (cmax + 1) / 2; i++) {
@@ -412,20 +224,48 @@ static slong fp_degree(const slong *d, slong n, const slong *m, slong mmax)
     return s;
 }
 
-/* res = the step of a state with ch factors, on sorted d: string/dilaton or the operator; the
-   psi correlator itself when there is none. */
-static int fp_corr_compute(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
+/* res = int_{Mbar_{g,n}} prod psi_i^{d_i} lambda_g = binom(2g-3+n; d) b_g (g >= 1, degree
+   matching), the lambda_g formula of C. Faber, R. Pandharipande, "Hodge integrals and
+   Gromov-Witten theory", Invent. Math. 139 (2000) (conjectured by Getzler and Pandharipande),
+   with sum_g b_g t^{2g} = (t/2)/sin(t/2), i.e. b_g = (1 - 2^{1-2g}) |B_{2g}|/(2g)!. */
+static void fp_lambda_top(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n)
+{
+    fmpz_t f;
+    fmpz_init(f);
+    hodge_coef(res, H, g);
+    fmpq_abs(res, res);
+    fmpz_one(f);
+    fmpz_mul_2exp(f, f, (ulong) (2 * g - 1));
+    fmpq_div_fmpz(res, res, f);
+    fmpz_sub_ui(f, f, 1);
+    fmpq_mul_fmpz(res, res, f);
+    fmpz_fac_ui(f, (ulong) (2 * g - 3 + n));
+    fmpq_mul_fmpz(res, res, f);
+    for (slong i = 0; i < n; i++) {
+        fmpz_fac_ui(f, (ulong) d[i]);
+        fmpq_div_fmpz(res, res, f);
+    }
+    fmpz_clear(f);
+}
+
+/* res = the value of a state on sorted d: the psi correlator or the lambda_g formula when no ch
+   factor is left, else string/dilaton or the operator. */
+static int fp_corr_compute(fmpq_t res, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax, int top)
 {
     int reduce = n > 0 && d[n - 1] <= 1 && 2 * g - 3 + n > 0;
-    if (cmax == 0)
+    if (cmax == 0 && !top)
         return wk_table_correlator(res, H->T, g, d, n);     /* kept here: the table's lookups cost more */
-    return reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax) : fp_step(res, H, g, d, n, cm, cmax);
+    if (cmax == 0) {
+        fp_lambda_top(res, H, g, d, n);
+        return WK_OK;
+    }
+    return reduce ? fp_string_dilaton(res, H, g, d, n, cm, cmax, top) : fp_step(res, H, g, d, n, cm, cmax, top);
 }
 
 /* *val = the memoised value of the state (sorted d), computed and stored on a miss.  States
    with psi exponents 0 or 1 are memoised too: their string and dilaton expansions branch over
    the points and met the same states again and again. */
-static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax)
+static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong n, slong *cm, slong cmax, int top)
 {
     slong *key, small[FP_STACK];
     slong klen;
@@ -434,12 +274,12 @@ static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong
     key = 2 * (n + cmax + 3) <= FP_STACK ? small : malloc((size_t) (2 * (n + cmax + 3)) * sizeof(slong));
     if (key == NULL)
         return WK_LIMIT;
-    klen = fp_key_packed(key, g, d, n, cm, cmax);
+    klen = fp_key_packed(key, g, d, n, cm, cmax, top);
     *val = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
     st = *val != NULL ? WK_OK : hodge_poll(H, HODGE_ROUTE_FP);
     if (*val == NULL && st == WK_OK) {
         fmpq_init(res);
-        st = fp_corr_compute(res, H, g, d, n, cm, cmax);
+        st = fp_corr_compute(res, H, g, d, n, cm, cmax, top);
         if (st == WK_OK && H->limit > 0 && H->memo[HODGE_ROUTE_FP].len >= H->limit)
             st = WK_LIMIT;              /* states finished during the recursion count too */
         if (st == WK_OK)
@@ -451,16 +291,36 @@ static int fp_corr_memo(const fmpq **val, hodge_ctx *H, slong g, slong *d, slong
     return st;
 }
 
-/* *val = <tau_d | C>_g, C given by cm[1..cmax]; zero for unstable spaces and wrong degrees.  *val
-   points into the memo (or at fp_zero) and stays valid until the next state is stored. */
-static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, slong n, const slong *cmin, slong cmax)
+/* Removes the psi exponents 1 of sorted d[0..*n-1] by the dilaton equation
+   <tau_1 tau_d | C>_{g,n+1} = (2g-2+n) <tau_d | C>_{g,n} (the Hodge classes are pulled back), as
+   long as the space stays stable and the factor below 2^31; returns the product of the factors.
+   Those states then never reach the memo: their lookups become lookups of the smaller state. */
+static slong fp_strip_dilaton(slong *d, slong *n, slong g)
+{
+    slong f = 1, i = *n, ones = 0;
+    while (i > 0 && d[i - 1] == 0)
+        i--;
+    while (i - ones > 0 && d[i - ones - 1] == 1 && 2 * g - 3 + (*n - ones) > 0
+           && f * (2 * g - 3 + (*n - ones)) < ((slong) 1 << 31))
+        f *= 2 * g - 3 + (*n - ones), ones++;
+    if (ones > 0) {
+        memmove(d + i - ones, d + i, (size_t) (*n - i) * sizeof(slong));
+        *n -= ones;
+    }
+    return f;
+}
+
+int hodge_fp_corr(const fmpq **val, slong *factor, hodge_ctx *H, slong g, const slong *din, slong n,
+                  const slong *cmin, slong cmax, int top)
 {
     slong *buf, small[FP_STACK];
     int st;
     *val = &fp_zero;
+    *factor = 1;
+    top = top && g > 0;                 /* lambda_0 = 1 */
     while (cmax > 0 && cmin[cmax] == 0)
         cmax--;
-    if (2 * g - 2 + n <= 0 || fp_degree(din, n, cmin, cmax) != 3 * g - 3 + n)
+    if (2 * g - 2 + n <= 0 || fp_degree(din, n, cmin, cmax) + (top ? g : 0) != 3 * g - 3 + n)
         return WK_OK;
     if (g == 0 && cmax > 0)
         return WK_OK;                   /* E = 0 in genus 0 */
@@ -473,7 +333,9 @@ static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, sl
     memcpy(buf, din, (size_t) n * sizeof(slong));
     memcpy(buf + n, cmin, (size_t) (cmax + 1) * sizeof(slong));
     hodge_sort_desc(buf, n);
-    st = fp_corr_memo(val, H, g, buf, n, buf + n, cmax);
+    slong n0 = n;
+    *factor = fp_strip_dilaton(buf, &n, g);
+    st = fp_corr_memo(val, H, g, buf, n, buf + n0, cmax, top);
     if (buf != small)
         free(buf);
     if (st != WK_OK || *val == NULL)
@@ -482,13 +344,13 @@ static int fp_corr(const fmpq **val, hodge_ctx *H, slong g, const slong *din, sl
 }
 
 static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, const slong *km, slong kmax,
-                    const slong *cm, slong cmax);
+                    const slong *cm, slong cmax, int top);
 
 /* res += sum over j_b <= km[b] of prod binom(km[b], j_b) (-1)^{j_b} times the state with one
    more point of exponent e0 + sum b j_b and kappa multiplicities km[b] - j_b: the expansion of
    prod_b (kappa_b - psi_{n+1}^b)^{km[b]}.  e has room for n + 1 entries and starts with d. */
 static int fp_kappa_pull(fmpq_t res, hodge_ctx *H, slong g, slong *e, slong n, slong e0, const slong *km,
-                         slong kmax, const slong *cm, slong cmax)
+                         slong kmax, const slong *cm, slong cmax, int top)
 {
     slong *j = calloc((size_t) (2 * kmax + 2), sizeof(slong)), *rest;
     int st = WK_OK;
@@ -508,7 +370,7 @@ static int fp_kappa_pull(fmpq_t res, hodge_ctx *H, slong g, slong *e, slong n, s
             fmpz_mul(w, w, b);
         }
         e[n] = ex;
-        st = fp_kappa(v, H, g, e, n + 1, rest, kmax, cm, cmax);
+        st = fp_kappa(v, H, g, e, n + 1, rest, kmax, cm, cmax, top);
         fmpq_mul_fmpz(v, v, w);
         (sj % 2 ? fmpq_sub : fmpq_add)(res, res, v);
         fmpz_clear(w);
@@ -519,10 +381,11 @@ static int fp_kappa_pull(fmpq_t res, hodge_ctx *H, slong g, slong *e, slong n, s
     return st;
 }
 
-/* res = int prod psi^d prod kappa^km prod ch^cm on Mbar_{g,n}: removes the largest kappa index a
-   by int_{g,n} X kappa_a = int_{g,n+1} pi^*X psi_{n+1}^{a+1} (file comment); memoised. */
+/* res = int prod psi^d prod kappa^km prod ch^cm (lambda_g) on Mbar_{g,n}: removes the largest
+   kappa index a by int_{g,n} X kappa_a = int_{g,n+1} pi^*X psi_{n+1}^{a+1} (file comment; the
+   Hodge classes are pulled back); memoised. */
 static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, const slong *km, slong kmax,
-                    const slong *cm, slong cmax)
+                    const slong *cm, slong cmax, int top)
 {
     slong *buf, klen;
     const fmpq *hit;
@@ -534,11 +397,13 @@ static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, 
         cmax--;
     if (kmax == 0) {
         const fmpq *v;
-        int stc = fp_corr(&v, H, g, d, n, cm, cmax);
+        slong f;
+        int stc = hodge_fp_corr(&v, &f, H, g, d, n, cm, cmax, top);
         fmpq_set(res, v);
+        fmpq_mul_si(res, res, f);
         return stc;
     }
-    if (fp_degree(d, n, km, kmax) + fp_degree(d, 0, cm, cmax) != 3 * g - 3 + n)
+    if (fp_degree(d, n, km, kmax) + fp_degree(d, 0, cm, cmax) + (top ? g : 0) != 3 * g - 3 + n)
         return WK_OK;
     buf = malloc((size_t) (2 * n + 2 * kmax + cmax + 8) * sizeof(slong));
     if (buf == NULL)
@@ -546,7 +411,7 @@ static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, 
     slong *key = buf + n + 1, *km1 = key + n + kmax + cmax + 4;
     memcpy(buf, d, (size_t) n * sizeof(slong));
     hodge_sort_desc(buf, n);
-    key[0] = -1, key[1] = kmax;
+    key[0] = -1 - top, key[1] = kmax;    /* negative: never a key of hodge_fp_corr */
     memcpy(key + 2, km + 1, (size_t) kmax * sizeof(slong));
     klen = 2 + kmax + fp_key(key + 2 + kmax, g, buf, n, cm, cmax);
     hit = keymap_get(&H->memo[HODGE_ROUTE_FP], key, klen);
@@ -559,7 +424,7 @@ static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, 
     km1[kmax]--;
     st = hodge_poll(H, HODGE_ROUTE_FP);
     if (st == WK_OK)
-        st = fp_kappa_pull(res, H, g, buf, n, kmax + 1, km1, kmax, cm, cmax);
+        st = fp_kappa_pull(res, H, g, buf, n, kmax + 1, km1, kmax, cm, cmax, top);
     if (st == WK_OK)
         keymap_set(&H->memo[HODGE_ROUTE_FP], key, klen, res);
     else
@@ -569,7 +434,7 @@ static int fp_kappa(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n, 
 }
 
 int hodge_fp_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n,
-                      const slong *km, slong kmax, const slong *cm, slong cmax)
+                      const slong *km, slong kmax, const slong *cm, slong cmax, int top)
 {
-    return fp_kappa(res, H, g, d, n, km, kmax, cm, cmax);
+    return fp_kappa(res, H, g, d, n, km, kmax, cm, cmax, top && g > 0);
 }

@@ -46,11 +46,17 @@ int hodge_check_args(const hodge_ctx *H, int route, slong g, const slong *d, slo
                      const slong *kmult, slong kmax, const slong *cmult, slong cmax);
 
 /* Route entry points: the arguments are already checked (nonnegative, stable, bounded) by
-   hodge_integral; cm[1..cmax] are the ch multiplicities, km[1..kmax] the kappa ones. */
+   hodge_integral; cm[1..cmax] are the ch multiplicities, km[1..kmax] the kappa ones; top: times
+   lambda_g, kept whole (hodge_fp.c). */
 int hodge_grr_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n,
                        const slong *km, slong kmax, const slong *cm, slong cmax);
 int hodge_fp_integral(fmpq_t res, hodge_ctx *H, slong g, const slong *d, slong n,
-                      const slong *km, slong kmax, const slong *cm, slong cmax);
+                      const slong *km, slong kmax, const slong *cm, slong cmax, int top);
+
+/* hodge_integral times lambda_g when top is nonzero, the class kept whole by the operator route
+   (HODGE_ROUTE_FP only when top is set). */
+int hodge_integral_top(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
+                       const slong *kmult, slong kmax, const slong *cmult, slong cmax, int top);
 
 /* Advances the mixed-radix counter x[0..r-1] (digit i runs over 0..lim[i], digit 0 fastest);
    0 once it wraps back to all zeros.  The kappa expansion of hodge_fp.c and the splitting

@@ -81,10 +81,11 @@ static slong hodge_degree(const slong *d, slong n, const slong *kmult, slong kma
     return s;
 }
 
-/* res = sum over the terms c * prod ch_{2v+1}^{e_v} of P of c * hodge_integral(... cmult + e). */
+/* res = sum over the terms c * prod ch_{2v+1}^{e_v} of P of c * hodge_integral(... cmult + e),
+   times lambda_g (kept whole by the operator route) if top. */
 static int hodge_integrate_ch_poly(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
                                    const slong *kmult, slong kmax, const slong *cmult, slong cmax,
-                                   const fmpq_mpoly_t P, const fmpq_mpoly_ctx_t R)
+                                   const fmpq_mpoly_t P, const fmpq_mpoly_ctx_t R, int top)
 {
     slong nv = fmpq_mpoly_ctx_nvars(R), cm2max = cmax > 2 * nv - 1 ? cmax : 2 * nv - 1;
     slong *e = calloc((size_t) (nv + cm2max + 2), sizeof(slong)), *cm2;
@@ -102,7 +103,7 @@ static int hodge_integrate_ch_poly(fmpq_t res, hodge_ctx *H, int route, slong g,
             cm2[k] = k <= cmax && k > 0 ? cmult[k] : 0;
         for (slong u = 0; u < nv; u++)
             cm2[2 * u + 1] += e[u];
-        st = hodge_integral(v, H, route, g, d, n, kmult, kmax, cm2, cm2max);
+        st = hodge_integral_top(v, H, route, g, d, n, kmult, kmax, cm2, cm2max, top);
         fmpq_mul(v, v, c);
         fmpq_add(res, res, v);
     }
@@ -112,11 +113,38 @@ static int hodge_integrate_ch_poly(fmpq_t res, hodge_ctx *H, int route, slong g,
     return st;
 }
 
+/* The lambda classes left to expand, lm[1..g], when lambda_g can be kept whole by the operator
+   route (hodge_fp.c, where it makes the leaves closed forms): lambda_g itself, or lambda_{g-1}^2,
+   which Mumford's relation c(E) c(E^dual) = 1 in degree 2g-2 turns into 2 lambda_{g-2} lambda_g
+   (the other terms hold lambda_j with j > g).  Returns g, -g for the second case (the value is
+   to be doubled), or 0 when neither applies (lm untouched).  lmult[1..lmax], lmax <= g, lm
+   zeroed by the caller. */
+static slong hodge_lambda_keep_top(slong *lm, const slong *lmult, slong lmax, slong g)
+{
+    slong keep = 0;
+    if (lmax == g && lmult[g] == 1)
+        keep = g;
+    else if (g >= 2 && lmax == g - 1 && lmult[g - 1] >= 2)
+        keep = -g;
+    if (keep == 0)
+        return 0;
+    for (slong j = 1; j <= lmax; j++)
+        lm[j] = lmult[j];
+    if (keep < 0) {
+        lm[g - 1] -= 2;
+        if (g >= 3)
+            lm[g - 2]++;
+    } else {
+        lm[g]--;
+    }
+    return keep;
+}
+
 int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
                           const slong *kmult, slong kmax, const slong *lmult, slong lmax,
                           const slong *cmult, slong cmax, int expand_all)
 {
-    slong ldeg = 0, nv;
+    slong ldeg = 0, nv, keep, *lm;
     fmpq_mpoly_ctx_t R;
     fmpq_mpoly_t P;
     int st;
@@ -141,9 +169,18 @@ int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const sl
     nv = (ldeg + 1) / 2;
     fmpq_mpoly_ctx_init(R, nv, ORD_LEX);
     fmpq_mpoly_init(P, R);
-    st = hodge_lambda_ch_poly(P, lmult, lmax, R);
+    lm = calloc((size_t) (FLINT_MAX(g, lmax) + 1), sizeof(slong));
+    st = lm == NULL ? WK_LIMIT : WK_OK;
+    keep = st == WK_OK && route == HODGE_ROUTE_FP && !expand_all ? hodge_lambda_keep_top(lm, lmult, lmax, g) : 0;
+    for (slong j = 1; j <= lmax && st == WK_OK && keep == 0; j++)
+        lm[j] = lmult[j];
     if (st == WK_OK)
-        st = hodge_integrate_ch_poly(res, H, route, g, d, n, kmult, kmax, cmult, cmax, P, R);
+        st = hodge_lambda_ch_poly(P, lm, keep ? g : lmax, R);
+    if (st == WK_OK)
+        st = hodge_integrate_ch_poly(res, H, route, g, d, n, kmult, kmax, cmult, cmax, P, R, keep != 0);
+    if (st == WK_OK && keep < 0)
+        fmpq_mul_2exp(res, res, 1);
+    free(lm);
     if (st != WK_OK)
         fmpq_zero(res);
     fmpq_mpoly_clear(P, R);
