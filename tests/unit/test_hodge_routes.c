@@ -161,31 +161,39 @@ static long test_mumford_terms(flint_rand_t st, hodge_ctx *H, long iters)
     return done;
 }
 
+/* Compares the two routes on one integrand; counts agreements and nonzero agreements. */
+static void compare_routes(hodge_ctx *H, const integrand *I, const char *what, long *agree, long *nonzero)
+{
+    fmpq_t a, b;
+    fmpq_init(a);
+    fmpq_init(b);
+    int s1 = hodge_integral_lambda(a, H, HODGE_ROUTE_GRR, I->g, I->d, I->n, I->km, IMAX, I->lm, IMAX, I->cm, IMAX, 0);
+    int s2 = hodge_integral_lambda(b, H, HODGE_ROUTE_FP, I->g, I->d, I->n, I->km, IMAX, I->lm, IMAX, I->cm, IMAX, 0);
+    int ok = s1 == WK_OK && s2 == WK_OK && fmpq_equal(a, b);
+    *agree += ok;
+    *nonzero += ok && !fmpq_is_zero(a);
+    UNIT_CHECK(&rep, ok, "%s: GRR route vs FP route (status %d, %d)", what, s1, s2);
+    if (!ok) {
+        print_integrand(I);
+        unit_print_fmpq("GRR", a);
+        unit_print_fmpq("FP", b);
+    }
+    fmpq_clear(a);
+    fmpq_clear(b);
+}
+
 int main(void)
 {
     flint_rand_t st;
     wk_table *T = wk_table_new();
     hodge_ctx *H = hodge_new(T);
     long iters = unit_iterations(5000), agree = 0, nonzero = 0;
-    fmpq_t a, b;
-    fmpq_init(a);
-    fmpq_init(b);
     flint_randinit(st);
     flint_randseed(st, 20261202, 4242);
     for (long it = 0; it < iters; it++) {
         integrand I;
         random_integrand(st, &I);
-        int s1 = hodge_integral_lambda(a, H, HODGE_ROUTE_GRR, I.g, I.d, I.n, I.km, IMAX, I.lm, IMAX, I.cm, IMAX, 0);
-        int s2 = hodge_integral_lambda(b, H, HODGE_ROUTE_FP, I.g, I.d, I.n, I.km, IMAX, I.lm, IMAX, I.cm, IMAX, 0);
-        int ok = s1 == WK_OK && s2 == WK_OK && fmpq_equal(a, b);
-        agree += ok;
-        nonzero += ok && !fmpq_is_zero(a);
-        UNIT_CHECK(&rep, ok, "GRR route vs FP route (status %d, %d)", s1, s2);
-        if (!ok) {
-            print_integrand(&I);
-            unit_print_fmpq("GRR", a);
-            unit_print_fmpq("FP", b);
-        }
+        compare_routes(H, &I, "random integrand", &agree, &nonzero);
     }
     printf("GRR route vs FP route: %ld of %ld random integrands agree (%ld nonzero; genus 1..5, <= 4 points)\n",
            agree, iters, nonzero);
@@ -193,25 +201,13 @@ int main(void)
     for (long it = 0; it < tops; it++) {
         integrand I;
         random_top_integrand(st, &I, 1 + (int) (it % 2));
-        int s1 = hodge_integral_lambda(a, H, HODGE_ROUTE_GRR, I.g, I.d, I.n, I.km, IMAX, I.lm, IMAX, I.cm, IMAX, 0);
-        int s2 = hodge_integral_lambda(b, H, HODGE_ROUTE_FP, I.g, I.d, I.n, I.km, IMAX, I.lm, IMAX, I.cm, IMAX, 0);
-        int ok = s1 == WK_OK && s2 == WK_OK && fmpq_equal(a, b);
-        top_agree += ok;
-        top_nonzero += ok && !fmpq_is_zero(a);
-        UNIT_CHECK(&rep, ok, "lambda_g kept whole: GRR route vs FP route (status %d, %d)", s1, s2);
-        if (!ok) {
-            print_integrand(&I);
-            unit_print_fmpq("GRR", a);
-            unit_print_fmpq("FP", b);
-        }
+        compare_routes(H, &I, "lambda_g kept whole", &top_agree, &top_nonzero);
     }
     printf("integrands with lambda_g or lambda_{g-1}^2 (the operator keeps lambda_g whole), GRR route vs FP "
            "route: %ld of %ld agree (%ld nonzero)\n", top_agree, tops, top_nonzero);
     UNIT_CHECK(&rep, 2 * top_nonzero > tops, "most lambda_g integrands are nonzero (%ld of %ld)", top_nonzero, tops);
     long terms = test_mumford_terms(st, H, unit_iterations(500));
     printf("one step of Mumford's formula (the terms explain prints) vs FP route: %ld random integrands\n", terms);
-    fmpq_clear(a);
-    fmpq_clear(b);
     hodge_free(H);
     wk_table_free(T);
     flint_randclear(st);
