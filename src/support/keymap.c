@@ -6,8 +6,10 @@
 
 #include "util.h"
 
-/* Records are placed in blocks of at least this many words: one allocation per block instead of
-   two per entry, and clearing frees blocks. */
+/* Records are placed in blocks: one allocation per block instead of two per entry, and clearing
+   frees blocks.  The first block has KEYMAP_FIRST words and each next one twice as many, up to
+   KEYMAP_CHUNK, so that the many small maps stay small. */
+#define KEYMAP_FIRST 256
 #define KEYMAP_CHUNK 16384
 
 /* Words of a record before the key: the fmpq value and the key length. */
@@ -85,7 +87,8 @@ static slong *keymap_new_record(keymap *M, const slong *key, slong n)
 {
     slong need = KEYMAP_HEAD + n;
     if (M->nchunks == 0 || M->chunk_used + need > M->chunk_size) {
-        M->chunk_size = need > KEYMAP_CHUNK ? need : KEYMAP_CHUNK;
+        slong size = M->nchunks >= 6 ? KEYMAP_CHUNK : KEYMAP_FIRST << M->nchunks;
+        M->chunk_size = need > size ? need : size;
         M->chunks = xrealloc(M->chunks, (M->nchunks + 1) * sizeof(slong *));
         M->chunks[M->nchunks++] = xmalloc(M->chunk_size * sizeof(slong));
         M->chunk_used = 0;
