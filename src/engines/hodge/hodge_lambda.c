@@ -113,38 +113,32 @@ static int hodge_integrate_ch_poly(fmpq_t res, hodge_ctx *H, int route, slong g,
     return st;
 }
 
-/* The lambda classes left to expand, lm[1..g], when lambda_g can be kept whole by the operator
-   route (hodge_fp.c, where it makes the leaves closed forms): lambda_g itself, or lambda_{g-1}^2,
-   which Mumford's relation c(E) c(E^dual) = 1 in degree 2g-2 turns into 2 lambda_{g-2} lambda_g
-   (the other terms hold lambda_j with j > g).  Returns g, -g for the second case (the value is
-   to be doubled), or 0 when neither applies (lm untouched).  lmult[1..lmax], lmax <= g, lm
-   zeroed by the caller. */
-static slong hodge_lambda_keep_top(slong *lm, const slong *lmult, slong lmax, slong g)
+/* Prepares lambda_g to be kept whole by the operator route (hodge_fp.c, where it makes the leaves
+   closed forms): lambda_g itself, or lambda_{g-1}^2, which Mumford's relation c(E) c(E^dual) = 1
+   in degree 2g-2 turns into 2 lambda_{g-2} lambda_g (the other terms hold lambda_j with j > g).
+   lm[1..lmax] (lmax <= g) are the lambda multiplicities, rewritten to those left to expand.
+   Returns the factor of the result (1 or 2), or 0 when lambda_g cannot be kept (lm unchanged). */
+static int hodge_lambda_keep_top(slong *lm, slong lmax, slong g)
 {
-    slong keep = 0;
-    if (lmax == g && lmult[g] == 1)
-        keep = g;
-    else if (g >= 2 && lmax == g - 1 && lmult[g - 1] >= 2)
-        keep = -g;
-    if (keep == 0)
-        return 0;
-    for (slong j = 1; j <= lmax; j++)
-        lm[j] = lmult[j];
-    if (keep < 0) {
+    if (lmax == g && lm[g] == 1) {
+        lm[g] = 0;
+        return 1;
+    }
+    if (g >= 2 && lmax == g - 1 && lm[g - 1] >= 2) {
         lm[g - 1] -= 2;
         if (g >= 3)
             lm[g - 2]++;
-    } else {
-        lm[g]--;
+        return 2;
     }
-    return keep;
+    return 0;
 }
 
 int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const slong *d, slong n,
                           const slong *kmult, slong kmax, const slong *lmult, slong lmax,
                           const slong *cmult, slong cmax, int expand_all)
 {
-    slong ldeg = 0, nv, keep, *lm;
+    slong ldeg = 0, nv, *lm;
+    int keep;
     fmpq_mpoly_ctx_t R;
     fmpq_mpoly_t P;
     int st;
@@ -169,16 +163,16 @@ int hodge_integral_lambda(fmpq_t res, hodge_ctx *H, int route, slong g, const sl
     nv = (ldeg + 1) / 2;
     fmpq_mpoly_ctx_init(R, nv, ORD_LEX);
     fmpq_mpoly_init(P, R);
-    lm = calloc((size_t) (FLINT_MAX(g, lmax) + 1), sizeof(slong));
+    lm = calloc((size_t) (lmax + 1), sizeof(slong));
     st = lm == NULL ? WK_LIMIT : WK_OK;
-    keep = st == WK_OK && route == HODGE_ROUTE_FP && !expand_all ? hodge_lambda_keep_top(lm, lmult, lmax, g) : 0;
-    for (slong j = 1; j <= lmax && st == WK_OK && keep == 0; j++)
+    for (slong j = 1; j <= lmax && st == WK_OK; j++)
         lm[j] = lmult[j];
+    keep = st == WK_OK && route == HODGE_ROUTE_FP && !expand_all ? hodge_lambda_keep_top(lm, lmax, g) : 0;
     if (st == WK_OK)
-        st = hodge_lambda_ch_poly(P, lm, keep ? g : lmax, R);
+        st = hodge_lambda_ch_poly(P, lm, lmax, R);
     if (st == WK_OK)
         st = hodge_integrate_ch_poly(res, H, route, g, d, n, kmult, kmax, cmult, cmax, P, R, keep != 0);
-    if (st == WK_OK && keep < 0)
+    if (st == WK_OK && keep == 2)
         fmpq_mul_2exp(res, res, 1);
     free(lm);
     if (st != WK_OK)
