@@ -318,6 +318,199 @@ static void test_modp_paths(void)
     }
 }
 
+/* Property: the pointwise sums of the transform products, 2 sum_k a_k b_k + s^2 mod p, equal
+   FLINT's nmod arithmetic, also where the exact 128-bit sums overflow most often (every entry
+   p - 1, up to 300 pairs) and for random entries; 62-bit and 40-bit primes. */
+static void test_ntt_dot2(void)
+{
+    enum { NP = 300, N = 37 };
+    ulong primes[2] = { wpvol_ntt_prime_below(0, 28), n_nextprime(UWORD(1) << 40, 1) };
+    ulong *v = flint_malloc((size_t) (2 * NP + 1) * N * sizeof(ulong));
+    ulong *out = flint_malloc(N * sizeof(ulong));
+    ulong *a[NP], *b[NP];
+    slong np[3] = { 1, 17, NP }, i, j, k, t;
+    flint_rand_t st;
+
+    flint_randinit(st);
+    for (k = 0; k < NP; k++)
+    {
+        a[k] = v + 2 * k * N;
+        b[k] = v + (2 * k + 1) * N;
+    }
+    for (j = 0; j < 2; j++)
+        for (t = 0; t < 2; t++)
+        {
+            nmod_t mod;
+            int ok = 1;
+            nmod_init(&mod, primes[j]);
+            for (i = 0; i < (2 * NP + 1) * N; i++)
+                v[i] = t == 0 ? primes[j] - 1 : n_randint(st, primes[j]);
+            for (k = 0; k < 3; k++)
+            {
+                const ulong *sq = k == 1 ? NULL : v + 2 * NP * N;
+                wpvol_ntt_dot2(out, a, b, np[k], sq, N, mod);
+                for (i = 0; i < N; i++)
+                {
+                    ulong r = sq == NULL ? 0 : nmod_mul(sq[i], sq[i], mod), d = 0;
+                    slong q;
+                    for (q = 0; q < np[k]; q++)
+                        d = nmod_add(d, nmod_mul(a[q][i], b[q][i], mod), mod);
+                    ok &= out[i] == nmod_add(r, nmod_add(d, d, mod), mod);
+                }
+            }
+            UNIT_CHECK(&rep, ok, "pointwise sums agree with nmod, prime %lu, %s entries",
+                       primes[j], t == 0 ? "p - 1" : "random");
+        }
+    flint_randclear(st);
+    flint_free(v);
+    flint_free(out);
+}
+
+/* A driver job of fixed rationals (tests only): value k is q[k]; the multiple offered for
+   the denominators is chosen by `mult_mode` (0: none, 1: the exact denominator, 2: it without
+   one large prime factor, 3: an unrelated number). */
+typedef struct
+{
+    const fmpq *q;
+    slong nv;
+    int mult_mode;
+    ulong big;   /* the large prime factor of the denominators */
+} test_fixed_t;
+
+static void *test_fixed_ws_new(const wpvol_job_t *job)
+{
+    return (void *) job->data;
+}
+
+static void test_fixed_ws_free(void *ws)
+{
+    (void) ws;
+}
+
+static int test_fixed_run(void *ws, ulong *res, nmod_t mod)
+{
+    const test_fixed_t *f = ws;
+    slong k;
+
+    for (k = 0; k < f->nv; k++)
+    {
+        ulong n = fmpz_fdiv_ui(fmpq_numref(f->q + k), mod.n);
+        ulong d = fmpz_fdiv_ui(fmpq_denref(f->q + k), mod.n);
+        res[k] = nmod_mul(n, nmod_inv(d, mod), mod);
+    }
+    return WPVOL_OK;
+}
+
+static double test_fixed_need(const wpvol_job_t *job, slong k)
+{
+    (void) job;
+    (void) k;
+    return 64.0;   /* far too small: the driver must grow the modulus */
+}
+
+static slong test_fixed_den(const wpvol_job_t *job, slong k)
+{
+    (void) job;
+    (void) k;
+    return 40;
+}
+
+static void test_fixed_mult(const wpvol_job_t *job, slong k, fmpz_t B)
+{
+    const test_fixed_t *f = job->data;
+
+    if (f->mult_mode == 1)
+        fmpz_set(B, fmpq_denref(f->q + k));
+    else if (f->mult_mode == 2)
+        fmpz_divexact_ui(B, fmpq_denref(f->q + k), f->big);
+    else
+        fmpz_set_ui(B, 1000003);
+}
+
+/* Property: the driver's reconstruction with a denominator multiple returns exactly the job's
+   rationals whether the multiple is right, misses a large factor (fallback to the bounds) or
+   is unrelated, and with the right multiple it needs fewer primes than without one. */
+static void test_driver_mult(void)
+{
+    enum { NV = 6 };
+    fmpq q[NV], out[NV];
+    slong k, used[4];
+    int mode, ok = 1;
+    ulong big = n_nextprime(UWORD(1) << 45, 1);
+
+    for (k = 0; k < NV; k++)
+    {
+        fmpq_init(q + k);
+        fmpq_init(out + k);
+        /* numerators of about 1500 bits over denominators 2^(100+k) 3^80 big (about 300 bits) */
+        fmpz_set_ui(fmpq_numref(q + k), 7 + 2 * (ulong) k);
+        fmpz_pow_ui(fmpq_numref(q + k), fmpq_numref(q + k), 500);
+        fmpz_set_ui(fmpq_denref(q + k), 3);
+        fmpz_pow_ui(fmpq_denref(q + k), fmpq_denref(q + k), 80);
+        fmpz_mul_2exp(fmpq_denref(q + k), fmpq_denref(q + k), 100 + (ulong) k);
+        fmpz_mul_ui(fmpq_denref(q + k), fmpq_denref(q + k), big);
+        fmpq_canonicalise(q + k);
+    }
+    for (mode = 0; mode < 4; mode++)
+    {
+        test_fixed_t f = { q, NV, mode, big };
+        wpvol_job_t job;
+        job.nv = NV;
+        job.ws_new = test_fixed_ws_new;
+        job.ws_free = test_fixed_ws_free;
+        job.run = test_fixed_run;
+        job.need_bits = test_fixed_need;
+        job.den_bits = test_fixed_den;
+        job.den_mult = mode == 0 ? NULL : test_fixed_mult;
+        job.first_bits = 64.0;
+        job.data = &f;
+        ok &= wpvol_drive(out, &job, 1, 62, 1, &used[mode]) == WPVOL_OK;
+        for (k = 0; k < NV; k++)
+            ok &= fmpq_equal(out + k, q + k);
+    }
+    UNIT_CHECK(&rep, ok && used[1] < used[0],
+               "driver with denominator multiples: exact values, %ld primes with the right "
+               "multiple, %ld without, %ld missing a factor, %ld unrelated",
+               used[1], used[0], used[2], used[3]);
+    for (k = 0; k < NV; k++)
+    {
+        fmpq_clear(q + k);
+        fmpq_clear(out + k);
+    }
+}
+
+/* Property of the size model's guess (not a theorem): the denominator multiple B of
+   wpvol_estimate.c is a multiple of the denominator of (3g-3+n)! V_{g,n} for g <= 40, n <= 5
+   (the values of the engine, themselves checked against the published values above). */
+static void test_den_mult(void)
+{
+    slong G = 40, N = 5, g, n, miss = 0;
+    fmpq *v = _fmpq_vec_init((G + 1) * (N + 1));
+    fmpz_t B, f, r;
+    int st = wpvol_table(v, G, N, 2);
+
+    fmpz_init(B);
+    fmpz_init(f);
+    fmpz_init(r);
+    for (g = 2; st == WPVOL_OK && g <= G; g++)
+        for (n = 0; n <= N; n++)
+        {
+            fmpz_fac_ui(f, (ulong) (3 * g - 3 + n));
+            fmpz_mul(f, f, fmpq_numref(v + g * (N + 1) + n));
+            fmpz_gcd(f, f, fmpq_denref(v + g * (N + 1) + n));
+            fmpz_divexact(r, fmpq_denref(v + g * (N + 1) + n), f);   /* den of (3g-3+n)! V */
+            wpvol_estimate_den_mult(B, g, n);
+            miss += !fmpz_divisible(B, r);
+        }
+    UNIT_CHECK(&rep, st == WPVOL_OK && miss == 0,
+               "denominator multiple divisible by every denominator, g <= 40, n <= 5: %ld misses",
+               miss);
+    fmpz_clear(B);
+    fmpz_clear(f);
+    fmpz_clear(r);
+    _fmpq_vec_clear(v, (G + 1) * (N + 1));
+}
+
 /* Property (KdV structure): the engine's top-down step for V_{g,0} checks one redundant
    equation per genus and reports WPVOL_INTERNAL if it fails; a clean run up to G = 30 is the
    test.  Also a one-prime run with a prime that is too small must be refused, not wrong. */
@@ -414,6 +607,9 @@ int main(void)
     test_independence();
     test_combine_sources();
     test_modp_paths();
+    test_driver_mult();
+    test_den_mult();
+    test_ntt_dot2();
     test_modp_guards();
     test_asymptotics();
     test_errors();

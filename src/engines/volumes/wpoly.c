@@ -287,6 +287,7 @@ static int wpoly_run(fmpq *out, slong g, slong n, const slong *idx, slong nidx, 
     job.run = wpoly_job_run;
     job.need_bits = wpoly_job_need;
     job.den_bits = wpoly_job_den;
+    job.den_mult = NULL;
     job.first_bits = wpoly_need_bits(g, n);
     job.data = &d;
     status = wpvol_drive(out, &job, threads, prime_bits, min_primes, primes_used);

@@ -192,6 +192,7 @@ typedef struct
 {
     fmpz_t a;        /* residue of d! V modulo the product M of the primes absorbed so far */
     fmpq_t cand;     /* candidate, valid when has_cand */
+    fmpz_t mult;     /* denominator multiple tried first (1: none) */
     slong confirmed; /* primes that agreed with cand since it was found */
     int has_cand, done;
 } wpvol_val_t;
@@ -234,6 +235,28 @@ static int wpvol_reconstruct(fmpq_t q, const fmpz_t a, const fmpz_t M, slong db)
     return bits > 40 && wpvol_reconstruct_db(q, a, M, bits / 2 - 8);
 }
 
+/* Denominator bound (bits) of the first attempt with a denominator multiple: B x then has a
+   denominator of a few bits, or a larger cofactor where B misses a factor. */
+#define WPVOL_MULT_DB 24
+
+/* Reconstruction of x from a = x mod M given B, a likely multiple of its denominator: B x
+   (mod M) with the denominator bound 2^WPVOL_MULT_DB, divided by B.  Returns 1 and sets q on
+   success. */
+static int wpvol_reconstruct_mult(fmpq_t q, const fmpz_t a, const fmpz_t M, const fmpz_t B)
+{
+    fmpz_t t;
+    int ok;
+
+    fmpz_init(t);
+    fmpz_mul(t, a, B);
+    fmpz_mod(t, t, M);
+    ok = wpvol_reconstruct_db(q, t, M, WPVOL_MULT_DB);
+    if (ok)
+        fmpq_div_fmpz(q, q, B);
+    fmpz_clear(t);
+    return ok;
+}
+
 /* Residue of the rational q modulo p, or UWORD_MAX if its denominator vanishes mod p. */
 static ulong wpvol_fmpq_mod(const fmpq_t q, nmod_t mod)
 {
@@ -264,6 +287,7 @@ static void wpvol_run_clear(wpvol_drv_t *D)
     for (k = 0; D->val != NULL && k < D->nv; k++)
     {
         fmpz_clear(D->val[k].a);
+        fmpz_clear(D->val[k].mult);
         fmpq_clear(D->val[k].cand);
     }
     free(D->val);
@@ -295,6 +319,9 @@ static int wpvol_run_init(wpvol_drv_t *D, const wpvol_job_t *job)
     {
         double need = job->need_bits(job, k);
         fmpz_init(D->val[k].a);
+        fmpz_init_set_ui(D->val[k].mult, 1);
+        if (job->den_mult != NULL && need >= 0.0)
+            job->den_mult(job, k, D->val[k].mult);
         fmpq_init(D->val[k].cand);
         D->val[k].has_cand = 0;
         D->val[k].confirmed = 0;
@@ -359,7 +386,8 @@ static slong wpvol_run_reconstruct(wpvol_drv_t *D, slong *uncand)
             ++*uncand;
             continue;
         }
-        if (wpvol_reconstruct(v->cand, v->a, D->M, D->job->den_bits(D->job, k)))
+        if ((!fmpz_is_one(v->mult) && wpvol_reconstruct_mult(v->cand, v->a, D->M, v->mult))
+            || wpvol_reconstruct(v->cand, v->a, D->M, D->job->den_bits(D->job, k)))
         {
             v->has_cand = 1;
             v->confirmed = 0;

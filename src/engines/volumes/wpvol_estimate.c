@@ -7,11 +7,25 @@
  *                                 + 4.78 g + 2.72 g log2(g+1) + 0.67 n - 5.8,
  *     bits(den W) ~ 11.2 g (observed maxima: 39, 97, 206, 339, 449, 561 at g = 5..50),
  * and the reconstruction first assumes bits(den W) <= 12.5 g + 40.
+ *
+ * Denominator multiple.  In every exact value of this engine for g <= 100, n <= 5 the primes of
+ * den W are at most 2g + n + 2, and (with m = 2g + n + 2) den W divides
+ *     B = m! 2^(v_2(m!) + 4) 3^(floor(g/2) + 3) 5
+ * (checked on all 606 values of the table g <= 100, n <= 5; without the factor 5 a cofactor 5
+ * remained for 27 of them), with bits(B) about 1.25 bits(den W) (1547 against 1253 at g = 100,
+ * n = 0).  B W then has a denominator of a few bits and a numerator of
+ * bits(num W) + bits(B) - bits(den W), so its reconstruction needs about bits(B) - bits(den W)
+ * bits of modulus where the bound 12.5 g + 40 needed 12.5 g + 40: a sixth fewer primes at
+ * g = 100.  B is only a guess outside the checked range; a wrong guess leaves a cofactor in
+ * the denominator, which the small bound of the first attempt absorbs up to 2^24, and beyond
+ * that the reconstruction falls back to the bounds above (more primes, same values).
  * The factorials reflect the growth V_{g,n} ~ (2g-3+n)! (4 pi^2)^{2g-3+n} / (2 pi^2)^{3g-3+n}
  * for large g.  The models only size the first batch of primes and the first attempt of each
  * reconstruction; wrong guesses cost time, never correctness.
  */
 #include <math.h>
+
+#include <flint/fmpz.h>
 
 #include "wpvol.h"
 #include "wpvol_internal.h"
@@ -52,6 +66,64 @@ double wpvol_estimate_need_bits(slong g, slong n)
     return b + 16.0;
 }
 
+/* v_2(m!) = m - (number of ones of m in binary). */
+static slong wpvol_estimate_v2fact(slong m)
+{
+    slong ones = 0, t;
+
+    for (t = m; t > 0; t >>= 1)
+        ones += t & 1;
+    return m - ones;
+}
+
+/* See wpvol_internal.h: B = m! 2^(v_2(m!) + 4) 3^(floor(g/2) + 3) 5, m = 2g + n + 2. */
+void wpvol_estimate_den_mult(fmpz_t B, slong g, slong n)
+{
+    slong m = 2 * g + n + 2;
+    fmpz_t t;
+
+    fmpz_init(t);
+    fmpz_fac_ui(B, (ulong) m);
+    fmpz_mul_2exp(B, B, (ulong) (wpvol_estimate_v2fact(m) + 4));
+    fmpz_set_ui(t, 3);
+    fmpz_pow_ui(t, t, (ulong) (g / 2 + 3));
+    fmpz_mul(B, B, t);
+    fmpz_mul_ui(B, B, 5);
+    fmpz_clear(t);
+}
+
+/* log2 of the denominator multiple B of (g, n). */
+static double wpvol_estimate_mult_bits(slong g, slong n)
+{
+    slong m = 2 * g + n + 2;
+
+    return wpvol_estimate_lfact(m) + (double) (wpvol_estimate_v2fact(m) + 4)
+           + (double) (g / 2 + 3) * log2(3.0) + log2(5.0);
+}
+
+/* See wpvol_internal.h.  With den W about 0.78 bits(B) (0.81 observed at g = 10, 50, 100), B W
+   has bits(num W) + bits(B) - den W bits, i.e. total - 2 (0.78 bits(B)) + bits(B); plus the
+   first attempt's denominator bound 2^24 and the 16 bits of slack of the reconstruction. */
+double wpvol_estimate_need_bits_mult(slong g, slong n)
+{
+    return wpvol_estimate_bits_gn(g, n) - 0.56 * wpvol_estimate_mult_bits(g, n) + 24.0 + 16.0;
+}
+
+/* See wpvol_internal.h: genus >= 2 and few points, near where B was checked. */
+int wpvol_estimate_uses_mult(slong g, slong n)
+{
+    return g >= 2 && n <= WPVOL_MULT_MAX_N;
+}
+
+/* Modelled modulus bits of the first reconstruction of (3g-3+n)! V_{g,n} in the table job:
+   with the denominator multiple where it is used, else with the bound. */
+double wpvol_estimate_table_need(slong g, slong n)
+{
+    if (wpvol_estimate_uses_mult(g, n))
+        return wpvol_estimate_need_bits_mult(g, n);
+    return wpvol_estimate_need_bits(g, n);
+}
+
 /* Largest modulus size needed over the table (the model grows with g and n, but check both
    n = 0 and n = N for every genus to stay safe at the unstable corner). */
 double wpvol_estimate_bits(slong G, slong N)
@@ -61,7 +133,7 @@ double wpvol_estimate_bits(slong G, slong N)
 
     for (g = 0; g <= G; g++)
     {
-        double a = wpvol_estimate_need_bits(g, N), b = wpvol_estimate_need_bits(g, 0);
+        double a = wpvol_estimate_table_need(g, N), b = wpvol_estimate_table_need(g, 0);
         m = a > m ? a : m;
         m = b > m ? b : m;
     }

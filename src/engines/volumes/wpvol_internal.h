@@ -198,6 +198,10 @@ typedef struct wpvol_job_struct
     double (*need_bits)(const struct wpvol_job_struct *job, slong k);
     /* first denominator bound (bits) tried for value k */
     slong (*den_bits)(const struct wpvol_job_struct *job, slong k);
+    /* optional (NULL: none): sets B to a likely multiple of the denominator of value k; the
+       first attempts then reconstruct B x, whose denominator is small (need_bits must model
+       that), before the bounds from den_bits are tried */
+    void (*den_mult)(const struct wpvol_job_struct *job, slong k, fmpz_t B);
     double first_bits;   /* modulus bits of the first batch of primes */
     const void *data;    /* the job's parameters (borrowed) */
 } wpvol_job_t;
@@ -269,5 +273,16 @@ double wpvol_estimate_bits_gn(slong g, slong n);
 
 /* Model bound on bits(den) of (3g-3+n)! V_{g,n}: the first denominator bound tried. */
 double wpvol_estimate_den_bits(slong g);
+
+/* Whether the table job reconstructs (3g-3+n)! V_{g,n} with a denominator multiple first
+   (g >= 2, n <= WPVOL_MULT_MAX_N); B = that multiple (see wpvol_estimate.c); the modelled
+   modulus bits of its first reconstruction. */
+#define WPVOL_MULT_MAX_N 10
+int wpvol_estimate_uses_mult(slong g, slong n);
+void wpvol_estimate_den_mult(fmpz_t B, slong g, slong n);
+double wpvol_estimate_need_bits_mult(slong g, slong n);
+
+/* Modelled modulus bits of the first reconstruction of value (g, n) of the table job. */
+double wpvol_estimate_table_need(slong g, slong n);
 
 #endif

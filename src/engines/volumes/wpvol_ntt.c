@@ -243,9 +243,58 @@ void wpvol_ntt_mul_shoup_vec(ulong *a, const ulong *b, const ulong *pre, slong n
         a[i] = wpvol_ntt_mulshoup(a[i], b[i], pre[i], mod.n);
 }
 
+/* Constants for reducing three-word sums modulo p < 2^62 without division: 2^64 and 2^128
+   modulo p with their Shoup quotients, and floor(2^64 / p) for one-word values. */
+typedef struct
+{
+    ulong p, r64, r64pre, r128, r128pre, onepre;
+} wpvol_red3;
+
+static void wpvol_red3_init(wpvol_red3 *R, nmod_t mod)
+{
+    R->p = mod.n;
+    R->r64 = n_ll_mod_preinv(1, 0, mod.n, mod.ninv);
+    R->r128 = n_mulmod2_preinv(R->r64, R->r64, mod.n, mod.ninv);
+    R->r64pre = wpvol_ntt_shoup_pre(R->r64, mod.n);
+    R->r128pre = wpvol_ntt_shoup_pre(R->r128, mod.n);
+    R->onepre = wpvol_ntt_shoup_pre(1, mod.n);
+}
+
+/* x in [0, 2p) to [0, p). */
+static inline ulong wpvol_red3_fold(ulong x, ulong p)
+{
+    return x >= p ? x - p : x;
+}
+
+/* (hi 2^128 + mid 2^64 + lo) mod p: three Shoup products in [0, 2p), each folded to [0, p)
+   so that their sum stays below 3p < 2^64. */
+static inline ulong wpvol_red3_apply(ulong hi, ulong mid, ulong lo, const wpvol_red3 *R)
+{
+    ulong p = R->p;
+    ulong s = wpvol_red3_fold(wpvol_ntt_mulshoup(lo, 1, R->onepre, p), p)
+              + wpvol_red3_fold(wpvol_ntt_mulshoup(mid, R->r64, R->r64pre, p), p)
+              + wpvol_red3_fold(wpvol_ntt_mulshoup(hi, R->r128, R->r128pre, p), p);
+
+    s = s >= 2 * p ? s - 2 * p : s;
+    return s >= p ? s - p : s;
+}
+
+/* One reduced entry: 2 (carry 2^128 + acc) + sq^2 mod p (sq < p, or 0 for no square). */
+static inline ulong wpvol_ntt_dot_reduce(wpvol_u128 acc, ulong carry, ulong sq,
+                                         const wpvol_red3 *R)
+{
+    ulong hi = 2 * carry + (ulong) (acc >> 127);
+    wpvol_u128 t = acc << 1, s = (wpvol_u128) sq * sq;
+
+    hi += (t + s < t);
+    t += s;
+    return wpvol_red3_apply(hi, (ulong) (t >> 64), (ulong) t, R);
+}
+
 /* out[i] = 2 sum_k a[k][i] b[k][i] + (sq ? sq[i]^2 : 0) mod p for i < n.  Products are summed
-   exactly in 128 bits plus an overflow counter and reduced once per entry; the loop runs over
-   blocks of entries so that all the factors of a block stay in cache. */
+   exactly in 128 bits plus an overflow counter and reduced once per entry (without division);
+   the loop runs over blocks of entries, one factor pair at a time, so that each factor is read
+   as one sequential stream. */
 void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, const ulong *sq,
                     slong n, nmod_t mod)
 {
@@ -253,7 +302,9 @@ void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, 
     wpvol_u128 acc[BLK];
     ulong carry[BLK];
     slong i0, i, k;
+    wpvol_red3 R;
 
+    wpvol_red3_init(&R, mod);
     for (i0 = 0; i0 < n; i0 += BLK)
     {
         slong m = FLINT_MIN((slong) BLK, n - i0);
@@ -270,17 +321,6 @@ void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, 
             }
         }
         for (i = 0; i < m; i++)
-        {
-            /* value = 2 (carry 2^128 + acc) + sq^2, as three words hi:mid:lo */
-            ulong hi = 2 * carry[i] + (ulong) (acc[i] >> 127);
-            wpvol_u128 t = acc[i] << 1, s = 0;
-            ulong r;
-            if (sq != NULL)
-                s = (wpvol_u128) sq[i0 + i] * sq[i0 + i];
-            hi += (t + s < t);
-            t += s;
-            r = n_ll_mod_preinv(hi, (ulong) (t >> 64), mod.n, mod.ninv);
-            out[i0 + i] = n_ll_mod_preinv(r, (ulong) t, mod.n, mod.ninv);
-        }
+            out[i0 + i] = wpvol_ntt_dot_reduce(acc[i], carry[i], sq ? sq[i0 + i] : 0, &R);
     }
 }

@@ -57,7 +57,20 @@ static double wpvol_tab_need(const wpvol_job_t *job, slong k)
 {
     const wpvol_tab_t *t = job->data;
     slong g = k / (t->N + 1), n = k % (t->N + 1);
-    return 2 * g - 2 + n <= 0 ? -1.0 : wpvol_estimate_need_bits(g, n);
+    if (2 * g - 2 + n <= 0)
+        return -1.0;
+    return wpvol_estimate_table_need(g, n);
+}
+
+/* The denominator multiple of value k, or 1 where none is used. */
+static void wpvol_tab_mult(const wpvol_job_t *job, slong k, fmpz_t B)
+{
+    const wpvol_tab_t *t = job->data;
+    slong g = k / (t->N + 1), n = k % (t->N + 1);
+    if (wpvol_estimate_uses_mult(g, n))
+        wpvol_estimate_den_mult(B, g, n);
+    else
+        fmpz_one(B);
 }
 
 static slong wpvol_tab_den(const wpvol_job_t *job, slong k)
@@ -77,6 +90,7 @@ static void wpvol_tab_job(wpvol_job_t *job, wpvol_tab_t *tab, slong G, slong N)
     job->run = wpvol_tab_run;
     job->need_bits = wpvol_tab_need;
     job->den_bits = wpvol_tab_den;
+    job->den_mult = wpvol_tab_mult;
     job->first_bits = wpvol_estimate_bits(G, N);
     job->data = tab;
 }
