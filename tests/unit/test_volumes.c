@@ -296,14 +296,16 @@ static void test_combine_sources(void)
 }
 
 /* Property: one prime, both product paths of the per-prime engine agree residue by residue,
-   also where the truncation orders are largest (G = 20, N = 4 and G = 2, N = 60). */
+   also where the truncation orders are largest (G = 20, N = 4 and G = 2, N = 60), and over
+   several genus blocks of the pointwise sums with truncated transforms (G = 41: the blocks
+   16-23, 24-31, 32-39 and a short one, 40-41). */
 static void test_modp_paths(void)
 {
-    slong cases[2][2] = { { 20, 4 }, { 2, 60 } }, i, k;
+    slong cases[3][2] = { { 20, 4 }, { 2, 60 }, { 41, 1 } }, i, k;
     nmod_t mod;
 
     nmod_init(&mod, wpvol_ntt_prime_below(0, 28));
-    for (i = 0; i < 2; i++)
+    for (i = 0; i < 3; i++)
     {
         slong G = cases[i][0], N = cases[i][1], nv = (G + 1) * (N + 1);
         ulong *r1 = flint_malloc((size_t) nv * sizeof(ulong));
@@ -364,6 +366,135 @@ static void test_ntt_dot2(void)
     flint_randclear(st);
     flint_free(v);
     flint_free(out);
+}
+
+/* Property: several sums in one pass of wpvol_ntt_dot2_many (shared factors, different
+   lengths, an added term, a square or none) equal FLINT's nmod arithmetic, entry by entry. */
+static void test_ntt_dot2_many(void)
+{
+    enum { NF = 40, N = 700, NS = 5 };
+    ulong p = wpvol_ntt_prime_below(0, 28);
+    ulong *v = flint_malloc((size_t) (NF + NS) * N * sizeof(ulong));
+    ulong *out = flint_malloc((size_t) NS * N * sizeof(ulong));
+    ulong *a[NS][NF], *b[NS][NF];
+    slong len[NS] = { 700, 1, 256, 513, 699 }, np[NS] = { 19, 3, 0, 40, 16 }, i, j, k;
+    wpvol_dot_t d[NS];
+    flint_rand_t st;
+    nmod_t mod;
+    int ok = 1;
+
+    flint_randinit(st);
+    nmod_init(&mod, p);
+    for (i = 0; i < (NF + NS) * N; i++)
+        v[i] = i % 7 == 0 ? p - 1 : n_randint(st, p);
+    for (j = 0; j < NS; j++)
+    {
+        for (k = 0; k < np[j]; k++)
+        {
+            a[j][k] = v + ((k + j) % NF) * N;       /* factors shared between the sums */
+            b[j][k] = v + ((3 * k + 1) % NF) * N;
+        }
+        d[j].out = out + j * N;
+        d[j].a = a[j];
+        d[j].b = b[j];
+        d[j].npairs = np[j];
+        d[j].sq = j % 2 == 0 ? v + (NF - 1 - j) * N : NULL;
+        d[j].add = j >= 2 ? v + (NF + j) * N : NULL;
+        d[j].n = len[j];
+    }
+    wpvol_ntt_dot2_many(d, NS, mod);
+    for (j = 0; j < NS; j++)
+        for (i = 0; i < len[j]; i++)
+        {
+            ulong r = d[j].sq == NULL ? 0 : nmod_mul(d[j].sq[i], d[j].sq[i], mod), s2 = 0;
+            for (k = 0; k < np[j]; k++)
+                s2 = nmod_add(s2, nmod_mul(a[j][k][i], b[j][k][i], mod), mod);
+            r = nmod_add(r, nmod_add(s2, s2, mod), mod);
+            if (d[j].add != NULL)
+                r = nmod_add(r, d[j].add[i], mod);
+            ok &= out[j * N + i] == r;
+        }
+    UNIT_CHECK(&rep, ok, "five pointwise sums in one pass agree with nmod");
+    flint_randclear(st);
+    flint_free(v);
+    flint_free(out);
+}
+
+/* Property: the truncated transforms give the first n values of the full transform (inputs of
+   d <= n terms; garbage beyond d is not read) and invert them back to the coefficients given
+   any tail of coefficients, for random lengths N <= 2^12, n <= N, d <= n. */
+static void test_ntt_trunc(void)
+{
+    ulong p = wpvol_ntt_prime_below(0, 28);
+    slong it, j, bad = 0;
+    wpvol_ntt_t F;
+    flint_rand_t st;
+    nmod_t mod;
+
+    flint_randinit(st);
+    nmod_init(&mod, p);
+    UNIT_CHECK(&rep, wpvol_ntt_init(F, mod, WORD(1) << 12) == 0, "transform tables");
+    for (it = 0; it < 400; it++)
+    {
+        slong N = WORD(1) << n_randint(st, 13), n = n_randint(st, N + 1), d = n_randint(st, n + 1);
+        ulong *x = flint_malloc((size_t) (4 * N) * sizeof(ulong));
+        ulong *y = x + N, *z = y + N, *e = z + N;
+        for (j = 0; j < N; j++)
+        {
+            x[j] = j < d ? n_randint(st, p) : 0;
+            y[j] = j < d ? x[j] : n_randint(st, p);   /* must be ignored */
+            e[j] = n_randint(st, p);
+        }
+        wpvol_ntt_fwd(x, N, F);
+        wpvol_ntt_fwd_trunc(y, N, n, d, F);
+        bad += memcmp(x, y, (size_t) n * sizeof(ulong)) != 0;
+        memcpy(z, e, (size_t) N * sizeof(ulong));
+        wpvol_ntt_fwd(z, N, F);
+        memcpy(z + n, e + n, (size_t) (N - n) * sizeof(ulong));
+        wpvol_ntt_inv_trunc(z, N, n, F);
+        bad += memcmp(z, e, (size_t) n * sizeof(ulong)) != 0;
+        flint_free(x);
+    }
+    UNIT_CHECK(&rep, bad == 0, "truncated transforms: %ld of 800 comparisons differ", bad);
+    wpvol_ntt_clear(F);
+    flint_randclear(st);
+}
+
+/* Property: the products of rows by I_2 and 1/I_2 (truncated transforms from WPVOL_ROW_MIN
+   terms on) equal FLINT's truncated products for every row length up to 420 (all truncations
+   of the two series). */
+static void test_mul_i2(void)
+{
+    enum { LEN = 420 };
+    ulong p = wpvol_ntt_prime_below(0, 28), x[LEN], r1[LEN], r2[LEN];
+    slong l, j, bad = 0;
+    wpvol_ntt_t F;
+    wpvol_ctx_t ctx;
+    flint_rand_t st;
+    nmod_t mod;
+
+    flint_randinit(st);
+    nmod_init(&mod, p);
+    UNIT_CHECK(&rep, wpvol_ntt_init(F, mod, WORD(1) << 12) == 0
+               && wpvol_ctx_init(ctx, mod, LEN, 40) == 0
+               && wpvol_ctx_attach_ntt(ctx, F, LEN) == 0 && ctx->ntt != NULL,
+               "row transforms enabled");
+    for (l = 1; l <= LEN; l++)
+    {
+        for (j = 0; j < l; j++)
+            x[j] = n_randint(st, p);
+        wpvol_ctx_mul_i2(r1, x, l, ctx);
+        _nmod_poly_mullow(r2, x, l, ctx->i2, l, l, mod);
+        bad += memcmp(r1, r2, (size_t) l * sizeof(ulong)) != 0;
+        wpvol_ctx_mul_i2inv(r1, x, l, ctx);
+        _nmod_poly_mullow(r2, x, l, ctx->i2inv, l, l, mod);
+        bad += memcmp(r1, r2, (size_t) l * sizeof(ulong)) != 0;
+    }
+    UNIT_CHECK(&rep, bad == 0, "rows times I_2 and 1/I_2: %ld of %d products differ", bad,
+               (int) (2 * LEN));
+    wpvol_ctx_clear(ctx);
+    wpvol_ntt_clear(F);
+    flint_randclear(st);
 }
 
 /* A driver job of fixed rationals (tests only): value k is q[k]; the multiple offered for
@@ -610,6 +741,9 @@ int main(void)
     test_driver_mult();
     test_den_mult();
     test_ntt_dot2();
+    test_ntt_dot2_many();
+    test_ntt_trunc();
+    test_mul_i2();
     test_modp_guards();
     test_asymptotics();
     test_errors();

@@ -140,46 +140,75 @@ double wpvol_estimate_bits(slong G, slong N)
     return m;
 }
 
-/* Relative single-core cost of one prime (arbitrary units): pointwise products of the cached
-   transforms (g/2 pairs of length T_g), transforms (about two of length T_g per genus) and the
-   row products by I_2 in d_0 (three per genus, quadratic in the row lengths L - d). */
+/* Transform length and points used at genus g (as wpvol_modp.c: the product's length
+   (3g-2)(2L-1), the next power of two, and that length rounded up to WPVOL_TFT_GRAIN). */
+static void wpvol_estimate_len(double *T, double *n, double g, double L)
+{
+    double need = (3.0 * g - 2.0) * (2.0 * L - 1.0);
+
+    *T = 1.0;
+    while (*T < need)
+        *T *= 2.0;
+    *n = ceil(need / WPVOL_TFT_GRAIN) * WPVOL_TFT_GRAIN;
+    *n = *n < *T ? *n : *T;
+}
+
+/* Work of the products of one row of each length a..b by a series (I_2 or 1/I_2): l^2/2
+   multiply-adds up to WPVOL_ROW_MIN terms, truncated transforms at about 2l points (about
+   2 l log2(2l) butterflies, forward and inverse) above; the sum in closed form. */
+static double wpvol_estimate_rows(double a, double b)
+{
+    double s = 0.0, hi = b < WPVOL_ROW_MIN ? b : WPVOL_ROW_MIN;
+    double lo = a > WPVOL_ROW_MIN ? a : WPVOL_ROW_MIN + 1.0;
+
+    if (hi >= a)   /* sum l^2 / 2 */
+        s += 0.3 * (hi * (hi + 1.0) * (2.0 * hi + 1.0) - (a - 1.0) * a * (2.0 * a - 1.0)) / 6.0;
+    if (b >= lo)   /* integral of 2 x log2(2x) */
+        s += 2.6 * ((b + 1.0) * (b + 1.0) * (log2(2.0 * (b + 1.0)) - 0.5 / log(2.0))
+                    - lo * lo * (log2(2.0 * lo) - 0.5 / log(2.0)));
+    return s;
+}
+
+/* Single-core seconds of one prime: per genus the pointwise sums (g/2 products at each of the
+   n_g points), the forward transform of B_g at the points of genus G and the inverse one at
+   those of genus g (butterflies), the row products of the three d_0 (rows of lengths L - d,
+   d < 3g) and of the top-down step (lengths up to 3g - 2); then the outputs.  Weights in
+   nanoseconds per operation; the factor 2.2 matches the CPU seconds per prime measured for
+   (50, 5), (60, 5), (100, 5), (150, 5), (200, 5) and (3, 500) within 1.65-2.2 (so at most 1.3
+   times pessimistic). */
 static double wpvol_estimate_work(slong G, slong N)
 {
-    double L = (double) (N >= 1 ? 3 * G + N - 4 : 3 * G - 3) + 1.0, w = 0.0;
+    double L = (double) (N >= 1 ? 3 * G + N - 4 : 3 * G - 3) + 1.0, w = 0.0, TG, nG;
     slong g;
 
     if (L < 1.0)
         L = 1.0;
+    wpvol_estimate_len(&TG, &nG, (double) G, L);
     for (g = 2; g <= G; g++)
     {
-        double need = (3.0 * (double) g - 2.0) * (2.0 * L - 1.0), T = 1.0, r;
-        while (T < need)
-            T *= 2.0;
-        r = L - 3.0 * (double) g;
-        r = r > 0.0 ? r : 0.0;
-        w += 0.5 * (double) g * T * 1.3 + 2.0 * T * log2(T) * 0.75
-             + 3.0 * (L * L * L - r * r * r) / 6.0 * 0.9;
+        double T, n, d = 3.0 * (double) g < L ? 3.0 * (double) g : L;
+        wpvol_estimate_len(&T, &n, (double) g, L);
+        w += 0.55 * (double) g * n + 0.65 * (nG * log2(TG) + n * log2(T))
+             + 3.0 * wpvol_estimate_rows(L - d + 1.0, L)
+             + wpvol_estimate_rows(1.0, 3.0 * (double) g - 2.0);
     }
     /* outputs: a series composition of length N per genus (FLINT, about N^2 log N) */
     w += (double) (G + 1) * (double) N * (double) N * log2((double) N + 2.0) * 1.5 + 1.0e5;
-    /* one unit = 1 ns of the work above; the factor 1.6 matches CPU seconds measured for
-       (50,5), (100,5), (3,500) on a heavily shared 2-core VM (so it is rather pessimistic) */
-    return w * 1.6e-9;
+    return w * 2.2e-9;
 }
 
 /* The parts of the models for the table up to (G, N), G, N >= 0: *work single-core seconds of
    one prime, *ws bytes of one workspace, *nv values. */
 static void wpvol_estimate_parts(double *work, double *ws, double *nv, slong G, slong N)
 {
-    double L, T = 1.0;
+    double L, T = 1.0, n = 1.0;
 
     L = (double) (N >= 1 ? 3 * G + N - 4 : 3 * G - 3) + 1.0;
     L = L < 1.0 ? 1.0 : L;
     if (G >= 2)
-        while (T < (3.0 * (double) G - 2.0) * (2.0 * L - 1.0))
-            T *= 2.0;
+        wpvol_estimate_len(&T, &n, (double) G, L);
     *nv = (double) (G + 1) * (double) (N + 1);
-    *ws = 8.0 * ((double) G * T                       /* cached transforms */
+    *ws = 8.0 * ((double) (G + 8) * n                 /* cached transforms, genus-block sums */
                  + 1.5 * (double) G * (double) G * L  /* rows of B_h, h < G */
                  + 3.0 * (3.0 * (double) G + 1.0) * L /* A, C, D of one genus */
                  + 5.0 * T);                          /* product buffer, twiddle tables */

@@ -44,16 +44,23 @@ typedef struct
     slong invlen;
     /* optional transform path for the products by I_2 of long rows (wpvol_ctx_attach_ntt) */
     const struct wpvol_ntt_struct_tag *ntt;   /* borrowed tables, NULL: classical only */
-    int lgmax;                   /* transforms of length 2^lg for WPVOL_ROW_LG <= lg <= lgmax */
-    ulong *i2hat[64];            /* transform of I_2 (truncated to 2^(lg-1)+1 terms) */
-    ulong *i2pre[64];            /* Shoup quotients of i2hat[lg] */
-    ulong tinv[64];              /* 1/2^lg mod p */
-    ulong *work;                 /* scratch of 2^lgmax words */
+    slong tlen;                  /* transform length (power of two) of the longest product */
+    slong nk;                    /* truncations of I_2 cached (see wpvol_ctx_attach_ntt) */
+    ulong *i2hat;                /* 2 nk blocks of 2 tlen words (I_2, then 1/I_2): transform
+                                    values, Shoup quotients */
+    ulong *work;                 /* scratch of tlen words */
 } wpvol_ctx_struct;
 
-/* Rows of at most 2^(WPVOL_ROW_LG-2) terms are multiplied by I_2 classically; longer rows of
-   length l by a transform of the least length 2^lg >= 2l, lg >= WPVOL_ROW_LG. */
-#define WPVOL_ROW_LG 9
+/* Rows of at most WPVOL_ROW_MIN terms are multiplied by I_2 classically; a longer row of l
+   terms by truncated transforms with I_2 cut to K terms, K the least multiple of
+   WPVOL_ROW_STEP >= l (K <= the stored length), at about l + K points. */
+#define WPVOL_ROW_MIN 128
+#define WPVOL_ROW_STEP 32
+
+/* The genus-g products use the first n_g points of their transform of length T_g: the
+   product's length rounded up to a multiple of WPVOL_TFT_GRAIN (truncated transforms; the
+   grain bounds the depth of their recursion). */
+#define WPVOL_TFT_GRAIN 4096
 
 typedef wpvol_ctx_struct wpvol_ctx_t[1];
 
@@ -103,8 +110,11 @@ void wpvol_ctx_clear(wpvol_ctx_t ctx);
    is enabled).  Returns 0, or -1 on exhausted memory (ctx then stays classical). */
 int wpvol_ctx_attach_ntt(wpvol_ctx_t ctx, const struct wpvol_ntt_struct_tag *F, slong maxrow);
 
-/* res[0..l) = x * I_2 mod u^l (x has l terms, res must not overlap x). */
+/* res[0..l) = x * I_2 mod u^l, and x / I_2 mod u^l (x has l <= ctx->len terms, res must not
+   overlap x; rows longer than the maxrow given to wpvol_ctx_attach_ntt are not allowed once
+   transforms are attached). */
 void wpvol_ctx_mul_i2(ulong *res, const ulong *x, slong l, const wpvol_ctx_t ctx);
+void wpvol_ctx_mul_i2inv(ulong *res, const ulong *x, slong l, const wpvol_ctx_t ctx);
 
 /* --- wpvol_ntt.c ------------------------------------------------------------------------- */
 
@@ -141,6 +151,17 @@ void wpvol_ntt_fwd(ulong *a, slong n, const wpvol_ntt_t F);
    inputs may be in [0, 2p). */
 void wpvol_ntt_inv(ulong *a, slong n, const wpvol_ntt_t F);
 
+/* Truncated transforms: the first n values (bit-reversed order) of the length-N transform of
+   the coefficients a[0..d) (0 <= d <= n <= N, N a power of two <= F->n, inputs in [0,p);
+   a[d..N) not read), in a[0..n); a[n..N) clobbered.  They are the first n values of the
+   transform of every length N' >= N with N' >= d as well. */
+void wpvol_ntt_fwd_trunc(ulong *a, slong N, slong n, slong d, const wpvol_ntt_t F);
+
+/* Inverse: a[0..n) the first n transform values (in [0,2p)) and a[n..N) the coefficients of
+   index >= n (in [0,p)) become a[0..n) = the coefficients of index < n, exactly (no factor N);
+   a[n..N) clobbered. */
+void wpvol_ntt_inv_trunc(ulong *a, slong N, slong n, const wpvol_ntt_t F);
+
 /* pre[i] = Shoup quotient of b[i] (b in [0,p)). */
 void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod);
 
@@ -151,6 +172,24 @@ void wpvol_ntt_mul_shoup_vec(ulong *a, const ulong *b, const ulong *pre, slong n
    the inputs).  Exact three-word accumulation, one reduction per entry. */
 void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, const ulong *sq,
                     slong n, nmod_t mod);
+
+/* One pointwise sum: out[i] = (add ? add[i] : 0) + 2 sum_{k<npairs} a[k][i] b[k][i]
+   + (sq ? sq[i]^2 : 0) mod p for i < n (all arrays borrowed; add and sq in [0, p); out may
+   alias add but no factor). */
+typedef struct
+{
+    ulong *out;
+    ulong *const *a;
+    ulong *const *b;
+    slong npairs;
+    const ulong *sq;
+    const ulong *add;
+    slong n;
+} wpvol_dot_t;
+
+/* All the sums d[0..count), interleaved block by block so that the factors they share are
+   read from memory once per block (outputs must not alias each other or any factor). */
+void wpvol_ntt_dot2_many(const wpvol_dot_t *d, slong count, nmod_t mod);
 
 /* --- wpvol_modp.c ------------------------------------------------------------------------ */
 

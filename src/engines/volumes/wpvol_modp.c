@@ -62,6 +62,16 @@ static slong wpvol_modp_ntt_len(slong g, slong L)
     return T;
 }
 
+/* Transform points used for genus g: the product's length rounded up to a multiple of
+   WPVOL_TFT_GRAIN, at most T (truncated transforms: the first n points of the bit-reversed
+   transform of length T). */
+static slong wpvol_modp_ntt_pts(slong g, slong L)
+{
+    slong need = (3 * g - 2) * (2 * L - 1), q = WPVOL_TFT_GRAIN;
+
+    return FLINT_MIN(wpvol_modp_ntt_len(g, L), (need + q - 1) / q * q);
+}
+
 /* Buffers for one (G, N), reused for every prime a worker thread handles (allocating them
  * per prime costs more in page faults than the arithmetic of small genera).  Owned by the
  * creator (wpvol_ws_new / wpvol_ws_free). */
@@ -69,10 +79,13 @@ struct wpvol_ws_struct
 {
     slong G, N, L;           /* L: series length of every row */
     slong Tmax;              /* largest transform length (genus G products) */
+    slong npts;              /* points used of it (wpvol_modp_ntt_pts(G, L)) */
     wpvol_biv_struct *B;     /* B[h] = d_0^2 F_h, 1 <= h < G, each owning its rows */
     ulong *abuf, *cbuf, *dbuf; /* (3G+1)*L words each: A_g (and the bracket), C, D */
-    ulong **hat;             /* hat[h]: Tmax words, allocated on first use and kept */
+    ulong **hat;             /* hat[h]: npts words, allocated on first use and kept */
     ulong *buf;              /* Tmax words: product of the transforms */
+    ulong *part;             /* WPVOL_GBLOCK * npts words: partial sums of a genus block */
+    slong blk0;              /* first genus of the block whose partial sums are in part */
     wpvol_ntt_t F;           /* transform tables (allocated on first use, refilled per prime) */
 };
 
@@ -200,7 +213,7 @@ static int wpvol_modp_topdown(wpvol_run_t *st, slong g, const wpvol_biv_t A)
 
         for (k = 0; k < l; k++)
             tmp[k] = nmod_sub(c[k], nmod_mul((ulong) (k + 1), fu[k + 1], mod), mod);
-        _nmod_poly_mullow(fd, tmp, l, st->ctx->i2inv, l, l, mod);
+        wpvol_ctx_mul_i2inv(fd, tmp, l, st->ctx);
         _nmod_vec_scalar_mul_nmod(fd, fd, l, st->ctx->inv[j - 2], mod);
     }
     /* equation j = 2g: c_{2g} = f_{2g-1}' (there is no f_{2g-2}) */
@@ -213,29 +226,124 @@ static int wpvol_modp_topdown(wpvol_run_t *st, slong g, const wpvol_biv_t A)
     return status;
 }
 
-/* Makes hat[h] the length-Tmax transform of the Kronecker image of B[h] (rows in slots of
-   width 2L-1, each row only to its meaningful length).  Only one transform per B[h] is needed:
-   the image occupies less than half of any length T used with it, and the first T entries of
-   a bit-reversed transform of length 2T of such data are its transform of length T.
+/* Makes hat[h] the first npts values of the length-Tmax transform of the Kronecker image of
+   B[h] (rows in slots of width 2L-1, each row only to its meaningful length), computed in the
+   product buffer (free between genera) and kept.  Only one transform per B[h] is needed: the
+   first n values of a bit-reversed transform are those of every shorter power-of-two length
+   that the data fits, so each genus reads the prefix it needs.
    Returns WPVOL_OK or WPVOL_NOMEM. */
 static int wpvol_modp_hat(wpvol_run_t *st, slong h)
 {
     wpvol_ws_t *ws = st->ws;
     const wpvol_biv_struct *b = &ws->B[h];
-    slong r, slot = 2 * st->L - 1, T = ws->Tmax;
-    ulong *x = ws->hat[h];
+    slong r, slot = 2 * st->L - 1, n = ws->npts;
+    ulong *x = ws->buf;
 
-    if (x == NULL)
+    if (ws->hat[h] == NULL)
     {
-        x = malloc((size_t) T * sizeof(ulong));
-        if (x == NULL)
+        ws->hat[h] = malloc((size_t) n * sizeof(ulong));
+        if (ws->hat[h] == NULL)
             return WPVOL_NOMEM;
-        ws->hat[h] = x;
     }
-    memset(x, 0, (size_t) T * sizeof(ulong));
+    memset(x, 0, (size_t) (b->rows * slot) * sizeof(ulong));
     for (r = 0; r < b->rows; r++)
         memcpy(x + r * slot, b->c + r * b->len, (size_t) wpvol_biv_rowlen(b, r) * sizeof(ulong));
-    wpvol_ntt_fwd(x, T, ws->F);
+    wpvol_ntt_fwd_trunc(x, ws->Tmax, n, b->rows * slot, ws->F);
+    memcpy(ws->hat[h], x, (size_t) n * sizeof(ulong));
+    return WPVOL_OK;
+}
+
+/* Genus blocks: from genus WPVOL_GBLOCK_FROM on, the genera are taken WPVOL_GBLOCK at a time.
+   When a block starts at genus g0, the pairs (h, g'-h) of every genus g' of the block with both
+   h, g'-h < g0 are summed in one pass (wpvol_ntt_dot2_many), which reads each cached transform
+   once for the whole block instead of once per genus; the few pairs with a member >= g0 are
+   added when g' is reached.  The pointwise sums are bounded by memory bandwidth, so this cuts
+   their cost by about the block size at large g (results are unchanged: exact sums mod p). */
+#define WPVOL_GBLOCK 8
+#define WPVOL_GBLOCK_FROM 16
+
+/* Pairs h < g-h of genus g with lo <= h <= hi, as pointer lists from *np on; returns the
+   square's transform if g is even and lo <= g/2 <= hi2, else NULL. */
+static const ulong *wpvol_modp_pairs(ulong **a, ulong **b, slong *np, const wpvol_ws_t *ws,
+                                     slong g, slong lo, slong hi, slong hi2)
+{
+    slong h;
+
+    for (h = FLINT_MAX(lo, 1); h <= hi && 2 * h < g; h++, (*np)++)
+    {
+        a[*np] = ws->hat[h];
+        b[*np] = ws->hat[g - h];
+    }
+    return g % 2 == 0 && g / 2 >= lo && g / 2 <= hi2 ? ws->hat[g / 2] : NULL;
+}
+
+/* part[j] = 2 sum_{h < g'-h < g0} hat_h hat_{g'-h} (+ the square if g'/2 < g0) for the genera
+   g' = g0 + j of the block starting at g0, each over its own transform length.
+   Returns WPVOL_OK or WPVOL_NOMEM. */
+static int wpvol_modp_block_sums(wpvol_run_t *st, slong g0)
+{
+    wpvol_ws_t *ws = st->ws;
+    slong j, count = FLINT_MIN((slong) WPVOL_GBLOCK, ws->G - g0 + 1), np = 0;
+    wpvol_dot_t d[WPVOL_GBLOCK];
+    ulong **a = malloc((size_t) (count * g0) * sizeof(ulong *) * 2), **b;
+
+    if (a == NULL)
+        return WPVOL_NOMEM;
+    b = a + count * g0;
+    for (j = 0; j < count; j++)
+    {
+        slong gp = g0 + j, start = np;
+        /* pairs with g'-h <= g0-1, i.e. h >= g'-g0+1 */
+        d[j].sq = wpvol_modp_pairs(a, b, &np, ws, gp, gp - g0 + 1, gp, g0 - 1);
+        d[j].out = ws->part + j * ws->npts;
+        d[j].a = a + start;
+        d[j].b = b + start;
+        d[j].npairs = np - start;
+        d[j].add = NULL;
+        d[j].n = wpvol_modp_ntt_pts(gp, st->L);
+    }
+    wpvol_ntt_dot2_many(d, count, st->mod);
+    free(a);
+    ws->blk0 = g0;
+    return WPVOL_OK;
+}
+
+/* buf = 2 sum_{h<g-h} hat_h hat_{g-h} + square (the sum over ordered pairs) at the T points of
+   genus g, from the block's partial sums when g is in a genus block.
+   Returns WPVOL_OK or WPVOL_NOMEM. */
+static int wpvol_modp_genus_sum(wpvol_run_t *st, slong g, slong T)
+{
+    wpvol_ws_t *ws = st->ws;
+    slong np = 0, g0 = 1;
+    ulong *pa[64], *pb[64], **a = pa, **b = pb;   /* np <= g/2 pointers each */
+    wpvol_dot_t d;
+
+    if (g >= WPVOL_GBLOCK_FROM && ws->part != NULL)
+    {
+        g0 = g - (g - WPVOL_GBLOCK_FROM) % WPVOL_GBLOCK;
+        if (ws->blk0 != g0 && wpvol_modp_block_sums(st, g0) != WPVOL_OK)
+            return WPVOL_NOMEM;
+    }
+    if (g / 2 > 64)
+    {
+        a = malloc((size_t) (2 * (g / 2)) * sizeof(ulong *));
+        if (a == NULL)
+            return WPVOL_NOMEM;
+        b = a + g / 2;
+    }
+    /* without a block (g0 = 1) every pair; else those with g-h >= g0, i.e. h <= g-g0 */
+    d.sq = wpvol_modp_pairs(a, b, &np, ws, g, 1, g0 == 1 ? g : g - g0, g0 == 1 ? g : g);
+    if (g0 != 1 && g % 2 == 0 && g / 2 < g0)
+        d.sq = NULL;   /* the square is in the block's sums */
+    d.out = ws->buf;
+    d.a = a;
+    d.b = b;
+    d.npairs = np;
+    d.add = g0 == 1 ? NULL : ws->part + (g - g0) * ws->npts;
+    d.n = T;
+    wpvol_ntt_dot2_many(&d, 1, st->mod);
+    if (a != pa)
+        free(a);
     return WPVOL_OK;
 }
 
@@ -245,26 +353,13 @@ static int wpvol_modp_hat(wpvol_run_t *st, slong h)
 static int wpvol_modp_products_ntt(wpvol_run_t *st, slong g, wpvol_biv_t A)
 {
     wpvol_ws_t *ws = st->ws;
-    slong h, r, np = 0, T = wpvol_modp_ntt_len(g, st->L), slot = 2 * st->L - 1;
-    ulong *pa[64], *pb[64], **a = pa, **b = pb;   /* np <= g/2 pointers each */
+    slong r, T = wpvol_modp_ntt_len(g, st->L), n = wpvol_modp_ntt_pts(g, st->L);
+    slong slot = 2 * st->L - 1;
 
-    if (g / 2 > 64)
-    {
-        a = malloc((size_t) (2 * (g / 2)) * sizeof(ulong *));
-        if (a == NULL)
-            return WPVOL_NOMEM;
-        b = a + g / 2;
-    }
-    for (h = 1; 2 * h < g; h++, np++)
-    {
-        a[np] = ws->hat[h];
-        b[np] = ws->hat[g - h];
-    }
-    /* buf = 2 sum_{h<g-h} + square term = sum over ordered pairs */
-    wpvol_ntt_dot2(ws->buf, a, b, np, g % 2 == 0 ? ws->hat[g / 2] : NULL, T, st->mod);
-    if (a != pa)
-        free(a);
-    wpvol_ntt_inv(ws->buf, T, ws->F);
+    if (wpvol_modp_genus_sum(st, g, n) != WPVOL_OK)
+        return WPVOL_NOMEM;
+    memset(ws->buf + n, 0, (size_t) (T - n) * sizeof(ulong));   /* the product is shorter */
+    wpvol_ntt_inv_trunc(ws->buf, T, n, ws->F);
     /* product row i is v^{-(2g+2+i)}, i.e. row i+1 of A */
     for (r = 0; r + 1 < A->rows; r++)
         _nmod_vec_add(A->c + (r + 1) * A->len, A->c + (r + 1) * A->len, ws->buf + r * slot,
@@ -311,11 +406,11 @@ static int wpvol_modp_step(wpvol_run_t *st, slong g, wpvol_biv_t A)
     wpvol_biv_t C, D;
     int status;
 
-    /* transforms deliver the product sum multiplied by k = 2T: scale the other term by k too
-       and divide by k together with 1/m at the end (one pass instead of two) */
+    /* transforms deliver the product sum over ordered pairs, i.e. multiplied by k = 2: scale
+       the other term by k too and divide by k together with 1/m at the end */
     if (st->use_ntt)
     {
-        k = nmod_mul(2, (ulong) wpvol_modp_ntt_len(g, len) % mod.n, mod);
+        k = 2;
         kinv = nmod_inv(k, mod);
     }
     /* d_0^4 F_{g-1} = d_0^2 (B[g-1]); each d_0 adds one row */
@@ -401,6 +496,13 @@ static int wpvol_modp_setup_products(wpvol_run_t *st, int allow_ntt)
         if (ws->buf == NULL)
             return WPVOL_NOMEM;
     }
+    if (ws->part == NULL && ws->G >= WPVOL_GBLOCK_FROM)
+    {
+        ws->part = malloc((size_t) WPVOL_GBLOCK * (size_t) ws->npts * sizeof(ulong));
+        if (ws->part == NULL)
+            return WPVOL_NOMEM;
+    }
+    ws->blk0 = 0;   /* the partial sums belong to the previous prime */
     st->use_ntt = 1;
     return WPVOL_OK;
 }
@@ -422,6 +524,7 @@ void wpvol_ws_free(wpvol_ws_t *ws)
     free(ws->cbuf);
     free(ws->dbuf);
     free(ws->buf);
+    free(ws->part);
     wpvol_ntt_clear(ws->F);
     free(ws);
 }
@@ -440,6 +543,7 @@ wpvol_ws_t *wpvol_ws_new(slong G, slong N)
     ws->N = N;
     ws->L = wpvol_modp_len(G, N);
     ws->Tmax = G >= 2 ? wpvol_modp_ntt_len(G, ws->L) : 1;
+    ws->npts = G >= 2 ? wpvol_modp_ntt_pts(G, ws->L) : 1;
     ws->B = calloc((size_t) (G + 1), sizeof(wpvol_biv_struct));
     ws->hat = calloc((size_t) (G + 1), sizeof(ulong *));
     ws->abuf = calloc((size_t) (rows * ws->L), sizeof(ulong));

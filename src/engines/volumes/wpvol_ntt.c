@@ -225,6 +225,117 @@ void wpvol_ntt_inv(ulong *a, slong n, const wpvol_ntt_t F)
         a[j] = a[j] >= p ? a[j] - p : a[j];
 }
 
+/* Truncated transforms (J. van der Hoeven, "The truncated Fourier transform and applications",
+ * 2004), in a recursive form of our own: the first n values of the bit-reversed transform of
+ * length N are those of its first half-transform, then (if n > N/2) the first n - N/2 of the
+ * second, so a product whose length is just above a power of two costs about that length
+ * rather than the next power of two.  The first n values of a length-N transform are also the
+ * first n values of every longer one (bit-reversed prefixes), so the cached transforms keep
+ * working with any genus's n. */
+
+/* x * w mod p reduced to [0, p) (Shoup, w < p with quotient wpre). */
+static inline ulong wpvol_ntt_mulred(ulong x, ulong w, ulong wpre, ulong p)
+{
+    ulong r = wpvol_ntt_mulshoup(x, w, wpre, p);
+
+    return r >= p ? r - p : r;
+}
+
+/* x / 2 mod p for x in [0, p), p odd. */
+static inline ulong wpvol_ntt_half(ulong x, ulong p)
+{
+    return (x & 1) ? (x >> 1) + (p >> 1) + 1 : x >> 1;
+}
+
+/* a[0..N) *= 1/k mod p (reduced). */
+static void wpvol_ntt_scale_inv(ulong *a, slong N, ulong k, const wpvol_ntt_t F)
+{
+    ulong p = F->mod.n, s = nmod_inv(k % p, F->mod), spre = wpvol_ntt_shoup_pre(s, p);
+    slong j;
+
+    for (j = 0; j < N; j++)
+        a[j] = wpvol_ntt_mulred(a[j], s, spre, p);
+}
+
+/* The first n values (bit-reversed order, reduced) of the length-N transform of the
+   polynomial with coefficients a[0..d) in [0, p) (zero from d on: a[d..N) is not read), in
+   a[0..n); a[n..N) is clobbered.  N a power of two <= F->n, 0 <= d <= n <= N. */
+void wpvol_ntt_fwd_trunc(ulong *a, slong N, slong n, slong d, const wpvol_ntt_t F)
+{
+    ulong p = F->mod.n;
+    slong j, h = N / 2;
+
+    if (n <= 0)
+        return;
+    if (n >= N)
+    {
+        memset(a + d, 0, (size_t) (N - d) * sizeof(ulong));
+        wpvol_ntt_fwd(a, N, F);
+        return;
+    }
+    if (n <= h)   /* only the first half: b_j = a_j + a_{j+h} */
+    {
+        for (j = 0; j + h < d; j++)
+            a[j] = nmod_add(a[j], a[j + h], F->mod);
+        wpvol_ntt_fwd_trunc(a, h, n, FLINT_MIN(d, h), F);
+        return;
+    }
+    for (j = 0; j < h; j++)   /* both halves: b_j = a_j + a_{j+h}, c_j = (a_j - a_{j+h}) w^j */
+    {
+        ulong x = j < d ? a[j] : 0, y = j + h < d ? a[j + h] : 0;
+        a[j] = nmod_add(x, y, F->mod);
+        a[j + h] = wpvol_ntt_mulred(x - y + p, F->w[h + j], F->wpre[h + j], p);
+    }
+    wpvol_ntt_fwd(a, h, F);
+    wpvol_ntt_fwd_trunc(a + h, h, n - h, FLINT_MIN(d, h), F);
+}
+
+/* Inverse of wpvol_ntt_fwd_trunc: given the first n transform values of a polynomial of
+   length N in a[0..n) (in [0, 2p): they only enter wpvol_ntt_inv) and its coefficients of
+   index >= n in a[n..N) (in [0, p)), sets
+   a[0..n) to its coefficients of index < n (exact: no factor N); a[n..N) is clobbered.
+   With b = first half + second half and c = (first - second half) w^j of the coefficients,
+   the values known determine b (if n >= N/2) or the first n values of b, and c follows from
+   its known coefficients and its first n - N/2 values by the same problem at length N/2. */
+void wpvol_ntt_inv_trunc(ulong *a, slong N, slong n, const wpvol_ntt_t F)
+{
+    ulong p = F->mod.n;
+    slong j, h = N / 2, m = n - h;
+
+    if (n <= 0)
+        return;
+    if (n >= N)
+    {
+        wpvol_ntt_inv(a, N, F);
+        wpvol_ntt_scale_inv(a, N, (ulong) N, F);
+        return;
+    }
+    if (n <= h)   /* b_j = a_j + a_{j+h}: known for j >= n; then a_j = b_j - a_{j+h} */
+    {
+        for (j = n; j < h; j++)
+            a[j] = nmod_add(a[j], a[j + h], F->mod);
+        wpvol_ntt_inv_trunc(a, h, n, F);
+        for (j = 0; j < n; j++)
+            a[j] = nmod_sub(a[j], a[j + h], F->mod);
+        return;
+    }
+    wpvol_ntt_inv(a, h, F);   /* h b */
+    wpvol_ntt_scale_inv(a, h, (ulong) h, F);
+    for (j = m; j < h; j++)   /* a_{j+h} known: a_j = b_j - a_{j+h}, and c_j */
+    {
+        ulong aj = nmod_sub(a[j], a[j + h], F->mod);
+        a[j + h] = wpvol_ntt_mulred(aj - a[j + h] + p, F->w[h + j], F->wpre[h + j], p);
+        a[j] = aj;
+    }
+    wpvol_ntt_inv_trunc(a + h, h, m, F);
+    for (j = 0; j < m; j++)   /* a_j +- a_{j+h} = b_j, c_j w^-j */
+    {
+        ulong b = a[j], c = wpvol_ntt_mulred(a[j + h], F->iw[h + j], F->iwpre[h + j], p);
+        a[j] = wpvol_ntt_half(nmod_add(b, c, F->mod), p);
+        a[j + h] = wpvol_ntt_half(nmod_sub(b, c, F->mod), p);
+    }
+}
+
 /* pre[i] = Shoup quotient of b[i] (b in [0, p)), for repeated multiplication by b. */
 void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod)
 {
@@ -291,36 +402,117 @@ static inline ulong wpvol_ntt_dot_reduce(wpvol_u128 acc, ulong carry, ulong sq,
     return wpvol_red3_apply(hi, (ulong) (t >> 64), (ulong) t, R);
 }
 
-/* out[i] = 2 sum_k a[k][i] b[k][i] + (sq ? sq[i]^2 : 0) mod p for i < n.  Products are summed
-   exactly in 128 bits plus an overflow counter and reduced once per entry (without division);
-   the loop runs over blocks of entries, one factor pair at a time, so that each factor is read
-   as one sequential stream. */
-void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, const ulong *sq,
-                    slong n, nmod_t mod)
+/* Entries per block of the pointwise sums: the block's accumulators (6 KiB) stay in L1, and the
+   blocks of all factors of a pass (2 KiB each) in L2, so a pass of several sums reads each
+   factor from memory once. */
+#define WPVOL_DOT_BLK 256
+
+/* Products p^2 < 2^124 for p < 2^62: 16 of them fit in 128 bits without a carry check. */
+#define WPVOL_DOT_CHUNK 16
+
+/* part[i] (= if set, else +=) sum of the products of the pairs k0 <= k < k1, entries i0 + i,
+   i < m, four pairs per sweep where possible (one update of part per four products). */
+static void wpvol_ntt_dot_chunk(wpvol_u128 *part, ulong *const *a, ulong *const *b, slong k0,
+                                slong k1, slong i0, slong m)
 {
-    enum { BLK = 256 };
-    wpvol_u128 acc[BLK];
-    ulong carry[BLK];
-    slong i0, i, k;
+    slong k = k0, i;
+    int set = 1;
+
+    for (; k + 4 <= k1; k += 4, set = 0)
+    {
+        const ulong *x0 = a[k] + i0, *x1 = a[k + 1] + i0, *x2 = a[k + 2] + i0,
+                    *x3 = a[k + 3] + i0, *y0 = b[k] + i0, *y1 = b[k + 1] + i0,
+                    *y2 = b[k + 2] + i0, *y3 = b[k + 3] + i0;
+        for (i = 0; i < m; i++)
+        {
+            wpvol_u128 t = (wpvol_u128) x0[i] * y0[i] + (wpvol_u128) x1[i] * y1[i]
+                           + (wpvol_u128) x2[i] * y2[i] + (wpvol_u128) x3[i] * y3[i];
+            part[i] = set ? t : part[i] + t;
+        }
+    }
+    for (; k < k1; k++, set = 0)
+    {
+        const ulong *x = a[k] + i0, *y = b[k] + i0;
+        for (i = 0; i < m; i++)
+        {
+            wpvol_u128 t = (wpvol_u128) x[i] * y[i];
+            part[i] = set ? t : part[i] + t;
+        }
+    }
+}
+
+/* acc[i] (three words: carry 2^128 + acc) += sum_{k<npairs} a[k][i0+i] b[k][i0+i], i < m:
+   each chunk of pairs is summed in 128 bits without carry checks, then added once. */
+static void wpvol_ntt_dot_accumulate(wpvol_u128 *acc, ulong *carry, ulong *const *a,
+                                     ulong *const *b, slong npairs, slong i0, slong m)
+{
+    wpvol_u128 part[WPVOL_DOT_BLK];
+    slong k0, i;
+
+    for (k0 = 0; k0 < npairs; k0 += WPVOL_DOT_CHUNK)
+    {
+        wpvol_ntt_dot_chunk(part, a, b, k0, FLINT_MIN(npairs, k0 + WPVOL_DOT_CHUNK), i0, m);
+        for (i = 0; i < m; i++)
+        {
+            wpvol_u128 t = acc[i] + part[i];
+            carry[i] += (t < acc[i]);
+            acc[i] = t;
+        }
+    }
+}
+
+/* Entries [i0, i0+m) of one sum of wpvol_ntt_dot2_many. */
+static void wpvol_ntt_dot_block(const wpvol_dot_t *d, slong i0, slong m, const wpvol_red3 *R)
+{
+    wpvol_u128 acc[WPVOL_DOT_BLK];
+    ulong carry[WPVOL_DOT_BLK];
+    slong i;
+
+    memset(acc, 0, sizeof(acc));
+    memset(carry, 0, sizeof(carry));
+    wpvol_ntt_dot_accumulate(acc, carry, d->a, d->b, d->npairs, i0, m);
+    for (i = 0; i < m; i++)
+    {
+        ulong r = wpvol_ntt_dot_reduce(acc[i], carry[i], d->sq ? d->sq[i0 + i] : 0, R);
+        if (d->add != NULL)
+        {
+            r += d->add[i0 + i];
+            r = r >= R->p ? r - R->p : r;
+        }
+        d->out[i0 + i] = r;
+    }
+}
+
+/* Every sum of d[0..count) (see wpvol_internal.h), block by block of entries: for each block
+   all the sums are done before the next block, so factors shared by several sums are read
+   from memory once per block rather than once per sum. */
+void wpvol_ntt_dot2_many(const wpvol_dot_t *d, slong count, nmod_t mod)
+{
+    slong i0, j, n = 0;
     wpvol_red3 R;
 
     wpvol_red3_init(&R, mod);
-    for (i0 = 0; i0 < n; i0 += BLK)
-    {
-        slong m = FLINT_MIN((slong) BLK, n - i0);
-        memset(acc, 0, sizeof(acc));
-        memset(carry, 0, sizeof(carry));
-        for (k = 0; k < npairs; k++)
-        {
-            const ulong *x = a[k] + i0, *y = b[k] + i0;
-            for (i = 0; i < m; i++)
-            {
-                wpvol_u128 t = acc[i] + (wpvol_u128) x[i] * y[i];
-                carry[i] += (t < acc[i]);
-                acc[i] = t;
-            }
-        }
-        for (i = 0; i < m; i++)
-            out[i0 + i] = wpvol_ntt_dot_reduce(acc[i], carry[i], sq ? sq[i0 + i] : 0, &R);
-    }
+    for (j = 0; j < count; j++)
+        n = FLINT_MAX(n, d[j].n);
+    for (i0 = 0; i0 < n; i0 += WPVOL_DOT_BLK)
+        for (j = 0; j < count; j++)
+            if (d[j].n > i0)
+                wpvol_ntt_dot_block(&d[j], i0, FLINT_MIN((slong) WPVOL_DOT_BLK, d[j].n - i0), &R);
+}
+
+/* out[i] = 2 sum_k a[k][i] b[k][i] + (sq ? sq[i]^2 : 0) mod p for i < n: one sum of
+   wpvol_ntt_dot2_many. */
+void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, const ulong *sq,
+                    slong n, nmod_t mod)
+{
+    wpvol_dot_t d;
+
+    d.out = out;
+    d.a = a;
+    d.b = b;
+    d.npairs = npairs;
+    d.sq = sq;
+    d.add = NULL;
+    d.n = n;
+    wpvol_ntt_dot2_many(&d, 1, mod);
 }

@@ -218,70 +218,94 @@ int wpvol_ctx_init(wpvol_ctx_t ctx, nmod_t mod, slong len, slong invlen)
 /* Frees the series of ctx and leaves it empty (safe to call twice). */
 void wpvol_ctx_clear(wpvol_ctx_t ctx)
 {
-    int lg;
-
     free(ctx->i2);
     free(ctx->i2inv);
     free(ctx->inv);
-    for (lg = 0; lg < 64; lg++)
-        free(ctx->i2hat[lg]);   /* i2pre[lg] lives in the same block */
+    free(ctx->i2hat);
     free(ctx->work);
     memset(ctx, 0, sizeof(wpvol_ctx_struct));
 }
 
-/* Transforms of I_2 for the lengths 2^WPVOL_ROW_LG .. 2^lgmax with 2^(lgmax-1) >= maxrow:
-   a row of l <= 2^(lg-1) terms times I_2 truncated to 2^(lg-1)+1 terms has at most 2^lg - 1
-   terms before truncation, so the cyclic product of length 2^lg is exact.
+/* Points used for a row of l terms times I_2 cut to K terms (the product's l + K - 1 terms,
+   rounded up to a multiple of 64 so that the truncated transforms stay shallow). */
+static slong wpvol_ctx_row_pts(slong l, slong K)
+{
+    return (l + K - 1 + 63) / 64 * 64;
+}
+
+/* Terms of I_2 kept for truncation k (k = 0, 1, ...): (k+1) WPVOL_ROW_STEP, at most len. */
+static slong wpvol_ctx_row_cut(const wpvol_ctx_t ctx, slong k)
+{
+    return FLINT_MIN((k + 1) * WPVOL_ROW_STEP, ctx->len);
+}
+
+/* Caches, for every truncation K of I_2 and of 1/I_2 (multiples of WPVOL_ROW_STEP up to
+   maxrow), the first points of the transform of the series cut to K terms that any row of
+   l <= K terms needs.
    Returns 0, or -1 on exhausted memory (ctx then classical only). */
 int wpvol_ctx_attach_ntt(wpvol_ctx_t ctx, const wpvol_ntt_struct *F, slong maxrow)
 {
-    int lg, lgmax = WPVOL_ROW_LG;
+    slong k, tlen = 1, nk = (maxrow + WPVOL_ROW_STEP - 1) / WPVOL_ROW_STEP;
 
-    while ((WORD(1) << (lgmax - 1)) < maxrow)
-        lgmax++;
-    if (maxrow <= (WORD(1) << (WPVOL_ROW_LG - 2)) || F == NULL || F->n < (WORD(1) << lgmax))
+    while (tlen < wpvol_ctx_row_pts(maxrow, wpvol_ctx_row_cut(ctx, nk - 1)))
+        tlen *= 2;
+    if (maxrow <= WPVOL_ROW_MIN || F == NULL || F->n < tlen)
         return 0;
-    ctx->work = malloc(((size_t) 1 << lgmax) * sizeof(ulong));
-    if (ctx->work == NULL)
-        return -1;
-    for (lg = WPVOL_ROW_LG; lg <= lgmax; lg++)
+    ctx->work = malloc((size_t) tlen * sizeof(ulong));
+    ctx->i2hat = malloc((size_t) (4 * nk * tlen) * sizeof(ulong));
+    if (ctx->work == NULL || ctx->i2hat == NULL)
+        return -1;   /* ctx->ntt still NULL: classical path; blocks freed by clear */
+    for (k = 0; k < 2 * nk; k++)   /* I_2, then 1/I_2 */
     {
-        slong T = WORD(1) << lg, k = FLINT_MIN(T / 2 + 1, ctx->len);
-        ulong *h = calloc((size_t) (2 * T), sizeof(ulong));
-        if (h == NULL)
-            return -1;   /* ctx->ntt still NULL: classical path; blocks freed by clear */
-        ctx->i2hat[lg] = h;
-        ctx->i2pre[lg] = h + T;
-        memcpy(h, ctx->i2, (size_t) k * sizeof(ulong));
-        wpvol_ntt_fwd(h, T, F);
-        wpvol_ntt_shoup_vec(ctx->i2pre[lg], h, T, ctx->mod);
-        ctx->tinv[lg] = nmod_inv((ulong) T % ctx->mod.n, ctx->mod);
+        slong K = wpvol_ctx_row_cut(ctx, k % nk), n = FLINT_MIN(tlen, wpvol_ctx_row_pts(K, K));
+        ulong *h = ctx->i2hat + 2 * k * tlen;
+        memcpy(h, k < nk ? ctx->i2 : ctx->i2inv, (size_t) K * sizeof(ulong));
+        wpvol_ntt_fwd_trunc(h, tlen, n, K, F);
+        wpvol_ntt_shoup_vec(h + tlen, h, n, ctx->mod);
     }
-    ctx->lgmax = lgmax;
+    ctx->tlen = tlen;
+    ctx->nk = nk;
     ctx->ntt = F;
     return 0;
 }
 
-/* res = x I_2 mod u^l: classical for short rows (cheaper below a few hundred terms), else one
-   forward and one inverse transform with the cached transform of I_2 (the 1/T of the inverse
-   transform is applied here). */
-void wpvol_ctx_mul_i2(ulong *res, const ulong *x, slong l, const wpvol_ctx_t ctx)
+/* res = x S mod u^l for S = I_2 (which = 0) or 1/I_2 (which = 1): classical for short rows
+   (cheaper below a few hundred terms), else truncated transforms at the l + K - 1 points of
+   the product by S cut to K >= l terms (exact: the product has no more terms, and terms of S
+   beyond K do not reach u^{l-1}). */
+static void wpvol_ctx_mul_series(ulong *res, const ulong *x, slong l, const wpvol_ctx_t ctx,
+                                 int which)
 {
-    int lg = WPVOL_ROW_LG;
-    slong T;
+    slong k, K, n, N = 1;
+    const ulong *h, *hpre;
+    ulong *w = ctx->work;
 
-    if (ctx->ntt == NULL || l <= (WORD(1) << (WPVOL_ROW_LG - 2)))
+    if (ctx->ntt == NULL || l <= WPVOL_ROW_MIN)
     {
-        _nmod_poly_mullow(res, x, l, ctx->i2, l, l, ctx->mod);
+        _nmod_poly_mullow(res, x, l, which ? ctx->i2inv : ctx->i2, l, l, ctx->mod);
         return;
     }
-    while ((WORD(1) << (lg - 1)) < l)
-        lg++;
-    T = WORD(1) << lg;
-    memcpy(ctx->work, x, (size_t) l * sizeof(ulong));
-    memset(ctx->work + l, 0, (size_t) (T - l) * sizeof(ulong));
-    wpvol_ntt_fwd(ctx->work, T, ctx->ntt);
-    wpvol_ntt_mul_shoup_vec(ctx->work, ctx->i2hat[lg], ctx->i2pre[lg], T, ctx->mod);
-    wpvol_ntt_inv(ctx->work, T, ctx->ntt);
-    _nmod_vec_scalar_mul_nmod(res, ctx->work, l, ctx->tinv[lg], ctx->mod);
+    k = (l + WPVOL_ROW_STEP - 1) / WPVOL_ROW_STEP - 1;
+    K = wpvol_ctx_row_cut(ctx, k);
+    n = wpvol_ctx_row_pts(l, K);
+    while (N < n)
+        N *= 2;
+    h = ctx->i2hat + 2 * (k + which * ctx->nk) * ctx->tlen;
+    hpre = h + ctx->tlen;
+    memcpy(w, x, (size_t) l * sizeof(ulong));
+    wpvol_ntt_fwd_trunc(w, N, n, l, ctx->ntt);
+    wpvol_ntt_mul_shoup_vec(w, h, hpre, n, ctx->mod);
+    memset(w + n, 0, (size_t) (N - n) * sizeof(ulong));
+    wpvol_ntt_inv_trunc(w, N, n, ctx->ntt);
+    memcpy(res, w, (size_t) l * sizeof(ulong));
+}
+
+void wpvol_ctx_mul_i2(ulong *res, const ulong *x, slong l, const wpvol_ctx_t ctx)
+{
+    wpvol_ctx_mul_series(res, x, l, ctx, 0);
+}
+
+void wpvol_ctx_mul_i2inv(ulong *res, const ulong *x, slong l, const wpvol_ctx_t ctx)
+{
+    wpvol_ctx_mul_series(res, x, l, ctx, 1);
 }
