@@ -14,6 +14,13 @@
  *                                     The engine computes V_{G,0} as the table g <= G, n = 0
  *                                     (the recursion runs through every lower genus anyway), so
  *                                     that is what is timed.  Keep G small on a shared machine.
+ *         bench_volumes prime G N [R] R (default 3) primes of the table (G, N) one after the
+ *                                     other on one thread (wpvol_modp_run with one workspace,
+ *                                     primes of the driver's form c 2^28 + 1), in this process:
+ *                                     seconds of each prime, their minimum and median, peak
+ *                                     MiB.  The per-prime cost is what profiles and the time
+ *                                     model describe; the minimum is the least disturbed by
+ *                                     other load on a shared machine.
  *         bench_volumes               the standard cases: (50,5), (100,5), (3,500), each with
  *                                     1 and 2 threads, one child process per run; then
  *                                     compare 12
@@ -35,6 +42,7 @@
 #include <flint/fmpq_vec.h>
 
 #include "volumes/wpvol.h"
+#include "volumes/wpvol_internal.h"
 #include "correlators/wk.h"
 #include "correlators/pushforward.h"
 #include "bench_util.h"
@@ -309,6 +317,48 @@ static int bench_single(slong G, int threads)
     return !same;
 }
 
+/* qsort comparison of doubles. */
+static int bench_cmp_double(const void *a, const void *b)
+{
+    double x = *(const double *) a, y = *(const double *) b;
+
+    return (x > y) - (x < y);
+}
+
+/* The prime mode (see the header comment).  Returns nonzero if a prime failed. */
+static int bench_primes(slong G, slong N, slong R)
+{
+    wpvol_ws_t *ws = wpvol_ws_new(G, N);
+    ulong *res = flint_malloc((size_t) ((G + 1) * (N + 1)) * sizeof(ulong));
+    double *sec = flint_malloc((size_t) R * sizeof(double));
+    ulong p = UWORD(1) << 62;
+    slong r;
+    int bad = ws == NULL;
+
+    for (r = 0; r < R && !bad; r++)
+    {
+        nmod_t mod;
+        bench_timer t;
+        p = wpvol_ntt_prime_below(p, 28);
+        nmod_init(&mod, p);
+        bench_timer_start(&t);
+        bad = wpvol_modp_run(ws, res, mod, 1) != WPVOL_OK;
+        sec[r] = bench_timer_wall(&t);
+        printf("prime %ld: %.3f s\n", (long) r + 1, sec[r]);
+        fflush(stdout);
+    }
+    if (!bad)
+    {
+        qsort(sec, (size_t) R, sizeof(double), bench_cmp_double);
+        printf("G = %ld, N = %ld: %ld primes, min %.3f s, median %.3f s, peak %.1f MiB\n",
+               (long) G, (long) N, (long) R, sec[0], sec[R / 2], bench_peak_mib());
+    }
+    wpvol_ws_free(ws);
+    flint_free(res);
+    flint_free(sec);
+    return bad;
+}
+
 /* Dispatches on the arguments (see the header comment).
    Returns nonzero if any run failed or the compare mode found a mismatch. */
 int main(int argc, char **argv)
@@ -332,6 +382,17 @@ int main(int argc, char **argv)
         }
         return bench_single(G, (int) T);
     }
+    if (argc >= 4 && argc <= 5 && strcmp(argv[1], "prime") == 0)
+    {
+        slong R = 3;
+        if (!bench_arg_slong(&G, argv[2], 2, 1000) || !bench_arg_slong(&N, argv[3], 0, 1000)
+            || (argc == 5 && !bench_arg_slong(&R, argv[4], 1, 1000)))
+        {
+            fprintf(stderr, "usage: %s prime G N [R] (2 <= G <= 1000)\n", argv[0]);
+            return 2;
+        }
+        return bench_primes(G, N, R);
+    }
     if (argc == 3 && strcmp(argv[1], "compare") == 0 && bench_arg_slong(&G, argv[2], 4, WORD_MAX))
         return bench_compare(G);
     if (argc == 4 && bench_arg_slong(&G, argv[1], 0, WORD_MAX)
@@ -342,8 +403,8 @@ int main(int argc, char **argv)
     }
     if (argc != 1)
     {
-        fprintf(stderr, "usage: %s [G N THREADS | compare GMAX (GMAX >= 4) | single [G [THREADS]]]\n",
-                argv[0]);
+        fprintf(stderr, "usage: %s [G N THREADS | compare GMAX (GMAX >= 4) | single [G [THREADS]]"
+                " | prime G N [R]]\n", argv[0]);
         return 2;
     }
     printf("%s", head);

@@ -19,8 +19,10 @@
  *
  * Products.  The sum over h of d_0^2 F_h d_0^2 F_{g-h} is computed with the Kronecker
  * substitution (row r in slot r(2L-1)); with a prime p = c 2^k + 1 each d_0^2 F_h is
- * transformed once (wpvol_ntt.c) and every genus needs one pointwise multiply-accumulate and
- * one inverse transform.  Any other prime uses FLINT's products (same results).
+ * transformed once (wpvol_ntt.c, truncated transforms at the points of genus G) and every
+ * genus needs one pointwise multiply-accumulate (shared by the genera of a block, see
+ * wpvol_modp_block_sums) and one inverse truncated transform.  Any other prime uses FLINT's
+ * products (same results).
  */
 #include <stdlib.h>
 #include <string.h>
@@ -262,23 +264,26 @@ static int wpvol_modp_hat(wpvol_run_t *st, slong h)
 #define WPVOL_GBLOCK 8
 #define WPVOL_GBLOCK_FROM 16
 
-/* Pairs h < g-h of genus g with lo <= h <= hi, as pointer lists from *np on; returns the
-   square's transform if g is even and lo <= g/2 <= hi2, else NULL. */
+/* The pairs (h, g-h) of genus g with h < g-h and lo <= g-h <= hi (the larger member in
+   [lo, hi]), appended to the pointer lists at *np; returns the transform of the square
+   (h = g-h) if g is even and lo <= g/2 <= hi, else NULL. */
 static const ulong *wpvol_modp_pairs(ulong **a, ulong **b, slong *np, const wpvol_ws_t *ws,
-                                     slong g, slong lo, slong hi, slong hi2)
+                                     slong g, slong lo, slong hi)
 {
     slong h;
 
-    for (h = FLINT_MAX(lo, 1); h <= hi && 2 * h < g; h++, (*np)++)
-    {
-        a[*np] = ws->hat[h];
-        b[*np] = ws->hat[g - h];
-    }
-    return g % 2 == 0 && g / 2 >= lo && g / 2 <= hi2 ? ws->hat[g / 2] : NULL;
+    for (h = 1; 2 * h < g; h++)
+        if (g - h >= lo && g - h <= hi)
+        {
+            a[*np] = ws->hat[h];
+            b[*np] = ws->hat[g - h];
+            (*np)++;
+        }
+    return g % 2 == 0 && g / 2 >= lo && g / 2 <= hi ? ws->hat[g / 2] : NULL;
 }
 
 /* part[j] = 2 sum_{h < g'-h < g0} hat_h hat_{g'-h} (+ the square if g'/2 < g0) for the genera
-   g' = g0 + j of the block starting at g0, each over its own transform length.
+   g' = g0 + j of the block starting at g0, each at its own points.
    Returns WPVOL_OK or WPVOL_NOMEM. */
 static int wpvol_modp_block_sums(wpvol_run_t *st, slong g0)
 {
@@ -293,8 +298,7 @@ static int wpvol_modp_block_sums(wpvol_run_t *st, slong g0)
     for (j = 0; j < count; j++)
     {
         slong gp = g0 + j, start = np;
-        /* pairs with g'-h <= g0-1, i.e. h >= g'-g0+1 */
-        d[j].sq = wpvol_modp_pairs(a, b, &np, ws, gp, gp - g0 + 1, gp, g0 - 1);
+        d[j].sq = wpvol_modp_pairs(a, b, &np, ws, gp, 1, g0 - 1);   /* both members < g0 */
         d[j].out = ws->part + j * ws->npts;
         d[j].a = a + start;
         d[j].b = b + start;
@@ -308,10 +312,10 @@ static int wpvol_modp_block_sums(wpvol_run_t *st, slong g0)
     return WPVOL_OK;
 }
 
-/* buf = 2 sum_{h<g-h} hat_h hat_{g-h} + square (the sum over ordered pairs) at the T points of
+/* buf = 2 sum_{h<g-h} hat_h hat_{g-h} + square (the sum over ordered pairs) at the n points of
    genus g, from the block's partial sums when g is in a genus block.
    Returns WPVOL_OK or WPVOL_NOMEM. */
-static int wpvol_modp_genus_sum(wpvol_run_t *st, slong g, slong T)
+static int wpvol_modp_genus_sum(wpvol_run_t *st, slong g, slong n)
 {
     wpvol_ws_t *ws = st->ws;
     slong np = 0, g0 = 1;
@@ -331,25 +335,23 @@ static int wpvol_modp_genus_sum(wpvol_run_t *st, slong g, slong T)
             return WPVOL_NOMEM;
         b = a + g / 2;
     }
-    /* without a block (g0 = 1) every pair; else those with g-h >= g0, i.e. h <= g-g0 */
-    d.sq = wpvol_modp_pairs(a, b, &np, ws, g, 1, g0 == 1 ? g : g - g0, g0 == 1 ? g : g);
-    if (g0 != 1 && g % 2 == 0 && g / 2 < g0)
-        d.sq = NULL;   /* the square is in the block's sums */
+    /* the pairs not in the block's sums: larger member >= g0 (without a block, g0 = 1: all) */
+    d.sq = wpvol_modp_pairs(a, b, &np, ws, g, g0, g);
     d.out = ws->buf;
     d.a = a;
     d.b = b;
     d.npairs = np;
     d.add = g0 == 1 ? NULL : ws->part + (g - g0) * ws->npts;
-    d.n = T;
+    d.n = n;
     wpvol_ntt_dot2_many(&d, 1, st->mod);
     if (a != pa)
         free(a);
     return WPVOL_OK;
 }
 
-/* A (rows v^{-(2g+1)}..) += 2T * 1/2 sum_{h=1}^{g-1} B_h B_{g-h} (T the transform length of
-   genus g) with one pointwise sum over prefixes of the cached transforms and a single inverse
-   transform: each B_h is transformed once in all.  Returns WPVOL_OK or WPVOL_NOMEM. */
+/* A (rows v^{-(2g+1)}..) += 2 * 1/2 sum_{h=1}^{g-1} B_h B_{g-h} with one pointwise sum over
+   prefixes of the cached transforms and a single inverse truncated transform: each B_h is
+   transformed once in all.  Returns WPVOL_OK or WPVOL_NOMEM. */
 static int wpvol_modp_products_ntt(wpvol_run_t *st, slong g, wpvol_biv_t A)
 {
     wpvol_ws_t *ws = st->ws;
@@ -367,7 +369,7 @@ static int wpvol_modp_products_ntt(wpvol_run_t *st, slong g, wpvol_biv_t A)
     return WPVOL_OK;
 }
 
-/* The same sum with FLINT products (any prime), without the factor 2T: each unordered pair
+/* The same sum with FLINT products (any prime), without the factor 2: each unordered pair
    once, the square halved.  Returns WPVOL_OK or WPVOL_NOMEM. */
 static int wpvol_modp_products_flint(wpvol_run_t *st, slong g, wpvol_biv_t A)
 {
