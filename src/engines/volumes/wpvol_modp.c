@@ -341,7 +341,7 @@ static int wpvol_modp_genus_sum(wpvol_run_t *st, slong g, slong n)
     d.a = a;
     d.b = b;
     d.npairs = np;
-    d.add = g0 == 1 ? NULL : ws->part + (g - g0) * ws->npts;
+    d.add = g0 == 1 ? NULL : ws->part + (g - g0) * ws->npts;   /* the block's sums */
     d.n = n;
     wpvol_ntt_dot2_many(&d, 1, st->mod);
     if (a != pa)

@@ -505,14 +505,8 @@ void wpvol_ntt_dot2_many(const wpvol_dot_t *d, slong count, nmod_t mod)
 void wpvol_ntt_dot2(ulong *out, ulong *const *a, ulong *const *b, slong npairs, const ulong *sq,
                     slong n, nmod_t mod)
 {
-    wpvol_dot_t d;
+    wpvol_dot_t d = { .out = out, .a = a, .b = b, .npairs = npairs, .sq = sq, .add = NULL,
+                      .n = n };
 
-    d.out = out;
-    d.a = a;
-    d.b = b;
-    d.npairs = npairs;
-    d.sq = sq;
-    d.add = NULL;
-    d.n = n;
     wpvol_ntt_dot2_many(&d, 1, mod);
 }
