@@ -585,16 +585,11 @@ static void test_driver_mult(void)
     for (mode = 0; mode < 4; mode++)
     {
         test_fixed_t f = { q, NV, mode, big };
-        wpvol_job_t job;
-        job.nv = NV;
-        job.ws_new = test_fixed_ws_new;
-        job.ws_free = test_fixed_ws_free;
-        job.run = test_fixed_run;
-        job.need_bits = test_fixed_need;
-        job.den_bits = test_fixed_den;
-        job.den_mult = mode == 0 ? NULL : test_fixed_mult;
-        job.first_bits = 64.0;
-        job.data = &f;
+        wpvol_job_t job = { .nv = NV, .ws_new = test_fixed_ws_new, .ws_free = test_fixed_ws_free,
+                            .run = test_fixed_run, .need_bits = test_fixed_need,
+                            .den_bits = test_fixed_den,
+                            .den_mult = mode == 0 ? NULL : test_fixed_mult,
+                            .first_bits = 64.0, .data = &f };
         ok &= wpvol_drive(out, &job, 1, 62, 1, &used[mode]) == WPVOL_OK;
         for (k = 0; k < NV; k++)
             ok &= fmpq_equal(out + k, q + k);
