@@ -101,10 +101,11 @@ static double wpvol_estimate_mult_bits(slong g, slong n)
            + (double) (g / 2 + 3) * log2(3.0) + log2(5.0);
 }
 
-/* See wpvol_internal.h.  With den W about 0.78 bits(B) (0.81 observed at g = 10, 50, 100), B W
-   has bits(num W) + bits(B) - den W bits, i.e. total - 2 (0.78 bits(B)) + bits(B); plus the
-   first attempt's denominator bound 2^24 and the 16 bits of slack of the reconstruction. */
-double wpvol_estimate_need_bits_mult(slong g, slong n)
+/* Modelled modulus bits of the first reconstruction of B W.  With den W about 0.78 bits(B)
+   (0.81 observed at g = 10, 50, 100), B W has bits(num W) + bits(B) - den W bits, i.e.
+   total - 2 (0.78 bits(B)) + bits(B); plus the first attempt's denominator bound 2^24 and the
+   16 bits of slack of the reconstruction. */
+static double wpvol_estimate_need_bits_mult(slong g, slong n)
 {
     return wpvol_estimate_bits_gn(g, n) - 0.56 * wpvol_estimate_mult_bits(g, n) + 24.0 + 16.0;
 }

@@ -314,12 +314,10 @@ double wpvol_estimate_bits_gn(slong g, slong n);
 double wpvol_estimate_den_bits(slong g);
 
 /* Whether the table job reconstructs (3g-3+n)! V_{g,n} with a denominator multiple first
-   (g >= 2, n <= WPVOL_MULT_MAX_N); B = that multiple (see wpvol_estimate.c); the modelled
-   modulus bits of its first reconstruction. */
+   (g >= 2, n <= WPVOL_MULT_MAX_N); B = that multiple (see wpvol_estimate.c). */
 #define WPVOL_MULT_MAX_N 10
 int wpvol_estimate_uses_mult(slong g, slong n);
 void wpvol_estimate_den_mult(fmpz_t B, slong g, slong n);
-double wpvol_estimate_need_bits_mult(slong g, slong n);
 
 /* Modelled modulus bits of the first reconstruction of value (g, n) of the table job. */
 double wpvol_estimate_table_need(slong g, slong n);
