@@ -211,7 +211,7 @@ primary
     | PI                            { $$ = ast_new(N_PI, @$); }
     | NAME                          { $$ = ast_text(N_NAME, @$, $1); }
     | NAME '(' args ')'             { $$ = ast_with_list(N_CALL, @$, $1, $3); }
-    | NAME '[' expr ']'             { $$ = ast_text(N_INDEXED, @$, $1); $$->a = $3; }
+    | primary '[' expr ']'          { $$ = parser_index(@$, $1, $3); }
     | SUBNAME arg_list '}'          { $$ = ast_with_list(N_SUBSCRIPT, @$, $1, $2); }
     | PSI_LIT                       { $$ = ast_unary(N_PSI, @$, ast_index_literal(@$, $1)); free($1); }
     | PSI_SUB expr '}'              { $$ = ast_unary(N_PSI, @$, $2); }

@@ -59,19 +59,41 @@ value *eval_name(interp *I, scope *s, const node *n)
                                    "computed index", n->text, n->text, (long)b->lo, n->text));
 }
 
+/* Item i of the list v (index expression at n->a): 1-based, like the mathematics it
+   transcribes. */
+static value *names_list_item(interp *I, scope *s, const node *n, const value *v)
+{
+    slong i;
+    if (!eval_slong(I, s, n->a, "list index", 1, &i))
+        return NULL;
+    if (i > v->len)
+        return names_fail(n->a, xasprintf("index %ld is past the end of a list of length %ld", (long)i,
+                                          (long)v->len));
+    return value_ref(v->items[i - 1]);
+}
+
+/* expr[i] where expr is not a bare name: a call, a parenthesised expression, another item. */
+static value *names_item_of_value(interp *I, scope *s, const node *n)
+{
+    value *base = eval_expr(I, s, n->b), *r;
+    if (!base)
+        return NULL;
+    if (base->kind == V_LIST)
+        r = names_list_item(I, s, n, base);
+    else
+        r = names_fail(n->b, xstrdup("this is not a list (square brackets take the items of a list)"));
+    value_release(base);
+    return r;
+}
+
 /* xs[i] for a list: 1-based, like the mathematics it transcribes. */
 value *eval_indexed(interp *I, scope *s, const node *n)
 {
+    if (n->b)
+        return names_item_of_value(I, s, n);
     binding *b = scope_lookup(s, n->text);
-    if (b && b->kind == B_VALUE && b->val->kind == V_LIST) {
-        slong i;
-        if (!eval_slong(I, s, n->a, "list index", 1, &i))
-            return NULL;
-        if (i > b->val->len)
-            return names_fail(n->a, xasprintf("index %ld is past the end of a list of length %ld", (long)i,
-                                              (long)b->val->len));
-        return value_ref(b->val->items[i - 1]);
-    }
+    if (b && b->kind == B_VALUE && b->val->kind == V_LIST)
+        return names_list_item(I, s, n, b->val);
     if (b && b->kind == B_FAMILY)
         return names_fail(n, xasprintf("'%s' is a family of variables: a member is written %s_{i}, not %s[i] "
                                        "(square brackets take the items of a list)", n->text, n->text, n->text));

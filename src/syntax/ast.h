@@ -13,7 +13,7 @@ typedef enum {
     N_STRING,   /* text: the unescaped string */
     N_PI,
     N_NAME,     /* text: the name */
-    N_INDEXED,  /* text[a]: the a-th item of a list */
+    N_INDEXED,  /* text[a] (a name) or b[a] (any other primary): the a-th item of a list */
     N_SUBSCRIPT,/* text_{list}: a member X_{i} of a family declared by var X_{a..b}, or V_{g,n} */
     N_CALL,     /* text(list) */
     N_PSI,      /* psi with index a */

@@ -187,3 +187,18 @@ node *parser_free_energy_theta_genus(srcloc at, char *name, node_list *subs)
     ast_list_free(subs);
     return g;
 }
+
+node *parser_index(srcloc at, node *base, node *index)
+{
+    node *n;
+    if (base->kind == N_NAME && !base->paren) {
+        n = ast_text(N_INDEXED, at, base->text);
+        base->text = NULL;
+        ast_free(base);
+    } else {
+        n = ast_new(N_INDEXED, at);
+        n->b = base;
+    }
+    n->a = index;
+    return n;
+}

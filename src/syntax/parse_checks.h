@@ -17,6 +17,11 @@ node *parser_sum(srcloc at, srcloc left, srcloc opl, srcloc right, int op, node 
    parentheses. Takes the three nodes; returns the integral or NULL (freed). */
 node *parser_integral(srcloc at, node *g, node *n, node *integrand);
 
+/* base[index]: the item of a list. A bare name keeps its text in the node (text[a]), so that
+   the evaluator can say what the name is when it is not a list; any other primary (a call,
+   a parenthesised expression, another item: t[1][4]) is the node's b. Takes both nodes. */
+node *parser_index(srcloc at, node *base, node *index);
+
 /* var L[a..b]: reports the form that replaced it (var L_{a..b}). */
 void parser_old_family(const srcloc *at, const char *name);
 
