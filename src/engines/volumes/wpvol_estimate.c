@@ -8,12 +8,12 @@
  *     bits(den W) ~ 11.2 g (observed maxima: 39, 97, 206, 339, 449, 561 at g = 5..50),
  * and the reconstruction first assumes bits(den W) <= 12.5 g + 40.
  *
- * Denominator multiple.  In every exact value of this engine for g <= 100, n <= 5 the primes of
+ * Denominator multiple.  In every exact value of this engine for g <= 200, n <= 5 the primes of
  * den W are at most 2g + n + 2, and (with m = 2g + n + 2) den W divides
- *     B = m! 2^(v_2(m!) + 4) 3^(floor(g/2) + 3) 5
- * (checked on all 606 values of the table g <= 100, n <= 5; without the factor 5 a cofactor 5
- * remained for 27 of them), with bits(B) about 1.25 bits(den W) (1547 against 1253 at g = 100,
- * n = 0).  B W then has a denominator of a few bits and a numerator of
+ *     B = m! 2^(v_2(m!) + 4) 3^(floor(g/2) + 3) 5^2
+ * (checked on all 1194 values g >= 2 of the table g <= 200, n <= 5; with 5 in place of 5^2 a
+ * cofactor 5 remains at (123, 0), with 1 in its place at 27 values g <= 100), with bits(B)
+ * about 1.25 bits(den W) (1549 against 1253 at g = 100, n = 0; 3473 against 2689 at g = 200).  B W then has a denominator of a few bits and a numerator of
  * bits(num W) + bits(B) - bits(den W), so its reconstruction needs about bits(B) - bits(den W)
  * bits of modulus where the bound 12.5 g + 40 needed 12.5 g + 40: a sixth fewer primes at
  * g = 100.  B is only a guess outside the checked range; a wrong guess leaves a cofactor in
@@ -76,7 +76,7 @@ static slong wpvol_estimate_v2fact(slong m)
     return m - ones;
 }
 
-/* See wpvol_internal.h: B = m! 2^(v_2(m!) + 4) 3^(floor(g/2) + 3) 5, m = 2g + n + 2. */
+/* See wpvol_internal.h: B = m! 2^(v_2(m!) + 4) 3^(floor(g/2) + 3) 5^2, m = 2g + n + 2. */
 void wpvol_estimate_den_mult(fmpz_t B, slong g, slong n)
 {
     slong m = 2 * g + n + 2;
@@ -88,7 +88,7 @@ void wpvol_estimate_den_mult(fmpz_t B, slong g, slong n)
     fmpz_set_ui(t, 3);
     fmpz_pow_ui(t, t, (ulong) (g / 2 + 3));
     fmpz_mul(B, B, t);
-    fmpz_mul_ui(B, B, 5);
+    fmpz_mul_ui(B, B, 25);
     fmpz_clear(t);
 }
 
@@ -98,7 +98,7 @@ static double wpvol_estimate_mult_bits(slong g, slong n)
     slong m = 2 * g + n + 2;
 
     return wpvol_estimate_lfact(m) + (double) (wpvol_estimate_v2fact(m) + 4)
-           + (double) (g / 2 + 3) * log2(3.0) + log2(5.0);
+           + (double) (g / 2 + 3) * log2(3.0) + log2(25.0);
 }
 
 /* Modelled modulus bits of the first reconstruction of B W.  With den W about 0.78 bits(B)
