@@ -213,6 +213,12 @@ primary
     | NAME '(' args ')'             { $$ = ast_with_list(N_CALL, @$, $1, $3); }
     | primary '[' expr ']'          { $$ = parser_index(@$, $1, $3); }
     | SUBNAME arg_list '}'          { $$ = ast_with_list(N_SUBSCRIPT, @$, $1, $2); }
+    | SUBNAME arg_list '}' '(' args ')'
+                                    { srcloc paren = @4;
+                                      paren.last_line = @6.last_line;
+                                      paren.last_column = @6.last_column;
+                                      $$ = ast_with_list(N_SUBSCRIPT, @$, $1, $2);
+                                      $$->b = ast_with_list(N_LIST, paren, NULL, $5); }
     | PSI_LIT                       { $$ = ast_unary(N_PSI, @$, ast_index_literal(@$, $1)); free($1); }
     | PSI_SUB expr '}'              { $$ = ast_unary(N_PSI, @$, $2); }
     | KAPPA_LIT                     { $$ = ast_unary(N_KAPPA, @$, ast_index_literal(@$, $1)); free($1); }

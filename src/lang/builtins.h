@@ -26,6 +26,12 @@ extern const builtin builtins_subs[];     /* builtins_subs.c: subs, degree, coef
 /* P (a number) with the monomial of exponents a replaced by v (number or real); new reference or NULL
    after reporting at call (builtins_subs.c). */
 value *subs_apply(interp *I, const node *call, const value *p, const ulong *a, const value *v);
+/* p with the variable of ring index vars[i] replaced by args[i] for i < n, all at once (so
+   that L_1 -> L_2, L_2 -> L_1 swaps them): exact arguments give an exact value; with a real
+   argument every argument must be a number and the value is a real. call is a node whose list
+   holds the argument nodes (for error positions). Returns a new value, or NULL after
+   reporting. */
+value *subs_lengths(interp *I, const node *call, const value *p, const int *vars, slong n, value **args);
 /* explain of a spectral-curve call (builtins_spectral.c): 1 when name is one, see spectral_explain. */
 int spectral_explains(scope *s, const char *name);
 /* Prints the dictionary of omega/curve_volume/omega_coeff call; 0 after an error. */

@@ -124,6 +124,109 @@ value *subs_apply(interp *I, const node *call, const value *p, const ulong *a, c
     return r;
 }
 
+/* subs_lengths with exact arguments: one composition (FLINT), every other variable kept. */
+static value *subs_lengths_exact(interp *I, const node *call, const value *p, const int *vars, slong n,
+                                 value **args)
+{
+    slong nv = fmpq_mpoly_ctx_nvars(I->ring.ctx);
+    fmpq_mpoly_struct *gens = flint_malloc((size_t)nv * sizeof(fmpq_mpoly_struct));
+    fmpq_mpoly_struct **C = flint_malloc((size_t)nv * sizeof(fmpq_mpoly_struct *));
+    for (slong k = 0; k < nv; k++) {
+        fmpq_mpoly_init(gens + k, I->ring.ctx);
+        fmpq_mpoly_gen(gens + k, k, I->ring.ctx);
+        C[k] = gens + k;
+    }
+    for (slong i = 0; i < n; i++)
+        C[vars[i]] = args[i]->num;
+    value *r = value_new_num(&I->ring);
+    if (fmpq_mpoly_compose_fmpq_mpoly(r->num, p->num, C, I->ring.ctx, I->ring.ctx))
+        scalar_normalise(r->num, &I->ring);
+    else {
+        value_release(r);
+        r = builtin_fail_at(call, -1, "the exponents of this substitution are too large");
+    }
+    for (slong k = 0; k < nv; k++)
+        fmpq_mpoly_clear(gens + k, I->ring.ctx);
+    flint_free(gens);
+    flint_free(C);
+    return r;
+}
+
+/* out = p at the real point a[0..n) of the variables vars[0..n): Horner in the first variable
+   over values of the parts, each by the same rule in the others. Returns 0 after reporting
+   when a variable other than these (or pi) remains. */
+static int subs_lengths_arb(interp *I, const node *call, arb_t out, const fmpq_mpoly_t p, const int *vars,
+                            slong n, arb_srcptr a, slong prec)
+{
+    if (n == 0) {
+        if (!scalar_is_pi_only(p, &I->ring)) {
+            builtin_fail_at(call, -1, "with a real argument the value is a real, which cannot hold the other formal "
+                               "variables: substitute them first");
+            return 0;
+        }
+        scalar_get_arb(out, p, &I->ring, prec);
+        return 1;
+    }
+    ulong e[SCALAR_MAX_VARS] = {0};
+    e[vars[0]] = 1;
+    fmpq_mpoly_struct *R;
+    slong parts = subs_split(I, p, e, &R);
+    int ok = 1;
+    arb_t c;
+    arb_init(c);
+    arb_zero(out);
+    for (slong j = parts - 1; j >= 0 && ok; j--) {
+        arb_mul(out, out, a, prec);
+        ok = subs_lengths_arb(I, call, c, R + j, vars + 1, n - 1, a + 1, prec);
+        arb_add(out, out, c, prec);
+    }
+    arb_clear(c);
+    subs_free_parts(I, R, parts);
+    return ok;
+}
+
+/* subs_lengths with a real argument: every argument a number (a real, or exact in pi). */
+static value *subs_lengths_real(interp *I, const node *call, const value *p, const int *vars, slong n,
+                                value **args)
+{
+    slong prec = real_work_prec(I);
+    for (slong i = 0; i < n; i++) {
+        if (args[i]->kind == V_NUM && !scalar_is_pi_only(args[i]->num, &I->ring))
+            return builtin_fail_at(call, (int)i, "with a real argument every argument must be a number (this one "
+                                                 "holds a formal variable)");
+        if (args[i]->kind == V_REAL && !arb_is_exact(args[i]->re) && arb_rel_accuracy_bits(args[i]->re) + 32 > prec)
+            prec = arb_rel_accuracy_bits(args[i]->re) + 32;
+    }
+    arb_ptr a = _arb_vec_init(n);
+    for (slong i = 0; i < n; i++)
+        if (args[i]->kind == V_REAL)
+            arb_set(a + i, args[i]->re);
+        else
+            scalar_get_arb(a + i, args[i]->num, &I->ring, prec);
+    value *r = value_new_real(&I->ring);
+    if (!subs_lengths_arb(I, call, r->re, p->num, vars, n, a, prec)) {
+        value_release(r);
+        r = NULL;
+    }
+    _arb_vec_clear(a, n);
+    return r;
+}
+
+value *subs_lengths(interp *I, const node *call, const value *p, const int *vars, slong n, value **args)
+{
+    int real = 0;
+    for (slong i = 0; i < n; i++) {
+        if (args[i]->kind == V_REAL)
+            real = 1;
+        else if (args[i]->kind != V_NUM)
+            return builtin_fail_at(call, (int)i, "an argument of a volume polynomial must be a number, a "
+                                                 "polynomial or a real");
+    }
+    if (p->kind != V_NUM)
+        return builtin_fail_at(call, -1, "only a polynomial can be evaluated at these arguments");
+    return real ? subs_lengths_real(I, call, p, vars, n, args) : subs_lengths_exact(I, call, p, vars, n, args);
+}
+
 /* subs(P, m, v): P with the monomial m replaced by v. */
 static value *builtin_subs(interp *I, const node *call, value **args)
 {

@@ -15,6 +15,7 @@
 #include "util.h"
 #include "integrate.h"
 #include "eval.h"
+#include "builtins.h"
 
 /* Genus and number of points of V_{g,n} stay below this (as for every space
    that the volume routes accept). */
@@ -148,9 +149,59 @@ static value *names_volume(interp *I, scope *s, const node *n, int theta)
     return theta ? theta_supervolume_value(I, n, g, npts) : volume_cached(I, n, g, npts);
 }
 
+/* The arguments of a call V_{g,n}(a_1, ..., a_n), evaluated into args[0..len); returns 0
+   (those evaluated released) when one fails. */
+static int names_call_args(interp *I, scope *s, const node *call, value **args)
+{
+    for (int i = 0; i < call->list->len; i++)
+        if (!(args[i] = eval_expr(I, s, call->list->items[i]))) {
+            while (i-- > 0)
+                value_release(args[i]);
+            return 0;
+        }
+    return 1;
+}
+
+/* V_{g,n}(a_1, ..., a_n), VTheta_{g,n}(...): the volume polynomial at L_i = a_i, all at once
+   (subs_lengths). Any other subscripted name takes no arguments. */
+static value *names_subscript_call(interp *I, scope *s, const node *n, const binding *b)
+{
+    const node *call = n->b;
+    int volume = (strcmp(n->text, "V") == 0 || strcmp(n->text, "VTheta") == 0) && !(b && b->kind == B_FAMILY);
+    if (!volume)
+        return names_fail(call, xasprintf("%s_{...} is not a function: only the volume polynomials "
+                                          "V_{g,n}(L_1, ..., L_n) and VTheta_{g,n}(...) take arguments", n->text));
+    slong npts;
+    value *p = names_volume(I, s, n, n->text[1] != '\0');
+    if (!p || !names_volume_index(I, s, n->list->items[1], "number of points", &npts)) {
+        value_release(p);
+        return NULL;
+    }
+    if (call->list->len != npts) {
+        value_release(p);
+        return names_fail(call, xasprintf("%s_{g,n} with n = %ld takes %ld arguments, the lengths L_1..L_%ld "
+                                          "(got %d)", n->text, (long)npts, (long)npts, (long)npts,
+                                          call->list->len));
+    }
+    int *vars = xmalloc((size_t)(npts + 1) * sizeof(int));
+    value **args = xmalloc((size_t)(npts + 1) * sizeof(value *));
+    value *r = NULL;
+    if (integrate_declare_lengths(I, n, npts, vars) && names_call_args(I, s, call, args)) {
+        r = subs_lengths(I, call, p, vars, npts, args);
+        for (slong i = 0; i < npts; i++)
+            value_release(args[i]);
+    }
+    free(args);
+    free(vars);
+    value_release(p);
+    return r;
+}
+
 value *eval_subscript(interp *I, scope *s, const node *n)
 {
     binding *b = scope_lookup(s, n->text);
+    if (n->b)
+        return names_subscript_call(I, s, n, b);
     if (b && b->kind == B_FAMILY)
         return names_family_member(I, s, n, b);
     if (strcmp(n->text, "V") == 0 || strcmp(n->text, "VTheta") == 0)

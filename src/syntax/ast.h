@@ -14,7 +14,8 @@ typedef enum {
     N_PI,
     N_NAME,     /* text: the name */
     N_INDEXED,  /* text[a] (a name) or b[a] (any other primary): the a-th item of a list */
-    N_SUBSCRIPT,/* text_{list}: a member X_{i} of a family declared by var X_{a..b}, or V_{g,n} */
+    N_SUBSCRIPT,/* text_{list}: a member X_{i} of a family declared by var X_{a..b}, or V_{g,n};
+                   b: the arguments of V_{g,n}(a_1, ..., a_n) (an N_LIST), else NULL */
     N_CALL,     /* text(list) */
     N_PSI,      /* psi with index a */
     N_KAPPA,    /* kappa with index a */
