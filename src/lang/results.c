@@ -139,6 +139,17 @@ int results_save_text(interp *I, const char *key, const char *label, const char 
     return ok;
 }
 
+int results_begin(interp *I)
+{
+    return store_begin(results_open(I));
+}
+
+void results_end(interp *I)
+{
+    store_end(I->store);
+    results_report(I);
+}
+
 double results_clock(void)
 {
     struct timespec t;

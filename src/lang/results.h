@@ -24,6 +24,11 @@ void results_save(interp *I, const results_question *q, const fmpq_mpoly_t value
 int results_lookup_text(interp *I, const char *key, char **answer);
 int results_save_text(interp *I, const char *key, const char *label, const char *text, double seconds);
 double results_clock(void);
+/* Brackets a read-modify-write of several rows as one store transaction (store_begin):
+   results_begin returns 1 when it began, and then results_end must follow. */
+int results_begin(interp *I);
+void results_end(interp *I);
+
 void results_close(interp *I);
 
 #endif

@@ -215,13 +215,12 @@ static void voltab_index_write(interp *I, const voltab_entry *e, int count)
     strbuf_clear(&b);
 }
 
-void voltab_store_keep(interp *I, double seconds)
+/* voltab_store_keep inside its transaction. */
+static void voltab_keep_table_and_index(interp *I, double seconds)
 {
     voltab_entry e[VOLTAB_INDEX_MAX + 1];
     int count = 0, j = 1;
     slong G = I->wpv_G, N = I->wpv_N;
-    if (!voltab_store_usable(I) || !I->wpv)
-        return;
     voltab_index_read(I, e + 1, &count);
     for (int i = 1; i <= count; i++)
         if (e[i].N == N && e[i].G >= G)
@@ -238,4 +237,17 @@ void voltab_store_keep(interp *I, double seconds)
         if (e[i].N != N && !(e[i].N <= N && e[i].G <= G))
             e[j++] = e[i];
     voltab_index_write(I, e, j > VOLTAB_INDEX_MAX ? VOLTAB_INDEX_MAX : j);
+}
+
+void voltab_store_keep(interp *I, double seconds)
+{
+    if (!voltab_store_usable(I) || !I->wpv)
+        return;
+    /* the index read, the table written and the index rewritten, by one process at a time:
+       two runs storing tables at once would otherwise each rewrite the index it read before
+       the other's table, and one of the tables would drop out of it */
+    int tx = results_begin(I);
+    voltab_keep_table_and_index(I, seconds);
+    if (tx)
+        results_end(I);
 }

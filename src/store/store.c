@@ -275,6 +275,19 @@ int store_put(store *S, const char *key, const char *label, const char *answer)
     return rc == SQLITE_DONE;
 }
 
+int store_begin(store *S)
+{
+    return S && S->db && sqlite3_exec(S->db, "BEGIN IMMEDIATE", NULL, NULL, NULL) == SQLITE_OK;
+}
+
+void store_end(store *S)
+{
+    if (!S || !S->db || sqlite3_get_autocommit(S->db))
+        return;
+    if (sqlite3_exec(S->db, "COMMIT", NULL, NULL, NULL) != SQLITE_OK)
+        sqlite3_exec(S->db, "ROLLBACK", NULL, NULL, NULL);
+}
+
 char *store_take_note(store *S)
 {
     if (!S)

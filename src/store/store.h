@@ -50,6 +50,17 @@ int store_get(store *S, const char *key, char **answer);
    is reported once through store_take_note). */
 int store_put(store *S, const char *key, const char *label, const char *answer);
 
+/* Makes the calls up to store_end one transaction that no other process's writes can
+   interleave with (SQLite's BEGIN IMMEDIATE, waiting as long as any write would): for a
+   read-modify-write over several rows, such as a table and its index. Returns 1 when the
+   transaction began, 0 otherwise (S NULL, no file, or the lock not had in time: the caller
+   goes on without it, as before). Not nested. */
+int store_begin(store *S);
+
+/* Commits what store_begin began (rolled back if the commit fails; nothing to do when a
+   damaged file was replaced in between). S may be NULL. */
+void store_end(store *S);
+
 /* A message about something that happened since the last call (damage found
    and moved aside, rows dropped, writes failing), or NULL. Caller frees. */
 char *store_take_note(store *S);

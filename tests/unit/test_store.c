@@ -415,6 +415,46 @@ static void test_unusable_paths(void)
     free(err);
 }
 
+/* Whether another connection to path gets the write lock at once (busy timeout 0). */
+static int other_writer_can_begin(const char *path)
+{
+    sqlite3 *db = NULL;
+    int yes = 0;
+    if (sqlite3_open(path, &db) == SQLITE_OK) {
+        yes = sqlite3_exec(db, "BEGIN IMMEDIATE", NULL, NULL, NULL) == SQLITE_OK;
+        if (yes)
+            sqlite3_exec(db, "ROLLBACK", NULL, NULL, NULL);
+    }
+    sqlite3_close(db);
+    return yes;
+}
+
+/* store_begin .. store_end: while the transaction is open no other process can begin a write
+   and its rows are not visible to others; after store_end they are, and writers can go on. */
+static void test_transaction(void)
+{
+    char *err = NULL;
+    const char *path = in_dir(0, "tx/results.sqlite");
+    store *S = store_open(path, "0.1.0", &err);
+    UNIT_CHECK(&rep, S && !err, "open for the transaction: %s", err ? err : "");
+    free(err);
+    if (!S)
+        return;
+    UNIT_CHECK(&rep, other_writer_can_begin(path), "before store_begin another writer can begin");
+    UNIT_CHECK(&rep, store_begin(S) == 1, "store_begin");
+    UNIT_CHECK(&rep, put(S, "table", "rows") && put(S, "index", "1 2"), "puts inside the transaction");
+    UNIT_CHECK(&rep, !other_writer_can_begin(path), "inside the transaction no other writer can begin");
+    UNIT_CHECK(&rep, sql(path, "SELECT count(*) FROM results") == 0, "rows invisible to others before the end");
+    expect_hit(S, "index", "1 2", "the transaction sees its own rows");
+    store_end(S);
+    UNIT_CHECK(&rep, other_writer_can_begin(path), "after store_end another writer can begin");
+    UNIT_CHECK(&rep, sql(path, "SELECT count(*) FROM results") == 2, "both rows committed together");
+    store_end(S);   /* nothing open: no effect */
+    UNIT_CHECK(&rep, store_begin(NULL) == 0, "store_begin(NULL)");
+    store_end(NULL);
+    store_close(S);
+}
+
 int main(void)
 {
     if (!mkdtemp(dir)) {
@@ -430,6 +470,7 @@ int main(void)
     test_tampered_rows();
     test_large_damaged_store();
     test_unusable_paths();
+    test_transaction();
     if (rep.failed == 0) {
         char cmd[128];
         snprintf(cmd, sizeof cmd, "rm -rf %s", dir);
