@@ -14,6 +14,7 @@
 #include "source.h"
 #include "util.h"
 #include "verify_account.h"
+#include "volume_table_store.h"
 
 #define PSIKAPPA_VERSION "0.1.0"
 
@@ -50,6 +51,9 @@ static void main_usage(FILE *out)
           "                     monomials times them, volume polynomials) to the polynomial-time engine,\n"
           "                     also the small ones that otherwise use the reduction (with --verify: a\n"
           "                     comparison of the two routes)\n"
+          "  --import-volumes FILE\n"
+          "                     keep the table of V_{g,n} in FILE (as psikappa-volumes-mpi prints it) in\n"
+          "                     the results store, after checking every value modulo one more prime\n"
           "  --format NAME      print values as exact (default), decimal, latex, csv or json\n"
           "  --digits N         correct significant digits of decimal output (1 to 1000000, default 20)\n"
           "  --precision D      working precision of reals in decimal digits, as the statement\n"
@@ -86,9 +90,11 @@ static int main_text_option(interp *I, const char *opt, const char *arg)
         return 0;
     }
     if (!arg || !*arg || arg[0] == '-') {   /* "--lib -e CODE": the folder is missing */
-        options_refuse(stderr, opt, strcmp(opt, "--store") == 0 ? "a file name" : "a folder", arg);
+        options_refuse(stderr, opt, strcmp(opt, "--lib") == 0 ? "a folder" : "a file name", arg);
         return 0;
     }
+    if (strcmp(opt, "--import-volumes") == 0)
+        return 1;   /* run in order with the scripts (main_run) */
     if (strcmp(opt, "--store") == 0) {
         free(I->store_path);
         I->store_path = xstrdup(arg);
@@ -136,7 +142,7 @@ static int main_is_valued(const char *a)
 {
     static const char *opts[] = {"--max-terms", "--max-table", "--max-depth", "--max-memory", "--time-limit",
                                  "--lib", "--format", "--digits", "--precision", "--max-seconds",
-                                 "--store"};
+                                 "--store", "--import-volumes"};
     for (size_t i = 0; i < sizeof opts / sizeof opts[0]; i++)
         if (strcmp(a, opts[i]) == 0)
             return 1;
@@ -206,7 +212,10 @@ static int main_run(interp *I, main_state *M, int argc, char **argv)
     int status = 0, ecount = 0;
     for (int i = 1; i < argc && status == 0; i++) {
         const char *a = argv[i];
-        if (main_is_valued(a)) {
+        if (strcmp(a, "--import-volumes") == 0) {
+            status = voltab_import_file(I, argv[++i]);
+            M->ran = 1;
+        } else if (main_is_valued(a)) {
             i++;
         } else if (strcmp(a, "-e") == 0) {
             status = main_run_code(I, argv[++i], ++ecount);

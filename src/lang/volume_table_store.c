@@ -215,39 +215,46 @@ static void voltab_index_write(interp *I, const voltab_entry *e, int count)
     strbuf_clear(&b);
 }
 
-/* voltab_store_keep inside its transaction. */
-static void voltab_keep_table_and_index(interp *I, double seconds)
+/* voltab_store_table inside its transaction. */
+static int voltab_keep_table_and_index(interp *I, const fmpq *t, slong G, slong N, double seconds)
 {
     voltab_entry e[VOLTAB_INDEX_MAX + 1];
     int count = 0, j = 1;
-    slong G = I->wpv_G, N = I->wpv_N;
     voltab_index_read(I, e + 1, &count);
     for (int i = 1; i <= count; i++)
         if (e[i].N == N && e[i].G >= G)
-            return;   /* as much is stored already */
-    char key[65], label[96], *text = voltab_text(I->wpv, G, N);
+            return VOLTAB_HELD;   /* as much is stored already */
+    char key[65], label[96], *text = voltab_text(t, G, N);
     voltab_key(N, key);
     snprintf(label, sizeof label, "V_{g,n}, g <= %ld, n <= %ld (volume table)", (long)G, (long)N);
     int written = results_save_text(I, key, label, text, seconds);
     free(text);
     if (!written)
-        return;
+        return VOLTAB_NOT_WRITTEN;
     e[0] = (voltab_entry){N, G};   /* first, so that it survives the index's bound */
     for (int i = 1; i <= count; i++)   /* drop this N's old entry and the tables this one covers */
         if (e[i].N != N && !(e[i].N <= N && e[i].G <= G))
             e[j++] = e[i];
     voltab_index_write(I, e, j > VOLTAB_INDEX_MAX ? VOLTAB_INDEX_MAX : j);
+    return VOLTAB_WRITTEN;
 }
 
-void voltab_store_keep(interp *I, double seconds)
+int voltab_store_table(interp *I, const fmpq *t, slong G, slong N, double seconds)
 {
-    if (!voltab_store_usable(I) || !I->wpv)
-        return;
+    if (!voltab_store_usable(I))
+        return VOLTAB_NOT_WRITTEN;
     /* the index read, the table written and the index rewritten, by one process at a time:
        two runs storing tables at once would otherwise each rewrite the index it read before
        the other's table, and one of the tables would drop out of it */
     int tx = results_begin(I);
-    voltab_keep_table_and_index(I, seconds);
+    int r = voltab_keep_table_and_index(I, t, G, N, seconds);
     if (tx)
         results_end(I);
+    return r;
+}
+
+void voltab_store_keep(interp *I, double seconds)
+{
+    if (I->wpv)
+        voltab_store_table(I, I->wpv, I->wpv_G, I->wpv_N, seconds);
 }

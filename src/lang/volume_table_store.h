@@ -16,6 +16,22 @@ int voltab_store_fill(interp *I, slong g, slong n);
    under --verify or with an interrupt pending. */
 void voltab_store_keep(interp *I, double seconds);
 
+/* Writes the table t of V_{g,n}, g <= G, n <= N (entries g*(N+1)+n, 0 for the unstable ones;
+   computed in `seconds`) to the store with its index entry, all in one transaction, unless the
+   store already has a table of N points and at least G genera. Returns VOLTAB_WRITTEN,
+   VOLTAB_HELD (as much stored already) or VOLTAB_NOT_WRITTEN (store off, --verify, too quick
+   to keep, an interrupt pending, or a write that failed: reported by the store). */
+enum { VOLTAB_NOT_WRITTEN, VOLTAB_WRITTEN, VOLTAB_HELD };
+int voltab_store_table(interp *I, const fmpq *t, slong G, slong N, double seconds);
+
+/* Reads a table file written by psikappa-volumes-mpi (one line "g n numerator/denominator" per
+   stable (g, n), g <= G, n <= N, g then n ascending; a bare integer is also read), checks every
+   value against the engine's residues modulo one prime that no run of the driver uses, and
+   stores it as the table (G, N) (voltab_store_table). Prints what was stored on I->out. Returns
+   0, or 1 after reporting on stderr (path:line for a line that is wrong); nothing is stored
+   unless every line reads and every value agrees. (volume_import.c) */
+int voltab_import_file(interp *I, const char *path);
+
 /* Makes the (G+1) x (N+1) table t the session's volume table, releasing the one it replaces.
    Takes ownership of t. */
 void voltab_adopt(interp *I, fmpq *t, slong G, slong N);

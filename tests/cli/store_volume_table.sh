@@ -75,5 +75,48 @@ for round in 1 2 3; do
     || check no "concurrent round $round: $stored tables stored, $listed listed in the index"
 done
 
+# Import (--import-volumes): a table file in the format of psikappa-volumes-mpi, here written by
+# this program itself for g <= 20, n <= 3, goes into a fresh store after every value is checked
+# modulo one more prime; a later run reads its entries under a time limit the engine refuses.
+cat > "$tmp/gen.pk" <<'PK'
+for g in 0..20 {
+    for n in 0..3 {
+        if 2*g - 2 + n > 0 {
+            print g, n, int_{g,n} kappa_1^(3*g - 3 + n) / (3*g - 3 + n)!
+        }
+    }
+}
+PK
+"$exe" --no-store --volume-engine "$tmp/gen.pk" > "$tmp/t20.txt" 2>&1
+[ "$(wc -l < "$tmp/t20.txt")" = 80 ] && check ok || { check no "the table file for the import"; head "$tmp/t20.txt"; }
+unset PSIKAPPA_STORE_ALL
+"$exe" --store "$tmp/imp.sqlite" --import-volumes "$tmp/t20.txt" > "$tmp/imp.out" 2>&1 \
+  && grep -q "^stored V_{g,n}, g <= 20, n <= 3 from .* (every value checked modulo the prime " "$tmp/imp.out" \
+  && check ok || { check no "import of a good table"; cat "$tmp/imp.out"; }
+printf 'int_{17,2} kappa_1^53\nV_{19,0}\n' > "$tmp/use.pk"
+"$exe" --no-store --volume-engine "$tmp/use.pk" > "$tmp/use.fresh" 2>&1
+"$exe" --no-store --volume-engine --max-seconds 0.001 "$tmp/use.pk" > /dev/null 2>&1 && check no "no refusal without the store" || check ok
+"$exe" --store "$tmp/imp.sqlite" --volume-engine --max-seconds 0.001 "$tmp/use.pk" > "$tmp/use.out" 2>&1 \
+  && cmp -s "$tmp/use.fresh" "$tmp/use.out" && check ok || { check no "reading the imported table"; cat "$tmp/use.out"; }
+# Refused, with the line, and nothing stored: a changed value (still in lowest terms), a file cut
+# short, a line missing inside, a line that is not "g n value", and the store off.
+bad_import() {   # NAME EXPECTED-MESSAGE-PART: imports $tmp/NAME.txt into a fresh store
+  "$exe" --store "$tmp/$1.sqlite" --import-volumes "$tmp/$1.txt" > "$tmp/$1.out" 2>&1
+  local st=$?
+  local n=$( [ -f "$tmp/$1.sqlite" ] && tables "$tmp/$1.sqlite" || echo 0)
+  [ $st = 1 ] && grep -q -- "$2" "$tmp/$1.out" && [ "$n" = 0 ] && check ok \
+    || { check no "import of $1: status $st, $n table rows"; cat "$tmp/$1.out"; }
+}
+sed 's|^5 2 .*|5 2 1/7|' "$tmp/t20.txt" > "$tmp/changed.txt"
+bad_import changed ":19: error: V_{5,2} does not agree with this engine modulo the prime"
+sed '$d' "$tmp/t20.txt" > "$tmp/short.txt"
+bad_import short "the table ends inside a genus"
+sed '/^7 1 /d' "$tmp/t20.txt" > "$tmp/gap.txt"
+bad_import gap ":26: error: expected V_{7,1} here, found V_{7,2}"
+sed 's|^3 3 .*|3 3 2/4|' "$tmp/t20.txt" > "$tmp/notlow.txt"
+bad_import notlow ":12: error: not a line \"g n numerator/denominator\" in lowest terms"
+"$exe" --no-store --import-volumes "$tmp/t20.txt" > "$tmp/off.out" 2>&1
+[ $? = 1 ] && grep -q "the results store is off" "$tmp/off.out" && check ok || { check no "import with the store off"; cat "$tmp/off.out"; }
+
 echo "store_volume_table: $pass passed, $fail failed"
 [ $fail = 0 ]

@@ -4,10 +4,12 @@
 #   (--table), and --check confirms it entry by entry in-process;
 # - a rank that leaves mid-run (first batch, later batch, rank 0 itself) or reports a failed
 #   batch makes the run fail: nonzero status, a message naming the rank, and no table at all.
-# usage: volumes.sh PATH/TO/mpiexec PATH/TO/psikappa-volumes-mpi
+# - psikappa --import-volumes takes the table of a 2-process run into a results store.
+# usage: volumes.sh PATH/TO/mpiexec PATH/TO/psikappa-volumes-mpi [PATH/TO/psikappa]
 set -u
 mpiexec=$1
 exe=$2
+psikappa=${3:-}
 tmp=$(mktemp -d)
 trap 'rm -rf "$tmp"' EXIT
 pass=0; fail=0
@@ -28,6 +30,12 @@ same_table() {
 }
 
 same_table 2 30 3
+if [ -n "$psikappa" ]; then
+  cp "$tmp/out" "$tmp/mpi-30-3.txt"
+  "$psikappa" --store "$tmp/imp.sqlite" --import-volumes "$tmp/mpi-30-3.txt" > "$tmp/imp.out" 2>&1 \
+    && grep -q '^stored V_{g,n}, g <= 30, n <= 3 ' "$tmp/imp.out" && check ok \
+    || check no "import of the 2-process table: $(cat "$tmp/imp.out")"
+fi
 same_table 1 12 3
 same_table 3 12 3
 

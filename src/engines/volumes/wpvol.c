@@ -187,6 +187,12 @@ static int wpvol_primes_extend(ulong **primes, slong *have, slong count, int pri
     return 0;
 }
 
+/* See wpvol.h. */
+ulong wpvol_check_prime(void)
+{
+    return wpvol_ntt_prime_below(UWORD(1) << 61, WPVOL_PRIME_K);
+}
+
 /* Per-value reconstruction state (owned by wpvol_table_ex). */
 typedef struct
 {

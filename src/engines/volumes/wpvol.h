@@ -75,6 +75,11 @@ int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slo
 int wpvol_table_residues(ulong *res, slong G, slong N, const ulong *primes, slong count,
                          int threads);
 
+/* A prime of the driver's form (c 2^28 + 1) below 2^61, so below every prime a run of the
+   driver uses (they start below 2^62 and go down): with wpvol_table_residues, a check of a table
+   computed elsewhere that none of its own primes could have passed by construction. */
+ulong wpvol_check_prime(void);
+
 /* A source of residues for wpvol_table_combine: fills res exactly as wpvol_table_residues
    (G and N are those given to wpvol_table_combine) and returns WPVOL_OK or an error code, which
    ends the combination with that code.  ctx is the caller's. */
