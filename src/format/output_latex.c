@@ -145,39 +145,62 @@ static void out_latex_put_numerator(strbuf *b, const fmpq_mpoly_t p, const fmpz_
     fmpq_clear(c);
 }
 
-/* LaTeX of a scalar over one common denominator, like the exact text form.
+/* The denominator d pi^k of a fraction: 48, \pi, 2 \pi^{3}. */
+static void out_latex_put_denominator(strbuf *b, const fmpz_t d, slong k)
+{
+    if (!fmpz_is_one(d) || k == 0)
+        strbuf_put_fmpz(b, d);
+    if (!fmpz_is_one(d) && k > 0)
+        strbuf_putc(b, ' ');
+    if (k == 1)
+        strbuf_puts(b, "\\pi");
+    else if (k > 1)
+        strbuf_printf(b, "\\pi^{%ld}", (long)k);
+}
+
+/* LaTeX of a scalar over one common denominator, like the exact text form: negative powers of
+   pi go into it (\frac{\pi^{2} + 3}{\pi^{2}}, as (pi^2 + 3)/pi^2 is printed).
    A lone negative term keeps its sign outside the fraction: -\frac{1}{2}. */
 char *out_latex_scalar(const fmpq_mpoly_t p, const scalar_ring *R)
 {
     strbuf b;
     strbuf_init(&b);
-    slong len = fmpq_mpoly_length(p, R->ctx);
+    fmpq_mpoly_t q;
+    fmpq_mpoly_init(q, R->ctx);
+    fmpq_mpoly_set(q, p, R->ctx);
+    scalar_normalise(q, R);
+    slong k = scalar_pinv_degree(q, R), len = fmpq_mpoly_length(q, R->ctx);
     if (len == 0) {
+        fmpq_mpoly_clear(q, R->ctx);
         strbuf_putc(&b, '0');
         return strbuf_take(&b);
     }
+    if (k > 0)
+        scalar_mul_pi_pow(q, q, k, R);
     fmpz_t d;
     fmpq_t c;
     fmpz_init(d);
     fmpq_init(c);
     fmpz_one(d);
     for (slong i = 0; i < len; i++) {
-        fmpq_mpoly_get_term_coeff_fmpq(c, p, i, R->ctx);
+        fmpq_mpoly_get_term_coeff_fmpq(c, q, i, R->ctx);
         fmpz_lcm(d, d, fmpq_denref(c));
     }
-    fmpq_mpoly_get_term_coeff_fmpq(c, p, 0, R->ctx);
-    int outer_minus = len == 1 && fmpq_sgn(c) < 0 && !fmpz_is_one(d);
-    if (fmpz_is_one(d)) {
-        out_latex_put_numerator(&b, p, d, R, 0);
+    fmpq_mpoly_get_term_coeff_fmpq(c, q, 0, R->ctx);
+    int fraction = !fmpz_is_one(d) || k > 0;
+    int outer_minus = len == 1 && fmpq_sgn(c) < 0 && fraction;
+    if (!fraction) {
+        out_latex_put_numerator(&b, q, d, R, 0);
     } else {
         strbuf_puts(&b, outer_minus ? "-\\frac{" : "\\frac{");
-        out_latex_put_numerator(&b, p, d, R, outer_minus);
+        out_latex_put_numerator(&b, q, d, R, outer_minus);
         strbuf_puts(&b, "}{");
-        strbuf_put_fmpz(&b, d);
+        out_latex_put_denominator(&b, d, k);
         strbuf_putc(&b, '}');
     }
     fmpq_clear(c);
     fmpz_clear(d);
+    fmpq_mpoly_clear(q, R->ctx);
     return strbuf_take(&b);
 }
 
