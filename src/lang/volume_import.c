@@ -7,6 +7,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 
 #include <flint/fmpq.h>
 #include <flint/fmpq_vec.h>
@@ -105,9 +106,14 @@ static void import_lines_clear(import_lines *L)
 static int import_read(const import_table *T, import_lines *L)
 {
     FILE *f = fopen(T->path, "r");
+    struct stat sb;
     if (!f) {
         fprintf(stderr, "psikappa: cannot read %s\n", T->path);
         return 1;
+    }
+    if (fstat(fileno(f), &sb) != 0 || !S_ISREG(sb.st_mode)) {   /* not /dev/zero, a pipe, a folder */
+        fclose(f);
+        return import_fail(T, 0, "not a regular file");
     }
     char *buf = NULL;
     size_t cap = 0;
