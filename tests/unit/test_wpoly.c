@@ -31,6 +31,7 @@
 #include "correlators/wk.h"
 #include "volumes/wpoly.h"
 #include "volumes/wpvol.h"
+#include "volumes/wpvol_internal.h"
 #include "unit.h"
 
 static unit_report rep;
@@ -445,6 +446,43 @@ static void test_errors(void)
 
 /* With the argument "threads", only the parts that run the engine on several
    threads (for the ThreadSanitizer build, where the rest is too slow). */
+/* Property of the size model's guess (not a theorem): the denominator multiple B of (g, n)
+   that the engine offers the driver (wpvol_estimate_den_mult) is a multiple of the denominator
+   of (D-|a|)! W_a for every multi-index a, n = 1 with g <= 16 and n = 2 with g <= 7 (a wrong
+   guess would only cost primes; this keeps the guess honest). */
+static void test_den_mult(void)
+{
+    slong miss = 0, seen = 0;
+    fmpz_t B, f;
+    fmpz_init(B);
+    fmpz_init(f);
+    for (slong n = 1; n <= 2; n++)
+        for (slong g = 2; g <= (n == 1 ? 16 : 7); g++) {
+            slong nidx = wpoly_indices(NULL, g, n), *idx = malloc((size_t)(nidx * n) * sizeof(slong));
+            fmpq *out = _fmpq_vec_init(nidx);
+            wpoly_indices(idx, g, n);
+            int st = wpoly_coeffs(out, g, n, 2);
+            UNIT_CHECK(&rep, st == WPVOL_OK, "wpoly_coeffs(%ld, %ld) status %d", g, n, st);
+            wpvol_estimate_den_mult(B, g, n);
+            for (slong k = 0; st == WPVOL_OK && k < nidx; k++) {
+                slong s = 3 * g - 3 + n;
+                for (slong i = 0; i < n; i++)
+                    s -= idx[k * n + i];
+                fmpz_fac_ui(f, (ulong)s);   /* den of (D-|a|)! W_a divides B iff B (D-|a|)! W_a is an integer */
+                fmpz_mul(f, f, B);
+                fmpz_mul(f, f, fmpq_numref(out + k));
+                miss += !fmpz_divisible(f, fmpq_denref(out + k));
+                seen++;
+            }
+            _fmpq_vec_clear(out, nidx);
+            free(idx);
+        }
+    UNIT_CHECK(&rep, miss == 0 && seen > 0, "denominator multiple of every coefficient: %ld of %ld missed", miss,
+               seen);
+    fmpz_clear(B);
+    fmpz_clear(f);
+}
+
 int main(int argc, char **argv)
 {
     if (argc > 1 && strcmp(argv[1], "threads") == 0) {
@@ -463,6 +501,7 @@ int main(int argc, char **argv)
     test_invariants();
     test_do_norbury_one(15);
     test_do_norbury_two(2, 8);
+    test_den_mult();
     flint_cleanup_master();
     return unit_finish("test_wpoly", &rep);
 }

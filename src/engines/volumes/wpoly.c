@@ -69,12 +69,29 @@ static int wpoly_job_run(void *ws, ulong *res, nmod_t mod)
     return wpoly_modp_run(ws, res, mod);
 }
 
-/* Model of the modulus bits of int psi^a kappa_1^{D-|a|}: the kappa_1 integral of the same
-   space bounds them in practice (measured for g <= 20, n <= 3), plus room for the psi
+/* Model of the modulus bits of (D-|a|)! int psi^a kappa_1^{D-|a|}.  With the table's
+   denominator multiple B of (g, n) (wpvol_estimate_den_mult), B times every one of these values
+   has at most the bits of B W_{g,n}, the value a = 0 (measured on all multi-indices for
+   n = 1, g <= 30 and n = 2, g <= 12, where B also divided every denominator, and n = 3,
+   g <= 8), so the table's model holds for all of them.  Without it, the kappa_1 integral of the
+   same space bounds them in practice (measured for g <= 20, n <= 3), plus room for the psi
    denominators (24^g g! for psi^D). */
 static double wpoly_need_bits(slong g, slong n)
 {
+    if (wpvol_estimate_uses_mult(g, n))
+        return wpvol_estimate_table_need(g, n);
     return wpvol_estimate_need_bits(g, n) + 2.0 * (double) g + 16.0;
+}
+
+/* The denominator multiple of every value of (g, n), or 1 where none is used. */
+static void wpoly_job_mult(const wpvol_job_t *job, slong k, fmpz_t B)
+{
+    const wpoly_job_data_t *d = job->data;
+    (void) k;
+    if (wpvol_estimate_uses_mult(d->g, d->n))
+        wpvol_estimate_den_mult(B, d->g, d->n);
+    else
+        fmpz_one(B);
 }
 
 static double wpoly_job_need(const wpvol_job_t *job, slong k)
@@ -287,7 +304,7 @@ static int wpoly_run(fmpq *out, slong g, slong n, const slong *idx, slong nidx, 
     job.run = wpoly_job_run;
     job.need_bits = wpoly_job_need;
     job.den_bits = wpoly_job_den;
-    job.den_mult = NULL;
+    job.den_mult = wpoly_job_mult;
     job.first_bits = wpoly_need_bits(g, n);
     job.data = &d;
     status = wpvol_drive(out, &job, threads, prime_bits, min_primes, primes_used);
