@@ -11,6 +11,8 @@
 
 #include <flint/fmpq.h>
 #include <flint/fmpq_vec.h>
+#include <flint/nmod.h>
+#include <flint/nmod_vec.h>
 #include <flint/ulong_extras.h>
 
 #include "volume_table_store.h"
