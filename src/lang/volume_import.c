@@ -179,9 +179,28 @@ static ulong import_residue(const fmpq_t v, slong g, slong n, nmod_t mod)
     return nmod_mul(nmod_mul(num, f, mod), n_invmod(den, mod.n), mod);
 }
 
-/* Every stable value against the engine's residues modulo p. Returns 0 or 1 after reporting. */
-static int import_check(import_table *T, ulong p)
+/* Whether the check (one prime of the table engine) is within --max-seconds and the engine's
+   memory limit, by the engine's model; reports when it is not. */
+static int import_check_affordable(const interp *I, const import_table *T)
 {
+    double sec, each, root, primes;
+    wpvol_estimate_spread(&sec, &each, &root, &primes, T->G, T->N, 1);
+    double one = primes >= 1.0 ? sec / primes : sec;
+    if (one <= I->lim.max_seconds && each <= WPVOL_MAX_BYTES)
+        return 1;
+    char msg[240];
+    snprintf(msg, sizeof msg, "checking this table takes one prime of the volume engine, about %.3g s and %.3g GiB "
+             "(limits: %.3g s, raise with --max-seconds S; %.3g GiB)", one, each / 1073741824.0,
+             I->lim.max_seconds, WPVOL_MAX_BYTES / 1073741824.0);
+    import_fail(T, 0, msg);
+    return 0;
+}
+
+/* Every stable value against the engine's residues modulo p. Returns 0 or 1 after reporting. */
+static int import_check(const interp *I, import_table *T, ulong p)
+{
+    if (!import_check_affordable(I, T))
+        return 1;
     slong G = T->G, N = T->N, size = (G + 1) * (N + 1);
     ulong *res = xmalloc((size_t)size * sizeof(ulong));
     int rc = wpvol_table_residues(res, G, N, &p, 1, 1);
@@ -215,7 +234,7 @@ int voltab_import_file(interp *I, const char *path)
     if (!bad && (I->store_off || I->verify))
         bad = import_fail(&T, 0, "the results store is off (--no-store, --verify or PSIKAPPA_STORE=off)");
     if (!bad)
-        bad = import_check(&T, p);
+        bad = import_check(I, &T, p);
     if (!bad) {
         int w = voltab_store_table(I, T.t, T.G, T.N, 1e9);
         if (w == VOLTAB_WRITTEN)

@@ -115,6 +115,10 @@ sed '/^7 1 /d' "$tmp/t20.txt" > "$tmp/gap.txt"
 bad_import gap ":26: error: expected V_{7,1} here, found V_{7,2}"
 sed 's|^3 3 .*|3 3 2/4|' "$tmp/t20.txt" > "$tmp/notlow.txt"
 bad_import notlow ":12: error: not a line \"g n numerator/denominator\" in lowest terms"
+"$exe" --store "$tmp/slow.sqlite" --max-seconds 0.001 --import-volumes "$tmp/t20.txt" > "$tmp/slow.out" 2>&1
+[ $? = 1 ] && grep -q "checking this table takes one prime of the volume engine" "$tmp/slow.out" \
+  && [ "$( [ -f "$tmp/slow.sqlite" ] && tables "$tmp/slow.sqlite" || echo 0)" = 0 ] && check ok \
+  || { check no "the check's cost not held to --max-seconds"; cat "$tmp/slow.out"; }
 "$exe" --store "$tmp/dev.sqlite" --import-volumes /dev/zero > "$tmp/dev.out" 2>&1
 [ $? = 1 ] && grep -q "not a regular file" "$tmp/dev.out" && check ok || { check no "import of /dev/zero"; cat "$tmp/dev.out"; }
 "$exe" --no-store --import-volumes "$tmp/t20.txt" > "$tmp/off.out" 2>&1
