@@ -67,7 +67,8 @@ static int bench_run(void *arg, FILE *out)
     wpvol_estimate(&est_s, &est_b, c->G, c->N);
     bench_timer_start(&t);
     /* wpvol_table's own settings, with the count of primes exposed */
-    st = wpvol_table_ex(out_v, c->G, c->N, c->threads, 62, 1, &primes);
+    st = wpvol_table_ex(out_v, c->G, c->N, c->threads, wpvol_default_prime_bits(), 1,
+                        &primes);
     u.wall = bench_timer_wall(&t);
     u.cpu = bench_timer_cpu(&t);
     u.mib = bench_peak_mib();
@@ -253,7 +254,7 @@ static int single_child(void *arg, FILE *out)
     int st;
 
     bench_timer_start(&t);
-    st = wpvol_table_ex(v, c->G, 0, c->threads, 62, 1, &primes);
+    st = wpvol_table_ex(v, c->G, 0, c->threads, wpvol_default_prime_bits(), 1, &primes);
     u.wall = bench_timer_wall(&t);
     u.cpu = bench_timer_cpu(&t);
     u.mib = bench_peak_mib();
@@ -331,9 +332,12 @@ static int bench_primes(slong G, slong N, slong R)
     wpvol_ws_t *ws = wpvol_ws_new(G, N);
     ulong *res = flint_malloc((size_t) ((G + 1) * (N + 1)) * sizeof(ulong));
     double *sec = flint_malloc((size_t) R * sizeof(double));
-    ulong p = UWORD(1) << 62;
+    int bits = wpvol_default_prime_bits();
+    ulong p = UWORD(1) << bits;
     slong r;
     int bad = ws == NULL;
+
+    printf("primes below 2^%d (PSIKAPPA_SIMD=off for the scalar code)\n", bits);
 
     for (r = 0; r < R && !bad; r++)
     {

@@ -91,7 +91,8 @@ static int bw_run(void *arg, FILE *out)
     }
     bench_timer_start(&t);
     st = c->threads == 0 ? bw_reference(v, c->g, c->n, &entries)
-                         : wpoly_coeffs_route(v, c->g, c->n, c->threads, 62, 1, 0, c->route,
+                         : wpoly_coeffs_route(v, c->g, c->n, c->threads,
+                                              wpvol_default_prime_bits(), 1, 0, c->route,
                                               &primes);
     u.wall = bench_timer_wall(&t);
     u.cpu = bench_timer_cpu(&t);

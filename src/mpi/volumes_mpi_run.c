@@ -233,8 +233,8 @@ static int volmpi_root(volmpi_ctx_t *c)
     double t0 = volmpi_now();
     int st, rc = 0;
 
-    st = wpvol_table_combine(out, o->G, o->N, volmpi_residues, c, c->size * o->threads, 62, 1,
-                             &used);
+    st = wpvol_table_combine(out, o->G, o->N, volmpi_residues, c, c->size * o->threads,
+                             wpvol_default_prime_bits(), 1, &used);
     volmpi_stop_all(c);
     if (o->stats)
         volmpi_stats(c, used, volmpi_now() - t0);

@@ -37,6 +37,7 @@
 #include <flint/fmpq.h>
 #include <flint/fmpq_vec.h>
 #include <flint/fmpq_poly.h>
+#include <flint/nmod_poly.h>
 #include <flint/ulong_extras.h>
 
 #include "volumes/wpvol.h"
@@ -301,20 +302,22 @@ static void test_combine_sources(void)
    16-23, 24-31, 32-39 and a short one, 40-41). */
 static void test_modp_paths(void)
 {
-    slong cases[3][2] = { { 20, 4 }, { 2, 60 }, { 41, 1 } }, i, k;
+    slong cases[3][2] = { { 20, 4 }, { 2, 60 }, { 41, 1 } }, k, j;
     nmod_t mod;
 
-    nmod_init(&mod, wpvol_ntt_prime_below(0, 28));
-    for (i = 0; i < 3; i++)
+    for (j = 0; j < 6; j++)   /* a 62-bit prime, and a 50-bit one (the vector code if enabled) */
     {
-        slong G = cases[i][0], N = cases[i][1], nv = (G + 1) * (N + 1);
+        slong G = cases[j % 3][0], N = cases[j % 3][1], nv = (G + 1) * (N + 1);
         ulong *r1 = flint_malloc((size_t) nv * sizeof(ulong));
         ulong *r2 = flint_malloc((size_t) nv * sizeof(ulong));
-        int s1 = wpvol_modp_table_ex(r1, G, N, mod, 1), s2 = wpvol_modp_table_ex(r2, G, N, mod, 0);
-        int same = 1;
+        int s1, s2, same = 1;
+        nmod_init(&mod, wpvol_ntt_prime_below(j < 3 ? 0 : UWORD(1) << 50, 28));
+        s1 = wpvol_modp_table_ex(r1, G, N, mod, 1);
+        s2 = wpvol_modp_table_ex(r2, G, N, mod, 0);
         for (k = 0; k < nv; k++)
             same &= (r1[k] == r2[k]);
-        UNIT_CHECK(&rep, s1 == 0 && s2 == 0 && same, "mod-p paths agree for G=%ld N=%ld", G, N);
+        UNIT_CHECK(&rep, s1 == 0 && s2 == 0 && same, "mod-p paths agree for G=%ld N=%ld, p=%lu",
+                   G, N, mod.n);
         flint_free(r1);
         flint_free(r2);
     }
@@ -322,15 +325,18 @@ static void test_modp_paths(void)
 
 /* Property: the pointwise sums of the transform products, 2 sum_k a_k b_k + s^2 mod p, equal
    FLINT's nmod arithmetic, also where the exact 128-bit sums overflow most often (every entry
-   p - 1, up to 300 pairs) and for random entries; 62-bit and 40-bit primes. */
+   p - 1, up to 4500 pairs: beyond the vector code's fold of its low halves at 2048) and for
+   random entries; 62-bit, 40-bit and 50-bit primes (for the two smaller ones the vector code,
+   where it is enabled, takes 32 entries of 37 and the scalar code the rest). */
 static void test_ntt_dot2(void)
 {
-    enum { NP = 300, N = 37 };
-    ulong primes[2] = { wpvol_ntt_prime_below(0, 28), n_nextprime(UWORD(1) << 40, 1) };
+    enum { NP = 4500, N = 37 };
+    ulong primes[3] = { wpvol_ntt_prime_below(0, 28), n_nextprime(UWORD(1) << 40, 1),
+                        wpvol_ntt_prime_below(UWORD(1) << 50, 28) };
     ulong *v = flint_malloc((size_t) (2 * NP + 1) * N * sizeof(ulong));
     ulong *out = flint_malloc(N * sizeof(ulong));
     ulong *a[NP], *b[NP];
-    slong np[3] = { 1, 17, NP }, i, j, k, t;
+    slong np[4] = { 1, 17, 300, NP }, i, j, k, t;
     flint_rand_t st;
 
     flint_randinit(st);
@@ -339,7 +345,7 @@ static void test_ntt_dot2(void)
         a[k] = v + 2 * k * N;
         b[k] = v + (2 * k + 1) * N;
     }
-    for (j = 0; j < 2; j++)
+    for (j = 0; j < 3; j++)
         for (t = 0; t < 2; t++)
         {
             nmod_t mod;
@@ -347,7 +353,7 @@ static void test_ntt_dot2(void)
             nmod_init(&mod, primes[j]);
             for (i = 0; i < (2 * NP + 1) * N; i++)
                 v[i] = t == 0 ? primes[j] - 1 : n_randint(st, primes[j]);
-            for (k = 0; k < 3; k++)
+            for (k = 0; k < 4; k++)
             {
                 const ulong *sq = k == 1 ? NULL : v + 2 * NP * N;
                 wpvol_ntt_dot2(out, a, b, np[k], sq, N, mod);
@@ -369,11 +375,11 @@ static void test_ntt_dot2(void)
 }
 
 /* Property: several sums in one pass of wpvol_ntt_dot2_many (shared factors, different
-   lengths, an added term, a square or none) equal FLINT's nmod arithmetic, entry by entry. */
-static void test_ntt_dot2_many(void)
+   lengths, an added term, a square or none) equal FLINT's nmod arithmetic, entry by entry;
+   a 62-bit and a 50-bit prime. */
+static void test_ntt_dot2_many_prime(ulong p)
 {
     enum { NF = 40, N = 700, NS = 5 };
-    ulong p = wpvol_ntt_prime_below(0, 28);
     ulong *v = flint_malloc((size_t) (NF + NS) * N * sizeof(ulong));
     ulong *out = flint_malloc((size_t) NS * N * sizeof(ulong));
     ulong *a[NS][NF], *b[NS][NF];
@@ -414,10 +420,16 @@ static void test_ntt_dot2_many(void)
                 r = nmod_add(r, d[j].add[i], mod);
             ok &= out[j * N + i] == r;
         }
-    UNIT_CHECK(&rep, ok, "five pointwise sums in one pass agree with nmod");
+    UNIT_CHECK(&rep, ok, "five pointwise sums in one pass agree with nmod, p = %lu", p);
     flint_randclear(st);
     flint_free(v);
     flint_free(out);
+}
+
+static void test_ntt_dot2_many(void)
+{
+    test_ntt_dot2_many_prime(wpvol_ntt_prime_below(0, 28));
+    test_ntt_dot2_many_prime(wpvol_ntt_prime_below(UWORD(1) << 50, 28));
 }
 
 /* Property: the truncated transforms give the first n values of the full transform (inputs of
@@ -460,13 +472,96 @@ static void test_ntt_trunc(void)
     flint_randclear(st);
 }
 
+/* Property: with a 50-bit prime, the vector butterflies (when this processor has them) give
+   the scalar code's transforms value for value (full and truncated, forward and inverse, on
+   random entries and on entries p - 1 and 2p - 1, the extremes of the lazy range), and a
+   product through either equals FLINT's nmod_poly_mul. */
+static void test_ntt_simd(void)
+{
+    ulong p = wpvol_ntt_prime_below(UWORD(1) << 50, 28);
+    slong it, j, bad = 0, badmul = 0;
+    wpvol_ntt_t F, S;
+    flint_rand_t st;
+    nmod_t mod;
+
+    flint_randinit(st);
+    nmod_init(&mod, p);
+    UNIT_CHECK(&rep, wpvol_ntt_init(F, mod, WORD(1) << 14) == 0, "transform tables, 50 bits");
+    *S = *F;
+    S->simd = 0;   /* the same tables through the scalar butterflies */
+    for (it = 0; it < 300; it++)
+    {
+        slong N = WORD(1) << n_randint(st, 15), n = n_randint(st, N + 1), kind = it % 3;
+        slong d = n_randint(st, n + 1);
+        ulong *x = flint_malloc((size_t) (6 * N) * sizeof(ulong)), *y = x + N, *u = y + N;
+        ulong *v = u + N, *w = v + N, *z = w + N;
+        nmod_poly_t A, B, C;
+        for (j = 0; j < N; j++)
+            x[j] = kind == 0 ? n_randint(st, p) : p - 1;
+        memcpy(y, x, (size_t) N * sizeof(ulong));
+        wpvol_ntt_fwd(x, N, F);
+        wpvol_ntt_fwd(y, N, S);
+        bad += memcmp(x, y, (size_t) N * sizeof(ulong)) != 0;
+        for (j = 0; j < N; j++)   /* inverse inputs anywhere in [0, 2p) */
+            x[j] = y[j] = kind == 2 ? 2 * p - 1 : n_randint(st, 2 * p);
+        wpvol_ntt_inv(x, N, F);
+        wpvol_ntt_inv(y, N, S);
+        bad += memcmp(x, y, (size_t) N * sizeof(ulong)) != 0;
+        for (j = 0; j < N; j++)   /* d terms; what follows them must not be read */
+        {
+            x[j] = y[j] = n_randint(st, p);
+            z[j] = j < d ? x[j] : 0;
+        }
+        wpvol_ntt_fwd_trunc(x, N, n, d, F);
+        wpvol_ntt_fwd_trunc(y, N, n, d, S);
+        wpvol_ntt_fwd(z, N, F);
+        bad += memcmp(x, y, (size_t) n * sizeof(ulong)) != 0;
+        bad += memcmp(x, z, (size_t) n * sizeof(ulong)) != 0;
+        wpvol_ntt_inv_trunc(x, N, n, F);
+        wpvol_ntt_inv_trunc(y, N, n, S);
+        bad += memcmp(x, y, (size_t) n * sizeof(ulong)) != 0;
+        /* a product of lengths N/2 and N/2 through the transforms of length N */
+        nmod_poly_init(A, p);
+        nmod_poly_init(B, p);
+        nmod_poly_init(C, p);
+        for (j = 0; j < N; j++)
+        {
+            u[j] = j < N / 2 ? (kind == 0 ? n_randint(st, p) : p - 1) : 0;
+            v[j] = j < N / 2 ? n_randint(st, p) : 0;
+            nmod_poly_set_coeff_ui(A, j, u[j]);
+            nmod_poly_set_coeff_ui(B, j, v[j]);
+        }
+        nmod_poly_mul(C, A, B);
+        wpvol_ntt_fwd(u, N, F);
+        wpvol_ntt_fwd(v, N, F);
+        for (j = 0; j < N; j++)
+            w[j] = nmod_mul(u[j], v[j], mod);
+        wpvol_ntt_inv(w, N, F);
+        for (j = 0; j < N; j++)
+        {
+            z[j] = nmod_div(w[j], N % p, mod);
+            badmul += z[j] != nmod_poly_get_coeff_ui(C, j);
+        }
+        nmod_poly_clear(A);
+        nmod_poly_clear(B);
+        nmod_poly_clear(C);
+        flint_free(x);
+    }
+    UNIT_CHECK(&rep, bad == 0, "vector (%s) and scalar transforms: %ld of 1500 comparisons "
+               "differ", F->simd ? "enabled" : "not on this processor", bad);
+    UNIT_CHECK(&rep, badmul == 0, "transform products against nmod_poly_mul: %ld coefficients "
+               "differ", badmul);
+    wpvol_ntt_clear(F);
+    flint_randclear(st);
+}
+
 /* Property: the products of rows by I_2 and 1/I_2 (truncated transforms from WPVOL_ROW_MIN
    terms on) equal FLINT's truncated products for every row length up to 420 (all truncations
-   of the two series). */
-static void test_mul_i2(void)
+   of the two series); a 62-bit and a 50-bit prime. */
+static void test_mul_i2_prime(ulong p)
 {
     enum { LEN = 420 };
-    ulong p = wpvol_ntt_prime_below(0, 28), x[LEN], r1[LEN], r2[LEN];
+    ulong x[LEN], r1[LEN], r2[LEN];
     slong l, j, bad = 0;
     wpvol_ntt_t F;
     wpvol_ctx_t ctx;
@@ -490,11 +585,17 @@ static void test_mul_i2(void)
         _nmod_poly_mullow(r2, x, l, ctx->i2inv, l, l, mod);
         bad += memcmp(r1, r2, (size_t) l * sizeof(ulong)) != 0;
     }
-    UNIT_CHECK(&rep, bad == 0, "rows times I_2 and 1/I_2: %ld of %d products differ", bad,
-               (int) (2 * LEN));
+    UNIT_CHECK(&rep, bad == 0, "rows times I_2 and 1/I_2, p = %lu: %ld of %d products differ",
+               p, bad, (int) (2 * LEN));
     wpvol_ctx_clear(ctx);
     wpvol_ntt_clear(F);
     flint_randclear(st);
+}
+
+static void test_mul_i2(void)
+{
+    test_mul_i2_prime(wpvol_ntt_prime_below(0, 28));
+    test_mul_i2_prime(wpvol_ntt_prime_below(UWORD(1) << 50, 28));   /* the vector code */
 }
 
 /* A driver job of fixed rationals (tests only): value k is q[k]; the multiple offered for
@@ -738,6 +839,7 @@ int main(void)
     test_ntt_dot2();
     test_ntt_dot2_many();
     test_ntt_trunc();
+    test_ntt_simd();
     test_mul_i2();
     test_modp_guards();
     test_asymptotics();

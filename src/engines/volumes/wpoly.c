@@ -355,10 +355,11 @@ int wpoly_coeffs_route(fmpq *out, slong g, slong n, int threads, int prime_bits,
     return status;
 }
 
-/* See wpoly.h: 62-bit primes, first batch from the size model, the proven truncation. */
+/* See wpoly.h: primes of wpvol_default_prime_bits(), first batch from the size model, the
+   proven truncation. */
 int wpoly_coeffs(fmpq *out, slong g, slong n, int threads)
 {
-    return wpoly_coeffs_ex(out, g, n, threads, 62, 1, 0, NULL);
+    return wpoly_coeffs_ex(out, g, n, threads, wpvol_default_prime_bits(), 1, 0, NULL);
 }
 
 /* See wpoly.h. */
@@ -374,5 +375,6 @@ int wpoly_coeffs_at_route(fmpq *out, slong g, slong n, const slong *idx, slong n
     if (out == NULL || threads < 1 || !wpoly_valid(g, n, idx, nidx) || route < WPOLY_ROUTE_AUTO
         || route > WPOLY_ROUTE_TRANSPOSED)
         return WPVOL_BADARG;
-    return wpoly_run(out, g, n, idx, nidx, threads, 62, 1, 0, route, NULL);
+    return wpoly_run(out, g, n, idx, nidx, threads, wpvol_default_prime_bits(), 1, 0, route,
+                     NULL);
 }

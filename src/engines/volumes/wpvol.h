@@ -51,6 +51,12 @@ int wpvol_table(fmpq *out, slong G, slong N, int threads);
    part for more threads: see docs/volumes-engine.md).  Both are 0 for G<0 or N<0.  Cheap. */
 void wpvol_estimate(double *seconds, double *bytes, slong G, slong N);
 
+/* The prime size wpvol_table and the polynomial engine use on this processor: 50 bits where
+   the transforms and pointwise sums run eight residues at a time (AVX-512 IFMA, unless
+   PSIKAPPA_SIMD=off), else 62 bits (about 1.24 times fewer primes for the scalar code).  The
+   values never depend on it. */
+int wpvol_default_prime_bits(void);
+
 /* Same as wpvol_table but with explicit control over the multi-modular driver, for tests and
    benchmarks: primes are taken upwards from 2^(prime_bits-1) (prime_bits in [20, 63]; values
    below 40 make many primes and are slow but legal), and at least min_primes primes are used

@@ -125,6 +125,8 @@ typedef struct wpvol_ntt_struct_tag
     slong n;                 /* largest supported length (power of two), 0 when empty */
     ulong *w, *wpre;         /* w[len+j] = root_{2len}^j and Shoup quotients */
     ulong *iw, *iwpre;       /* the same for the inverse roots */
+    ulong *wpre52, *iwpre52; /* quotients floor(w 2^52 / p) of the vector code, or NULL */
+    int simd;                /* butterflies by wpvol_ntt_simd.c (p < 2^50 and enabled) */
 } wpvol_ntt_struct;
 
 typedef wpvol_ntt_struct wpvol_ntt_t[1];
@@ -190,6 +192,59 @@ typedef struct
 /* All the sums d[0..count), interleaved block by block so that the factors they share are
    read from memory once per block (outputs must not alias each other or any factor). */
 void wpvol_ntt_dot2_many(const wpvol_dot_t *d, slong count, nmod_t mod);
+
+/* --- wpvol_ntt_simd.c -------------------------------------------------------------------- */
+
+/* Whether this file's vector code can be compiled here (x86-64 with GCC or Clang). */
+#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__)) && !defined(WPVOL_NO_SIMD)
+#define WPVOL_SIMD_BUILD 1
+#else
+#define WPVOL_SIMD_BUILD 0
+#endif
+
+/* Primes below this bound (and the processor) let the vector code run. */
+#define WPVOL_SIMD_PRIME_BITS 50
+
+/* 1 if the vector code runs on this processor (AVX-512F and IFMA) and PSIKAPPA_SIMD is not
+   "off"; probed once per process. */
+int wpvol_simd_enabled(void);
+
+/* floor(w 2^52 / p) for w < p < 2^50. */
+ulong wpvol_simd_pre52(ulong w, ulong p);
+
+/* The butterfly levels of wpvol_ntt.c's transforms: forward len = hi, ..., lo; inverse
+   len = lo, ..., hi; for n >= 8, hi >= 4 and lo == 1 or lo >= 8 (the levels below 8 are done
+   eight values at a time in registers, all three together).  Same lazy ranges as the scalar
+   code ([0, 2p)); p < 2^50; only when wpvol_simd_enabled. */
+void wpvol_simd_fwd_levels(ulong *a, slong n, slong hi, slong lo, const ulong *w,
+                           const ulong *wpre52, ulong p);
+void wpvol_simd_inv_levels(ulong *a, slong n, slong lo, slong hi, const ulong *w,
+                           const ulong *wpre52, ulong p);
+
+/* Element-wise passes, eight entries at a time (p < 2^50, only when wpvol_simd_enabled); each
+   does the first m' = m rounded down to a multiple of 8 entries and returns m'.  Inputs in
+   [0, p) and outputs reduced unless said otherwise; w, wpre52 twiddles with their quotients.
+   split:      x, y <- x + y, (x - y) w        (y read as 0 if y_zero)
+   sub_split:  x, y <- x - y, (x - 2y) w
+   addsub:     x <- x + y (sign > 0) or x - y
+   mul:        a <- a c (c NULL: the constant s, quotient spre52), a < 2^52, output in [0, 2p)
+               unless reduce
+   reduce4:    a <- a mod p for a in [0, 4p)
+   merge_half: x, y <- (x + y w) / 2, (x - y w) / 2 */
+slong wpvol_simd_split(ulong *x, ulong *y, int y_zero, slong m, const ulong *w,
+                       const ulong *wpre52, ulong p);
+slong wpvol_simd_sub_split(ulong *x, ulong *y, slong m, const ulong *w, const ulong *wpre52,
+                           ulong p);
+slong wpvol_simd_addsub(ulong *x, const ulong *y, slong m, int sign, ulong p);
+slong wpvol_simd_mul(ulong *a, slong m, const ulong *c, const ulong *cpre52, ulong s,
+                     ulong spre52, int reduce, ulong p);
+slong wpvol_simd_reduce4(ulong *a, slong m, ulong p);
+slong wpvol_simd_merge_half(ulong *x, ulong *y, slong m, const ulong *w, const ulong *wpre52,
+                            ulong p);
+
+/* Entries [i0, i0 + m') of the sum d (wpvol_ntt_dot2_many), m' = m rounded down to a multiple
+   of 8, which it returns; p < 2^50, d->npairs < 2^14, only when wpvol_simd_enabled. */
+slong wpvol_simd_dot_block(const wpvol_dot_t *d, slong i0, slong m, ulong p);
 
 /* --- wpvol_modp.c ------------------------------------------------------------------------ */
 

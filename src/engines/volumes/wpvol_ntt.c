@@ -31,6 +31,15 @@ static inline ulong wpvol_ntt_mulshoup(ulong t, ulong w, ulong wpre, ulong p)
     return t * w - qh * p;
 }
 
+/* t*w mod p in [0, 2p) for t < 2^52, with wpre = floor(w 2^52 / p), w < p < 2^50: the scalar
+   form of the vector code's multiplication (for tails shorter than eight). */
+static inline ulong wpvol_ntt_mulshoup52(ulong t, ulong w, ulong wpre, ulong p)
+{
+    ulong qh = (ulong) (((wpvol_u128) t * wpre) >> 52);
+
+    return t * w - qh * p;
+}
+
 /* floor(w 2^64 / p) for w < p (the quotient fits in one word).
    FLINT's helper keeps us clear of the normalisation rules of udiv_qrnnd. */
 static ulong wpvol_ntt_shoup_pre(ulong w, ulong p)
@@ -101,13 +110,18 @@ int wpvol_ntt_init(wpvol_ntt_t F, nmod_t mod, slong n)
     F->mod = mod;
     if (n < 1 || (n & (n - 1)) != 0)
         return -2;
-    F->w = malloc((size_t) n * 4 * sizeof(ulong));
+    F->w = malloc((size_t) n * (wpvol_simd_enabled() ? 6 : 4) * sizeof(ulong));
     if (F->w == NULL)
         return -1;
     F->n = n;
     F->wpre = F->w + n;
     F->iw = F->w + 2 * n;
     F->iwpre = F->w + 3 * n;
+    if (wpvol_simd_enabled())
+    {
+        F->wpre52 = F->w + 4 * n;
+        F->iwpre52 = F->w + 5 * n;
+    }
     if (wpvol_ntt_set_prime(F, mod) != 0)
     {
         wpvol_ntt_clear(F);
@@ -132,6 +146,17 @@ int wpvol_ntt_set_prime(wpvol_ntt_t F, nmod_t mod)
     F->w[0] = F->wpre[0] = F->iw[0] = F->iwpre[0] = 0;
     wpvol_ntt_fill(F->w, F->wpre, r, n, mod);
     wpvol_ntt_fill(F->iw, F->iwpre, nmod_inv(r, mod), n, mod);
+    F->simd = F->wpre52 != NULL && mod.n < (UWORD(1) << WPVOL_SIMD_PRIME_BITS);
+    if (F->simd)
+    {
+        slong j;
+        F->wpre52[0] = F->iwpre52[0] = 0;
+        for (j = 1; j < n; j++)
+        {
+            F->wpre52[j] = wpvol_simd_pre52(F->w[j], mod.n);
+            F->iwpre52[j] = wpvol_simd_pre52(F->iw[j], mod.n);
+        }
+    }
     return 0;
 }
 
@@ -142,6 +167,14 @@ void wpvol_ntt_clear(wpvol_ntt_t F)
     memset(F, 0, sizeof(wpvol_ntt_struct));
 }
 
+/* Whether the vector code serves this prime (then wpvol_ntt_shoup_vec gives 52-bit quotients). */
+#define WPVOL_NTT_SIMD_PRIME(p) ((p) < (UWORD(1) << WPVOL_SIMD_PRIME_BITS) && wpvol_simd_enabled())
+
+/* Whether the vector code takes the levels hi..lo over a[0..n): groups of 8 in every level,
+   and either all levels down to 1 (fused in registers below 8) or none below 8. */
+#define WPVOL_NTT_SIMD_LEVELS(F, n, hi, lo) \
+    ((F)->simd && (n) >= 8 && (hi) >= 4 && ((lo) == 1 || (lo) >= 8))
+
 /* Butterfly passes of the forward transform for half-lengths len = hi, hi/2, ..., lo over
    a[0..n) (values lazily in [0, 2p)). */
 static void wpvol_ntt_fwd_levels(ulong *a, slong n, slong hi, slong lo, const wpvol_ntt_t F)
@@ -149,6 +182,11 @@ static void wpvol_ntt_fwd_levels(ulong *a, slong n, slong hi, slong lo, const wp
     ulong p = F->mod.n, p2 = 2 * p;
     slong len, s, j;
 
+    if (WPVOL_NTT_SIMD_LEVELS(F, n, hi, lo))
+    {
+        wpvol_simd_fwd_levels(a, n, hi, lo, F->w, F->wpre52, p);
+        return;
+    }
     for (len = hi; len >= lo; len /= 2)
         for (s = 0; s < n; s += 2 * len)
         {
@@ -169,6 +207,11 @@ static void wpvol_ntt_inv_levels(ulong *a, slong n, slong lo, slong hi, const wp
     ulong p = F->mod.n, p2 = 2 * p;
     slong len, s, j;
 
+    if (WPVOL_NTT_SIMD_LEVELS(F, n, hi, lo))
+    {
+        wpvol_simd_inv_levels(a, n, lo, hi, F->iw, F->iwpre52, p);
+        return;
+    }
     for (len = lo; len <= hi; len *= 2)
         for (s = 0; s < n; s += 2 * len)
         {
@@ -201,7 +244,7 @@ void wpvol_ntt_fwd(ulong *a, slong n, const wpvol_ntt_t F)
         for (s = 0; s < n; s += blk)
             wpvol_ntt_fwd_levels(a + s, blk, blk / 2, 1, F);
     }
-    for (j = 0; j < n; j++)
+    for (j = F->simd ? wpvol_simd_reduce4(a, n, p) : 0; j < n; j++)
     {
         ulong u = a[j] >= p2 ? a[j] - p2 : a[j];
         a[j] = u >= p ? u - p : u;
@@ -221,7 +264,7 @@ void wpvol_ntt_inv(ulong *a, slong n, const wpvol_ntt_t F)
             wpvol_ntt_inv_levels(a + s, blk, 1, blk / 2, F);
         wpvol_ntt_inv_levels(a, n, blk, n / 2, F);
     }
-    for (j = 0; j < n; j++)
+    for (j = F->simd ? wpvol_simd_reduce4(a, n, p) : 0; j < n; j++)
         a[j] = a[j] >= p ? a[j] - p : a[j];
 }
 
@@ -251,9 +294,9 @@ static inline ulong wpvol_ntt_half(ulong x, ulong p)
 static void wpvol_ntt_scale_inv(ulong *a, slong N, ulong k, const wpvol_ntt_t F)
 {
     ulong p = F->mod.n, s = nmod_inv(k % p, F->mod), spre = wpvol_ntt_shoup_pre(s, p);
-    slong j;
+    slong j = F->simd ? wpvol_simd_mul(a, N, NULL, NULL, s, wpvol_simd_pre52(s, p), 1, p) : 0;
 
-    for (j = 0; j < N; j++)
+    for (; j < N; j++)
         a[j] = wpvol_ntt_mulred(a[j], s, spre, p);
 }
 
@@ -275,12 +318,22 @@ void wpvol_ntt_fwd_trunc(ulong *a, slong N, slong n, slong d, const wpvol_ntt_t 
     }
     if (n <= h)   /* only the first half: b_j = a_j + a_{j+h} */
     {
-        for (j = 0; j + h < d; j++)
+        j = F->simd && d > h ? wpvol_simd_addsub(a, a + h, d - h, 1, p) : 0;
+        for (; j + h < d; j++)
             a[j] = nmod_add(a[j], a[j + h], F->mod);
         wpvol_ntt_fwd_trunc(a, h, n, FLINT_MIN(d, h), F);
         return;
     }
-    for (j = 0; j < h; j++)   /* both halves: b_j = a_j + a_{j+h}, c_j = (a_j - a_{j+h}) w^j */
+    j = 0;
+    if (F->simd)   /* the runs where both halves, the first only, or neither are given */
+    {
+        slong both = FLINT_MAX(0, d - h), first = FLINT_MIN(d, h);
+        j = wpvol_simd_split(a, a + h, 0, both, F->w + h, F->wpre52 + h, p);
+        if (j == both)
+            j += wpvol_simd_split(a + j, a + h + j, 1, first - j, F->w + h + j,
+                                  F->wpre52 + h + j, p);
+    }
+    for (; j < h; j++)   /* both halves: b_j = a_j + a_{j+h}, c_j = (a_j - a_{j+h}) w^j */
     {
         ulong x = j < d ? a[j] : 0, y = j + h < d ? a[j + h] : 0;
         a[j] = nmod_add(x, y, F->mod);
@@ -312,23 +365,26 @@ void wpvol_ntt_inv_trunc(ulong *a, slong N, slong n, const wpvol_ntt_t F)
     }
     if (n <= h)   /* b_j = a_j + a_{j+h}: known for j >= n; then a_j = b_j - a_{j+h} */
     {
-        for (j = n; j < h; j++)
+        for (j = n + (F->simd ? wpvol_simd_addsub(a + n, a + n + h, h - n, 1, p) : 0); j < h; j++)
             a[j] = nmod_add(a[j], a[j + h], F->mod);
         wpvol_ntt_inv_trunc(a, h, n, F);
-        for (j = 0; j < n; j++)
+        for (j = F->simd ? wpvol_simd_addsub(a, a + h, n, -1, p) : 0; j < n; j++)
             a[j] = nmod_sub(a[j], a[j + h], F->mod);
         return;
     }
     wpvol_ntt_inv(a, h, F);   /* h b */
     wpvol_ntt_scale_inv(a, h, (ulong) h, F);
-    for (j = m; j < h; j++)   /* a_{j+h} known: a_j = b_j - a_{j+h}, and c_j */
+    j = m + (F->simd ? wpvol_simd_sub_split(a + m, a + m + h, h - m, F->w + h + m,
+                                            F->wpre52 + h + m, p) : 0);
+    for (; j < h; j++)   /* a_{j+h} known: a_j = b_j - a_{j+h}, and c_j */
     {
         ulong aj = nmod_sub(a[j], a[j + h], F->mod);
         a[j + h] = wpvol_ntt_mulred(aj - a[j + h] + p, F->w[h + j], F->wpre[h + j], p);
         a[j] = aj;
     }
     wpvol_ntt_inv_trunc(a + h, h, m, F);
-    for (j = 0; j < m; j++)   /* a_j +- a_{j+h} = b_j, c_j w^-j */
+    j = F->simd ? wpvol_simd_merge_half(a, a + h, m, F->iw + h, F->iwpre52 + h, p) : 0;
+    for (; j < m; j++)   /* a_j +- a_{j+h} = b_j, c_j w^-j */
     {
         ulong b = a[j], c = wpvol_ntt_mulred(a[j + h], F->iw[h + j], F->iwpre[h + j], p);
         a[j] = wpvol_ntt_half(nmod_add(b, c, F->mod), p);
@@ -340,18 +396,22 @@ void wpvol_ntt_inv_trunc(ulong *a, slong N, slong n, const wpvol_ntt_t F)
 void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod)
 {
     slong i;
+    int simd = WPVOL_NTT_SIMD_PRIME(mod.n);
 
     for (i = 0; i < n; i++)
-        pre[i] = wpvol_ntt_shoup_pre(b[i], mod.n);
+        pre[i] = simd ? wpvol_simd_pre52(b[i], mod.n) : wpvol_ntt_shoup_pre(b[i], mod.n);
 }
 
-/* a[i] = a[i] b[i] mod p in [0, 2p) (a < 2^64 arbitrary), with pre from wpvol_ntt_shoup_vec. */
+/* a[i] = a[i] b[i] mod p in [0, 2p) (a < 2^64 arbitrary, below 2^52 for primes of the vector
+   code), with pre from wpvol_ntt_shoup_vec. */
 void wpvol_ntt_mul_shoup_vec(ulong *a, const ulong *b, const ulong *pre, slong n, nmod_t mod)
 {
-    slong i;
+    slong i = WPVOL_NTT_SIMD_PRIME(mod.n) ? wpvol_simd_mul(a, n, b, pre, 0, 0, 0, mod.n) : 0;
 
-    for (i = 0; i < n; i++)
-        a[i] = wpvol_ntt_mulshoup(a[i], b[i], pre[i], mod.n);
+    for (; i < n; i++)   /* the tail (or all) of either path: pre matches wpvol_ntt_shoup_vec */
+        a[i] = WPVOL_NTT_SIMD_PRIME(mod.n)
+               ? wpvol_ntt_mulshoup52(a[i], b[i], pre[i], mod.n)
+               : wpvol_ntt_mulshoup(a[i], b[i], pre[i], mod.n);
 }
 
 /* Constants for reducing three-word sums modulo p < 2^62 without division: 2^64 and 2^128
@@ -467,6 +527,16 @@ static void wpvol_ntt_dot_block(const wpvol_dot_t *d, slong i0, slong m, const w
     wpvol_u128 acc[WPVOL_DOT_BLK];
     ulong carry[WPVOL_DOT_BLK];
     slong i;
+
+    if (R->p < (UWORD(1) << WPVOL_SIMD_PRIME_BITS) && d->npairs < (WORD(1) << 14)
+        && wpvol_simd_enabled())
+    {
+        slong done = wpvol_simd_dot_block(d, i0, m, R->p);   /* the rest (m mod 8) below */
+        i0 += done;
+        m -= done;
+        if (m == 0)
+            return;
+    }
 
     memset(acc, 0, sizeof(acc));
     memset(carry, 0, sizeof(carry));

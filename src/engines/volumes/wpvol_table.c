@@ -185,8 +185,9 @@ int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slo
                                min_primes, primes_used);
 }
 
-/* See wpvol.h: 62-bit transform-friendly primes, first batch from the size model. */
+/* See wpvol.h: transform-friendly primes of wpvol_default_prime_bits(), first batch from the
+   size model. */
 int wpvol_table(fmpq *out, slong G, slong N, int threads)
 {
-    return wpvol_table_ex(out, G, N, threads, 62, 1, NULL);
+    return wpvol_table_ex(out, G, N, threads, wpvol_default_prime_bits(), 1, NULL);
 }
