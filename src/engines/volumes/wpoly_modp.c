@@ -115,7 +115,7 @@ static int wpoly_hat(wpoly_ws_t *ws, slong h, slong S)
     slong r, slot = 2 * ws->L - 1, T = ws->Tmax;
     ulong **x = ws->cur[S]->hat + h;
 
-    if (*x == NULL && (*x = malloc((size_t) T * sizeof(ulong))) == NULL)
+    if (*x == NULL && (*x = wpvol_words_alloc(T)) == NULL)
         return WPVOL_NOMEM;
     memset(*x, 0, (size_t) T * sizeof(ulong));
     for (r = 0; r < b->rows; r++)
@@ -495,7 +495,7 @@ wpoly_ws_t *wpoly_ws_new(slong g, slong n, slong extra, const slong *idx, slong 
     ws->comp = calloc((size_t) ws->ncomp, sizeof(wpoly_comp_t));
     ws->tmp = calloc((size_t) ws->L, sizeof(ulong));
     ws->Tmax = wpoly_ntt_len(g, ws->L);
-    ws->buf = malloc((size_t) ws->Tmax * sizeof(ulong));
+    ws->buf = wpvol_words_alloc(ws->Tmax);
     ws->pa = malloc((size_t) (2 * nb) * sizeof(ulong *));
     ws->fact = malloc((size_t) (2 * ws->nfact) * sizeof(ulong));
     ok = ws->comp != NULL && ws->tmp != NULL && ws->fact != NULL && ws->buf != NULL

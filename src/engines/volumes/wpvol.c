@@ -415,10 +415,13 @@ static void wpvol_run_output(fmpq *out, const wpvol_drv_t *D)
 }
 
 /* Number of primes for the first batch: the modelled need of the largest entry (scaled to
-   this prime size) plus one, at least min_primes and at least one per thread. */
+   this prime size) plus one, at least min_primes and at least one per thread.  Below 62 bits
+   the primes are taken downwards from 2^prime_bits (wpvol_primes_extend), so the first few
+   hundred bring more than prime_bits - 1 bits each (a short first batch only costs a further
+   round, never a wrong value). */
 static slong wpvol_first_batch(double bits, int threads, int prime_bits, slong min_primes)
 {
-    double b = prime_bits >= 62 ? 61.0 : prime_bits - 2.0;
+    double b = prime_bits >= 62 ? 61.0 : prime_bits - 1.0;
     slong np = (slong) (bits / b) + 1;
 
     np = FLINT_MAX(np, min_primes);

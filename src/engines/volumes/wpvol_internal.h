@@ -131,6 +131,11 @@ typedef struct wpvol_ntt_struct_tag
 
 typedef wpvol_ntt_struct wpvol_ntt_t[1];
 
+/* n words aligned to 64 bytes (a cache line: the vector code's loads then never straddle
+   two), uninitialised; NULL if memory is exhausted.  The caller owns it and frees it with
+   free(). */
+ulong *wpvol_words_alloc(slong n);
+
 /* Largest prime below min(below, 2^62) (below == 0: 2^62) congruent to 1 mod 2^k; 0 if none. */
 ulong wpvol_ntt_prime_below(ulong below, int k);
 
@@ -242,8 +247,15 @@ slong wpvol_simd_reduce4(ulong *a, slong m, ulong p);
 slong wpvol_simd_merge_half(ulong *x, ulong *y, slong m, const ulong *w, const ulong *wpre52,
                             ulong p);
 
+/* The bulk of a genus block's pointwise sums with each factor loaded once for all eight
+   genera: out[j][i] = 2 sum_{h = hlo}^{hhi} hat[h][i] hat[g0 + j - h][i] mod p for j < 8,
+   i < n (n a multiple of 8; every hat[k], hlo <= k <= g0 + 7 - hlo, has n entries in [0, p),
+   hhi - hlo < 2^12).  p < 2^50, only when wpvol_simd_enabled. */
+void wpvol_simd_dot_window(ulong *const *out, ulong *const *hat, slong g0, slong hlo, slong hhi,
+                           slong n, ulong p);
+
 /* Entries [i0, i0 + m') of the sum d (wpvol_ntt_dot2_many), m' = m rounded down to a multiple
-   of 8, which it returns; p < 2^50, d->npairs < 2^14, only when wpvol_simd_enabled. */
+   of 32, which it returns; p < 2^50, d->npairs < 2^14, only when wpvol_simd_enabled. */
 slong wpvol_simd_dot_block(const wpvol_dot_t *d, slong i0, slong m, ulong p);
 
 /* --- wpvol_modp.c ------------------------------------------------------------------------ */

@@ -243,7 +243,7 @@ static int wpvol_modp_hat(wpvol_run_t *st, slong h)
 
     if (ws->hat[h] == NULL)
     {
-        ws->hat[h] = malloc((size_t) n * sizeof(ulong));
+        ws->hat[h] = wpvol_words_alloc(n);
         if (ws->hat[h] == NULL)
             return WPVOL_NOMEM;
     }
@@ -265,21 +265,33 @@ static int wpvol_modp_hat(wpvol_run_t *st, slong h)
 #define WPVOL_GBLOCK_FROM 16
 
 /* The pairs (h, g-h) of genus g with h < g-h and lo <= g-h <= hi (the larger member in
-   [lo, hi]), appended to the pointer lists at *np; returns the transform of the square
-   (h = g-h) if g is even and lo <= g/2 <= hi, else NULL. */
+   [lo, hi]) and h outside [skip_lo, skip_hi], appended to the pointer lists at *np; returns
+   the transform of the square (h = g-h) if g is even and lo <= g/2 <= hi, else NULL. */
 static const ulong *wpvol_modp_pairs(ulong **a, ulong **b, slong *np, const wpvol_ws_t *ws,
-                                     slong g, slong lo, slong hi)
+                                     slong g, slong lo, slong hi, slong skip_lo, slong skip_hi)
 {
     slong h;
 
     for (h = 1; 2 * h < g; h++)
-        if (g - h >= lo && g - h <= hi)
+        if (g - h >= lo && g - h <= hi && (h < skip_lo || h > skip_hi))
         {
             a[*np] = ws->hat[h];
             b[*np] = ws->hat[g - h];
             (*np)++;
         }
     return g % 2 == 0 && g / 2 >= lo && g / 2 <= hi ? ws->hat[g / 2] : NULL;
+}
+
+/* The pairs h = WPVOL_GBLOCK..whi that every genus of the block at g0 has with both members
+   below g0 (h < g0 - h), for the vector code's window (wpvol_simd_dot_window), which loads
+   each factor once for all eight genera; whi < WPVOL_GBLOCK (an empty window) where that code
+   does not run or the block is short. */
+static slong wpvol_modp_window(const wpvol_run_t *st, slong g0, slong count)
+{
+    if (count != WPVOL_GBLOCK || st->mod.n >= (UWORD(1) << WPVOL_SIMD_PRIME_BITS)
+        || !wpvol_simd_enabled() || g0 > 4096)
+        return 0;
+    return (g0 - 1) / 2;
 }
 
 /* part[j] = 2 sum_{h < g'-h < g0} hat_h hat_{g'-h} (+ the square if g'/2 < g0) for the genera
@@ -289,6 +301,7 @@ static int wpvol_modp_block_sums(wpvol_run_t *st, slong g0)
 {
     wpvol_ws_t *ws = st->ws;
     slong j, count = FLINT_MIN((slong) WPVOL_GBLOCK, ws->G - g0 + 1), np = 0;
+    slong wlo = WPVOL_GBLOCK, whi = wpvol_modp_window(st, g0, count);
     wpvol_dot_t d[WPVOL_GBLOCK];
     ulong **a = malloc((size_t) (count * g0) * sizeof(ulong *) * 2), **b;
 
@@ -298,13 +311,21 @@ static int wpvol_modp_block_sums(wpvol_run_t *st, slong g0)
     for (j = 0; j < count; j++)
     {
         slong gp = g0 + j, start = np;
-        d[j].sq = wpvol_modp_pairs(a, b, &np, ws, gp, 1, g0 - 1);   /* both members < g0 */
+        /* both members < g0, and not in the window summed by the vector code */
+        d[j].sq = wpvol_modp_pairs(a, b, &np, ws, gp, 1, g0 - 1, wlo, whi);
         d[j].out = ws->part + j * ws->npts;
         d[j].a = a + start;
         d[j].b = b + start;
         d[j].npairs = np - start;
-        d[j].add = NULL;
+        d[j].add = whi >= wlo ? d[j].out : NULL;
         d[j].n = wpvol_modp_ntt_pts(gp, st->L);
+    }
+    if (whi >= wlo)
+    {
+        ulong *out[WPVOL_GBLOCK];
+        for (j = 0; j < count; j++)
+            out[j] = d[j].out;
+        wpvol_simd_dot_window(out, ws->hat, g0, wlo, whi, d[count - 1].n, st->mod.n);
     }
     wpvol_ntt_dot2_many(d, count, st->mod);
     free(a);
@@ -336,7 +357,7 @@ static int wpvol_modp_genus_sum(wpvol_run_t *st, slong g, slong n)
         b = a + g / 2;
     }
     /* the pairs not in the block's sums: larger member >= g0 (without a block, g0 = 1: all) */
-    d.sq = wpvol_modp_pairs(a, b, &np, ws, g, g0, g);
+    d.sq = wpvol_modp_pairs(a, b, &np, ws, g, g0, g, 1, 0);
     d.out = ws->buf;
     d.a = a;
     d.b = b;
@@ -494,13 +515,13 @@ static int wpvol_modp_setup_products(wpvol_run_t *st, int allow_ntt)
         return WPVOL_OK;
     if (ws->buf == NULL)
     {
-        ws->buf = malloc((size_t) ws->Tmax * sizeof(ulong));
+        ws->buf = wpvol_words_alloc(ws->Tmax);
         if (ws->buf == NULL)
             return WPVOL_NOMEM;
     }
     if (ws->part == NULL && ws->G >= WPVOL_GBLOCK_FROM)
     {
-        ws->part = malloc((size_t) WPVOL_GBLOCK * (size_t) ws->npts * sizeof(ulong));
+        ws->part = wpvol_words_alloc(WPVOL_GBLOCK * ws->npts);
         if (ws->part == NULL)
             return WPVOL_NOMEM;
     }

@@ -47,6 +47,14 @@ static ulong wpvol_ntt_shoup_pre(ulong w, ulong p)
     return n_mulmod_precomp_shoup(w, p);
 }
 
+/* See wpvol_internal.h (C11 aligned_alloc wants a size that is a multiple of the alignment). */
+ulong *wpvol_words_alloc(slong n)
+{
+    size_t bytes = ((size_t) FLINT_MAX(n, 1) * sizeof(ulong) + 63) & ~(size_t) 63;
+
+    return aligned_alloc(64, bytes);
+}
+
 /* Largest prime p < min(below, 2^62) with p = 1 mod 2^k, or 0 if there is none.
    Deterministic, so every run and every thread sees the same sequence of primes. */
 ulong wpvol_ntt_prime_below(ulong below, int k)
@@ -333,11 +341,16 @@ void wpvol_ntt_fwd_trunc(ulong *a, slong N, slong n, slong d, const wpvol_ntt_t 
             j += wpvol_simd_split(a + j, a + h + j, 1, first - j, F->w + h + j,
                                   F->wpre52 + h + j, p);
     }
-    for (; j < h; j++)   /* both halves: b_j = a_j + a_{j+h}, c_j = (a_j - a_{j+h}) w^j */
+    for (; j < FLINT_MIN(d, h); j++)   /* b_j = a_j + a_{j+h}, c_j = (a_j - a_{j+h}) w^j */
     {
-        ulong x = j < d ? a[j] : 0, y = j + h < d ? a[j + h] : 0;
+        ulong x = a[j], y = j + h < d ? a[j + h] : 0;
         a[j] = nmod_add(x, y, F->mod);
         a[j + h] = wpvol_ntt_mulred(x - y + p, F->w[h + j], F->wpre[h + j], p);
+    }
+    if (j < h)   /* beyond the data both halves are zero */
+    {
+        memset(a + j, 0, (size_t) (h - j) * sizeof(ulong));
+        memset(a + h + j, 0, (size_t) (h - j) * sizeof(ulong));
     }
     wpvol_ntt_fwd(a, h, F);
     wpvol_ntt_fwd_trunc(a + h, h, n - h, FLINT_MIN(d, h), F);

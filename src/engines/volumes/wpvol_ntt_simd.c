@@ -118,28 +118,28 @@ WPVOL_SIMD_TARGET static inline __m512i simd_sub2(__m512i u, __m512i v, const si
     return simd_fold(_mm512_add_epi64(_mm512_sub_epi64(u, v), M->p2), M->p2);
 }
 
-/* One butterfly on eight pairs: forward (Gentleman-Sande) x + y, (x - y) w, or inverse
-   (Cooley-Tukey) x + w y, x - w y; values in [0, 2p). */
-WPVOL_SIMD_TARGET static inline void simd_butterfly(ulong *x, ulong *y, const ulong *w,
-                                                    const ulong *wpre, const simd_mod_t *M,
-                                                    int inverse)
+/* One butterfly on eight pairs in registers: forward (Gentleman-Sande) x + y, (x - y) w, or
+   inverse (Cooley-Tukey) x + w y, x - w y; values in [0, 2p). */
+WPVOL_SIMD_TARGET static inline void simd_bf(__m512i *x, __m512i *y, __m512i w, __m512i q,
+                                             const simd_mod_t *M, int inverse)
 {
-    __m512i u = _mm512_loadu_si512(x), v = _mm512_loadu_si512(y);
-    __m512i tw = _mm512_loadu_si512(w), q = _mm512_loadu_si512(wpre);
+    __m512i u = *x, v = *y, t;
 
     if (inverse)
     {
-        __m512i t = simd_mulshoup(v, tw, q, M);
-        _mm512_storeu_si512(x, simd_fold(_mm512_add_epi64(u, t), M->p2));
-        _mm512_storeu_si512(y, simd_sub2(u, t, M));
+        t = simd_mulshoup(v, w, q, M);
+        *x = simd_fold(_mm512_add_epi64(u, t), M->p2);
+        *y = simd_sub2(u, t, M);
     }
     else
     {
-        __m512i t = _mm512_add_epi64(_mm512_sub_epi64(u, v), M->p2);
-        _mm512_storeu_si512(x, simd_fold(_mm512_add_epi64(u, v), M->p2));
-        _mm512_storeu_si512(y, simd_mulshoup(t, tw, q, M));
+        t = _mm512_add_epi64(_mm512_sub_epi64(u, v), M->p2);
+        *x = simd_fold(_mm512_add_epi64(u, v), M->p2);
+        *y = simd_mulshoup(t, w, q, M);
     }
 }
+
+#define SIMD_LD(p) _mm512_loadu_si512(p)
 
 /* One level of half-length len >= 8 over a[0..n). */
 WPVOL_SIMD_TARGET static void simd_level(ulong *a, slong n, slong len, const ulong *w,
@@ -150,7 +150,50 @@ WPVOL_SIMD_TARGET static void simd_level(ulong *a, slong n, slong len, const ulo
 
     for (s = 0; s < n; s += 2 * len)
         for (j = 0; j < len; j += 8)
-            simd_butterfly(a + s + j, a + s + len + j, w + len + j, wpre + len + j, &M, inverse);
+        {
+            ulong *x = a + s + j, *y = x + len;
+            __m512i u = SIMD_LD(x), v = SIMD_LD(y);
+            simd_bf(&u, &v, SIMD_LD(w + len + j), SIMD_LD(wpre + len + j), &M, inverse);
+            _mm512_storeu_si512(x, u);
+            _mm512_storeu_si512(y, v);
+        }
+}
+
+/* Two levels in one sweep (half-lengths len and len/2, len/2 >= 8): each value is loaded and
+   stored once for both, which halves the memory traffic of the long levels.  Forward: len
+   then len/2; inverse: len/2 then len. */
+WPVOL_SIMD_TARGET static void simd_level2(ulong *a, slong n, slong len, const ulong *w,
+                                          const ulong *wpre, ulong p, int inverse)
+{
+    simd_mod_t M = simd_mod(p);
+    slong s, j, m = len / 2;
+
+    for (s = 0; s < n; s += 2 * len)
+        for (j = 0; j < m; j += 8)
+        {
+            ulong *x = a + s + j;
+            __m512i x0 = SIMD_LD(x), x1 = SIMD_LD(x + m), x2 = SIMD_LD(x + len);
+            __m512i x3 = SIMD_LD(x + len + m);
+            __m512i wa = SIMD_LD(w + len + j), qa = SIMD_LD(wpre + len + j);
+            __m512i wb = SIMD_LD(w + len + m + j), qb = SIMD_LD(wpre + len + m + j);
+            __m512i wc = SIMD_LD(w + m + j), qc = SIMD_LD(wpre + m + j);
+            if (!inverse)
+            {
+                simd_bf(&x0, &x2, wa, qa, &M, 0);
+                simd_bf(&x1, &x3, wb, qb, &M, 0);
+            }
+            simd_bf(&x0, &x1, wc, qc, &M, inverse);
+            simd_bf(&x2, &x3, wc, qc, &M, inverse);
+            if (inverse)
+            {
+                simd_bf(&x0, &x2, wa, qa, &M, 1);
+                simd_bf(&x1, &x3, wb, qb, &M, 1);
+            }
+            _mm512_storeu_si512(x, x0);
+            _mm512_storeu_si512(x + m, x1);
+            _mm512_storeu_si512(x + len, x2);
+            _mm512_storeu_si512(x + len + m, x3);
+        }
 }
 
 /* Lanes exchanged with their butterfly partners at half-length 4, 2, 1 (within 8 lanes). */
@@ -232,9 +275,11 @@ WPVOL_SIMD_TARGET static void simd_tail(ulong *a, slong n, const ulong *w, const
 void wpvol_simd_fwd_levels(ulong *a, slong n, slong hi, slong lo, const ulong *w,
                            const ulong *wpre52, ulong p)
 {
-    slong len;
+    slong len = hi, floor8 = FLINT_MAX(lo, 8);
 
-    for (len = hi; len >= lo && len >= 8; len /= 2)
+    for (; len / 2 >= floor8; len /= 4)
+        simd_level2(a, n, len, w, wpre52, p, 0);
+    if (len >= floor8)
         simd_level(a, n, len, w, wpre52, p, 0);
     if (lo == 1)
         simd_tail(a, n, w, wpre52, p, 0);
@@ -243,11 +288,13 @@ void wpvol_simd_fwd_levels(ulong *a, slong n, slong hi, slong lo, const ulong *w
 void wpvol_simd_inv_levels(ulong *a, slong n, slong lo, slong hi, const ulong *w,
                            const ulong *wpre52, ulong p)
 {
-    slong len;
+    slong len = FLINT_MAX(lo, 8);
 
     if (lo == 1)
         simd_tail(a, n, w, wpre52, p, 1);
-    for (len = FLINT_MAX(lo, 8); len <= hi; len *= 2)
+    for (; 2 * len <= hi; len *= 4)
+        simd_level2(a, n, 2 * len, w, wpre52, p, 1);
+    if (len <= hi)
         simd_level(a, n, len, w, wpre52, p, 1);
 }
 
@@ -408,97 +455,168 @@ WPVOL_SIMD_TARGET static inline __m512i simd_reduce(__m512i hi, __m512i lo, cons
    2^52, so 2048 of them (plus the fold) stay far below 2^64. */
 #define WPVOL_SIMD_FOLD 2048
 
-/* out[i] = add[i] + 2 sum_k a[k][i] b[k][i] + sq[i]^2 mod p for i in [i0, i0 + m), m a
-   multiple of 8 (see wpvol_dot_t); inputs in [0, p). */
-WPVOL_SIMD_TARGET static void simd_dot_entries(const wpvol_dot_t *d, slong i0, slong m,
-                                               const simd_red_t *R)
-{
-    __m512i zero = _mm512_setzero_si512();
-    slong i, k;
+/* lo, hi += the low and high 52 bits of the products of the eight lanes of x and y. */
+#define SIMD_MADD(lo, hi, x, y)                                                               \
+    do                                                                                        \
+    {                                                                                         \
+        __m512i u_ = (x), v_ = (y);                                                           \
+        lo = _mm512_madd52lo_epu64(lo, u_, v_);                                               \
+        hi = _mm512_madd52hi_epu64(hi, u_, v_);                                               \
+    } while (0)
 
-    for (i = i0; i < i0 + m; i += 8)
-    {
-        __m512i lo = zero, hi = zero, r;
-        for (k = 0; k < d->npairs; k++)
-        {
-            __m512i x = _mm512_loadu_si512(d->a[k] + i), y = _mm512_loadu_si512(d->b[k] + i);
-            lo = _mm512_madd52lo_epu64(lo, x, y);
-            hi = _mm512_madd52hi_epu64(hi, x, y);
-            if ((k + 1) % WPVOL_SIMD_FOLD == 0)
-            {
-                hi = _mm512_add_epi64(hi, _mm512_srli_epi64(lo, 52));
-                lo = _mm512_and_si512(lo, R->M.mask);
-            }
-        }
-        hi = _mm512_add_epi64(hi, _mm512_srli_epi64(lo, 52));   /* 2 (hi 2^52 + lo) */
-        lo = _mm512_slli_epi64(_mm512_and_si512(lo, R->M.mask), 1);
-        hi = _mm512_slli_epi64(hi, 1);
-        if (d->sq != NULL)
-        {
-            __m512i s = _mm512_loadu_si512(d->sq + i);
-            lo = _mm512_madd52lo_epu64(lo, s, s);
-            hi = _mm512_madd52hi_epu64(hi, s, s);
-        }
-        r = simd_reduce(hi, lo, R);
-        if (d->add != NULL)
-            r = simd_fold(_mm512_add_epi64(r, _mm512_loadu_si512(d->add + i)), R->M.p);
-        _mm512_storeu_si512(d->out + i, r);
-    }
+/* hi += lo >> 52, lo <- lo mod 2^52 (same value hi 2^52 + lo). */
+#define SIMD_CARRY(lo, hi, mask)                                                              \
+    do                                                                                        \
+    {                                                                                         \
+        hi = _mm512_add_epi64(hi, _mm512_srli_epi64(lo, 52));                                 \
+        lo = _mm512_and_si512(lo, mask);                                                      \
+    } while (0)
+
+/* Stores add[i] + 2 (hi 2^52 + lo) + sq[i]^2 mod p at out[i..i+8) (lo < 2^52 after a carry). */
+WPVOL_SIMD_TARGET static inline void simd_dot_store(const wpvol_dot_t *d, slong i, __m512i lo,
+                                                    __m512i hi, const simd_red_t *R)
+{
+    __m512i r;
+
+    lo = _mm512_slli_epi64(lo, 1);
+    hi = _mm512_slli_epi64(hi, 1);
+    if (d->sq != NULL)
+        SIMD_MADD(lo, hi, _mm512_loadu_si512(d->sq + i), _mm512_loadu_si512(d->sq + i));
+    r = simd_reduce(hi, lo, R);
+    if (d->add != NULL)
+        r = simd_fold(_mm512_add_epi64(r, _mm512_loadu_si512(d->add + i)), R->M.p);
+    _mm512_storeu_si512(d->out + i, r);
 }
 
-/* Four groups of eight entries per sweep over the pairs: the pointer loads and the loop are
-   shared by four independent accumulator pairs. */
+/* Stores 2 (hi 2^52 + lo) mod p at out[0..8) (lo < 2^52 after a carry). */
+WPVOL_SIMD_TARGET static inline void simd_window_store(ulong *out, __m512i lo, __m512i hi,
+                                                       const simd_red_t *R)
+{
+    _mm512_storeu_si512(out, simd_reduce(_mm512_slli_epi64(hi, 1), _mm512_slli_epi64(lo, 1), R));
+}
+
+/* Entries [i, i + 32) of the sum d: four groups of eight lanes per sweep over the pairs, each
+   with its accumulators in registers (named, so that the compiler does not keep them in
+   memory), the low halves carried into the high ones every WPVOL_SIMD_FOLD pairs. */
 WPVOL_SIMD_TARGET static void simd_dot_wide(const wpvol_dot_t *d, slong i, const simd_red_t *R)
 {
-    __m512i lo[4], hi[4];
-    slong k, t;
+    __m512i l0 = _mm512_setzero_si512(), l1 = l0, l2 = l0, l3 = l0;
+    __m512i h0 = l0, h1 = l0, h2 = l0, h3 = l0;
+    slong k0, k;
 
-    for (t = 0; t < 4; t++)
-        lo[t] = hi[t] = _mm512_setzero_si512();
-    for (k = 0; k < d->npairs; k++)
+    for (k0 = 0; k0 < d->npairs; k0 += WPVOL_SIMD_FOLD)
     {
-        const ulong *x = d->a[k] + i, *y = d->b[k] + i;
-        for (t = 0; t < 4; t++)
+        slong end = FLINT_MIN(d->npairs, k0 + WPVOL_SIMD_FOLD);
+        for (k = k0; k < end; k++)
         {
-            __m512i u = _mm512_loadu_si512(x + 8 * t), v = _mm512_loadu_si512(y + 8 * t);
-            lo[t] = _mm512_madd52lo_epu64(lo[t], u, v);
-            hi[t] = _mm512_madd52hi_epu64(hi[t], u, v);
+            const ulong *x = d->a[k] + i, *y = d->b[k] + i;
+            SIMD_MADD(l0, h0, _mm512_loadu_si512(x), _mm512_loadu_si512(y));
+            SIMD_MADD(l1, h1, _mm512_loadu_si512(x + 8), _mm512_loadu_si512(y + 8));
+            SIMD_MADD(l2, h2, _mm512_loadu_si512(x + 16), _mm512_loadu_si512(y + 16));
+            SIMD_MADD(l3, h3, _mm512_loadu_si512(x + 24), _mm512_loadu_si512(y + 24));
         }
-        if ((k + 1) % WPVOL_SIMD_FOLD == 0)
-            for (t = 0; t < 4; t++)
-            {
-                hi[t] = _mm512_add_epi64(hi[t], _mm512_srli_epi64(lo[t], 52));
-                lo[t] = _mm512_and_si512(lo[t], R->M.mask);
-            }
+        SIMD_CARRY(l0, h0, R->M.mask);
+        SIMD_CARRY(l1, h1, R->M.mask);
+        SIMD_CARRY(l2, h2, R->M.mask);
+        SIMD_CARRY(l3, h3, R->M.mask);
     }
-    for (t = 0; t < 4; t++)
+    simd_dot_store(d, i, l0, h0, R);
+    simd_dot_store(d, i + 8, l1, h1, R);
+    simd_dot_store(d, i + 16, l2, h2, R);
+    simd_dot_store(d, i + 24, l3, h3, R);
+}
+
+/* The window of wpvol_simd_dot_window: partner j of pair h is hat[g0 + j - h]; moving to
+   h + 1 shifts every partner up by one and loads hat[g0 - h - 1] as partner 0. */
+#define SIMD_WIN_STEP(P0, P1, P2, P3, P4, P5, P6, P7, x)                                      \
+    do                                                                                        \
+    {                                                                                         \
+        SIMD_MADD(l0, h0, x, P0);                                                             \
+        SIMD_MADD(l1, h1, x, P1);                                                             \
+        SIMD_MADD(l2, h2, x, P2);                                                             \
+        SIMD_MADD(l3, h3, x, P3);                                                             \
+        SIMD_MADD(l4, h4, x, P4);                                                             \
+        SIMD_MADD(l5, h5, x, P5);                                                             \
+        SIMD_MADD(l6, h6, x, P6);                                                             \
+        SIMD_MADD(l7, h7, x, P7);                                                             \
+    } while (0)
+
+/* Prefetch distance of the window sums, in entries (four groups of eight). */
+#define WPVOL_SIMD_AHEAD 32
+
+/* Entries [i, i + 8) of the eight window sums (see wpvol_simd_dot_window). */
+WPVOL_SIMD_TARGET static void simd_window_group(ulong *const *out, ulong *const *hat, slong g0,
+                                                slong hlo, slong hhi, slong i,
+                                                const simd_red_t *R)
+{
+    __m512i l0 = _mm512_setzero_si512(), l1 = l0, l2 = l0, l3 = l0, l4 = l0, l5 = l0, l6 = l0;
+    __m512i l7 = l0, h0 = l0, h1 = l0, h2 = l0, h3 = l0, h4 = l0, h5 = l0, h6 = l0, h7 = l0;
+    __m512i q0, q1, q2, q3, q4, q5, q6, q7;
+    slong h;
+
+    q0 = _mm512_loadu_si512(hat[g0 - hlo] + i);
+    q1 = _mm512_loadu_si512(hat[g0 + 1 - hlo] + i);
+    q2 = _mm512_loadu_si512(hat[g0 + 2 - hlo] + i);
+    q3 = _mm512_loadu_si512(hat[g0 + 3 - hlo] + i);
+    q4 = _mm512_loadu_si512(hat[g0 + 4 - hlo] + i);
+    q5 = _mm512_loadu_si512(hat[g0 + 5 - hlo] + i);
+    q6 = _mm512_loadu_si512(hat[g0 + 6 - hlo] + i);
+    q7 = _mm512_loadu_si512(hat[g0 + 7 - hlo] + i);
+    for (h = hlo; h <= hhi; h++)
     {
-        __m512i h = _mm512_add_epi64(hi[t], _mm512_srli_epi64(lo[t], 52)), l, r;
-        l = _mm512_slli_epi64(_mm512_and_si512(lo[t], R->M.mask), 1);
-        h = _mm512_slli_epi64(h, 1);
-        if (d->sq != NULL)
-        {
-            __m512i s = _mm512_loadu_si512(d->sq + i + 8 * t);
-            l = _mm512_madd52lo_epu64(l, s, s);
-            h = _mm512_madd52hi_epu64(h, s, s);
-        }
-        r = simd_reduce(h, l, R);
-        if (d->add != NULL)
-            r = simd_fold(_mm512_add_epi64(r, _mm512_loadu_si512(d->add + i + 8 * t)), R->M.p);
-        _mm512_storeu_si512(d->out + i + 8 * t, r);
+        __m512i x = _mm512_loadu_si512(hat[h] + i);
+        /* the same lines of the next groups: ~g0 separate streams defeat the hardware
+           prefetcher */
+        _mm_prefetch((const char *) (hat[h] + i + WPVOL_SIMD_AHEAD), _MM_HINT_T0);
+        _mm_prefetch((const char *) (hat[g0 - h - 1] + i + WPVOL_SIMD_AHEAD), _MM_HINT_T0);
+        SIMD_WIN_STEP(q0, q1, q2, q3, q4, q5, q6, q7, x);
+        q7 = q6;
+        q6 = q5;
+        q5 = q4;
+        q4 = q3;
+        q3 = q2;
+        q2 = q1;
+        q1 = q0;
+        q0 = _mm512_loadu_si512(hat[g0 - h - 1] + i);
     }
+    SIMD_CARRY(l0, h0, R->M.mask);
+    SIMD_CARRY(l1, h1, R->M.mask);
+    SIMD_CARRY(l2, h2, R->M.mask);
+    SIMD_CARRY(l3, h3, R->M.mask);
+    SIMD_CARRY(l4, h4, R->M.mask);
+    SIMD_CARRY(l5, h5, R->M.mask);
+    SIMD_CARRY(l6, h6, R->M.mask);
+    SIMD_CARRY(l7, h7, R->M.mask);
+    simd_window_store(out[0] + i, l0, h0, R);
+    simd_window_store(out[1] + i, l1, h1, R);
+    simd_window_store(out[2] + i, l2, h2, R);
+    simd_window_store(out[3] + i, l3, h3, R);
+    simd_window_store(out[4] + i, l4, h4, R);
+    simd_window_store(out[5] + i, l5, h5, R);
+    simd_window_store(out[6] + i, l6, h6, R);
+    simd_window_store(out[7] + i, l7, h7, R);
+}
+
+void wpvol_simd_dot_window(ulong *const *out, ulong *const *hat, slong g0, slong hlo, slong hhi,
+                           slong n, ulong p)
+{
+    simd_red_t R;
+    slong i;
+
+    simd_red_init(&R, p);
+    for (i = 0; i < n; i += 8)
+        simd_window_group(out, hat, g0, hlo, hhi, i, &R);
 }
 
 slong wpvol_simd_dot_block(const wpvol_dot_t *d, slong i0, slong m, ulong p)
 {
     simd_red_t R;
-    slong i = i0, end = i0 + (m & ~(slong) 7);
+    slong i;
 
     simd_red_init(&R, p);
-    for (; i + 32 <= end; i += 32)
+    for (i = i0; i + 32 <= i0 + m; i += 32)
         simd_dot_wide(d, i, &R);
-    simd_dot_entries(d, i, end - i, &R);
-    return end - i0;
+    return i - i0;
 }
 
 #else /* !WPVOL_SIMD_BUILD: never called (wpvol_simd_enabled is 0) */
@@ -521,6 +639,13 @@ slong wpvol_simd_dot_block(const wpvol_dot_t *d, slong i0, slong m, ulong p)
 {
     (void) d; (void) i0; (void) m; (void) p;
     return 0;
+}
+
+void wpvol_simd_dot_window(ulong *const *out, ulong *const *hat, slong g0, slong hlo, slong hhi,
+                           slong n, ulong p)
+{
+    (void) out; (void) hat; (void) g0; (void) hlo; (void) hhi; (void) n; (void) p;
+    abort();
 }
 
 slong wpvol_simd_split(ulong *x, ulong *y, int y_zero, slong m, const ulong *w,

@@ -251,8 +251,8 @@ int wpvol_ctx_attach_ntt(wpvol_ctx_t ctx, const wpvol_ntt_struct *F, slong maxro
         tlen *= 2;
     if (maxrow <= WPVOL_ROW_MIN || F == NULL || F->n < tlen)
         return 0;
-    ctx->work = malloc((size_t) tlen * sizeof(ulong));
-    ctx->i2hat = malloc((size_t) (4 * nk * tlen) * sizeof(ulong));
+    ctx->work = wpvol_words_alloc(tlen);
+    ctx->i2hat = wpvol_words_alloc(4 * nk * tlen);
     if (ctx->work == NULL || ctx->i2hat == NULL)
         return -1;   /* ctx->ntt still NULL: classical path; blocks freed by clear */
     for (k = 0; k < 2 * nk; k++)   /* I_2, then 1/I_2 */
