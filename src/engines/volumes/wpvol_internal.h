@@ -214,8 +214,16 @@ void wpvol_ntt_dot2_many(const wpvol_dot_t *d, slong count, nmod_t mod);
    "off"; probed once per process. */
 int wpvol_simd_enabled(void);
 
+/* wpvol_simd_enabled() and p < 2^50: the vector code serves this prime. */
+int wpvol_simd_for(ulong p);
+
 /* floor(w 2^52 / p) for w < p < 2^50. */
 ulong wpvol_simd_pre52(ulong w, ulong p);
+
+/* res = x s mod u^l (coefficients in [0, p), res not aliasing x or s), classically, for
+   1 <= l <= WPVOL_SIMD_MULLOW_MAX; only when wpvol_simd_for(p). */
+#define WPVOL_SIMD_MULLOW_MAX 256
+void wpvol_simd_mullow(ulong *res, const ulong *x, const ulong *s, slong l, ulong p);
 
 /* The butterfly levels of wpvol_ntt.c's transforms: forward len = hi, ..., lo; inverse
    len = lo, ..., hi; for n >= 8, hi >= 4 and lo == 1 or lo >= 8 (the levels below 8 are done

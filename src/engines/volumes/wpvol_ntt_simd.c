@@ -62,6 +62,12 @@ int wpvol_default_prime_bits(void)
     return wpvol_simd_enabled() ? WPVOL_SIMD_PRIME_BITS : 62;
 }
 
+/* See wpvol_internal.h. */
+int wpvol_simd_for(ulong p)
+{
+    return p < (UWORD(1) << WPVOL_SIMD_PRIME_BITS) && wpvol_simd_enabled();
+}
+
 /* floor(w 2^52 / p) for w < p < 2^50. */
 ulong wpvol_simd_pre52(ulong w, ulong p)
 {
@@ -541,6 +547,33 @@ WPVOL_SIMD_TARGET static void simd_dot_wide(const wpvol_dot_t *d, slong i, const
         SIMD_MADD(l7, h7, x, P7);                                                             \
     } while (0)
 
+/* See wpvol_internal.h: eight coefficients of the product at a time, each lane accumulating
+   the low and high 52-bit halves of its terms; s is copied with eight zeros in front (the terms
+   x_i s_{k-i} with k < i vanish) and behind (lanes beyond l). */
+WPVOL_SIMD_TARGET void wpvol_simd_mullow(ulong *res, const ulong *x, const ulong *s, slong l,
+                                         ulong p)
+{
+    ulong pad[WPVOL_SIMD_MULLOW_MAX + 16];
+    simd_red_t R;
+    slong k0, i;
+
+    simd_red_init(&R, p);
+    memset(pad, 0, sizeof(ulong) * 8);
+    memcpy(pad + 8, s, (size_t) l * sizeof(ulong));
+    memset(pad + 8 + l, 0, sizeof(ulong) * 8);
+    for (k0 = 0; k0 < l; k0 += 8)
+    {
+        __m512i lo = _mm512_setzero_si512(), hi = lo;
+        slong top = FLINT_MIN(k0 + 7, l - 1);
+        for (i = 0; i <= top; i++)
+            SIMD_MADD(lo, hi, _mm512_set1_epi64((long long) x[i]),
+                      _mm512_loadu_si512(pad + 8 + k0 - i));
+        SIMD_CARRY(lo, hi, R.M.mask);
+        _mm512_mask_storeu_epi64(res + k0, (__mmask8) (l - k0 >= 8 ? 0xFF : (1u << (l - k0)) - 1),
+                                 simd_reduce(hi, lo, &R));
+    }
+}
+
 /* Prefetch distance of the window sums, in entries (four groups of eight). */
 #define WPVOL_SIMD_AHEAD 32
 
@@ -645,6 +678,12 @@ void wpvol_simd_dot_window(ulong *const *out, ulong *const *hat, slong g0, slong
                            slong n, ulong p)
 {
     (void) out; (void) hat; (void) g0; (void) hlo; (void) hhi; (void) n; (void) p;
+    abort();
+}
+
+void wpvol_simd_mullow(ulong *res, const ulong *x, const ulong *s, slong l, ulong p)
+{
+    (void) res; (void) x; (void) s; (void) l; (void) p;
     abort();
 }
 

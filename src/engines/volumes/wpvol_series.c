@@ -282,7 +282,11 @@ static void wpvol_ctx_mul_series(ulong *res, const ulong *x, slong l, const wpvo
 
     if (ctx->ntt == NULL || l <= WPVOL_ROW_MIN)
     {
-        _nmod_poly_mullow(res, x, l, which ? ctx->i2inv : ctx->i2, l, l, ctx->mod);
+        const ulong *S = which ? ctx->i2inv : ctx->i2;
+        if (l >= 1 && l <= WPVOL_SIMD_MULLOW_MAX && wpvol_simd_for(ctx->mod.n))
+            wpvol_simd_mullow(res, x, S, l, ctx->mod.n);
+        else
+            _nmod_poly_mullow(res, x, l, S, l, l, ctx->mod);
         return;
     }
     k = (l + WPVOL_ROW_STEP - 1) / WPVOL_ROW_STEP - 1;
