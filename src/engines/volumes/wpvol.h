@@ -81,8 +81,9 @@ int wpvol_table_ex(fmpq *out, slong G, slong N, int threads, int prime_bits, slo
 int wpvol_table_residues(ulong *res, slong G, slong N, const ulong *primes, slong count,
                          int threads);
 
-/* A prime of the driver's form (c 2^28 + 1) below 2^61, so below every prime a run of the
-   driver uses (they start below 2^62 and go down): with wpvol_table_residues, a check of a table
+/* A prime of the driver's form (c 2^28 + 1) just below 2^61, so none of the primes a run of
+   the driver uses (62-bit ones start below 2^62 and go down, with hundreds of millions of that
+   form above 2^61; 50-bit ones are below 2^50): with wpvol_table_residues, a check of a table
    computed elsewhere that none of its own primes could have passed by construction. */
 ulong wpvol_check_prime(void);
 
