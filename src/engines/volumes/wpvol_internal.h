@@ -169,10 +169,12 @@ void wpvol_ntt_fwd_trunc(ulong *a, slong N, slong n, slong d, const wpvol_ntt_t 
    a[n..N) clobbered. */
 void wpvol_ntt_inv_trunc(ulong *a, slong N, slong n, const wpvol_ntt_t F);
 
-/* pre[i] = Shoup quotient of b[i] (b in [0,p)). */
+/* pre[i] = Shoup quotient of b[i] (b in [0,p)): floor(b 2^64 / p), or floor(b 2^52 / p) where
+   wpvol_simd_for(p) (the form wpvol_ntt_mul_shoup_vec expects for that prime). */
 void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod);
 
-/* a[i] = a[i] b[i] mod p, result in [0, 2p) (accepted as input by wpvol_ntt_inv). */
+/* a[i] = a[i] b[i] mod p, result in [0, 2p) (accepted as input by wpvol_ntt_inv); a[i] < 2^52
+   where wpvol_simd_for(p). */
 void wpvol_ntt_mul_shoup_vec(ulong *a, const ulong *b, const ulong *pre, slong n, nmod_t mod);
 
 /* out[i] = 2 sum_{k<npairs} a[k][i] b[k][i] + (sq ? sq[i]^2 : 0) mod p, i < n (out may not alias

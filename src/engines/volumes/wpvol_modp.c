@@ -288,8 +288,7 @@ static const ulong *wpvol_modp_pairs(ulong **a, ulong **b, slong *np, const wpvo
    does not run or the block is short. */
 static slong wpvol_modp_window(const wpvol_run_t *st, slong g0, slong count)
 {
-    if (count != WPVOL_GBLOCK || st->mod.n >= (UWORD(1) << WPVOL_SIMD_PRIME_BITS)
-        || !wpvol_simd_enabled() || g0 > 4096)
+    if (count != WPVOL_GBLOCK || !wpvol_simd_for(st->mod.n) || g0 > 4096)
         return 0;
     return (g0 - 1) / 2;
 }

@@ -175,9 +175,6 @@ void wpvol_ntt_clear(wpvol_ntt_t F)
     memset(F, 0, sizeof(wpvol_ntt_struct));
 }
 
-/* Whether the vector code serves this prime (then wpvol_ntt_shoup_vec gives 52-bit quotients). */
-#define WPVOL_NTT_SIMD_PRIME(p) ((p) < (UWORD(1) << WPVOL_SIMD_PRIME_BITS) && wpvol_simd_enabled())
-
 /* Whether the vector code takes the levels hi..lo over a[0..n): groups of 8 in every level,
    and either all levels down to 1 (fused in registers below 8) or none below 8. */
 #define WPVOL_NTT_SIMD_LEVELS(F, n, hi, lo) \
@@ -409,7 +406,7 @@ void wpvol_ntt_inv_trunc(ulong *a, slong N, slong n, const wpvol_ntt_t F)
 void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod)
 {
     slong i;
-    int simd = WPVOL_NTT_SIMD_PRIME(mod.n);
+    int simd = wpvol_simd_for(mod.n);
 
     for (i = 0; i < n; i++)
         pre[i] = simd ? wpvol_simd_pre52(b[i], mod.n) : wpvol_ntt_shoup_pre(b[i], mod.n);
@@ -419,10 +416,10 @@ void wpvol_ntt_shoup_vec(ulong *pre, const ulong *b, slong n, nmod_t mod)
    code), with pre from wpvol_ntt_shoup_vec. */
 void wpvol_ntt_mul_shoup_vec(ulong *a, const ulong *b, const ulong *pre, slong n, nmod_t mod)
 {
-    slong i = WPVOL_NTT_SIMD_PRIME(mod.n) ? wpvol_simd_mul(a, n, b, pre, 0, 0, 0, mod.n) : 0;
+    slong i = wpvol_simd_for(mod.n) ? wpvol_simd_mul(a, n, b, pre, 0, 0, 0, mod.n) : 0;
 
     for (; i < n; i++)   /* the tail (or all) of either path: pre matches wpvol_ntt_shoup_vec */
-        a[i] = WPVOL_NTT_SIMD_PRIME(mod.n)
+        a[i] = wpvol_simd_for(mod.n)
                ? wpvol_ntt_mulshoup52(a[i], b[i], pre[i], mod.n)
                : wpvol_ntt_mulshoup(a[i], b[i], pre[i], mod.n);
 }
@@ -541,8 +538,7 @@ static void wpvol_ntt_dot_block(const wpvol_dot_t *d, slong i0, slong m, const w
     ulong carry[WPVOL_DOT_BLK];
     slong i;
 
-    if (R->p < (UWORD(1) << WPVOL_SIMD_PRIME_BITS) && d->npairs < (WORD(1) << 14)
-        && wpvol_simd_enabled())
+    if (d->npairs < (WORD(1) << 14) && wpvol_simd_for(R->p))
     {
         slong done = wpvol_simd_dot_block(d, i0, m, R->p);   /* the rest (m mod 8) below */
         i0 += done;
