@@ -263,6 +263,7 @@ static int wpvol_modp_hat(wpvol_run_t *st, slong h)
    their cost by about the block size at large g (results are unchanged: exact sums mod p). */
 #define WPVOL_GBLOCK 8
 #define WPVOL_GBLOCK_FROM 16
+_Static_assert(WPVOL_GBLOCK == 8, "wpvol_simd_dot_window sums exactly eight genera");
 
 /* The pairs (h, g-h) of genus g with h < g-h and lo <= g-h <= hi (the larger member in
    [lo, hi]) and h outside [skip_lo, skip_hi], appended to the pointer lists at *np; returns

@@ -1,6 +1,8 @@
-/* wpvol_ntt_simd.c - the transform butterflies and the pointwise sums of wpvol_ntt.c, eight
- * residues at a time with the 52-bit integer multiply-add instructions of AVX-512 (IFMA),
- * for primes p < 2^50.
+/* wpvol_ntt_simd.c - the volume engine's modular kernels eight residues at a time with the
+ * 52-bit integer multiply-add instructions of AVX-512 (IFMA), for primes p < 2^50: the
+ * transform butterflies and element-wise passes of wpvol_ntt.c, its pointwise sums (and the
+ * window sums of a genus block of wpvol_modp.c), and the classical products of short rows of
+ * wpvol_series.c.
  *
  * Why: the scalar butterfly needs a 64x64 -> 128-bit product per twiddle multiplication; the
  * IFMA instructions give the low and high 52 bits of eight 52x52-bit products at once.  With
